@@ -1,0 +1,10 @@
+// Test runner settings: tests live in tests/ and mirror src/.
+import { defineConfig } from "vitest/config";
+
+export default defineConfig({
+  test: {
+    include: ["tests/**/*.test.ts"],
+    testTimeout: 120_000,
+    hookTimeout: 120_000,
+  },
+});
