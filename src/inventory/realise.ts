@@ -1,0 +1,101 @@
+// The IPA writer for one segment: a feature bundle becomes the inventory symbol with exactly those
+// values, or else the nearest base symbol plus declared diacritics, in customary order, NFC.
+
+import type { Bundle, Diacritic, Inventory } from "./types.js";
+import { baseKey, lookup } from "./lookup.js";
+import { describeBundle } from "./bundles.js";
+import { tokenise } from "./tokenise.js";
+
+export type RealiseResult = { ok: true; text: string } | { ok: false; error: string };
+
+/**
+ * The fewest diacritics that turn `base` into `target` (non-prosodic features only), or undefined.
+ * A diacritic qualifies only if every value it sets is the target's value, so applying any subset
+ * in any order never overshoots; a subset works when its features cover every differing feature.
+ * Exhaustive over subsets of the qualifying diacritics by increasing size (there are few).
+ */
+function cover(base: Bundle, target: Bundle, nBase: number, diacritics: readonly Diacritic[]): Diacritic[] | undefined {
+  const differing: number[] = [];
+  for (let f = 0; f < nBase; f++) if (base[f] !== target[f]) differing.push(f);
+  const useful = diacritics.filter((d) => {
+    let touches = false;
+    for (const [f, v] of d.sets) {
+      if (target[f] !== v) return false;
+      if (base[f] !== v) touches = true;
+    }
+    return touches;
+  });
+  const covered = new Set<number>();
+  for (const d of useful) for (const f of d.sets.keys()) covered.add(f);
+  if (!differing.every((f) => covered.has(f))) return undefined;
+  const n = useful.length;
+  for (let size = 1; size <= n; size++) {
+    const pick: number[] = [];
+    const search = (from: number): Diacritic[] | undefined => {
+      if (pick.length === size) {
+        const got = new Set<number>();
+        for (const k of pick) for (const f of useful[k]!.sets.keys()) got.add(f);
+        return differing.every((f) => got.has(f)) ? pick.map((k) => useful[k]!) : undefined;
+      }
+      for (let k = from; k < n; k++) {
+        pick.push(k);
+        const r = search(k + 1);
+        pick.pop();
+        if (r) return r;
+      }
+      return undefined;
+    };
+    const found = search(0);
+    if (found) return found;
+  }
+  return undefined;
+}
+
+/**
+ * Writes one bundle as narrow IPA. Prosodic features are ignored (stress is written per syllable
+ * elsewhere). Choice, deterministic: an inventory segment with exactly these values; otherwise the
+ * base segment needing the fewest diacritics, the earliest in the inventory on a tie; diacritics
+ * in their declared order (the customary order, which agrees with Unicode canonical ordering so
+ * NFC keeps it). Output is NFC (W3C Character Model: NFC for content; never NFKC, which would turn
+ * ʰ into h). Memoised per inventory by the bundle's key.
+ *
+ * Round trip: the text is read back with `tokenise` before it is returned, so
+ * tokenise(realise(b)) = b (prosodic features aside) whenever realise succeeds.
+ */
+export function realise(inv: Inventory, bundle: Bundle): RealiseResult {
+  const lk = lookup(inv);
+  if (bundle.length !== inv.features.length) {
+    return { ok: false, error: `A bundle of ${bundle.length} values cannot be written with an inventory of ${inv.features.length} features.` };
+  }
+  const key = baseKey(bundle, lk.nBase);
+  const memo = lk.realised.get(key);
+  if (memo) return memo;
+  const result = compute(inv, bundle, key);
+  lk.realised.set(key, result);
+  return result;
+}
+
+function compute(inv: Inventory, bundle: Bundle, key: string): RealiseResult {
+  const lk = lookup(inv);
+  const exact = lk.segmentByBase.get(key);
+  if (exact !== undefined) return { ok: true, text: inv.segments[exact]!.symbol.normalize("NFC") };
+  let best: { seg: number; marks: Diacritic[] } | undefined;
+  for (let s = 0; s < inv.segments.length; s++) {
+    const marks = cover(inv.segments[s]!.bundle, bundle, lk.nBase, inv.diacritics);
+    if (marks && (!best || marks.length < best.marks.length)) {
+      best = { seg: s, marks };
+      if (marks.length === 1) break;
+    }
+  }
+  if (!best) {
+    return { ok: false, error: `No inventory symbol and declared diacritics write ${describeBundle(inv, bundle.slice(0, lk.nBase).concat(bundle.slice(lk.nBase).map(() => "0")))}.` };
+  }
+  const marks = [...best.marks].sort((a, b) => a.order - b.order).map((d) => d.mark);
+  const text = (inv.segments[best.seg]!.symbol + marks.join("")).normalize("NFC");
+  const back = tokenise(inv, text);
+  const t = back.ok && back.tokens.length === 1 ? back.tokens[0]! : undefined;
+  if (!t || t.kind !== "segment" || baseKey(t.bundle, lk.nBase) !== key) {
+    return { ok: false, error: `'${text}' would be read back as something else, so ${describeBundle(inv, bundle)} cannot be written unambiguously.` };
+  }
+  return { ok: true, text };
+}
