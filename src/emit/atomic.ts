@@ -1,0 +1,89 @@
+// Writing an output file whole or not at all: the data goes to a temporary file in the same folder,
+// is flushed to disk (fsync) and then renamed over the target, so readers never see a half-written file.
+
+import { randomBytes } from "node:crypto";
+import { mkdir, open, rename, unlink } from "node:fs/promises";
+import type { FileHandle } from "node:fs/promises";
+import { basename, dirname, join } from "node:path";
+
+/** What can be written: one string or buffer, or a (possibly asynchronous) sequence of string chunks. */
+export type AtomicData = string | Uint8Array | Iterable<string> | AsyncIterable<string>;
+
+/** Chunks smaller than this are gathered before a write call (fewer system calls for line-by-line output). */
+const FLUSH_BYTES = 1 << 16;
+
+/**
+ * Writes `data` to `path` atomically and returns the number of bytes written.
+ *
+ * Invariants: the parent folder is created if missing; the temporary file lives beside the target
+ * (same file system, so rename(2) is atomic on POSIX); it is fsynced before the rename; if anything
+ * fails (including an exception thrown by the chunk iterator) the temporary file is removed, the
+ * target keeps its previous content (or stays absent) and the error is re-thrown.
+ */
+export async function writeFileAtomic(path: string, data: AtomicData): Promise<number> {
+  const dir = dirname(path);
+  await mkdir(dir, { recursive: true });
+  const temp = join(dir, `.${basename(path)}.${process.pid}.${randomBytes(6).toString("hex")}.tmp`);
+  let handle: FileHandle | undefined;
+  let bytes = 0;
+  try {
+    handle = await open(temp, "wx");
+    const h = handle;
+    if (typeof data === "string" || data instanceof Uint8Array) {
+      const buf = typeof data === "string" ? Buffer.from(data, "utf8") : data;
+      await writeAll(h, buf);
+      bytes = buf.byteLength;
+    } else {
+      let pending: string[] = [];
+      let pendingLength = 0;
+      const flush = async (): Promise<void> => {
+        if (pending.length === 0) return;
+        const buf = Buffer.from(pending.join(""), "utf8");
+        pending = [];
+        pendingLength = 0;
+        await writeAll(h, buf);
+        bytes += buf.byteLength;
+      };
+      for await (const chunk of data as AsyncIterable<string>) {
+        pending.push(chunk);
+        pendingLength += chunk.length;
+        if (pendingLength >= FLUSH_BYTES) await flush();
+      }
+      await flush();
+    }
+    await h.sync();
+    await h.close();
+    handle = undefined;
+    await rename(temp, path);
+  } catch (err) {
+    if (handle !== undefined) await handle.close().catch(() => undefined);
+    await unlink(temp).catch(() => undefined);
+    throw err;
+  }
+  await syncFolder(dir);
+  return bytes;
+}
+
+/** The name used in DEVELOPERS.md's contract list. */
+export const writeAtomic = writeFileAtomic;
+
+async function writeAll(h: FileHandle, buf: Uint8Array): Promise<void> {
+  let offset = 0;
+  while (offset < buf.byteLength) {
+    const { bytesWritten } = await h.write(buf, offset, buf.byteLength - offset);
+    offset += bytesWritten;
+  }
+}
+
+/** Makes the rename itself durable where the platform allows fsync on a folder (best effort). */
+async function syncFolder(dir: string): Promise<void> {
+  let h: FileHandle | undefined;
+  try {
+    h = await open(dir, "r");
+    await h.sync();
+  } catch {
+    // Some platforms (Windows, some network file systems) refuse fsync on folders; the rename stands.
+  } finally {
+    if (h !== undefined) await h.close().catch(() => undefined);
+  }
+}

@@ -1,0 +1,290 @@
+// The W3C Pronunciation Lexicon Specification (PLS) 1.0 writer (Recommendation, 14 October 2008),
+// streamed through xmlbuilder2's callback builder so a large lexicon is never held as one document.
+
+import { createCB } from "xmlbuilder2";
+import { diagnostic } from "../diagnostics.js";
+import type { Diagnostic, SourcePos } from "../diagnostics.js";
+import { writeFileAtomic } from "./atomic.js";
+
+/** PLS 1.0 §4.1: the namespace of every PLS element. */
+export const PLS_NAMESPACE = "http://www.w3.org/2005/01/pronunciation-lexicon";
+/** XML Namespaces 1.0 §3: the namespace bound to the `xml` prefix (for `xml:lang`). */
+const XML_NAMESPACE = "http://www.w3.org/XML/1998/namespace";
+
+/** One lexeme: a word and its pronunciations. */
+export interface PlsEntry {
+  /** The spelling, written as the lexeme's one `grapheme` (NFC on output). */
+  readonly word: string;
+  /** Narrow IPA, one `phoneme` each, in order (NFC on output); identical ones are written once. */
+  readonly phonemes: readonly string[];
+  /** Index into `phonemes` of the preferred pronunciation (default 0). */
+  readonly preferred?: number;
+  /** Example sentences, written as `example` elements after the pronunciations. */
+  readonly examples?: readonly string[];
+  /** Where the entry came from, for error messages. */
+  readonly source?: SourcePos;
+}
+
+export interface PlsOptions {
+  /** The variety's BCP 47 language tag, written as `xml:lang` (checked for RFC 5646 well-formedness). */
+  readonly lang: string;
+  /** Name of the output, used in diagnostics for entries without a `source`. */
+  readonly file?: string;
+  /** Indent the document (default true): one element per line, two spaces per level. */
+  readonly prettyPrint?: boolean;
+}
+
+/** Thrown by `plsChunks` when an entry cannot be written; `writePls` turns it into a result. */
+export class PlsError extends Error {
+  readonly diagnostic: Diagnostic;
+  constructor(d: Diagnostic) {
+    super(d.message);
+    this.name = "PlsError";
+    this.diagnostic = d;
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Character and language-tag checks
+
+/**
+ * W3C XML 1.0 (Fifth Edition) §2.2, production [2]:
+ * Char ::= #x9 | #xA | #xD | [#x20-#xD7FF] | [#xE000-#xFFFD] | [#x10000-#x10FFFF].
+ * Returns the first code point of `text` outside Char (a lone surrogate counts as outside) with its
+ * 0-based code-point offset, or undefined when every character is allowed.
+ */
+export function findNonXmlChar(text: string): { readonly offset: number; readonly codePoint: number } | undefined {
+  let offset = 0;
+  for (let i = 0; i < text.length; offset++) {
+    const cp = text.codePointAt(i)!;
+    const ok =
+      cp === 0x9 || cp === 0xa || cp === 0xd ||
+      (cp >= 0x20 && cp <= 0xd7ff) ||
+      (cp >= 0xe000 && cp <= 0xfffd) ||
+      (cp >= 0x10000 && cp <= 0x10ffff);
+    if (!ok) return { offset, codePoint: cp };
+    i += cp > 0xffff ? 2 : 1;
+  }
+  return undefined;
+}
+
+/** `U+00AD`-style name of a code point. */
+export const codePointLabel = (cp: number): string => `U+${cp.toString(16).toUpperCase().padStart(4, "0")}`;
+
+/*
+ * RFC 5646 §2.1 (BCP 47) ABNF, well-formedness only (no registry look-up), case-insensitive:
+ *   Language-Tag = langtag / privateuse / grandfathered
+ *   langtag      = language ["-" script] ["-" region] *("-" variant) *("-" extension) ["-" privateuse]
+ *   language     = 2*3ALPHA ["-" extlang] / 4ALPHA / 5*8ALPHA ;  extlang = 3ALPHA *2("-" 3ALPHA)
+ *   script = 4ALPHA ; region = 2ALPHA / 3DIGIT ; variant = 5*8alphanum / (DIGIT 3alphanum)
+ *   extension = singleton 1*("-" (2*8alphanum)) ; singleton = alphanum except "x"
+ *   privateuse = "x" 1*("-" (1*8alphanum)) ; grandfathered = the 26 tags listed in §2.1
+ */
+const LANGTAG = new RegExp(
+  "^(?:[a-z]{2,3}(?:-[a-z]{3}){0,3}|[a-z]{4}|[a-z]{5,8})" + // language (with extlang)
+    "(?:-[a-z]{4})?" + // script
+    "(?:-(?:[a-z]{2}|[0-9]{3}))?" + // region
+    "(?:-(?:[a-z0-9]{5,8}|[0-9][a-z0-9]{3}))*" + // variants
+    "(?:-[0-9a-wy-z](?:-[a-z0-9]{2,8})+)*" + // extensions
+    "(?:-x(?:-[a-z0-9]{1,8})+)?$", // private use
+  "i",
+);
+const PRIVATEUSE = /^x(?:-[a-z0-9]{1,8})+$/i;
+const GRANDFATHERED = new Set(
+  [
+    "en-GB-oed", "i-ami", "i-bnn", "i-default", "i-enochian", "i-hak", "i-klingon", "i-lux", "i-mingo",
+    "i-navajo", "i-pwn", "i-tao", "i-tay", "i-tsu", "sgn-BE-FR", "sgn-BE-NL", "sgn-CH-DE",
+    "art-lojban", "cel-gaulish", "no-bok", "no-nyn", "zh-guoyu", "zh-hakka", "zh-min", "zh-min-nan", "zh-xiang",
+  ].map((t) => t.toLowerCase()),
+);
+
+/** True when `tag` is a well-formed BCP 47 language tag (RFC 5646 §2.1, §2.2.9 "well-formed"). */
+export function isWellFormedLanguageTag(tag: string): boolean {
+  return LANGTAG.test(tag) || PRIVATEUSE.test(tag) || GRANDFATHERED.has(tag.toLowerCase());
+}
+
+// ---------------------------------------------------------------------------------------------
+// Streaming writer
+
+interface CheckedEntry {
+  readonly grapheme: string;
+  readonly phonemes: readonly string[];
+  readonly preferred: number;
+  readonly examples: readonly string[];
+}
+
+/**
+ * Checks one entry and returns its text normalised to NFC, or throws PlsError.
+ * `ordinal` is the entry's 1-based position in the stream (used when it has no `source`).
+ */
+function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedEntry {
+  const fail = (code: string, message: string, offset = 0): never => {
+    const pos: SourcePos = e.source
+      ? { file: e.source.file, line: e.source.line, column: e.source.column }
+      : { file, line: ordinal, column: offset + 1 };
+    throw new PlsError(diagnostic("error", code, message, pos));
+  };
+  const text = (what: string, raw: string): string => {
+    const bad = findNonXmlChar(raw);
+    if (bad !== undefined) {
+      fail(
+        "pls/invalid-xml-char",
+        `entry '${printable(e.word)}': the ${what} contains ${codePointLabel(bad.codePoint)} at character ${bad.offset + 1}, which XML 1.0 does not allow (XML 1.0 §2.2, production Char)`,
+        bad.offset,
+      );
+    }
+    const nfc = raw.normalize("NFC");
+    const cr = nfc.indexOf("\r");
+    if (cr >= 0) {
+      fail(
+        "pls/carriage-return",
+        `entry '${printable(e.word)}': the ${what} contains U+000D CARRIAGE RETURN, which every XML parser turns into a line feed (XML 1.0 §2.11) and which has no place in a lexicon`,
+        [...nfc.slice(0, cr)].length,
+      );
+    }
+    if (nfc.trim() === "") fail("pls/empty-text", `entry '${printable(e.word)}': the ${what} is empty`);
+    return nfc;
+  };
+  const grapheme = text("grapheme", e.word);
+  if (e.phonemes.length === 0) fail("pls/no-pronunciation", `entry '${printable(e.word)}' has no pronunciation (PLS 1.0 §4.4 needs at least one phoneme or alias)`);
+  const preferredIndex = e.preferred ?? 0;
+  if (!Number.isInteger(preferredIndex) || preferredIndex < 0 || preferredIndex >= e.phonemes.length) {
+    fail("pls/bad-preferred", `entry '${printable(e.word)}': preferred index ${preferredIndex} is not one of its ${e.phonemes.length} pronunciations`);
+  }
+  // Identical pronunciations are written once; the preferred one keeps its place among the rest.
+  const phonemes: string[] = [];
+  let preferred = 0;
+  e.phonemes.forEach((p, i) => {
+    const nfc = text(`pronunciation ${i + 1}`, p);
+    let at = phonemes.indexOf(nfc);
+    if (at < 0) {
+      at = phonemes.length;
+      phonemes.push(nfc);
+    }
+    if (i === preferredIndex) preferred = at;
+  });
+  const examples = (e.examples ?? []).map((x, i) => text(`example ${i + 1}`, x));
+  return { grapheme, phonemes, preferred, examples };
+}
+
+/** A word shown in a message: control characters made visible. */
+const printable = (s: string): string =>
+  s.replace(/[\u0000-\u001f\u007f\ud800-\udfff]/gu, (c) => `<${codePointLabel(c.charCodeAt(0))}>`);
+
+/**
+ * Text handed to xmlbuilder2. xmlbuilder2 (4.0.3) escapes `<`, `>` and every `&` that does not
+ * already begin `&lt;` `&gt;` `&amp;` `&apos;` `&quot;`; escaping every `&` ourselves first makes its
+ * output correct for all text (a literal "&lt;" in a word must come back as "&lt;", not "<").
+ */
+const forBuilder = (s: string): string => s.replace(/&/g, "&amp;");
+
+/**
+ * The PLS document as a stream of chunks, one batch per lexeme.
+ *
+ * Structure written (PLS 1.0): the XML declaration; root `lexicon` in the PLS namespace with
+ * `version="1.0"`, `alphabet="ipa"` and `xml:lang` (§4.1); then per entry one `lexeme` (§4.4) holding
+ * its `grapheme` (§4.5), then its `phoneme`s (§4.6) — `prefer="true"` on the preferred one when there
+ * are several (§4.6, §4.9) — then its `example`s (§4.8). Memory: one lexeme at a time.
+ * Throws PlsError (before anything of the bad entry is emitted) for an entry that cannot be written.
+ */
+export async function* plsChunks(
+  entries: Iterable<PlsEntry> | AsyncIterable<PlsEntry>,
+  opts: PlsOptions,
+): AsyncGenerator<string, number> {
+  const file = opts.file ?? "<pls>";
+  if (!isWellFormedLanguageTag(opts.lang)) {
+    throw new PlsError(
+      diagnostic("error", "pls/bad-language-tag", `'${printable(opts.lang)}' is not a well-formed BCP 47 language tag (RFC 5646 §2.1), needed for xml:lang`, { file, line: 1, column: 1 }),
+    );
+  }
+  let pending: string[] = [];
+  let builderError: Error | undefined;
+  const xb: ReturnType<typeof createCB> = createCB({
+    data: (chunk: string) => {
+      pending.push(chunk);
+    },
+    end: () => undefined,
+    error: (err: Error) => {
+      builderError = err;
+    },
+    prettyPrint: opts.prettyPrint ?? true,
+    wellFormed: true,
+  });
+  const take = (): string => {
+    if (builderError !== undefined) {
+      // Every input was checked before it reached the builder, so this is a defect of ours or of the library.
+      throw new Error(`internal error while writing PLS: ${builderError.message}`);
+    }
+    const s = pending.join("");
+    pending = [];
+    return s;
+  };
+
+  xb.dec({ version: "1.0", encoding: "UTF-8" });
+  xb.ele(PLS_NAMESPACE, "lexicon")
+    .att("version", "1.0")
+    .att("alphabet", "ipa")
+    .att(XML_NAMESPACE, "xml:lang", opts.lang);
+  yield take();
+
+  let ordinal = 0;
+  for await (const e of entries) {
+    ordinal++;
+    const c = checkEntry(e, ordinal, file);
+    xb.ele("lexeme");
+    xb.ele("grapheme").txt(forBuilder(c.grapheme)).up();
+    c.phonemes.forEach((p, i) => {
+      xb.ele("phoneme");
+      if (c.phonemes.length > 1 && i === c.preferred) xb.att("prefer", "true");
+      xb.txt(forBuilder(p)).up();
+    });
+    for (const x of c.examples) xb.ele("example").txt(forBuilder(x)).up();
+    xb.up();
+    yield take();
+  }
+  xb.up().end();
+  const tail = take();
+  yield tail.endsWith("\n") ? tail : tail + "\n";
+  return ordinal;
+}
+
+export type PlsResult =
+  | { readonly ok: true; readonly lexemes: number; readonly bytes: number }
+  | { readonly ok: false; readonly error: Diagnostic };
+
+/**
+ * Writes a PLS file atomically (temp file, then rename). A bad entry or language tag gives
+ * `{ ok: false, error }` and leaves no file behind (nor changes an existing one).
+ */
+export async function writePls(
+  path: string,
+  entries: Iterable<PlsEntry> | AsyncIterable<PlsEntry>,
+  opts: PlsOptions,
+): Promise<PlsResult> {
+  let lexemes = 0;
+  async function* counted(): AsyncGenerator<string> {
+    const gen = plsChunks(entries, { ...opts, file: opts.file ?? path });
+    for (;;) {
+      const r = await gen.next();
+      if (r.done) {
+        lexemes = r.value;
+        return;
+      }
+      yield r.value;
+    }
+  }
+  try {
+    const bytes = await writeFileAtomic(path, counted());
+    return { ok: true, lexemes, bytes };
+  } catch (err) {
+    if (err instanceof PlsError) return { ok: false, error: err.diagnostic };
+    throw err;
+  }
+}
+
+/** The whole document as one string (small lexicons, tests). */
+export async function plsToString(entries: Iterable<PlsEntry> | AsyncIterable<PlsEntry>, opts: PlsOptions): Promise<string> {
+  const parts: string[] = [];
+  for await (const chunk of plsChunks(entries, opts)) parts.push(chunk);
+  return parts.join("");
+}
