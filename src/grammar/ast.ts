@@ -75,6 +75,12 @@ export interface Rule {
   readonly change: readonly ChangeElement[];
   /** Several environments: the rule applies where any of them holds. Empty list = everywhere. */
   readonly environments: readonly Environment[];
+  /**
+   * Set by `desugar` (absent on parsed rules): whether the rule as written was boundary-blind
+   * (DEVELOPERS.md, "Boundary transparency"). Read it through `isBoundaryBlind(rule)`, which
+   * computes it for rules that have not been desugared.
+   */
+  readonly boundaryBlind?: boolean;
 }
 
 /** `syllabify`: insert syllable boundaries (removing any already there) by the Maximal Onset Principle. */

@@ -1,0 +1,6 @@
+// Public surface of the grammar front end: parse, load (includes, inventory, checking), desugar.
+// Other rooms import from here only; types live in ast.ts.
+
+export type * from "./ast.js";
+export { parseGrammarText, STATEMENT_KEYWORDS, PROSODIC_CONDITIONS, elementText, specText, patternSpan } from "./parser.js";
+export { desugar, isBoundaryBlind } from "./desugar.js";
