@@ -2,11 +2,13 @@
 // The `strata` command line: a thin commander layer; each command lives in its own file under cli/.
 
 import { Command } from "commander";
+import { registerClasses } from "./classes.js";
 
 const program = new Command();
 program
   .name("strata")
   .description("Compile SPE-style phonological rules into finite-state transducers and run pronunciation lexicons through them.")
   .version("0.1.0");
+registerClasses(program);
 
 await program.parseAsync(process.argv);
