@@ -1,0 +1,185 @@
+// Runs a whole grammar on one word: its steps in order (rules, syllabify, stress), carrying every
+// variant optional rules produce (capped), which steps changed each variant, and lints.
+
+import type { Diagnostic } from "../diagnostics.js";
+import { diagnostic } from "../diagnostics.js";
+import type { Bundle, Inventory } from "../inventory/types.js";
+import type { Grammar, Rule, Step } from "../grammar/ast.js";
+import { applyPrepared } from "./apply.js";
+import type { Pat, PreparedRule, RuleContext } from "./prepare.js";
+import { isBoundaryBlind, preparePattern, prepareRule } from "./prepare.js";
+import type { ClusterList } from "./prosody.js";
+import { assignStress, resolveClusters, syllabify } from "./prosody.js";
+import type { Lint, Sym, Word } from "./types.js";
+import { wordKey } from "./types.js";
+
+export interface GrammarOptions {
+  /** Most variants kept after any step (default 16); the preferred one is always kept. */
+  readonly maxVariants?: number;
+  /** The grammar front end's shorthand expansion; when given, rules are applied as it rewrites them. */
+  readonly desugar?: (rule: Rule) => Rule;
+  /** The front end's boundary-blindness test (default: this module's `isBoundaryBlind`), asked of the rule as written. */
+  readonly isBoundaryBlind?: (rule: Rule) => boolean;
+  /** How literal IPA segments are read (default: inventory symbols plus declared diacritics). */
+  readonly resolve?: (symbol: string) => Bundle | null;
+}
+
+/** One variant at the end of the grammar, with the steps that changed it, in order. */
+export interface Variant {
+  readonly word: Sym[];
+  readonly changedBy: readonly string[];
+}
+
+export interface GrammarRun {
+  /** Every distinct output, sorted by `wordKey`. */
+  readonly outputs: Sym[][];
+  /** The preferred output (optional rules at their preferred setting at every site). */
+  readonly preferred: Sym[];
+  /** Per output (same order as `outputs`): the steps that changed it, for regression blame. */
+  readonly variants: readonly Variant[];
+  /** Per step, in order: whether it changed any variant. */
+  readonly trace: readonly { readonly step: string; readonly changed: boolean }[];
+  /** True when some step produced more variants than `maxVariants` and some were dropped. */
+  readonly capped: boolean;
+  /** Findings about the word (syllabification). */
+  readonly lints: readonly Lint[];
+  /** Problems with the grammar itself; a step that cannot be resolved is skipped. */
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+interface Live {
+  readonly word: Sym[];
+  readonly changedBy: string[];
+  readonly preferred: boolean;
+}
+
+/** A grammar resolved once for many words. */
+export interface PreparedGrammar {
+  readonly inv: Inventory;
+  readonly steps: readonly PreparedStep[];
+  readonly diagnostics: readonly Diagnostic[];
+}
+
+type PreparedStep =
+  | { readonly kind: "rule"; readonly name: string; readonly rule: PreparedRule | null }
+  | { readonly kind: "syllabify"; readonly name: string; readonly onsets: ClusterList; readonly codas: ClusterList }
+  | { readonly kind: "stress"; readonly name: string; readonly step: Extract<Step, { kind: "stress" }>; readonly heavy: readonly Pat[] };
+
+export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOptions = {}): PreparedGrammar {
+  const classes = new Map(grammar.classes.map((c) => [c.name, c] as const));
+  const nodes = new Map(grammar.nodes.map((n) => [n.name, n] as const));
+  const diagnostics: Diagnostic[] = [];
+  const base: Omit<RuleContext, "boundaryBlind"> = opts.resolve !== undefined ? { inv, classes, nodes, resolve: opts.resolve } : { inv, classes, nodes };
+  const clusters = (list: Grammar["onsets"], what: string): ClusterList => {
+    const r = resolveClusters(list, inv, opts.resolve);
+    for (const u of r.unknown) diagnostics.push(diagnostic("error", "interp/unknown-segment", `${what}: '${u.symbol}' is not a segment of the inventory`, u.cluster.span));
+    return r.list;
+  };
+  let syllabification: { onsets: ClusterList; codas: ClusterList } | null = null;
+  let heavy: Pat[] | null = null;
+  const steps: PreparedStep[] = grammar.steps.map((s): PreparedStep => {
+    switch (s.kind) {
+      case "rule": {
+        const blind = (opts.isBoundaryBlind ?? ((r: Rule) => isBoundaryBlind(r, classes)))(s);
+        const rule = opts.desugar !== undefined ? opts.desugar(s) : s;
+        const r = prepareRule(rule, { ...base, boundaryBlind: blind });
+        diagnostics.push(...r.diagnostics);
+        return { kind: "rule", name: s.name, rule: r.rule };
+      }
+      case "syllabify":
+        syllabification ??= { onsets: clusters(grammar.onsets, "onsets"), codas: clusters(grammar.codas, "codas") };
+        return { kind: "syllabify", name: s.name, ...syllabification };
+      case "stress": {
+        if (heavy === null) {
+          heavy = [];
+          for (const h of grammar.heavy) {
+            const r = preparePattern(h, { ...base, boundaryBlind: false }, "heavy");
+            diagnostics.push(...r.diagnostics);
+            if (r.pat !== null) heavy.push(r.pat);
+          }
+        }
+        return { kind: "stress", name: s.name, step: s, heavy };
+      }
+      default: {
+        const never: never = s;
+        return never;
+      }
+    }
+  });
+  return { inv, steps, diagnostics };
+}
+
+/**
+ * Apply the grammar's steps in order to `word` (a `#`-bracketed symbol array), on bundles, with
+ * no automata. Optional rules multiply variants; after each step at most `maxVariants` are kept
+ * (the preferred one first, then the rest by key) and `capped` says if any were dropped.
+ */
+export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory, word: Word, opts: GrammarOptions = {}): GrammarRun {
+  const g = "steps" in grammar && "inv" in grammar ? grammar : prepareGrammar(grammar, inv, opts);
+  const max = Math.max(1, opts.maxVariants ?? 16);
+  let live: Live[] = [{ word: [...word], changedBy: [], preferred: true }];
+  const trace: { step: string; changed: boolean }[] = [];
+  const lints: Lint[] = [];
+  let capped = false;
+  for (const step of g.steps) {
+    const next = new Map<string, Live>();
+    let changed = false;
+    let preferredKey = "";
+    for (const v of live) {
+      const before = wordKey(v.word);
+      let results: { word: Sym[]; preferred: boolean }[];
+      switch (step.kind) {
+        case "rule": {
+          if (step.rule === null) {
+            results = [{ word: v.word, preferred: v.preferred }];
+            break;
+          }
+          const r = applyPrepared(step.rule, v.word);
+          const prefKey = wordKey(r.preferred);
+          results = r.outputs.map((w) => ({ word: w, preferred: v.preferred && wordKey(w) === prefKey }));
+          break;
+        }
+        case "syllabify": {
+          const r = syllabify(v.word, step.onsets, step.codas, g.inv);
+          if (v.preferred) lints.push(...r.problems);
+          results = [{ word: r.word, preferred: v.preferred }];
+          break;
+        }
+        case "stress":
+          results = [{ word: assignStress(v.word, step.step, step.heavy, g.inv), preferred: v.preferred }];
+          break;
+        default: {
+          const never: never = step;
+          results = never;
+        }
+      }
+      for (const r of results) {
+        const key = wordKey(r.word);
+        const didChange = key !== before;
+        if (didChange) changed = true;
+        const entry: Live = { word: r.word, changedBy: didChange ? [...v.changedBy, step.name] : v.changedBy, preferred: r.preferred };
+        const prior = next.get(key);
+        if (prior === undefined) next.set(key, entry);
+        else if (entry.preferred && !prior.preferred) next.set(key, { ...prior, preferred: true });
+        if (r.preferred) preferredKey = key;
+      }
+    }
+    trace.push({ step: step.name, changed });
+    const keys = [...next.keys()].sort();
+    if (keys.length > max) {
+      capped = true;
+      const kept = [preferredKey, ...keys.filter((k) => k !== preferredKey)].slice(0, max).sort();
+      live = kept.map((k) => next.get(k) as Live);
+    } else live = keys.map((k) => next.get(k) as Live);
+  }
+  const preferred = live.find((v) => v.preferred) ?? (live[0] as Live);
+  return {
+    outputs: live.map((v) => v.word),
+    preferred: preferred.word,
+    variants: live.map((v) => ({ word: v.word, changedBy: v.changedBy })),
+    trace,
+    capped,
+    lints,
+    diagnostics: g.diagnostics,
+  };
+}
