@@ -5,6 +5,7 @@ import type { Bundle, Diacritic, Inventory } from "./types.js";
 import { baseKey, lookup } from "./lookup.js";
 import { describeBundle } from "./bundles.js";
 import { tokenise } from "./tokenise.js";
+import { isCombining } from "./ipa.js";
 
 export type RealiseResult = { ok: true; text: string } | { ok: false; error: string };
 
@@ -54,9 +55,9 @@ function cover(base: Bundle, target: Bundle, nBase: number, diacritics: readonly
 /**
  * Writes one bundle as narrow IPA. Prosodic features are ignored (stress is written per syllable
  * elsewhere). Choice, deterministic: an inventory segment with exactly these values; otherwise the
- * base segment needing the fewest diacritics, the earliest in the inventory on a tie; diacritics
- * in their declared order (the customary order, which agrees with Unicode canonical ordering so
- * NFC keeps it). Output is NFC (W3C Character Model: NFC for content; never NFKC, which would turn
+ * base segment needing the fewest diacritics, the earliest in the inventory on a tie; combining
+ * marks before modifier letters, each group in declared order (the customary order, which agrees
+ * with Unicode canonical ordering so NFC keeps it). Output is NFC (W3C Character Model: NFC for content; never NFKC, which would turn
  * ʰ into h). Memoised per inventory by the bundle's key.
  *
  * Round trip: the text is read back with `tokenise` before it is returned, so
@@ -90,7 +91,9 @@ function compute(inv: Inventory, bundle: Bundle, key: string): RealiseResult {
   if (!best) {
     return { ok: false, error: `No inventory symbol and declared diacritics write ${describeBundle(inv, bundle.slice(0, lk.nBase).concat(bundle.slice(lk.nBase).map(() => "0")))}.` };
   }
-  const marks = [...best.marks].sort((a, b) => a.order - b.order).map((d) => d.mark);
+  // Combining marks first (one written after a modifier letter would sit on that letter), then by declared order.
+  const rank = (d: Diacritic): number => (isCombining(Array.from(d.mark)[0]!) ? 0 : 1);
+  const marks = [...best.marks].sort((a, b) => rank(a) - rank(b) || a.order - b.order).map((d) => d.mark);
   const text = (inv.segments[best.seg]!.symbol + marks.join("")).normalize("NFC");
   const back = tokenise(inv, text);
   const t = back.ok && back.tokens.length === 1 ? back.tokens[0]! : undefined;
