@@ -57,8 +57,8 @@ function cover(base: Bundle, target: Bundle, nBase: number, diacritics: readonly
  * elsewhere). Choice, deterministic: an inventory segment with exactly these values; otherwise the
  * base segment needing the fewest diacritics, the earliest in the inventory on a tie; combining
  * marks before modifier letters, each group in declared order (the customary order, which agrees
- * with Unicode canonical ordering so NFC keeps it). Output is NFC (W3C Character Model: NFC for content; never NFKC, which would turn
- * ʰ into h). Memoised per inventory by the bundle's key.
+ * with Unicode canonical ordering so NFC keeps it). Output is NFC (W3C Character Model: NFC for
+ * content; never NFKC, which would turn ʰ into h). Memoised per inventory by the bundle's key.
  *
  * Round trip: the text is read back with `tokenise` before it is returned, so
  * tokenise(realise(b)) = b (prosodic features aside) whenever realise succeeds.
