@@ -1,0 +1,246 @@
+// Loading a grammar from disk: follows `include` (confined to the main grammar's folder), loads the
+// inventory it names, splits IPA literals into single segments with the tokeniser, and checks it.
+
+import * as fs from "node:fs";
+import * as path from "node:path";
+import { diagnostic, type Diagnostic, type SourcePos } from "../diagnostics.js";
+import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
+import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
+import { checkGrammar } from "./check.js";
+import { assembleGrammar, parseFile, type TopItem } from "./parser.js";
+
+/** The file a grammar folder is read from. */
+export const GRAMMAR_FILE = "grammar.strata";
+
+export interface LoadedGrammar {
+  readonly grammar?: Grammar;
+  readonly inventory?: Inventory;
+  readonly diagnostics: Diagnostic[];
+}
+
+const startOf = (file: string): SourcePos => ({ file, line: 1, column: 1 });
+
+/**
+ * Reads the grammar at `p` (a .strata file, or a folder holding `grammar.strata`), expands its
+ * includes, loads its inventory, splits literals and runs the checker. Never throws: every problem
+ * is a positioned diagnostic. `grammar` is present whenever the main file could be read (possibly
+ * partial when there are errors); `inventory` whenever it loaded.
+ */
+export function loadGrammar(p: string): LoadedGrammar {
+  const diagnostics: Diagnostic[] = [];
+  try {
+    let main = path.resolve(p);
+    if (isDirectory(main)) main = path.join(main, GRAMMAR_FILE);
+    const mainText = readText(main);
+    if (mainText === null) {
+      diagnostics.push(diagnostic("error", "grammar/unreadable", "cannot read this grammar file (no such file?)", startOf(main)));
+      return { diagnostics };
+    }
+    const root = realDir(path.dirname(main));
+    const files: string[] = [];
+    const items: TopItem[] = [];
+    const done = new Set<string>();
+    const expand = (file: string, text: string, stack: readonly string[]): void => {
+      files.push(file);
+      done.add(real(file));
+      const parsed = parseFile(text, file);
+      diagnostics.push(...parsed.diagnostics);
+      for (const it of parsed.items) {
+        if (it.kind !== "include") {
+          items.push(it);
+          continue;
+        }
+        const target = it.path;
+        const rel = path.relative(root, real(target));
+        if (rel.startsWith("..") || path.isAbsolute(rel)) {
+          diagnostics.push(
+            diagnostic("error", "grammar/include-outside", `'${it.written}' is outside the grammar's folder (${root}); includes must stay inside it`, it.span),
+          );
+          continue;
+        }
+        const cycleAt = stack.indexOf(real(target));
+        if (cycleAt >= 0) {
+          const chain = [...stack.slice(cycleAt), real(target)].map((f) => path.relative(root, f) || path.basename(f));
+          diagnostics.push(diagnostic("error", "grammar/include-cycle", `include cycle: ${chain.join(" → ")}`, it.span));
+          continue;
+        }
+        if (done.has(real(target))) continue; // included already (each file is read once)
+        const sub = readText(target);
+        if (sub === null) {
+          diagnostics.push(diagnostic("error", "grammar/include-missing", `cannot read the included file '${it.written}' (no such file?)`, it.span));
+          continue;
+        }
+        expand(target, sub, [...stack, real(target)]);
+      }
+    };
+    expand(main, mainText, [real(main)]);
+    const assembled = assembleGrammar(main, items, files);
+    diagnostics.push(...assembled.diagnostics);
+    let grammar = assembled.grammar;
+    if (grammar.inventory === null) {
+      diagnostics.push(diagnostic("error", "grammar/no-inventory", 'the grammar names no inventory (inventory "segments.csv")', startOf(main)));
+      return { grammar, diagnostics };
+    }
+    const declared = (kind: "inventory" | "diacritics"): Span | undefined => {
+      for (const i of items) if (i.kind === kind) return i.span;
+      return undefined;
+    };
+    const invItem = { span: declared("inventory") };
+    const diaItem = { span: declared("diacritics") };
+    if (!fs.existsSync(grammar.inventory)) {
+      diagnostics.push(diagnostic("error", "grammar/inventory-missing", `the inventory file ${grammar.inventory} does not exist`, invItem?.span ?? startOf(main)));
+      return { grammar, diagnostics };
+    }
+    if (grammar.diacritics !== null && !fs.existsSync(grammar.diacritics)) {
+      diagnostics.push(diagnostic("error", "grammar/inventory-missing", `the diacritics file ${grammar.diacritics} does not exist`, diaItem?.span ?? startOf(main)));
+      return { grammar, diagnostics };
+    }
+    const inv = loadInventory(grammar.inventory, grammar.diacritics ?? undefined);
+    diagnostics.push(...inv.diagnostics);
+    if (inv.inventory === undefined) return { grammar, diagnostics };
+    const split = splitLiterals(grammar, inv.inventory);
+    diagnostics.push(...split.diagnostics);
+    grammar = split.grammar;
+    diagnostics.push(...checkGrammar(grammar, inv.inventory));
+    return { grammar, inventory: inv.inventory, diagnostics };
+  } catch (e) {
+    diagnostics.push(
+      diagnostic("error", "grammar/internal", `internal error while loading the grammar: ${e instanceof Error ? e.message : String(e)}`, startOf(p)),
+    );
+    return { diagnostics };
+  }
+}
+
+function isDirectory(p: string): boolean {
+  try {
+    return fs.statSync(p).isDirectory();
+  } catch {
+    return false;
+  }
+}
+
+function readText(p: string): string | null {
+  try {
+    if (isDirectory(p)) return null;
+    return fs.readFileSync(p, "utf8");
+  } catch {
+    return null;
+  }
+}
+
+/** The real path of a file when it exists (symbolic links resolved), else its resolved path. */
+function real(p: string): string {
+  try {
+    return fs.realpathSync(p);
+  } catch {
+    const dir = path.dirname(p);
+    return dir === p ? p : path.join(real(dir), path.basename(p));
+  }
+}
+
+const realDir = real;
+
+/**
+ * Splits every IPA literal (segments in patterns, targets, changes, class members, clusters) into
+ * single segments with the inventory's tokeniser (`st` → `s`, `t`). A literal the tokeniser cannot
+ * read is an error at its place. A subscript on a multi-segment literal binds to its last segment
+ * (SPE: `st₀` is `s t₀`). Class members and target choices must be single segments.
+ */
+export function splitLiterals(grammar: Grammar, inv: Inventory): { grammar: Grammar; diagnostics: Diagnostic[] } {
+  const diagnostics: Diagnostic[] = [];
+  const cpLen = (s: string): number => [...s].length;
+  const read = (symbol: string, span: Span): { symbol: string; span: Span }[] | null => {
+    const r = tokenise(inv, symbol, { file: span.file, line: span.line, column: span.column });
+    if (!r.ok) {
+      diagnostics.push({ ...r.error, code: "grammar/unknown-segment", length: r.error.length ?? 1 });
+      return null;
+    }
+    const out: { symbol: string; span: Span }[] = [];
+    for (const t of r.tokens) {
+      if (t.kind !== "segment") {
+        diagnostics.push(
+          diagnostic("error", "grammar/not-a-segment", `'${symbol}' contains a stress mark or break, which is not a segment`, { ...span, column: t.column }),
+        );
+        return null;
+      }
+      out.push({ symbol: t.text, span: { file: span.file, line: span.line, column: t.column, length: Math.max(1, cpLen(t.text)) } });
+    }
+    return out;
+  };
+  const single = (e: Element, what: string): Element => {
+    if (e.kind !== "segment") return e;
+    const parts = read(e.symbol, e.span);
+    if (parts === null) return e;
+    if (parts.length !== 1) {
+      diagnostics.push(
+        diagnostic("error", "grammar/not-one-segment", `${what} is one segment, but '${e.symbol}' reads as ${parts.length} (${parts.map((x) => x.symbol).join(" ")}); separate them with spaces`, e.span),
+      );
+      return e;
+    }
+    return { kind: "segment", symbol: parts[0]!.symbol, span: parts[0]!.span };
+  };
+  const splitElement = (e: Element): Element[] => {
+    if (e.kind !== "segment") return [e];
+    const parts = read(e.symbol, e.span);
+    if (parts === null) return [e];
+    return parts.map((x) => ({ kind: "segment", symbol: x.symbol, span: x.span }));
+  };
+  const el = (element: Element): Pattern => ({ kind: "element", element });
+  const pattern = (p: Pattern): Pattern => {
+    switch (p.kind) {
+      case "element": {
+        const parts = splitElement(p.element);
+        return parts.length === 1 ? el(parts[0]!) : { kind: "sequence", items: parts.map(el), span: p.element.span };
+      }
+      case "sequence":
+        return { ...p, items: p.items.flatMap((i) => {
+          const q = pattern(i);
+          return i.kind === "element" && q.kind === "sequence" ? q.items : [q];
+        }) };
+      case "optional":
+        return { ...p, body: pattern(p.body) };
+      case "choice":
+        return { ...p, options: p.options.map(pattern) };
+      case "repeat": {
+        const body = pattern(p.body);
+        if (p.body.kind === "element" && body.kind === "sequence" && body.items.length > 1) {
+          const last = body.items[body.items.length - 1]!;
+          return { kind: "sequence", items: [...body.items.slice(0, -1), { ...p, body: last }], span: p.span };
+        }
+        return { ...p, body };
+      }
+    }
+  };
+  const env = (e: Environment): Environment => ({ ...e, left: pattern(e.left), right: pattern(e.right) });
+  const change = (c: ChangeElement): ChangeElement[] => (c.kind === "segment" ? splitElement(c) as ChangeElement[] : [c]);
+  const implicit = new Set(grammar.classes.filter((c) => c.name.startsWith("{")).map((c) => c.name));
+  const classes: ClassDef[] = grammar.classes.map((c) => ({
+    ...c,
+    members: c.members.map((m) => single(m, implicit.has(c.name) ? "each choice in a target" : "a class member")),
+  }));
+  const cluster = (c: Cluster): Cluster => {
+    const parts = c.segments.flatMap((s) => read(s, c.span) ?? []);
+    return { ...c, segments: parts.map((x) => x.symbol) };
+  };
+  const steps: Step[] = grammar.steps.map((s): Step => {
+    if (s.kind !== "rule") return s;
+    const rule: Rule = {
+      ...s,
+      target: s.target.flatMap(splitElement),
+      change: s.change.flatMap(change),
+      environments: s.environments.map(env),
+    };
+    return rule;
+  });
+  return {
+    grammar: {
+      ...grammar,
+      classes,
+      onsets: grammar.onsets?.map(cluster) ?? null,
+      codas: grammar.codas?.map(cluster) ?? null,
+      heavy: grammar.heavy.map(pattern),
+      steps,
+    },
+    diagnostics,
+  };
+}
