@@ -4,7 +4,7 @@
 import type { Diagnostic } from "../diagnostics.js";
 import { diagnostic } from "../diagnostics.js";
 import type { Bundle, Inventory } from "../inventory/types.js";
-import type { Grammar, Rule, Step } from "../grammar/ast.js";
+import type { Grammar, Step } from "../grammar/ast.js";
 import { applyPrepared } from "./apply.js";
 import type { Pat, PreparedRule, RuleContext } from "./prepare.js";
 import { isBoundaryBlind, preparePattern, prepareRule } from "./prepare.js";
@@ -16,11 +16,9 @@ import { wordKey } from "./types.js";
 export interface GrammarOptions {
   /** Most variants kept after any step (default 16); the preferred one is always kept. */
   readonly maxVariants?: number;
-  /** The grammar front end's shorthand expansion; when given, rules are applied as it rewrites them. */
-  readonly desugar?: (rule: Rule) => Rule;
-  /** The front end's boundary-blindness test (default: this module's `isBoundaryBlind`), asked of the rule as written. */
-  readonly isBoundaryBlind?: (rule: Rule) => boolean;
-  /** How literal IPA segments are read (default: inventory symbols plus declared diacritics). */
+  /** How `where` conditions are read (see RuleContext.conditions; default "desugared" by the front end). */
+  readonly conditions?: "desugared" | "direct";
+  /** How literal IPA segments are read (default: the inventory's tokeniser). */
   readonly resolve?: (symbol: string) => Bundle | null;
 }
 
@@ -69,7 +67,9 @@ export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOp
   const classes = new Map(grammar.classes.map((c) => [c.name, c] as const));
   const nodes = new Map(grammar.nodes.map((n) => [n.name, n] as const));
   const diagnostics: Diagnostic[] = [];
-  const base: Omit<RuleContext, "boundaryBlind"> = opts.resolve !== undefined ? { inv, classes, nodes, resolve: opts.resolve } : { inv, classes, nodes };
+  const base: Omit<RuleContext, "boundaryBlind"> = {
+    inv, classes, nodes, conditions: opts.conditions ?? "desugared", ...(opts.resolve !== undefined ? { resolve: opts.resolve } : {}),
+  };
   const clusters = (list: Grammar["onsets"], what: string): ClusterList => {
     const r = resolveClusters(list, inv, opts.resolve);
     for (const u of r.unknown) diagnostics.push(diagnostic("error", "interp/unknown-segment", `${what}: '${u.symbol}' is not a segment of the inventory`, u.cluster.span));
@@ -80,9 +80,7 @@ export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOp
   const steps: PreparedStep[] = grammar.steps.map((s): PreparedStep => {
     switch (s.kind) {
       case "rule": {
-        const blind = (opts.isBoundaryBlind ?? ((r: Rule) => isBoundaryBlind(r, classes)))(s);
-        const rule = opts.desugar !== undefined ? opts.desugar(s) : s;
-        const r = prepareRule(rule, { ...base, boundaryBlind: blind });
+        const r = prepareRule(s, { ...base, boundaryBlind: isBoundaryBlind(s) });
         diagnostics.push(...r.diagnostics);
         return { kind: "rule", name: s.name, rule: r.rule };
       }

@@ -4,7 +4,7 @@
 export type { Sym, Word, Lint } from "./types.js";
 export { toKey, wordKey, sortedDistinct, segment, WORD_EDGE, SYLLABLE_EDGE, isSegment, isWordEdge, isSyllableEdge } from "./types.js";
 export type { RuleContext, PreparedRule, PrepareResult } from "./prepare.js";
-export { ruleContext, isBoundaryBlind, prepareRule, preparePattern } from "./prepare.js";
+export { ruleContext, isBoundaryBlind, prepareRule, preparePattern, desugarOnce } from "./prepare.js";
 export type { Binding, Bindings } from "./match.js";
 export type { RuleOutputs } from "./apply.js";
 export { applyRule, applyRuleDetailed, applyPrepared } from "./apply.js";

@@ -7,6 +7,7 @@ import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
 import type {
   ApplicationMode, ChangeElement, ClassDef, Element, FeatureSpec, Grammar, NodeDef, Pattern, ProsodicCondition, Rule, Span,
 } from "../grammar/ast.js";
+import { desugar, isBoundaryBlind } from "../grammar/index.js";
 import { resolveSymbol } from "./segments.js";
 
 /** What a rule needs from its grammar to be applied. */
@@ -16,8 +17,15 @@ export interface RuleContext {
   readonly nodes: ReadonlyMap<string, NodeDef>;
   /** Boundary-blind rules see through every `.` (DEVELOPERS.md, "Boundary transparency"). */
   readonly boundaryBlind: boolean;
-  /** How a literal IPA segment is read (default: the inventory's symbols plus declared diacritics). */
+  /** How a literal IPA segment is read (default: the inventory's tokeniser). */
   readonly resolve?: (symbol: string) => Bundle | null;
+  /**
+   * How `where` conditions are read. "desugared" (the default): as the grammar front end's
+   * `desugar` rewrites them into patterns, which is what the compiler reads too. "direct": each
+   * condition is checked on its own, as the DEVELOPERS.md table states it, conjoined with the
+   * written contexts (an independent reading used to cross-check the desugaring).
+   */
+  readonly conditions?: "desugared" | "direct";
 }
 
 /** One feature condition or change, resolved to feature indices. A value on a node sets/tests every feature of the node. */
@@ -80,46 +88,25 @@ export interface PreparedRule {
   readonly primary: number;
 }
 
-/** The RuleContext for one rule of a grammar. */
+/** The RuleContext for one rule of a grammar (boundary-blindness by the front end's `isBoundaryBlind`). */
 export function ruleContext(grammar: Pick<Grammar, "classes" | "nodes">, inv: Inventory, rule: Rule): RuleContext {
   const classes = new Map(grammar.classes.map((c) => [c.name, c] as const));
   const nodes = new Map(grammar.nodes.map((n) => [n.name, n] as const));
-  return { inv, classes, nodes, boundaryBlind: isBoundaryBlind(rule, classes) };
+  return { inv, classes, nodes, boundaryBlind: isBoundaryBlind(rule) };
 }
 
-/**
- * DEVELOPERS.md, "Boundary transparency": a rule is boundary-blind when its target, change and
- * environments never mention a syllable boundary (directly or through a class) and it has no
- * `where` conditions.
- */
-export function isBoundaryBlind(rule: Rule, classes: ReadonlyMap<string, ClassDef>): boolean {
-  const seen = new Set<string>();
-  const elemMentions = (e: Element): boolean => {
-    if (e.kind === "boundary") return e.which === "syllable";
-    if (e.kind === "class") {
-      if (seen.has(e.name)) return false;
-      seen.add(e.name);
-      const c = classes.get(e.name);
-      return c !== undefined && c.members.some(elemMentions);
-    }
-    return false;
-  };
-  const patMentions = (p: Pattern): boolean => {
-    switch (p.kind) {
-      case "element": return elemMentions(p.element);
-      case "sequence": return p.items.some(patMentions);
-      case "optional": return patMentions(p.body);
-      case "choice": return p.options.some(patMentions);
-      case "repeat": return patMentions(p.body);
-      default: return assertNever(p);
-    }
-  };
-  if (rule.target.some(elemMentions)) return false;
-  for (const env of rule.environments) {
-    if (env.conditions.length > 0) return false;
-    if (patMentions(env.left) || patMentions(env.right)) return false;
+export { isBoundaryBlind };
+
+const desugared = new WeakMap<Rule, Rule>();
+
+/** The front end's `desugar`, memoised per rule object (it builds a new rule on every call). */
+export function desugarOnce(rule: Rule): Rule {
+  let d = desugared.get(rule);
+  if (d === undefined) {
+    d = rule.environments.some((e) => e.conditions.length > 0) ? desugar(rule) : rule;
+    desugared.set(rule, d);
   }
-  return true;
+  return d;
 }
 
 export function assertNever(x: never): never {
@@ -131,10 +118,16 @@ const cache = new WeakMap<Rule, { ctx: RuleContext; result: PrepareResult }>();
 export type PrepareResult = { readonly rule: PreparedRule; readonly diagnostics: readonly Diagnostic[] } | { readonly rule: null; readonly diagnostics: readonly Diagnostic[] };
 
 /** Resolve a rule; every problem is a positioned diagnostic (the rule is null when any is an error). */
+/**
+ * Resolve a rule; every problem is a positioned diagnostic (the rule is null when any is an
+ * error). Unless `ctx.conditions` is "direct", `where` conditions are first desugared by the
+ * grammar front end. Memoised per rule object and context object.
+ */
 export function prepareRule(rule: Rule, ctx: RuleContext): PrepareResult {
   const hit = cache.get(rule);
   if (hit !== undefined && hit.ctx === ctx) return hit.result;
-  const result = new Preparer(rule, ctx).run();
+  const written = ctx.conditions === "direct" ? rule : desugarOnce(rule);
+  const result = new Preparer(written, ctx).run();
   cache.set(rule, { ctx, result });
   return result;
 }
