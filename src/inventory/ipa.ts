@@ -40,8 +40,14 @@ export interface Prepared {
   readonly cols: readonly number[];
 }
 
+const NEEDS_WORK = /[g\u0361\u035C]/;
+
 export function prepare(text: string): Prepared {
   const orig = Array.from(text);
+  if (!NEEDS_WORK.test(text) && text.normalize("NFD") === text) {
+    // Fast path: nothing to decompose, drop or replace; columns are the identity.
+    return { cps: orig, cols: orig.map((_, k) => k) };
+  }
   const cps: string[] = [];
   const cols: number[] = [];
   let i = 0;

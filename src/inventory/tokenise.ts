@@ -116,7 +116,7 @@ export function tokenise(
     let len = Math.min(lk.maxSymbolLength, n - i);
     let segIndex: number | undefined;
     for (; len > 0; len--) {
-      segIndex = lk.symbolByKey.get(len === 1 ? c : cps.slice(i, i + len).join(""));
+      segIndex = lk.symbolByKey.get(len === 1 ? c : len === 2 ? c + cps[i + 1]! : cps.slice(i, i + len).join(""));
       if (segIndex !== undefined) break;
     }
     if (segIndex === undefined) {
@@ -155,7 +155,7 @@ function matchDiacritic(
   at: number,
 ): { d: Diacritic; length: number } | undefined {
   for (let len = Math.min(maxLength, cps.length - at); len > 0; len--) {
-    const d = table.get(cps.slice(at, at + len).join(""));
+    const d = table.get(len === 1 ? cps[at]! : cps.slice(at, at + len).join(""));
     if (d) return { d, length: len };
   }
   return undefined;
