@@ -1,0 +1,179 @@
+// The alphabet a grammar compiles over: symbol 0 = ε, 1 = '#', 2 = '.', then every segment the
+// inventory lists (with each prosodic variant lexicon input can carry) and every segment a rule
+// can produce from them, each with its feature bundle and its narrow IPA.
+
+import type { Grammar, Pattern, Rule } from "../grammar/ast.js";
+import { bundleKey, type Bundle, type FeatureValue, type Inventory } from "../inventory/types.js";
+import { realise } from "../inventory/index.js";
+import { Lowering, lowerError, type Assignment } from "./lower.js";
+
+export const EPSILON = 0;
+export const WORD = 1;
+export const SYLL = 2;
+export const FIRST_SEGMENT = 3;
+
+/** Prosodic variants a nucleus can carry: primary, secondary, unstressed, not yet assigned. */
+export const NUCLEUS_PROSODY: readonly (readonly [FeatureValue, FeatureValue])[] = [
+  ["+", "+"], ["+", "-"], ["-", "-"], ["0", "0"],
+];
+
+export interface AlphabetSymbol {
+  readonly id: number;
+  readonly bundle: Bundle;
+  readonly key: string;
+  /** Narrow IPA of the segment (prosodic features are not written). */
+  readonly text: string;
+}
+
+export interface Alphabet {
+  /** Number of symbol ids, ε, '#' and '.' included. */
+  readonly size: number;
+  /** Segment symbols; `segments[i].id === i + FIRST_SEGMENT`. */
+  readonly segments: readonly AlphabetSymbol[];
+  readonly byKey: ReadonlyMap<string, number>;
+  /**
+   * For each step of the grammar (desugared order), the symbol ids that can reach it (membership
+   * by id): '#', '.', the inventory's segments and those produced by earlier steps. A step's
+   * machine is exact on words over its domain.
+   */
+  readonly domains: readonly Uint8Array[];
+}
+
+export const MAX_ALPHABET = 4000;
+
+/** Display text of a symbol id. */
+export function symbolText(a: Alphabet, id: number): string {
+  if (id === EPSILON) return "ε";
+  if (id === WORD) return "#";
+  if (id === SYLL) return ".";
+  return a.segments[id - FIRST_SEGMENT]?.text ?? `?${id}`;
+}
+
+/** Language of a pattern non-empty over the given bundles (plus '#', '.')? Used to prune impossible cases. */
+export function patternPossible(low: Lowering, p: Pattern, asg: Assignment, bundles: readonly Bundle[]): boolean {
+  switch (p.kind) {
+    case "element": {
+      const m = low.element(p.element, asg);
+      return m.word || m.syll || bundles.some(m.seg);
+    }
+    case "sequence": return p.items.every((q) => patternPossible(low, q, asg, bundles));
+    case "optional": return true;
+    case "choice": return p.options.some((q) => patternPossible(low, q, asg, bundles));
+    case "repeat": return p.min === 0 || patternPossible(low, p.body, asg, bundles);
+    default: { const never: never = p; throw new Error(String(never)); }
+  }
+}
+
+/** The assignments of a rule that can hold somewhere: target elements and some environment possible. */
+export function liveAssignments(low: Lowering, rule: Rule, bundles: readonly Bundle[]): Assignment[] {
+  return low.assignments(rule, bundles).filter((asg) => {
+    for (const e of rule.target) {
+      const m = low.element(e, asg);
+      if (!m.word && !m.syll && !bundles.some(m.seg)) return false;
+    }
+    if (rule.environments.length === 0) return true;
+    return rule.environments.some((env) => patternPossible(low, env.left, asg, bundles) && patternPossible(low, env.right, asg, bundles));
+  });
+}
+
+/**
+ * Computes the alphabet. `steps` are the grammar's steps after desugaring, in order.
+ * Closure: one pass in step order — a step's target can only meet symbols of the inventory or
+ * produced by earlier steps (a rule reads its targets from its input), so applying each rule's
+ * change, for every live assignment, to every bundle its target element matches, in order, reaches
+ * every symbol any word can carry. Throws LowerError (with the rule's position) for an
+ * unwritable produced bundle or when the alphabet exceeds MAX_ALPHABET.
+ */
+export function computeAlphabet(grammar: Grammar, inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][]): Alphabet {
+  const bundles: Bundle[] = [];
+  const keys = new Set<string>();
+  const add = (b: Bundle): boolean => {
+    const k = bundleKey(b);
+    if (keys.has(k)) return false;
+    keys.add(k);
+    bundles.push(b);
+    return true;
+  };
+  const withProsody = (b: Bundle, s: FeatureValue, p: FeatureValue): Bundle => {
+    const out = [...b];
+    if (low.stressIdx >= 0) out[low.stressIdx] = s;
+    if (low.primaryIdx >= 0) out[low.primaryIdx] = p;
+    return out;
+  };
+  for (const seg of inv.segments) {
+    if (low.isNucleus(seg.bundle)) for (const [s, p] of NUCLEUS_PROSODY) add(withProsody(seg.bundle, s, p));
+    else add(withProsody(seg.bundle, "0", "0"));
+  }
+  const base = bundles.length;
+  const derived: Bundle[] = [];
+  const origin = new Map<string, Rule | Grammar["steps"][number]>();
+  const reachCounts: number[] = [];
+  for (const step of steps) {
+    reachCounts.push(bundles.length);
+    const before = bundles.slice();
+    if (step.kind === "syllabify") continue;
+    if (step.kind === "stress") {
+      for (const b of before) {
+        if (!low.isNucleus(b)) continue;
+        for (const [s, p] of NUCLEUS_PROSODY) {
+          const nb = withProsody(b, s, p);
+          if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), step); }
+        }
+      }
+      continue;
+    }
+    const rule = step;
+    for (const asg of liveAssignments(low, rule, before)) {
+      if (rule.target.length === 0) {
+        for (const c of rule.change) {
+          const nb = low.inserted(c);
+          if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
+        }
+        continue;
+      }
+      if (rule.change.length === 0) continue;
+      rule.target.forEach((e, j) => {
+        const m = low.element(e, asg);
+        const c = rule.change[j];
+        if (!c) return;
+        for (const b of before) {
+          if (!m.seg(b)) continue;
+          const nb = low.applyChange(c, asg, b);
+          if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
+        }
+      });
+    }
+    if (bundles.length > MAX_ALPHABET) {
+      throw lowerError("compile/alphabet-too-large", `The rules produce more than ${MAX_ALPHABET} distinct segments (rule '${rule.name}' reached ${bundles.length}); check for a change that multiplies segments.`, rule.span);
+    }
+  }
+  // Deterministic order: the inventory's symbols as listed, then derived symbols by bundle key.
+  const baseBundles = bundles.slice(0, base);
+  const sortedDerived = [...derived].sort((a, b) => { const ka = bundleKey(a), kb = bundleKey(b); return ka < kb ? -1 : ka > kb ? 1 : 0; });
+  const ordered = [...baseBundles, ...sortedDerived];
+  const byKey = new Map<string, number>();
+  const segments: AlphabetSymbol[] = ordered.map((b, i) => {
+    const key = bundleKey(b);
+    const r = realise(inv, b);
+    if (!r.ok) {
+      const o = origin.get(key);
+      const span = o ? o.span : { file: inv.file, line: 1, column: 1, length: 1 };
+      const name = o ? o.name : "inventory";
+      throw lowerError("compile/unwritable-segment", `Step '${name}' can produce a segment no inventory symbol and declared diacritics can write: ${r.error}`, span);
+    }
+    byKey.set(key, i + 3);
+    return { id: i + 3, bundle: b, key, text: r.text };
+  });
+  // domains[k]: the ids that can reach step k (existed before it), plus '#' and '.'.
+  const createdAt = new Map<string, number>();
+  bundles.forEach((b, i) => createdAt.set(bundleKey(b), i));
+  const domains = reachCounts.map((count) => {
+    const d = new Uint8Array(segments.length + 3);
+    d[WORD] = 1;
+    d[SYLL] = 1;
+    for (const s of segments) if (createdAt.get(s.key)! < count) d[s.id] = 1;
+    return d;
+  });
+  void grammar;
+  return { size: segments.length + 3, segments, byKey, domains };
+}

@@ -1,0 +1,161 @@
+// A desugared rule lowered onto the alphabet: one case per (alpha assignment × environment), each
+// with its target symbol sets, its change as a symbol map, and its context recognisers (context.ts).
+
+import type { Element, Pattern, Rule } from "../grammar/ast.js";
+import { bundleKey, type Bundle } from "../inventory/types.js";
+import { type Alphabet, EPSILON, FIRST_SEGMENT, SYLL, WORD } from "./alphabet.js";
+import { liveAssignments } from "./alphabet.js";
+import { anySet, dfaFromRx, dfaProduct, EPS_RX, type Dfa, type Rx, rxIsEmpty, symbolSet } from "./context.js";
+import { lowerError, type Assignment, type Lowering } from "./lower.js";
+import type { LoweredRule, RuleCase } from "./rule.js";
+
+/** A canonical text for a regular expression (to share identical context recognisers). */
+export function rxKey(rx: Rx): string {
+  switch (rx.k) {
+    case "set": {
+      const ids: number[] = [];
+      rx.set.forEach((v, i) => { if (v) ids.push(i); });
+      return `[${ids.join(",")}]`;
+    }
+    case "seq": return `(${rx.items.map(rxKey).join(" ")})`;
+    case "alt": return `{${rx.options.map(rxKey).join("|")}}`;
+    case "star": return `${rxKey(rx.body)}*`;
+    case "rep": return `${rxKey(rx.body)}^${rx.min},${rx.max ?? ""}`;
+    default: { const never: never = rx; throw new Error(String(never)); }
+  }
+}
+
+/** Lowers elements and patterns to symbol sets and regular expressions over one alphabet. */
+export class SymbolLowering {
+  constructor(readonly low: Lowering, readonly alphabet: Alphabet) {}
+
+  elementSet(e: Element, asg: Assignment): Uint8Array {
+    const m = this.low.element(e, asg);
+    const set = new Uint8Array(this.alphabet.size);
+    if (m.word) set[WORD] = 1;
+    if (m.syll) set[SYLL] = 1;
+    for (const s of this.alphabet.segments) if (m.seg(s.bundle)) set[s.id] = 1;
+    return set;
+  }
+
+  pattern(p: Pattern, asg: Assignment): Rx {
+    switch (p.kind) {
+      case "element": return { k: "set", set: this.elementSet(p.element, asg) };
+      case "sequence": return { k: "seq", items: p.items.map((q) => this.pattern(q, asg)) };
+      case "optional": return { k: "alt", options: [this.pattern(p.body, asg), EPS_RX] };
+      case "choice": return { k: "alt", options: p.options.map((q) => this.pattern(q, asg)) };
+      case "repeat": return { k: "rep", body: this.pattern(p.body, asg), min: p.min, max: p.max };
+      default: { const never: never = p; throw new Error(String(never)); }
+    }
+  }
+
+  /** The id of a bundle, or -1 when the alphabet lacks it. */
+  idOf(b: Bundle): number {
+    return this.alphabet.byKey.get(bundleKey(b)) ?? -1;
+  }
+}
+
+/** Caches context DFAs by their expression, across the cases of one rule. */
+class DfaPool {
+  readonly dfas: Dfa[] = [];
+  private readonly index = new Map<string, number>();
+  constructor(private readonly size: number) {}
+  add(key: string, make: () => Dfa): number {
+    let i = this.index.get(key);
+    if (i === undefined) {
+      i = this.dfas.length;
+      this.dfas.push(make());
+      this.index.set(key, i);
+    }
+    return i;
+  }
+  get count(): number { return this.size; }
+}
+
+export interface LowerRuleOptions {
+  /** Build the obligatory version of an optional rule (its preferred variant, prefer applied). */
+  readonly asObligatory?: boolean;
+  /** Boundary-blind (from the rule as written). */
+  readonly blind: boolean;
+  /** Input symbols that can reach this step. */
+  readonly domain: Uint8Array;
+}
+
+/**
+ * Lowers one desugared rule. Contexts per case (DEVELOPERS.md, "Application"):
+ * simultaneous / left-to-right: left Σ*·λ, right τ·ρ·Σ*; right-to-left: left Σ*·λ·τ, right ρ·Σ*.
+ * Insertion sites also need a segment next or the final '#': right ∩ (S·Σ* ∪ {#}).
+ */
+export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions): LoweredRule {
+  const { low, alphabet } = sl;
+  const size = alphabet.size;
+  const any: Rx = { k: "star", body: { k: "set", set: anySet(size) } };
+  const domainBundles: Bundle[] = alphabet.segments.filter((s) => opts.domain[s.id]).map((s) => s.bundle);
+  const n = rule.target.length;
+  const m = rule.change.length;
+  if (n === 0 && m === 0) throw lowerError("compile/empty-rule", `Rule '${rule.name}' has ∅ as both target and change.`, rule.span);
+  if (n > 0 && m > 0 && m !== n) {
+    throw lowerError("compile/change-length", `Rule '${rule.name}': a change of ${m} segments for a target of ${n} is not supported by the compiler; write one change element per target element.`, rule.span);
+  }
+  const rtl = rule.mode === "right-to-left";
+  const lefts = new DfaPool(size);
+  const rights = new DfaPool(size);
+  const segSet = new Uint8Array(size);
+  for (let i = FIRST_SEGMENT; i < size; i++) segSet[i] = 1;
+  const siteRx: Rx = { k: "alt", options: [{ k: "seq", items: [{ k: "set", set: segSet }, any] }, { k: "set", set: symbolSet(size, [WORD]) }] };
+  const siteDfa = n === 0 ? dfaFromRx(siteRx, size) : null;
+
+  const cases: RuleCase[] = [];
+  const envs = rule.environments.length > 0 ? rule.environments : [null];
+  for (const asg of liveAssignments(low, rule, domainBundles)) {
+    const target = rule.target.map((e) => sl.elementSet(e, asg));
+    if (target.some((t) => !t.some((v, i) => v === 1 && opts.domain[i] === 1))) continue;
+    const out: Int32Array[] = rule.target.map((e, j) => {
+      const o = new Int32Array(size).fill(-1);
+      const t = target[j]!;
+      for (let x = 1; x < size; x++) {
+        if (!t[x]) continue;
+        if (m === 0) { o[x] = EPSILON; continue; }
+        const c = rule.change[j]!;
+        if (x === WORD || x === SYLL) {
+          // A boundary target: a feature change leaves it as it is; a literal writes an inserted segment.
+          o[x] = c.kind === "bundle" ? x : sl.idOf(low.inserted(c));
+          continue;
+        }
+        o[x] = sl.idOf(low.applyChange(c, asg, alphabet.segments[x - FIRST_SEGMENT]!.bundle));
+      }
+      return o;
+    });
+    const insert = n === 0 ? rule.change.map((c) => {
+      const id = sl.idOf(low.inserted(c));
+      if (id < 0) throw lowerError("compile/internal", `Rule '${rule.name}': an inserted segment is missing from the alphabet.`, c.span);
+      return id;
+    }) : [];
+    const targetRx: Rx[] = target.map((set) => ({ k: "set", set }));
+    for (const env of envs) {
+      const L = env ? sl.pattern(env.left, asg) : EPS_RX;
+      const R = env ? sl.pattern(env.right, asg) : EPS_RX;
+      if (rxIsEmpty(L) || rxIsEmpty(R)) continue;
+      const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
+      const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };
+      const left = lefts.add(rxKey(leftRx), () => dfaFromRx(leftRx, size));
+      const right = rights.add(rxKey(rightRx), () => {
+        const d = dfaFromRx(rightRx, size);
+        return siteDfa ? dfaProduct(d, siteDfa, "and") : d;
+      });
+      cases.push({ target, out, insert, left, right });
+    }
+  }
+  return {
+    name: rule.name,
+    mode: rule.mode,
+    optional: rule.optional && !opts.asObligatory,
+    blind: opts.blind,
+    n,
+    cases,
+    lefts: lefts.dfas,
+    rights: rights.dfas,
+    size,
+    domain: opts.domain,
+  };
+}

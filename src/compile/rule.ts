@@ -1,0 +1,288 @@
+// One rewrite rule as a transducer, built from the rule's lowered cases (symbol sets per target
+// position, changes per symbol, left/right context recognisers).
+//
+// Method. Following Kaplan & Kay 1994 and Mohri & Sproat 1996, a rule is the regular relation of
+// "annotated alignments": the input is cut into decision chunks — a copied symbol, or a target
+// occurrence rewritten by one case — and the chunks are constrained by context filters:
+//   * a rewrite by case c needs c's left context (Σ*·λ) to end at the chunk and c's right context
+//     (τ·ρ·Σ*) to start there (the marker filters "r/l1" of Mohri & Sproat);
+//   * an obligatory rule forbids a copy chunk where some case's site holds (their "l2" filter,
+//     the complement of λ·<·ρ in Kaplan & Kay).
+// Instead of composing marker transducers, the filters are run together on the fly: the state is
+// (chunk position, one state per left-context DFA, the set of pending right-context checks with
+// their polarity) — a deterministic subset construction of the intersection of the filters with
+// the chunk structure. Left contexts read the input (simultaneous) or the output so far
+// (left-to-right, as Mohri & Sproat's l1/l2 placed after the replacement); right-to-left is the
+// mirror image (left context Σ*·λ·τ on the input at the chunk's end, right context ρ·Σ* on the
+// output after it). Boundary-blind rules project '.' to ε in every context and target check and
+// copy it through without a decision (the paper's "ignore" operation). Each decision token then
+// maps to its input:output pairs, giving an acceptor over pair-symbols that the cascade
+// determinises and minimises (pairs.ts).
+
+import type { ApplicationMode } from "../grammar/ast.js";
+import type { Dfa } from "./context.js";
+import { EPSILON, SYLL, WORD } from "./alphabet.js";
+
+/** One alpha-variable assignment × environment of a rule, over symbol ids. */
+export interface RuleCase {
+  /** Membership per target position (length n; empty for insertion). */
+  readonly target: readonly Uint8Array[];
+  /** Per target position: output id for each input id (EPSILON for deletion, -1 where undefined). */
+  readonly out: readonly Int32Array[];
+  /** Inserted symbols (insertion rules only). */
+  readonly insert: readonly number[];
+  /** Index into `lefts`: Σ*·λ (simultaneous, left-to-right) or Σ*·λ·τ (right-to-left). */
+  readonly left: number;
+  /** Index into `rights`: τ·ρ·Σ* (simultaneous, left-to-right) or ρ·Σ* (right-to-left); insertion sites also need "a segment next, or the final #". */
+  readonly right: number;
+}
+
+export interface LoweredRule {
+  readonly name: string;
+  readonly mode: ApplicationMode;
+  /** False: obligatory (copy forbidden where a site holds). */
+  readonly optional: boolean;
+  readonly blind: boolean;
+  /** Target length (0 = insertion). */
+  readonly n: number;
+  readonly cases: readonly RuleCase[];
+  readonly lefts: readonly Dfa[];
+  readonly rights: readonly Dfa[];
+  /** Alphabet size (symbol ids 0..size-1). */
+  readonly size: number;
+  /** Input symbols the machine accepts (the step's domain). */
+  readonly domain: Uint8Array;
+}
+
+/** A transducer as plain arcs (state 0 is not necessarily the start). Labels: input, output symbol ids, 0 = ε. */
+export interface PairNfa {
+  readonly states: number;
+  readonly start: number;
+  readonly finals: readonly number[];
+  /** Flattened arcs: from, input, output, to. */
+  readonly arcs: Int32Array;
+}
+
+export class RuleTooLargeError extends Error {
+  constructor(readonly rule: string, readonly states: number) {
+    super(`rule '${rule}' grew past ${states} states while being compiled`);
+  }
+}
+
+interface Pending { b: number; q: number; pos: boolean }
+
+/**
+ * Builds the rule's relation as an NFA over input:output pairs (ε-free on neither side in general:
+ * deletions are x:ε, insertions ε:y). Deterministic in the decision tokens; several tokens may
+ * map to the same pairs (a rewrite that changes nothing), which determinising the pair acceptor removes.
+ */
+export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
+  const { size, n, cases, lefts, rights, blind, mode } = r;
+  const obligatory = !r.optional;
+  const rtl = mode === "right-to-left";
+  const leftOnOutput = mode === "left-to-right";
+  const rightOnOutput = rtl;
+  const nl = lefts.length;
+  const domain: number[] = [];
+  for (let x = 1; x < size; x++) if (r.domain[x]) domain.push(x);
+
+  // ---- state store ------------------------------------------------------------------------
+  type State = { s: number; p: Int32Array; v: Pending[] };
+  const keyOf = (st: State): string => {
+    let k = `${st.s}|${st.p.join(",")}|`;
+    for (const e of st.v) k += `${e.b}:${e.q}${e.pos ? "+" : "-"},`;
+    return k;
+  };
+  const states: State[] = [];
+  const index = new Map<string, number>();
+  const intern = (st: State): number => {
+    const k = keyOf(st);
+    let id = index.get(k);
+    if (id === undefined) {
+      id = states.length;
+      if (id >= maxStates) throw new RuleTooLargeError(r.name, maxStates);
+      index.set(k, id);
+      states.push(st);
+    }
+    return id;
+  };
+
+  const project = (sym: number): number => (sym === EPSILON || (blind && sym === SYLL) ? EPSILON : sym);
+
+  /** Advances a working state over one pair; returns false if it died. */
+  const stepPair = (p: Int32Array, v: Pending[], inp: number, outp: number): Pending[] | null => {
+    const l = project(leftOnOutput ? outp : inp);
+    if (l !== EPSILON) for (let i = 0; i < nl; i++) p[i] = lefts[i]!.next[p[i]! * size + l]!;
+    const rs = project(rightOnOutput ? outp : inp);
+    if (rs === EPSILON) return v;
+    const nv: Pending[] = [];
+    for (const e of v) {
+      const d = rights[e.b]!;
+      const q = d.next[e.q * size + rs]!;
+      const sink = d.sink[q]!;
+      if (sink === 1) { if (!e.pos) return null; continue; }
+      if (sink === -1) { if (e.pos) return null; continue; }
+      nv.push({ b: e.b, q, pos: e.pos });
+    }
+    return nv;
+  };
+
+  /** Adds a right-context check starting here; returns false if it fails at once. */
+  const spawn = (v: Pending[], b: number, pos: boolean): boolean => {
+    const d = rights[b]!;
+    const q = d.start;
+    const sink = d.sink[q]!;
+    if (sink === 1) return !pos ? false : true;
+    if (sink === -1) return pos ? false : true;
+    v.push({ b, q, pos });
+    return true;
+  };
+
+  const leftHolds = (p: Int32Array, c: RuleCase): boolean => lefts[c.left]!.accept[p[c.left]!] === 1;
+
+  /** Negative checks for a copy decision: no case's site may hold here. */
+  const forbidSites = (p: Int32Array, v: Pending[]): boolean => {
+    for (const c of cases) if (leftHolds(p, c) && !spawn(v, c.right, false)) return false;
+    return true;
+  };
+
+  const normalise = (v: Pending[]): Pending[] => {
+    const seen = new Map<string, Pending>();
+    for (const e of v) seen.set(`${e.b}:${e.q}:${e.pos ? 1 : 0}`, e);
+    return [...seen.values()].sort((a, b) => a.b - b.b || a.q - b.q || Number(a.pos) - Number(b.pos));
+  };
+
+  // ---- output arcs ----------------------------------------------------------------------
+  const arcs: number[] = [];
+  let extra = 0; // intermediate states for multi-pair tokens, numbered after exploration
+  const chains: { from: number; pairs: number[]; to: number }[] = [];
+  const emit = (from: number, pairs: number[], to: number): void => {
+    if (pairs.length === 2) arcs.push(from, pairs[0]!, pairs[1]!, to);
+    else chains.push({ from, pairs, to });
+  };
+
+  // ---- exploration --------------------------------------------------------------------------
+  const start: State = { s: 0, p: Int32Array.from(lefts.map((d) => d.start)), v: [] };
+  intern(start);
+  const finals: number[] = [];
+
+  for (let id = 0; id < states.length; id++) {
+    const st = states[id]!;
+    if (st.s === 0) {
+      let ok = true;
+      for (const e of st.v) {
+        const acc = rights[e.b]!.accept[e.q] === 1;
+        if (acc !== e.pos) { ok = false; break; }
+      }
+      if (ok) finals.push(id);
+    }
+    const go = (pairs: number[], events: (phase: number, p: Int32Array, v: Pending[]) => boolean): void => {
+      // phase k: before pair k (k = 0..len), events may check lefts and spawn rights.
+      const p = Int32Array.from(st.p);
+      let v: Pending[] = st.v.slice();
+      const len = pairs.length / 2;
+      for (let k = 0; k <= len; k++) {
+        if (!events(k, p, v)) return;
+        if (k === len) break;
+        const nv = stepPair(p, v, pairs[2 * k]!, pairs[2 * k + 1]!);
+        if (nv === null) return;
+        v = nv;
+      }
+      const ns = nextS;
+      emit(id, pairs, intern({ s: ns, p, v: normalise(v) }));
+    };
+    let nextS = 0;
+    const none = (): boolean => true;
+
+    if (st.s === 0) {
+      // Copy decisions (and '.' passed through by boundary-blind rules).
+      for (const x of domain) {
+        nextS = 0;
+        if (blind && x === SYLL) { go([x, x], none); continue; }
+        if (!obligatory) { go([x, x], none); continue; }
+        if (n === 0) {
+          go([x, x], (k, p, v) => (k === 0 ? forbidSites(p, v) : true));
+        } else if (rtl) {
+          go([x, x], (k, p, v) => (k === 1 ? forbidSites(p, v) : true));
+        } else {
+          go([x, x], (k, p, v) => (k === 0 ? forbidSites(p, v) : true));
+        }
+      }
+      // Rewrite decisions.
+      cases.forEach((c) => {
+        if (n === 0) {
+          if (!rtl && !leftHolds(st.p, c)) return;
+          if (rtl && !leftHolds(st.p, c)) return;
+          const ins: number[] = [];
+          for (const y of c.insert) ins.push(EPSILON, y);
+          const m = c.insert.length;
+          for (const x of domain) {
+            if (!(x === WORD || x >= 3)) continue;
+            nextS = 0;
+            go([...ins, x, x], (k, _p, v) => {
+              if (rtl ? k === m : k === 0) return spawn(v, c.right, true);
+              return true;
+            });
+          }
+          return;
+        }
+        if (!rtl && !leftHolds(st.p, c)) return;
+        const t0 = c.target[0]!;
+        const o0 = c.out[0]!;
+        for (const x of domain) {
+          if (!t0[x]) continue;
+          const y = o0[x]!;
+          if (y < 0) continue;
+          nextS = n === 1 ? 0 : 1 + cases.indexOf(c) * n + 1;
+          go([x, y], (k, p, v) => {
+            if (!rtl) return k === 0 ? spawn(v, c.right, true) : true;
+            if (n === 1 && k === 1) return leftHolds(p, c) && spawn(v, c.right, true);
+            return true;
+          });
+        }
+      });
+    } else {
+      const ci = Math.floor((st.s - 1) / n);
+      const j = (st.s - 1) % n;
+      const c = cases[ci]!;
+      if (blind) { nextS = st.s; go([SYLL, SYLL], none); }
+      const tj = c.target[j]!;
+      const oj = c.out[j]!;
+      for (const x of domain) {
+        if (!tj[x] || (blind && x === SYLL)) continue;
+        const y = oj[x]!;
+        if (y < 0) continue;
+        nextS = j + 1 === n ? 0 : st.s + 1;
+        const last = j + 1 === n;
+        go([x, y], (k, p, v) => {
+          if (rtl && last && k === 1) return leftHolds(p, c) && spawn(v, c.right, true);
+          return true;
+        });
+      }
+    }
+  }
+
+  // Multi-pair chains get intermediate states after the explored ones.
+  let next = states.length;
+  for (const ch of chains) {
+    const len = ch.pairs.length / 2;
+    let from = ch.from;
+    for (let k = 0; k < len; k++) {
+      const to = k === len - 1 ? ch.to : next++;
+      arcs.push(from, ch.pairs[2 * k]!, ch.pairs[2 * k + 1]!, to);
+      from = to;
+    }
+  }
+  extra = next - states.length;
+  void extra;
+  return { states: next, start: 0, finals, arcs: Int32Array.from(arcs) };
+}
+
+/** The mirror image of a pair NFA (arcs reversed, start and finals swapped through a fresh start). */
+export function reversePairNfa(m: PairNfa): PairNfa {
+  const arcs: number[] = [];
+  const s0 = m.states;
+  for (let i = 0; i < m.arcs.length; i += 4) arcs.push(m.arcs[i + 3]!, m.arcs[i + 1]!, m.arcs[i + 2]!, m.arcs[i]!);
+  for (const f of m.finals) arcs.push(s0, EPSILON, EPSILON, f);
+  return { states: m.states + 1, start: s0, finals: [m.start], arcs: Int32Array.from(arcs) };
+}

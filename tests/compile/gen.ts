@@ -1,0 +1,96 @@
+// Random small rules and words over the tiny fixture inventory, for the differential tests of the
+// compiler against the reference interpreter (fast-check arbitraries).
+
+import fc from "fast-check";
+import type { ChangeElement, Element, Environment, Pattern, Rule } from "../../src/grammar/ast.js";
+import type { FeatureValue } from "../../src/inventory/types.js";
+import type { Sym } from "../../src/interp/index.js";
+import { SYLLABLE_EDGE, WORD_EDGE } from "../../src/interp/index.js";
+import { SPAN, bun, cls, seg, WB, SB, pat } from "../support/ast.js";
+import { tinyBundle } from "../support/tiny-inventory.js";
+
+const SEGMENTS = ["p", "t", "k", "b", "d", "n", "a", "i"] as const;
+const VOWELS = new Set(["a", "i"]);
+const FEATURES = ["syllabic", "voice", "nasal", "labial", "coronal"] as const;
+
+const sign = fc.constantFrom<"+" | "-">("+", "-");
+
+/** A feature bundle element with 1–2 specs, sometimes an alpha variable (α on a feature, or on the place node). */
+const bundleEl = (vars: boolean): fc.Arbitrary<Element> =>
+  fc.array(
+    fc.oneof(
+      { weight: 4, arbitrary: fc.tuple(sign, fc.constantFrom(...FEATURES)).map(([s, f]) => `${s}${f}`) },
+      { weight: vars ? 1 : 0, arbitrary: fc.tuple(fc.constantFrom("", "-"), fc.constantFrom("voice", "nasal", "place")).map(([s, f]) => `${s}α${f}`) },
+      { weight: 1, arbitrary: fc.constantFrom("+stress", "-stress", "0stress") },
+    ),
+    { minLength: 1, maxLength: 2 },
+  ).map((specs) => bun([...new Set(specs)].join(" ")));
+
+const segEl: fc.Arbitrary<Element> = fc.constantFrom(...SEGMENTS).map(seg);
+
+const element = (vars: boolean, boundaries: boolean): fc.Arbitrary<Element> =>
+  fc.oneof(
+    { weight: 4, arbitrary: bundleEl(vars) },
+    { weight: 2, arbitrary: segEl },
+    { weight: 1, arbitrary: fc.constant(cls("V")) },
+    { weight: boundaries ? 1 : 0, arbitrary: fc.constant(WB) },
+    { weight: boundaries ? 1 : 0, arbitrary: fc.constant(SB) },
+  );
+
+const pattern = (vars: boolean): fc.Arbitrary<Pattern> =>
+  fc.array(
+    fc.oneof(
+      { weight: 5, arbitrary: element(vars, true).map(pat) },
+      { weight: 1, arbitrary: element(false, false).map((e): Pattern => ({ kind: "optional", body: pat(e), span: SPAN })) },
+      { weight: 1, arbitrary: fc.tuple(element(false, true), element(false, true)).map(([a, b]): Pattern => ({ kind: "choice", options: [pat(a), pat(b)], span: SPAN })) },
+      { weight: 1, arbitrary: fc.tuple(element(false, false), fc.constantFrom(0, 1)).map(([e, min]): Pattern => ({ kind: "repeat", body: pat(e), min, max: null, span: SPAN })) },
+    ),
+    { maxLength: 2 },
+  ).map((items): Pattern => ({ kind: "sequence", items, span: SPAN }));
+
+const environment: fc.Arbitrary<Environment> = fc
+  .tuple(pattern(true), pattern(true), fc.subarray(["syllable-initial", "coda", "stressed", "word-final"] as const, { maxLength: 1 }))
+  .map(([left, right, conds]) => ({ left, right, conditions: conds.map((condition) => ({ condition, span: SPAN })), span: SPAN }));
+
+const changeFor = (vars: boolean): fc.Arbitrary<ChangeElement> =>
+  fc.oneof(
+    { weight: 3, arbitrary: fc.tuple(sign, fc.constantFrom("voice", "nasal", "labial", "coronal")).map(([s, f]): ChangeElement => ({ kind: "bundle", specs: bun(`${s}${f}`).kind === "bundle" ? (bun(`${s}${f}`) as Extract<Element, { kind: "bundle" }>).specs : [], span: SPAN })) },
+    { weight: vars ? 1 : 0, arbitrary: fc.constantFrom("αvoice", "-αvoice", "αplace").map((t): ChangeElement => ({ kind: "bundle", specs: (bun(t) as Extract<Element, { kind: "bundle" }>).specs, span: SPAN })) },
+    { weight: 1, arbitrary: fc.constantFrom("t", "d", "n").map((s): ChangeElement => ({ kind: "segment", symbol: s, span: SPAN })) },
+  );
+
+/** A random rule: feature change, literal change, deletion or insertion; 0–2 environments; any mode. */
+export const ruleArb: fc.Arbitrary<Rule> = fc
+  .record({
+    kind: fc.constantFrom("change", "change", "change", "delete", "insert"),
+    n: fc.constantFrom(1, 1, 1, 2),
+    targetEls: fc.array(element(true, false), { minLength: 2, maxLength: 2 }),
+    changes: fc.array(changeFor(true), { minLength: 2, maxLength: 2 }),
+    insertSeg: fc.constantFrom("t", "a", "n"),
+    envs: fc.array(environment, { maxLength: 2 }),
+    optional: fc.boolean(),
+    mode: fc.constantFrom("simultaneous", "left-to-right", "right-to-left") as fc.Arbitrary<Rule["mode"]>,
+    prefer: fc.constantFrom("applied", "unapplied") as fc.Arbitrary<Rule["prefer"]>,
+  })
+  .map((r): Rule => {
+    const target = r.kind === "insert" ? [] : r.targetEls.slice(0, r.n);
+    const change = r.kind === "insert" ? [{ kind: "segment", symbol: r.insertSeg, span: SPAN } as ChangeElement] : r.kind === "delete" ? [] : r.changes.slice(0, r.n);
+    return {
+      kind: "rule", name: "random", span: SPAN, optional: r.optional, mode: r.mode, prefer: r.prefer,
+      target, change, environments: r.envs,
+    };
+  });
+
+const segSym = (s: string, stress: FeatureValue, primary: FeatureValue): Sym => ({ kind: "segment", bundle: tinyBundle(s, stress, primary) });
+
+/** A random word: 0–7 segments with '.' between some, bracketed by '#', sometimes two words. */
+export const wordArb: fc.Arbitrary<Sym[]> = fc
+  .array(
+    fc.oneof(
+      { weight: 18, arbitrary: fc.tuple(fc.constantFrom(...SEGMENTS), fc.constantFrom<[FeatureValue, FeatureValue]>(["+", "+"], ["+", "-"], ["-", "-"], ["0", "0"])).map(([s, [a, b]]) => (VOWELS.has(s) ? segSym(s, a, b) : segSym(s, "0", "0"))) },
+      { weight: 3, arbitrary: fc.constant(SYLLABLE_EDGE) },
+      { weight: 1, arbitrary: fc.constant(WORD_EDGE) },
+    ),
+    { maxLength: 7 },
+  )
+  .map((body) => [WORD_EDGE, ...body, WORD_EDGE]);
