@@ -1,7 +1,8 @@
 // Prosodic shorthands (`where …`) → ordinary SPE contexts, and the boundary-blindness test.
 // The result is what the interpreter and the compiler both read, so it is their shared meaning.
 
-import type { Element, Environment, FeatureSpec, Pattern, ProsodicCondition, Rule, Span } from "./ast.js";
+import { bundleOf, PROSODIC_FEATURES, type Inventory } from "../inventory/index.js";
+import type { ClassDef, Element, Environment, FeatureSpec, Pattern, ProsodicCondition, Rule, Span } from "./ast.js";
 
 /*
  * Each condition constrains one side of the target, inside the target's syllable (C is a
@@ -12,18 +13,27 @@ import type { Element, Environment, FeatureSpec, Pattern, ProsodicCondition, Rul
  *   coda              left  V C₀          onset           right C₀ V
  *   stressed / unstressed / primary: the nucleus of the target's syllable is V[+stress] /
  *     V[-stress] / V[+primary], either to the right (C₀ V[…]) or to the left (V[…] C₀):
- *     the environment splits in two.
- *   nucleus: no context; the checker requires the target to be [+syllabic].
+ *     the environment splits in two. (When the target itself can be a nucleus the checker
+ *     asks for the stress feature in the target instead, so no third case is needed.)
+ *   nucleus: no context; the checker requires every target segment to be [+syllabic].
  *
- * Conditions on one side conjoin exactly: two edges give the stronger edge (# also satisfies $);
- * two nucleus constraints name the same nucleus, so their features merge (a clash: never);
- * an edge and a nucleus on one side contradict (never). A syllable has one nucleus, so a nucleus
- * constraint on both sides also contradicts. The conjoined material sits next to the target; the
- * written context continues beyond it: `L _ R where syllable-initial` is `L $ _ R`, and
- * `_ R where onset` is `_ C₀ V R` (the checker warns when a written context meets nucleus material).
- * An environment whose every variant contradicts becomes one that never holds
- * (the contradictory bundle [+syllabic -syllabic]); it is not dropped, because an empty
- * environment list means "everywhere".
+ * Conditions on one side conjoin: two edges give the stronger edge (# also satisfies $); two
+ * nucleus constraints name the same nucleus, so their features merge (a clash: never); an edge
+ * and a nucleus on one side contradict. A syllable has one nucleus, so nucleus material on both
+ * sides contradicts too.
+ *
+ * The side's material then conjoins *exactly* with the written context (DEVELOPERS.md: "both
+ * must match"): the left side must end with a string of L and also with a string of M, which is
+ * the product of L with M's two-state automaton, read outward from the target (Brzozowski-style
+ * unrolling of L; an unbounded repetition in the consonant-reading state is solved with Arden's
+ * lemma, X = A·X ∪ B ⇒ X = A*·B). Elements are intersected: bundles merge their specs; a literal
+ * segment or a class is checked against the inventory (a segment that must carry stress becomes
+ * the bundle of all its features plus the stress value). So `C ə _ where coda` is `C ə _` with ə
+ * as the nucleus, and `V _ where syllable-initial` never holds (V is not a boundary).
+ * Without a DesugarContext, segments and classes are assumed compatible (kept as written).
+ * An environment whose every variant contradicts becomes one that never holds (the
+ * contradictory bundle [+syllabic -syllabic]); it is not dropped, because an empty environment
+ * list means "everywhere".
  */
 
 type Side =
@@ -70,24 +80,243 @@ const consonants = (span: Span): Pattern => ({
 const nucleus = (specs: readonly FeatureSpec[], span: Span): Pattern =>
   el({ kind: "bundle", specs: [value("syllabic", "+", span), ...specs.filter((s) => !(s.kind === "value" && s.feature === "syllabic"))], span });
 
-const itemsOf = (p: Pattern): readonly Pattern[] => (p.kind === "sequence" ? p.items : [p]);
 
-/** Left side: written context, then the condition's material next to the target. */
-function leftPattern(written: Pattern, side: Side, span: Span): Pattern {
-  const items = [...itemsOf(written)];
-  if (side.kind === "edge") items.push(el({ kind: "boundary", which: side.which, span: side.span }));
-  else if (side.kind === "nucleus") items.push(nucleus(side.specs, side.span), consonants(side.span));
-  return { kind: "sequence", items, span: written.kind === "sequence" ? written.span : span };
+/** What desugaring needs to intersect literal segments and classes with condition material. */
+export interface DesugarContext {
+  readonly inventory: Inventory;
+  readonly classes: readonly ClassDef[];
 }
 
-/** Right side: the condition's material next to the target, then the written context. */
-function rightPattern(written: Pattern, side: Side, span: Span): Pattern {
-  const items: Pattern[] = [];
-  if (side.kind === "edge") items.push(el({ kind: "boundary", which: side.which, span: side.span }));
-  else if (side.kind === "nucleus") items.push(consonants(side.span), nucleus(side.specs, side.span));
-  items.push(...itemsOf(written));
-  return { kind: "sequence", items, span: written.kind === "sequence" ? written.span : span };
+/** A pattern or ⊥ (matches nothing). */
+type P = Pattern | null;
+/** Stands for "the rest of an unbounded repetition and what follows" while solving Arden's loop. */
+type Mark = { readonly kind: "mark"; readonly items: readonly Pattern[] };
+type Item = Pattern | Mark;
+
+/** Budget of product steps per side; beyond it the material is simply placed next to the target. */
+const BUDGET = 4_000;
+
+class Product {
+  steps = 0;
+  constructor(
+    readonly side: Exclude<Side, { kind: "none" } | { kind: "never" }>,
+    readonly ctx: DesugarContext | undefined,
+    readonly span: Span,
+  ) {}
+
+  /** M's remaining material in reading order (outward from the target), from its start state. */
+  material(): Pattern[] {
+    return this.side.kind === "edge"
+      ? [el({ kind: "boundary", which: this.side.which, span: this.side.span })]
+      : [consonants(this.side.span), nucleus(this.side.specs, this.side.span)];
+  }
+
+  /**
+   * Strings x (read outward) such that some prefix of x is in `items` and x is accepted by M
+   * from its start state (or anything, once `accepted`). Reading order; null = ⊥.
+   */
+  run(items: readonly Item[], accepted: boolean): P {
+    if (++this.steps > BUDGET) throw new Budget();
+    if (accepted) return seq(expand(items), this.span);
+    if (items.length === 0) return seq(this.material(), this.span);
+    const [first, ...rest] = items as [Item, ...Item[]];
+    switch (first.kind) {
+      case "mark":
+        return null; // the loop's own continuation: accounted for by Arden's solution
+      case "element": {
+        const alts: P[] = [];
+        const e = first.element;
+        if (this.side.kind === "edge") {
+          const x = intersect(e, { kind: "boundary", which: this.side.which, span: this.side.span }, this.ctx);
+          if (x !== null) alts.push(seq([x, ...expand(rest)], this.span));
+        } else {
+          const v = intersect(e, { kind: "bundle", specs: nucleusSpecs(this.side.specs, this.side.span), span: e.span }, this.ctx);
+          if (v !== null) alts.push(seq([v, ...expand(rest)], this.span));
+          const c = intersect(e, { kind: "bundle", specs: [value("syllabic", "-", e.span)], span: e.span }, this.ctx);
+          if (c !== null) {
+            const after = this.run(rest, false);
+            if (after !== null) alts.push(seq([c, after], this.span));
+          }
+        }
+        return choice(alts, this.span);
+      }
+      case "sequence":
+        return this.run([...first.items, ...rest], false);
+      case "optional":
+        return choice([this.run(rest, false), this.run([first.body, ...rest], false)], this.span);
+      case "choice":
+        return choice(first.options.map((o) => this.run([o, ...rest], false)), this.span);
+      case "repeat": {
+        const { body, min, max } = first;
+        if (max !== null) {
+          if (max <= 0) return this.run(rest, false);
+          const again: Pattern = { ...first, min: Math.max(0, min - 1), max: max - 1 };
+          const once = this.run([body, again, ...rest], false);
+          return min >= 1 ? once : choice([this.run(rest, false), once], this.span);
+        }
+        if (min >= 1) return this.run([body, { ...first, min: min - 1 }, ...rest], false);
+        if (this.side.kind === "edge") {
+          // The first symbol read decides (edge or ⊥), so the loop never comes back to this state.
+          return choice([this.run(rest, false), this.run([body, first, ...rest], false)], this.span);
+        }
+        // Nucleus material, consonant-reading state: G = (body∧C)* · (F(rest) ∪ paths that reach
+        // the nucleus inside one iteration of body), by Arden's lemma.
+        const mark: Mark = { kind: "mark", items: [first, ...patternsOf(rest)] };
+        const exits = choice([this.run(rest, false), this.run([body, mark], false)], this.span);
+        if (exits === null) return null;
+        const loop = allConsonants(body, this.ctx, this.span);
+        if (loop === null) return exits;
+        return seq([{ kind: "repeat", body: loop, min: 0, max: null, span: first.span }, exits], this.span);
+      }
+    }
+  }
 }
+
+class Budget {}
+
+const patternsOf = (items: readonly Item[]): Pattern[] => items.flatMap((i) => (i.kind === "mark" ? [...i.items] : [i]));
+const expand = patternsOf;
+
+function seq(items: readonly Pattern[], span: Span): Pattern {
+  const flat = items.flatMap((i) => (i.kind === "sequence" ? i.items : [i]));
+  return flat.length === 1 ? flat[0]! : { kind: "sequence", items: flat, span };
+}
+
+function choice(alts: readonly P[], span: Span): P {
+  const ok = alts.filter((a): a is Pattern => a !== null);
+  if (ok.length === 0) return null;
+  if (ok.length === 1) return ok[0]!;
+  return { kind: "choice", options: ok.flatMap((o) => (o.kind === "choice" ? o.options : [o])), span };
+}
+
+const nucleusSpecs = (specs: readonly FeatureSpec[], span: Span): FeatureSpec[] => [
+  value("syllabic", "+", span),
+  ...specs.filter((s) => !(s.kind === "value" && s.feature === "syllabic")),
+];
+
+/** The body with every element intersected with C ([-syllabic]); ⊥ when some path cannot be. */
+function allConsonants(p: Pattern, ctx: DesugarContext | undefined, span: Span): P {
+  switch (p.kind) {
+    case "element":
+      return intersect(p.element, { kind: "bundle", specs: [value("syllabic", "-", p.element.span)], span: p.element.span }, ctx);
+    case "sequence": {
+      const items: Pattern[] = [];
+      for (const i of p.items) {
+        const x = allConsonants(i, ctx, span);
+        if (x === null) return null;
+        items.push(x);
+      }
+      return { ...p, items };
+    }
+    case "optional": {
+      const b = allConsonants(p.body, ctx, span);
+      return b === null ? { kind: "sequence", items: [], span: p.span } : { ...p, body: b };
+    }
+    case "choice":
+      return choice(p.options.map((o) => allConsonants(o, ctx, span)), p.span);
+    case "repeat": {
+      const b = allConsonants(p.body, ctx, span);
+      if (b === null) return p.min === 0 ? { kind: "sequence", items: [], span: p.span } : null;
+      return { ...p, body: b };
+    }
+  }
+}
+
+type Requirement = { kind: "boundary"; which: "word" | "syllable"; span: Span } | { kind: "bundle"; specs: readonly FeatureSpec[]; span: Span };
+
+/**
+ * e ∧ r for one symbol. Boundaries: # ∧ $ = # ($ also matches #). Bundles merge (a value clash
+ * is ⊥). A literal segment is kept when it satisfies r's non-prosodic values, ⊥ when it does not;
+ * when r names a prosodic feature it becomes the bundle of every non-prosodic feature of the
+ * segment plus r. A class is the choice of its members, each intersected.
+ */
+function intersect(e: Element, r: Requirement, ctx: DesugarContext | undefined, depth = 0): P {
+  if (r.kind === "boundary") {
+    if (e.kind !== "boundary") return null;
+    return el({ kind: "boundary", which: e.which === "word" || r.which === "word" ? "word" : "syllable", span: e.span });
+  }
+  switch (e.kind) {
+    case "boundary":
+      return null;
+    case "bundle": {
+      const specs = [...e.specs];
+      for (const s of r.specs) {
+        if (s.kind !== "value") continue;
+        if (specs.some((t) => t.kind === "value" && t.feature === s.feature && t.value !== s.value)) return null;
+        if (!specs.some((t) => t.kind === "value" && t.feature === s.feature)) specs.push({ ...s, span: e.span });
+      }
+      return el({ kind: "bundle", specs, span: e.span });
+    }
+    case "segment": {
+      if (ctx === undefined) return el(e);
+      const b = bundleOf(ctx.inventory, e.symbol);
+      if (b === undefined) return el(e);
+      const prosodic = new Set<string>(PROSODIC_FEATURES);
+      let needsProsody = false;
+      for (const s of r.specs) {
+        if (s.kind !== "value") continue;
+        if (prosodic.has(s.feature)) {
+          needsProsody = true;
+          continue;
+        }
+        const i = ctx.inventory.featureIndex.get(s.feature);
+        if (i !== undefined && b[i] !== s.value) return null;
+      }
+      if (!needsProsody) return el(e);
+      const nBase = ctx.inventory.features.length - PROSODIC_FEATURES.length;
+      const specs: FeatureSpec[] = [];
+      for (let i = 0; i < nBase; i++) specs.push({ kind: "value", feature: ctx.inventory.features[i]!, value: b[i]!, span: e.span });
+      for (const s of r.specs) if (s.kind === "value" && prosodic.has(s.feature)) specs.push({ ...s, span: e.span });
+      return el({ kind: "bundle", specs, span: e.span });
+    }
+    case "class": {
+      if (ctx === undefined || depth > 20) return el(e);
+      const def = ctx.classes.find((c) => c.name === e.name);
+      if (def === undefined) return el(e);
+      return choice(def.members.map((m) => intersect(m, r, ctx, depth + 1)), e.span);
+    }
+  }
+}
+
+/** A pattern read in the other direction (sequences reversed, recursively). */
+function reverse(p: Pattern): Pattern {
+  switch (p.kind) {
+    case "element":
+      return p;
+    case "sequence":
+      return { ...p, items: [...p.items].reverse().map(reverse) };
+    case "optional":
+    case "repeat":
+      return { ...p, body: reverse(p.body) };
+    case "choice":
+      return { ...p, options: p.options.map(reverse) };
+  }
+}
+
+/**
+ * One side of a desugared environment: the written context conjoined with the side's material.
+ * `outward` reverses the left side so both are read from the target outward. Null = never holds.
+ */
+function conjoinSide(written: Pattern, side: Side, ctx: DesugarContext | undefined, left: boolean): P {
+  const span = written.kind === "sequence" ? written.span : patternSpanOf(written);
+  const wrap = (p: Pattern): Pattern => (p.kind === "sequence" ? { ...p, span } : { kind: "sequence", items: [p], span });
+  if (side.kind === "none") return wrap(written);
+  if (side.kind === "never") return null;
+  const outward = left ? reverse(written) : written;
+  const product = new Product(side, ctx, span);
+  let result: P;
+  try {
+    result = product.run([outward], false);
+  } catch (e) {
+    if (!(e instanceof Budget)) throw e;
+    // Pathological nesting: fall back to placing the material next to the target.
+    result = seq([...product.material(), outward], span);
+  }
+  if (result === null) return null;
+  return wrap(left ? reverse(result) : result);
+}
+
+const patternSpanOf = (p: Pattern): Span => (p.kind === "element" ? p.element.span : p.span);
 
 /** The variants (left constraint, right constraint) an environment's conditions allow. */
 function sides(env: Environment): { left: Side; right: Side }[] {
@@ -156,7 +385,7 @@ export function conditionsSatisfiable(env: Environment): boolean {
  * The result has no conditions and records `boundaryBlind` as computed on the rule as written.
  * Idempotent: desugaring a desugared rule returns an equal rule.
  */
-export function desugar(rule: Rule): Rule {
+export function desugar(rule: Rule, ctx?: DesugarContext): Rule {
   const boundaryBlind = isBoundaryBlind(rule);
   const environments: Environment[] = [];
   for (const env of rule.environments) {
@@ -164,15 +393,15 @@ export function desugar(rule: Rule): Rule {
       environments.push(env);
       continue;
     }
-    const vs = sides(env);
-    if (vs.length === 0) environments.push(neverEnvironment(env));
-    for (const v of vs)
-      environments.push({
-        left: leftPattern(env.left, v.left, env.span),
-        right: rightPattern(env.right, v.right, env.span),
-        conditions: [],
-        span: env.span,
-      });
+    let any = false;
+    for (const v of sides(env)) {
+      const left = conjoinSide(env.left, v.left, ctx, true);
+      const right = conjoinSide(env.right, v.right, ctx, false);
+      if (left === null || right === null) continue;
+      environments.push({ left, right, conditions: [], span: env.span });
+      any = true;
+    }
+    if (!any) environments.push(neverEnvironment(env));
   }
   return { ...rule, environments, boundaryBlind };
 }
