@@ -1,0 +1,173 @@
+// Tests of the ARPAbet import: the shipped mapping table, line formats, alternates, comments,
+// rejects with positions, and the whole CMU Pronouncing Dictionary read through the en-us inventory.
+
+import { fileURLToPath } from "node:url";
+import { describe, expect, it } from "vitest";
+import { dictionary } from "cmu-pronouncing-dictionary";
+import { loadInventory, tokenise } from "../../src/inventory/index.js";
+import type { Inventory } from "../../src/inventory/types.js";
+import { convertArpabet, importArpabet, importArpabetDictionary, loadArpabetTable, parseArpabetTable } from "../../src/lexicon/arpabet.js";
+import type { ArpabetTable } from "../../src/lexicon/arpabet.js";
+import { applyStress } from "../../src/lexicon/read.js";
+
+const loadedTable = loadArpabetTable();
+if (loadedTable.table === undefined) throw new Error(loadedTable.diagnostics.map((d) => d.message).join("; "));
+const table: ArpabetTable = loadedTable.table;
+const SEGMENTS = fileURLToPath(new URL("../../lexicons/en-us/segments.csv", import.meta.url));
+const loadedInv = loadInventory(SEGMENTS);
+if (loadedInv.inventory === undefined) throw new Error(loadedInv.diagnostics.map((d) => d.message).join("; "));
+const inv: Inventory = loadedInv.inventory;
+
+const ipa = (phones: string): string => {
+  const r = convertArpabet(phones, table);
+  if (!r.ok) throw new Error(r.reason);
+  return r.pron;
+};
+
+describe("the shipped mapping table (lexicons/en-us/arpabet.csv)", () => {
+  it("covers the CMU dictionary's 39 phonemes: 15 vowels with stress, 24 consonants", () => {
+    // CMU Pronouncing Dictionary, documented phoneme set (from memory): 39 phonemes, vowels carry stress 0/1/2
+    const vowels = [...table.phones.values()].filter((p) => p.vowel).map((p) => p.arpabet).sort();
+    const consonants = [...table.phones.values()].filter((p) => !p.vowel).map((p) => p.arpabet).sort();
+    expect(vowels).toEqual(["AA", "AE", "AH", "AO", "AW", "AY", "EH", "ER", "EY", "IH", "IY", "OW", "OY", "UH", "UW"]);
+    expect(consonants).toEqual(["B", "CH", "D", "DH", "F", "G", "HH", "JH", "K", "L", "M", "N", "NG", "P", "R", "S", "SH", "T", "TH", "V", "W", "Y", "Z", "ZH"]);
+  });
+
+  it("maps stressed and unstressed AH and ER to different vowels", () => {
+    // Common practice, no source: General American broad transcription writes unstressed AH as ə and
+    // stressed AH as ʌ, unstressed ER as ɚ and stressed ER as ɝ
+    expect(ipa("AH0")).toBe("ə");
+    expect(ipa("AH1")).toBe("ˈʌ");
+    expect(ipa("AH2")).toBe("ˌʌ");
+    expect(ipa("ER0")).toBe("ɚ");
+    expect(ipa("ER1")).toBe("ˈɝ");
+    expect(ipa("ER2")).toBe("ˌɝ");
+  });
+
+  it("converts the CMU example words to their usual General American IPA", () => {
+    // CMU Pronouncing Dictionary phoneme table example words (from memory); IPA: common practice, no source
+    const cases: Array<[string, string]> = [
+      ["AA1 D", "ˈɑ d"], // odd
+      ["HH AH1 T", "h ˈʌ t"], // hut
+      ["K AW1", "k ˈaʊ"], // cow
+      ["CH IY1 Z", "tʃ ˈi z"], // cheese
+      ["DH IY1", "ð ˈi"], // thee
+      ["G R IY1 N", "ɡ ɹ ˈi n"], // green
+      ["JH IY1", "dʒ ˈi"], // gee
+      ["P IH1 NG", "p ˈɪ ŋ"], // ping
+      ["T OY1", "t ˈɔɪ"], // toy
+      ["TH EY1 T AH0", "θ ˈeɪ t ə"], // theta
+      ["Y IY1 L D", "j ˈi l d"], // yield
+      ["S IY1 ZH ER0", "s ˈi ʒ ɚ"], // seizure
+    ];
+    for (const [arpa, want] of cases) expect(ipa(arpa)).toBe(want);
+  });
+
+  it("spells every IPA value as a segment of the en-us inventory", () => {
+    for (const p of table.phones.values()) {
+      for (const v of Object.values(p.ipa)) {
+        const t = tokenise(inv, v);
+        expect(t.ok && t.tokens.length === 1 && t.tokens[0]!.kind === "segment", `${p.arpabet} → ${v}`).toBe(true);
+      }
+    }
+  });
+});
+
+describe("importArpabet: line formats", () => {
+  it("reads WORD  PHONES lines, (2) alternates, ;;; comments, trailing # comments and blank lines", () => {
+    const src = [
+      ";;; demo dictionary, invented words",
+      "QUELLMARSH  K W EH1 L M AA2 R SH",
+      "TARROWBY  T AE1 R OW0 B IY0",
+      "TARROWBY(2)  T EH1 R OW0 B IY0",
+      "",
+      "FENWOLD F EH1 N W OW0 L D # place, invented",
+    ];
+    const r = importArpabet(src, table, { file: "demo.dict" });
+    expect(r.rejects).toEqual([]);
+    expect(r.rows).toEqual([
+      { word: "QUELLMARSH", pron: "k w ˈɛ l m ˌɑ ɹ ʃ", line: 2, variant: 1 },
+      { word: "TARROWBY", pron: "t ˈæ ɹ oʊ b i", line: 3, variant: 1 },
+      { word: "TARROWBY", pron: "t ˈɛ ɹ oʊ b i", line: 4, variant: 2 },
+      { word: "FENWOLD", pron: "f ˈɛ n w oʊ l d", line: 6, variant: 1, note: "place, invented" },
+    ]);
+    expect({ lines: r.lines, comments: r.comments, blanks: r.blanks }).toEqual({ lines: 6, comments: 1, blanks: 1 });
+  });
+
+  it("reads a JSON object written one entry a line", () => {
+    const src = ["{", '  "holm": "HH OW1 M",', '  "holm(2)": "HH OW1 L M"', "}"];
+    const r = importArpabet(src, table, { file: "demo.json" });
+    expect(r.rows.map((x) => [x.word, x.pron, x.variant, x.line])).toEqual([
+      ["holm", "h ˈoʊ m", 1, 2],
+      ["holm", "h ˈoʊ l m", 2, 3],
+    ]);
+  });
+
+  it("imports an entry without any stress digits unmarked", () => {
+    expect(ipa("K AH T")).toBe("k ʌ t");
+  });
+
+  it("rejects bad entries with their line and column and goes on", () => {
+    const src = [
+      "ZORBY  Z AO1 R B QX0",
+      "KELL  K1 EH1 L",
+      "BRINDLE  B R IH1 N D AH L",
+      "LONELY",
+      '  "holm": "HH OW7 M",',
+      "FENWOLD  F EH1 N W OW0 L D",
+    ];
+    const r = importArpabet(src, table, { file: "bad.dict" });
+    expect(r.rejects.map((x) => [x.line, x.column, x.code])).toEqual([
+      [1, 18, "arpabet/unknown-phone"],
+      [2, 7, "arpabet/stress-on-consonant"],
+      [3, 22, "arpabet/missing-stress"],
+      [4, 1, "arpabet/no-phones"],
+      [5, 15, "arpabet/bad-stress"],
+    ]);
+    expect(r.rejects[0]!.reason).toContain("QX0");
+    expect(r.rows.map((x) => x.word)).toEqual(["FENWOLD"]);
+  });
+});
+
+describe("parseArpabetTable: errors in a mapping table", () => {
+  it("reports a vowel without all three stress levels, a bad stress value and a duplicate", () => {
+    const text = "arpabet,stress,ipa\nAH,0,ə\nAH,1,ʌ\nK,x,k\nT,-,t\nT,-,t\n";
+    const r = parseArpabetTable(text, "bad.csv");
+    expect(r.table).toBeUndefined();
+    expect(r.diagnostics.map((d) => [d.line, d.code])).toEqual([
+      [4, "arpabet/bad-stress"],
+      [6, "arpabet/duplicate"],
+      [2, "arpabet/incomplete"],
+    ]);
+  });
+});
+
+describe("the CMU Pronouncing Dictionary (npm cmu-pronouncing-dictionary, ISC)", () => {
+  it("imports every entry and the en-us inventory reads every pronunciation", () => {
+    const r = importArpabetDictionary(dictionary, table, { file: "cmu-pronouncing-dictionary" });
+    // Every entry is read: no rejects at import, and none when the reader's tokeniser and stress
+    // placement read the IPA we wrote.
+    expect(r.rejects).toEqual([]);
+    expect(r.rows.length).toBe(Object.keys(dictionary).length);
+    const problems: string[] = [];
+    let marked = 0;
+    for (const row of r.rows) {
+      const t = tokenise(inv, row.pron, { file: "cmu", line: row.line, column: 1 });
+      if (!t.ok) {
+        problems.push(`${row.word}: ${t.error.message}`);
+        continue;
+      }
+      const s = applyStress(inv, t.tokens);
+      if (!s.ok) problems.push(`${row.word}: ${s.reason}`);
+      else if (s.marked) marked++;
+    }
+    expect(problems).toEqual([]);
+    // Every CMU entry has at least one vowel with a stress digit; only those with a 1 or 2 get a mark.
+    expect(marked).toBeGreaterThan(r.rows.length * 0.99);
+    // Alternates (word(2), word(3), …) become rows of the same word
+    const variants = r.rows.filter((x) => x.variant > 1).length;
+    expect(variants).toBe(Object.keys(dictionary).filter((w) => /\(\d+\)$/.test(w)).length);
+    // The 22 entries with a trailing "# …" comment keep it as a note (e.g. "aalborg  … # place, danish")
+    expect(r.rows.filter((x) => x.note !== undefined).length).toBe(Object.values(dictionary).filter((p) => p.includes("#")).length);
+  });
+});
