@@ -1,0 +1,130 @@
+// Property tests of the interpreter on random grammars and words: it never fails on valid input,
+// and the algebraic facts the semantics imply hold (transparency, mirror image, optionality).
+
+import { describe, expect, it } from "vitest";
+import fc from "fast-check";
+import type { Element, Environment, Pattern, ProsodicCondition, Rule } from "../../src/grammar/ast.js";
+import { applyGrammar, applyRule, applyRuleDetailed, isBoundaryBlind, syllabify, wordKey } from "../../src/interp/index.js";
+import type { RuleContext, Sym } from "../../src/interp/index.js";
+import { ARB_CLASSES, ARB_NODES, arbGrammar, arbWord } from "../support/arb-grammar.js";
+import { tinyInventory as inv } from "../support/tiny-inventory.js";
+import { SPAN, bun, clusters, env } from "../support/ast.js";
+import { resolveClusters } from "../../src/interp/index.js";
+
+const classes = new Map(ARB_CLASSES.map((c) => [c.name, c] as const));
+const nodes = new Map(ARB_NODES.map((n) => [n.name, n] as const));
+const ctxFor = (r: Rule, conditions: "desugared" | "direct" = "desugared"): RuleContext => ({ inv, classes, nodes, boundaryBlind: isBoundaryBlind(r), conditions });
+const rules = arbGrammar({ maxRules: 1, prosody: false }).map((g) => g.grammar.steps[0] as Rule);
+const isDot = (s: Sym): boolean => s.kind === "boundary" && s.which === "syllable";
+const undotted = (w: readonly Sym[]): string => wordKey(w.filter((s) => !isDot(s)));
+
+describe("the interpreter on random grammars", () => {
+  it("runs every generated grammar without diagnostics; the preferred output is one of the outputs", () => {
+    fc.assert(
+      fc.property(arbGrammar(), arbWord(inv), ({ grammar }, w) => {
+        const r = applyGrammar(grammar, inv, w, { maxVariants: 8 });
+        expect(r.diagnostics).toEqual([]);
+        expect(r.outputs.length).toBeGreaterThan(0);
+        expect(r.outputs.length).toBeLessThanOrEqual(8);
+        expect(r.outputs.map(wordKey)).toContain(wordKey(r.preferred));
+        expect(r.trace.map((t) => t.step)).toEqual(grammar.steps.map((s) => s.name));
+        for (const o of r.outputs) {
+          expect(o[0]).toEqual({ kind: "boundary", which: "word" });
+          expect(o[o.length - 1]).toEqual({ kind: "boundary", which: "word" });
+        }
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it("boundary-blind rules ignore '.': removing the dots before or after gives the same words", () => {
+    fc.assert(
+      fc.property(rules.filter((r) => isBoundaryBlind(r)), arbWord(inv, { dots: true }), (r, w) => {
+        const withDots = applyRule(r, ctxFor(r), w).map(undotted).sort();
+        const without = applyRule(r, ctxFor(r), w.filter((s) => !isDot(s))).map(undotted).sort();
+        expect([...new Set(withDots)]).toEqual([...new Set(without)]);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it("right-to-left is the mirror image of left-to-right (rules with a target)", () => {
+    fc.assert(
+      fc.property(rules.filter((r) => r.target.length > 0), arbWord(inv, { dots: true }), (r0, w) => {
+        const r2l: Rule = { ...r0, mode: "right-to-left" };
+        const l2r = mirrorRule({ ...r0, mode: "left-to-right" });
+        const direct = applyRule(r2l, ctxFor(r2l), w).map(wordKey).sort();
+        const mirrored = applyRule(l2r, ctxFor(l2r), [...w].reverse()).map((o) => wordKey([...o].reverse())).sort();
+        expect(direct).toEqual(mirrored);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it("an optional rule has every output of its obligatory form; its preferred variants are the obligatory output and the input", () => {
+    fc.assert(
+      fc.property(rules, arbWord(inv, { dots: true }), (r0, w) => {
+        const obligatory: Rule = { ...r0, optional: false, prefer: "applied" };
+        const applied: Rule = { ...r0, optional: true, prefer: "applied" };
+        const unapplied: Rule = { ...r0, optional: true, prefer: "unapplied" };
+        const ob = applyRuleDetailed(obligatory, ctxFor(obligatory), w);
+        const opt = applyRuleDetailed(applied, ctxFor(applied), w);
+        const optKeys = new Set(opt.outputs.map(wordKey));
+        for (const o of ob.outputs) expect(optKeys.has(wordKey(o))).toBe(true);
+        expect(wordKey(opt.preferred)).toBe(wordKey(ob.preferred));
+        expect(wordKey(applyRuleDetailed(unapplied, ctxFor(unapplied), w).preferred)).toBe(wordKey(w));
+        expect(optKeys.has(wordKey(w))).toBe(true);
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it("the front end's desugaring agrees with the conditions read one by one (DEVELOPERS.md table), on syllabified words, consonant targets and unwritten sides", () => {
+    const on = resolveClusters(clusters("p t k b d n pn tn kn"), inv).list;
+    const co = resolveClusters(clusters("p t k n nt"), inv).list;
+    const conds: ProsodicCondition[] = ["onset", "coda", "syllable-initial", "syllable-final", "word-initial", "word-final", "stressed", "unstressed", "primary"];
+    const arbRule = fc.record({
+      target: fc.constantFrom("-syllabic", "-syllabic +voice", "-syllabic -nasal", "-syllabic +coronal"),
+      conditions: fc.uniqueArray(fc.constantFrom(...conds), { minLength: 1, maxLength: 2 }),
+      mode: fc.constantFrom("simultaneous", "left-to-right", "right-to-left" as const),
+    }).map(({ target, conditions, mode }): Rule => ({
+      kind: "rule", name: "r", span: SPAN, optional: false, mode: mode as Rule["mode"], prefer: "applied",
+      target: [bun(target)], change: [{ kind: "bundle", specs: [{ kind: "value", feature: "nasal", value: "+", span: SPAN }], span: SPAN }],
+      environments: [env([], [], conditions)],
+    }));
+    fc.assert(
+      fc.property(arbRule, arbWord(inv, { maxLength: 7 }), (r, w0) => {
+        // One syllable has one nucleus, so a pair of conditions placing nuclei on both sides reads alike only on real syllables.
+        const w = syllabify(w0, on, co, inv).word;
+        const a = applyRule(r, ctxFor(r, "desugared"), w).map(wordKey);
+        const b = applyRule(r, ctxFor(r, "direct"), w).map(wordKey);
+        expect(a).toEqual(b);
+      }),
+      { numRuns: 400 },
+    );
+  });
+});
+
+// ---- mirror images of rules, for the right-to-left property ----
+
+const MIRROR: Record<ProsodicCondition, ProsodicCondition> = {
+  onset: "coda", coda: "onset", "syllable-initial": "syllable-final", "syllable-final": "syllable-initial",
+  "word-initial": "word-final", "word-final": "word-initial", nucleus: "nucleus", stressed: "stressed", unstressed: "unstressed", primary: "primary",
+};
+
+function mirrorPattern(p: Pattern): Pattern {
+  switch (p.kind) {
+    case "element": return p;
+    case "sequence": return { ...p, items: [...p.items].reverse().map(mirrorPattern) };
+    case "optional": return { ...p, body: mirrorPattern(p.body) };
+    case "choice": return { ...p, options: p.options.map(mirrorPattern) };
+    case "repeat": return { ...p, body: mirrorPattern(p.body) };
+  }
+}
+
+function mirrorRule(r: Rule): Rule {
+  const environments = r.environments.map((e): Environment => ({
+    ...e, left: mirrorPattern(e.right), right: mirrorPattern(e.left), conditions: e.conditions.map((c) => ({ ...c, condition: MIRROR[c.condition] })),
+  }));
+  return { ...r, target: [...r.target].reverse() as Element[], change: [...r.change].reverse(), environments };
+}
