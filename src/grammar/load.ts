@@ -18,6 +18,7 @@ export interface LoadedGrammar {
   readonly diagnostics: Diagnostic[];
 }
 
+const place = (d: Diagnostic): string => `${d.severity}\u0000${d.file}\u0000${d.line}\u0000${d.column}`;
 const startOf = (file: string): SourcePos => ({ file, line: 1, column: 1 });
 
 /**
@@ -101,7 +102,9 @@ export function loadGrammar(p: string): LoadedGrammar {
     const split = splitLiterals(grammar, inv.inventory);
     diagnostics.push(...split.diagnostics);
     grammar = split.grammar;
-    diagnostics.push(...checkGrammar(grammar, inv.inventory));
+    // The checker re-reads literals; a place the splitter already reported is not reported twice.
+    const reported = new Set(diagnostics.map(place));
+    diagnostics.push(...checkGrammar(grammar, inv.inventory).filter((d) => !reported.has(place(d))));
     return { grammar, inventory: inv.inventory, diagnostics };
   } catch (e) {
     diagnostics.push(

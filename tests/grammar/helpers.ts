@@ -9,20 +9,20 @@ import { parseInventory, type Inventory } from "../../src/inventory/index.js";
 import { checkGrammar, parseGrammarText, splitLiterals, type Element, type Grammar, type Pattern, type Rule } from "../../src/grammar/index.js";
 
 /** An invented toy inventory (values chosen for the tests, not a description of any language). */
-export const TOY_SEGMENTS = `symbol,syllabic,consonantal,sonorant,continuant,nasal,voice,labial,coronal,dorsal,long
-p,-,+,-,-,-,-,+,-,-,-
-t,-,+,-,-,-,-,-,+,-,-
-k,-,+,-,-,-,-,-,-,+,-
-b,-,+,-,-,-,+,+,-,-,-
-d,-,+,-,-,-,+,-,+,-,-
-s,-,+,-,+,-,-,-,+,-,-
-m,-,+,+,-,+,+,+,-,-,-
-n,-,+,+,-,+,+,-,+,-,-
-ŋ,-,+,+,-,+,+,-,-,+,-
-l,-,+,+,+,-,+,-,+,-,-
-a,+,-,+,+,-,+,-,-,+,-
-i,+,-,+,+,-,+,-,+,-,-
-ə,+,-,+,+,-,+,-,-,-,-
+export const TOY_SEGMENTS = `symbol,syllabic,consonantal,sonorant,continuant,nasal,voice,labial,coronal,dorsal
+p,-,+,-,-,-,-,+,-,-
+t,-,+,-,-,-,-,-,+,-
+k,-,+,-,-,-,-,-,-,+
+b,-,+,-,-,-,+,+,-,-
+d,-,+,-,-,-,+,-,+,-
+s,-,+,-,+,-,-,-,+,-
+m,-,+,+,-,+,+,+,-,-
+n,-,+,+,-,+,+,-,+,-
+ŋ,-,+,+,-,+,+,-,-,+
+l,-,+,+,+,-,+,-,+,-
+a,+,-,+,+,-,+,-,-,+
+i,+,-,+,+,-,+,-,+,-
+ə,+,-,+,+,-,+,-,-,-
 `;
 /** ʰ adds a feature of its own (aspiration); a tilde nasalises; ː lengthens. No voiceless mark. */
 export const TOY_DIACRITICS = `mark,name,sets,aliases
