@@ -181,7 +181,16 @@ class Checker {
     }
   }
 
+  /** Rules with errors in their names or shape: left out of the reachability pass (no cascades). */
+  readonly broken = new Set<Rule>();
+
   rule(r: Rule): void {
+    const errorsBefore = this.out.filter((d) => d.severity === "error").length;
+    this.ruleShape(r);
+    if (this.out.filter((d) => d.severity === "error").length > errorsBefore) this.broken.add(r);
+  }
+
+  ruleShape(r: Rule): void {
     const bound = new Map<string, { kind: "feature" | string; span: Span }>();
     for (const t of r.target) {
       this.element(t, bound);
@@ -327,7 +336,7 @@ class Checker {
     const unwritable = new Set<string>();
     const reported = new Map<string, number>();
     for (const step of this.grammar.steps) {
-      if (step.kind !== "rule") continue;
+      if (step.kind !== "rule" || this.broken.has(step)) continue;
       const r = step;
       const now = [...reach.values()];
       // Environment bundles that match nothing available at this point.
@@ -363,13 +372,14 @@ class Checker {
             const key = bundleKey(result);
             if (!reach.has(key)) {
               const w = realise(this.inv, result);
-              const id = `${r.name}\u0000${key}`;
+              const from = w.ok ? null : realise(this.inv, b);
+              const fromText = from === null ? "" : from.ok ? from.text : describeBundle(this.inv, b);
+              // One report per rule, source segment and change (its stress variants say nothing new).
+              const id = `${r.name}\u0000${fromText}\u0000${this.difference(b, result)}`;
               const perRule = reported.get(r.name) ?? 0;
               if (!w.ok && !unwritable.has(id) && perRule < MAX_UNWRITABLE_PER_RULE) {
                 unwritable.add(id);
                 reported.set(r.name, perRule + 1);
-                const from = realise(this.inv, b);
-                const fromText = from.ok ? from.text : describeBundle(this.inv, b);
                 const message = `rule '${r.name}' turns ${fromText} into ${fromText} with ${this.difference(b, result)}, which the inventory and its diacritics cannot write`;
                 if (baseKeys.has(bundleKey(b))) this.error("grammar/unwritable", message, c.span);
                 else this.warn("grammar/unwritable", `${message} (${fromText} comes from an earlier rule)`, c.span);
