@@ -1,0 +1,87 @@
+// The shipped demo (lexicons/demo): the manifest loads, every lexicon row reads, and every entry
+// runs through both varieties with no diagnostics, no syllabification lints and writable output.
+
+import { describe, expect, test } from "vitest";
+import { loadManifest } from "../../src/lexicon/manifest.js";
+import { readLexicon, type LexiconRow, type RejectedRow } from "../../src/lexicon/read.js";
+import { WORD_EDGE, type Sym } from "../../src/interp/index.js";
+import { applyGrammar } from "../../src/interp/index.js";
+import { DEMO, EN_US, derive, ipaOf, variety } from "./harness.js";
+
+async function readDemo(): Promise<{ rows: LexiconRow[]; rejects: RejectedRow[]; diagnostics: readonly unknown[] }> {
+  const reader = readLexicon(DEMO + "lexicon.csv", { inventory: variety("grammar.strata").inventory });
+  const rows: LexiconRow[] = [];
+  const rejects: RejectedRow[] = [];
+  for await (const item of reader) {
+    if (item.kind === "row") rows.push(item);
+    else rejects.push(item);
+  }
+  return { rows, rejects, diagnostics: reader.diagnostics };
+}
+
+describe("the demo manifest", () => {
+  test("names the lexicon and the two varieties with their grammars", () => {
+    const { manifest, diagnostics } = loadManifest(DEMO);
+    expect(diagnostics).toEqual([]);
+    expect(manifest?.lexicon).toBe(DEMO + "lexicon.csv");
+    expect(manifest?.varieties.map((v) => [v.name, v.lang, v.grammar])).toEqual([
+      ["general", "en-US", EN_US + "grammar.strata"],
+      ["careful", "en-US", EN_US + "careful.strata"],
+    ]);
+  });
+});
+
+describe("the demo lexicon", () => {
+  test("every row reads, with no rejects and no file-level diagnostics", async () => {
+    const { rows, rejects, diagnostics } = await readDemo();
+    expect(rejects).toEqual([]);
+    expect(diagnostics).toEqual([]);
+    expect(rows.length).toBeGreaterThanOrEqual(300);
+    // ids are unique
+    expect(new Set(rows.map((r) => r.id)).size).toBe(rows.length);
+  });
+
+  test("has phrases, words with two pronunciations and entries left to default stress", async () => {
+    const { rows } = await readDemo();
+    expect(rows.filter((r) => r.pron.includes("#")).length).toBeGreaterThanOrEqual(5);
+    const perWord = new Map<string, number>();
+    for (const r of rows) perWord.set(r.word, (perWord.get(r.word) ?? 0) + 1);
+    expect([...perWord.values()].filter((n) => n === 2).length).toBeGreaterThanOrEqual(5);
+    expect(rows.filter((r) => !r.stressMarked).map((r) => r.word).sort()).toEqual(["Caddow", "Dovrenny", "Keswin", "Odalie", "Tallowmere", "Wendaby"]);
+  });
+
+  for (const file of ["grammar.strata", "careful.strata"] as const) {
+    test(`every entry runs through ${file}: no diagnostics, no lints, no cap, every segment writable`, async () => {
+      const v = variety(file);
+      const { rows } = await readDemo();
+      const problems: string[] = [];
+      for (const r of rows) {
+        const word: Sym[] = [WORD_EDGE, ...r.symbols, WORD_EDGE];
+        const run = applyGrammar(v.prepared, v.inventory, word);
+        for (const d of run.diagnostics) problems.push(`${r.word}: ${d.message}`);
+        for (const l of run.lints) problems.push(`${r.word}: ${l.code} ${l.message}`);
+        if (run.capped) problems.push(`${r.word}: variants capped`);
+        for (const o of run.outputs) if (ipaOf(v, o).includes("?")) problems.push(`${r.word}: unwritable segment in ${ipaOf(v, o)}`);
+        // every word of every output has exactly one primary stress (default stress included)
+        const words = ipaOf(v, run.preferred).split(" ");
+        for (const w of words) if (r.stressMarked === false && [...w].filter((c) => c === "ˈ").length !== 1) problems.push(`${r.word}: ${w} has no single primary stress`);
+      }
+      expect(problems).toEqual([]);
+    });
+  }
+
+  test("the scenario's showcase entries", () => {
+    const general = variety("grammar.strata");
+    const careful = variety("careful.strata");
+    // Ladefoged & Johnson, ch. 3 (from memory): glottal stop before syllabic n in casual speech, t in careful
+    expect(derive(general, "ˈhæskɚtən").preferred).toBe("ˈhæ.skɚ.ʔn̩");
+    expect(derive(careful, "ˈhæskɚtən").preferred).toBe("ˈhæ.skɚ.tn̩");
+    // same source: dental t before θ across the phrase's first word
+    expect(derive(general, "ˈeɪtθ#ˈstɹit").preferred).toBe("ˈeɪt̪θ ˈstɹit");
+    // Kahn 1976 (from memory): flap in "thirty", not in careful speech
+    expect(derive(general, "ˈθɝti").preferred).toBe("ˈθɝ.ɾi");
+    expect(derive(careful, "ˈθɝti").preferred).toBe("ˈθɝ.ti");
+    // Chomsky & Halle 1968 (from memory): default stress on the antepenult when the penult is light
+    expect(derive(general, "dɑvɹɛni").preferred).toBe("ˈdɑːv.ɹɛ.ni");
+  });
+});

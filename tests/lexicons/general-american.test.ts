@@ -1,0 +1,227 @@
+// The shipped General American grammar (lexicons/en-us/grammar.strata) on real English words:
+// broad forms from the CMU Pronouncing Dictionary, expected narrow IPA with its source beside each.
+
+import { describe, expect, test } from "vitest";
+import { cmu, derive, variety } from "./harness.js";
+
+const general = () => variety("grammar.strata");
+
+/** Runs a CMU headword (its first pronunciation) through the casual variety. */
+const narrow = (word: string): string => derive(general(), cmu(word)).preferred;
+/** Every variant (sorted) of a CMU headword. */
+const variants = (word: string): readonly string[] => derive(general(), cmu(word)).all;
+
+describe("the grammar loads", () => {
+  test("without errors or warnings", () => {
+    expect(general().diagnostics).toEqual([]);
+  });
+  test("its steps, in the documented order (DEVELOPERS.md; lexicons/en-us/common.strata)", () => {
+    expect(general().grammar.steps.map((s) => s.name)).toEqual([
+      "syllabify",
+      "stress",
+      "pre-voiced-lengthening",
+      "dental-place",
+      "dark-l",
+      "syllabic-n",
+      "syllabic-l",
+      "schwa-deletion",
+      "flapping",
+      "glottal-stop",
+      "aspiration",
+      "approximant-devoicing",
+      "nasalisation",
+    ]);
+  });
+});
+
+describe("aspiration", () => {
+  test("at the start of a stressed syllable", () => {
+    // Kahn 1976; Ladefoged & Johnson, A Course in Phonetics, ch. 3 (from memory): p t k are aspirated at the start of a stressed syllable
+    expect(narrow("attack")).toBe("əˈtʰæk");
+    // same source: word-initial stressed /p/ and /k/
+    expect(narrow("pin")).toBe("ˈpʰɪ̃n");
+    expect(narrow("kit")).toBe("ˈkʰɪt");
+    // same source: word-medial stressed syllable
+    expect(narrow("appear")).toBe("əˈpʰɪɹ");
+  });
+  test("word-initially also before an unstressed vowel", () => {
+    // Kahn 1976 (from memory): "potato" pʰəˈtʰeɪɾoʊ — the broad form is the usual dictionary one with an
+    // unstressed last syllable (the CMU entry marks it with secondary stress, which would aspirate it)
+    expect(derive(general(), "pəˈteɪtoʊ").preferred).toBe("pʰəˈtʰeɪ.ɾoʊ");
+  });
+  test("not after /s/ in the same onset", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): stops after s are unaspirated ("spin", "stop", "skill")
+    expect(narrow("spin")).toBe("ˈspɪ̃n");
+    expect(narrow("stop")).toBe("ˈstɑp");
+    expect(narrow("skill")).toBe("ˈskɪɫ");
+  });
+  test("not at the start of an unstressed syllable inside a word", () => {
+    // Kahn 1976 (from memory): "happy" has an unaspirated p before the unstressed vowel
+    expect(narrow("happy")).toBe("ˈhæ.pi");
+  });
+});
+
+describe("flapping", () => {
+  test("t and d between a vowel and an unstressed vowel", () => {
+    // Kahn 1976; Hayes 2009 ch. on rule ordering (from memory): "water", "butter", "city" have ɾ
+    expect(narrow("water")).toBe("ˈwɔ.ɾɚ");
+    expect(narrow("butter")).toBe("ˈbʌ.ɾɚ");
+    expect(narrow("city")).toBe("ˈsɪ.ɾi");
+    // same sources: /d/ flaps too ("rider")
+    expect(narrow("rider")).toBe("ˈɹaɪ.ɾɚ");
+  });
+  test("after an r-coloured vowel or ɹ", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): "party" pʰɑɹɾi
+    expect(narrow("party")).toBe("ˈpʰɑɹ.ɾi");
+  });
+  test("neutralises t and d: writer = rider (with onset d, no pre-voiced length)", () => {
+    // Joos 1942, as discussed by Kiparsky 1968 (from memory): "writer" and "rider" both have a flap
+    expect(narrow("writer")).toBe(narrow("rider"));
+  });
+  test("not before a stressed vowel", () => {
+    // Kahn 1976 (from memory): "attack", "atomic" keep an aspirated t before the stressed vowel
+    expect(narrow("attack")).not.toContain("ɾ");
+    expect(narrow("atomic")).toBe("əˈtʰɑ.mɪk");
+  });
+  test("not after a nasal", () => {
+    // Common practice, no source: the grammar flaps only after a vowel or ɹ ("planted" keeps its t)
+    expect(narrow("planted")).toBe("ˈpʰl̥æ̃n.tɪd");
+  });
+});
+
+describe("vowel nasalisation", () => {
+  test("before a nasal in the same syllable", () => {
+    // Ladefoged & Johnson, ch. 4; Cohn 1993 (from memory): "man", "can't", "sing"
+    expect(narrow("man")).toBe("ˈmæ̃n");
+    expect(narrow("can't")).toBe("ˈkʰæ̃nt");
+    expect(narrow("sing")).toBe("ˈsɪ̃ŋ");
+  });
+  test("not before a nasal that starts the next syllable", () => {
+    // same sources (from memory): "many" mɛ.ni has an oral ɛ in this grammar's syllable-bound rule
+    expect(narrow("many")).toBe("ˈmɛ.ni");
+  });
+});
+
+describe("dark l", () => {
+  test("velarised in the coda", () => {
+    // Giegerich 1992 ch. 9; Ladefoged & Johnson, ch. 3 (from memory): "feel", "milk", "help" have ɫ
+    expect(narrow("feel")).toBe("ˈfiɫ");
+    expect(narrow("milk")).toBe("ˈmɪɫk");
+    expect(narrow("help")).toBe("ˈhɛɫp");
+  });
+  test("clear in the onset", () => {
+    // same sources: "leaf", "yellow" have clear l
+    expect(narrow("leaf")).toBe("ˈlif");
+    expect(narrow("yellow")).toBe("ˈjɛ.loʊ");
+  });
+});
+
+describe("approximant devoicing", () => {
+  test("after an aspirated stop in the same onset", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): "play" pʰl̥eɪ, "try" tʰɹ̥aɪ, "twin" tʰw̥ɪn, "cute" kʰj̥ut
+    expect(narrow("play")).toBe("ˈpʰl̥eɪ");
+    expect(narrow("try")).toBe("ˈtʰɹ̥aɪ");
+    expect(narrow("twin")).toBe("ˈtʰw̥ɪ̃n");
+    expect(narrow("cute")).toBe("ˈkʰj̥ut");
+    expect(narrow("apply")).toBe("əˈpʰl̥aɪ");
+  });
+  test("not after an unaspirated stop (s + stop)", () => {
+    // same source (from memory): "spray" has a voiced ɹ after the unaspirated p
+    expect(narrow("spray")).toBe("ˈspɹeɪ");
+  });
+});
+
+describe("dental place before θ ð", () => {
+  test("t d n take dental place", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): "eighth" eɪt̪θ, "tenth" tʰɛ̃n̪θ, "month"; Unicode U+032A COMBINING BRIDGE BELOW marks dental (IPA Handbook 1999)
+    expect(narrow("eighth")).toBe("ˈeɪt̪θ");
+    expect(narrow("tenth")).toBe("ˈtʰɛ̃n̪θ");
+    expect(narrow("month")).toBe("ˈmʌ̃n̪θ");
+    // same source: "width" has a dental d
+    expect(narrow("width")).toContain("d̪θ");
+  });
+  test("not before other fricatives", () => {
+    // Common practice, no source: t stays alveolar before s ("eights")
+    expect(narrow("eights")).toBe("ˈeɪts");
+  });
+});
+
+describe("glottal stop and syllabic n", () => {
+  test("button: ʔn̩ preferred, tn̩ the other variant", () => {
+    // Ladefoged & Johnson, ch. 3; Wells 1982 vol. 3 (from memory): "button" bʌʔn̩, also bʌtn̩
+    expect(narrow("button")).toBe("ˈbʌ.ʔn̩");
+    expect(variants("button")).toEqual(["ˈbʌ.tn̩", "ˈbʌ.ʔn̩"]);
+  });
+  test("after any sonorant", () => {
+    // same sources: "cotton", "mountain" maʊ̃nʔn̩, "Latin"
+    expect(narrow("cotton")).toBe("ˈkʰɑ.ʔn̩");
+    expect(narrow("mountain")).toBe("ˈmaʊ̃n.ʔn̩");
+    expect(narrow("latin")).toBe("ˈlæ.ʔn̩");
+  });
+  test("syllabic n after d and s, where no glottal stop is possible", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): "sudden" sʌdn̩, "lesson" lɛsn̩
+    expect(variants("sudden")).toEqual(["ˈsʌ.dn̩"]);
+    expect(variants("lesson")).toEqual(["ˈlɛ.sn̩"]);
+  });
+});
+
+describe("syllabic l", () => {
+  test("bottle: flapped t + syllabic ɫ̩ preferred, schwa + ɫ the other variant", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): "bottle" bɑɾɫ̩; U+0329 COMBINING VERTICAL LINE BELOW marks syllabic (IPA Handbook 1999)
+    expect(narrow("bottle")).toBe("ˈbɑ.ɾɫ̩");
+    expect(variants("bottle")).toEqual(["ˈbɑ.ɾəɫ", "ˈbɑ.ɾɫ̩"]);
+  });
+  test("after d and t", () => {
+    // same source: "pedal", "little", "metal"
+    expect(narrow("pedal")).toBe("ˈpʰɛ.ɾɫ̩");
+    expect(narrow("little")).toBe("ˈlɪ.ɾɫ̩");
+    expect(narrow("metal")).toBe("ˈmɛ.ɾɫ̩");
+  });
+});
+
+describe("pre-voiced lengthening", () => {
+  test("longer before a voiced obstruent of the same syllable", () => {
+    // Peterson & Lehiste 1960; Ladefoged & Johnson, ch. 4 (from memory): "bead" is longer than "beat"; U+02D0 MODIFIER LETTER TRIANGULAR COLON marks length
+    expect(narrow("bead")).toBe("ˈbiːd");
+    expect(narrow("beat")).toBe("ˈbit");
+    expect(narrow("bad")).toBe("ˈbæːd");
+    expect(narrow("bat")).toBe("ˈbæt");
+    expect(narrow("rise")).toBe("ˈɹaɪːz");
+    expect(narrow("rice")).toBe("ˈɹaɪs");
+  });
+});
+
+describe("syllabification by the Maximal Onset Principle", () => {
+  test("the longest legal onset goes to the next syllable", () => {
+    // Kahn 1976; Selkirk 1984 (from memory): "extra" ɛk.stɹə, "astronaut" æ.stɹə.nɑt, "constrain" kən.stɹeɪn
+    expect(narrow("extra")).toBe("ˈɛk.stɹə");
+    expect(narrow("astronaut")).toBe("ˈæ.stɹəˌnɑt");
+    expect(narrow("constrain")).toBe("kʰə̃nˈstɹeɪ̃n");
+  });
+  test("tl is not an English onset; ŋ never starts a syllable", () => {
+    // Giegerich 1992 ch. 6; Hammond 1999 (from memory): "atlas" æt.ləs, "singer" sɪŋ.ɚ
+    expect(narrow("atlas")).toBe("ˈæt.ləs");
+    expect(narrow("singer")).toBe("ˈsɪ̃ŋ.ɚ");
+  });
+});
+
+describe("stress placement", () => {
+  test("the mark stands before the whole stressed syllable, onset included", () => {
+    // Handbook of the IPA 1999, p. 14 (from memory): the stress mark precedes the stressed syllable
+    expect(narrow("attack")).toMatch(/^ə\u02C8tʰæk$/);
+    expect(narrow("constrain")).toMatch(/\u02C8stɹ/);
+    // same source: secondary stress ˌ (U+02CC) before its syllable
+    expect(narrow("astronaut")).toMatch(/\u02CCnɑt$/);
+  });
+  test("default stress for unmarked entries: penult if heavy, else antepenult", () => {
+    // Chomsky & Halle 1968; Hayes 1982 (from memory): "agenda" (closed penult), "aroma" (tense penult), "America", "cinema" (light penult)
+    expect(derive(general(), "ədʒɛndə").preferred).toBe("əˈdʒɛ̃n.də");
+    expect(derive(general(), "əɹoʊmə").preferred).toBe("əˈɹoʊ.mə");
+    expect(derive(general(), "əmɛɹɪkə").preferred).toBe("əˈmɛ.ɹɪ.kə");
+    expect(derive(general(), "sɪnəmə").preferred).toBe("ˈsɪ.nə.mə");
+  });
+  test("default stress does not touch marked entries", () => {
+    // Common practice, no source: the lexicon's own stress wins ("cigarette" with final stress)
+    expect(derive(general(), "ˌsɪɡəˈɹɛt").preferred).toBe("ˌsɪ.ɡəˈɹɛt");
+  });
+});
