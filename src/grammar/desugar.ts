@@ -18,9 +18,11 @@ import type { ClassDef, Element, Environment, FeatureSpec, Pattern, ProsodicCond
  *   nucleus: no context; the checker requires every target segment to be [+syllabic].
  *
  * Conditions on one side conjoin: two edges give the stronger edge (# also satisfies $); two
- * nucleus constraints name the same nucleus, so their features merge (a clash: never); an edge
- * and a nucleus on one side contradict. A syllable has one nucleus, so nucleus material on both
- * sides contradicts too.
+ * nucleus constraints on one side name the same nucleus (the first V outward), so their features
+ * merge (a clash: never); an edge and a nucleus on one side contradict. Each condition is read on
+ * its own, as the interpreter reads it: nothing assumes one nucleus per syllable, so `onset, coda`
+ * holds between two vowels of an unsyllabified string, and two stress conditions choose their
+ * sides independently (up to 2ⁿ variants).
  *
  * The side's material then conjoins *exactly* with the written context (DEVELOPERS.md: "both
  * must match"): the left side must end with a string of L and also with a string of M, which is
@@ -318,11 +320,15 @@ function conjoinSide(written: Pattern, side: Side, ctx: DesugarContext | undefin
 
 const patternSpanOf = (p: Pattern): Span => (p.kind === "element" ? p.element.span : p.span);
 
-/** The variants (left constraint, right constraint) an environment's conditions allow. */
+/**
+ * The variants (left constraint, right constraint) an environment's conditions allow. Each
+ * stress condition is a choice of side (its nucleus to the right or to the left); several stress
+ * conditions choose independently (as the interpreter reads them: each condition on its own).
+ */
 function sides(env: Environment): { left: Side; right: Side }[] {
   let left: Side = NONE;
   let right: Side = NONE;
-  let stress: Side = NONE;
+  const stress: Side[] = [];
   for (const { condition, span } of env.conditions) {
     switch (condition) {
       case "syllable-initial":
@@ -349,7 +355,7 @@ function sides(env: Environment): { left: Side; right: Side }[] {
       case "unstressed":
       case "primary": {
         const s = STRESS_SPEC[condition]!;
-        stress = conjoin(stress, { kind: "nucleus", specs: [value(s.feature, s.value, span)], span });
+        stress.push({ kind: "nucleus", specs: [value(s.feature, s.value, span)], span });
         break;
       }
       default: {
@@ -358,14 +364,20 @@ function sides(env: Environment): { left: Side; right: Side }[] {
       }
     }
   }
-  const variants = stress.kind === "none" ? [{ left, right }] : [
-    { left, right: conjoin(right, stress) },
-    { left: conjoin(left, stress), right },
-  ];
-  // One nucleus per syllable: nucleus material on both sides contradicts.
-  return variants.filter(
-    (v) => v.left.kind !== "never" && v.right.kind !== "never" && !(v.left.kind === "nucleus" && v.right.kind === "nucleus"),
-  );
+  let variants = [{ left, right }];
+  for (const s of stress)
+    variants = variants.flatMap((v) => [
+      { left: v.left, right: conjoin(v.right, s) },
+      { left: conjoin(v.left, s), right: v.right },
+    ]);
+  const seen = new Set<string>();
+  return variants.filter((v) => {
+    if (v.left.kind === "never" || v.right.kind === "never") return false;
+    const key = JSON.stringify(v, (k, x) => (k === "span" ? undefined : x));
+    if (seen.has(key)) return false;
+    seen.add(key);
+    return true;
+  });
 }
 
 /** An environment that never holds: the contradictory bundle [+syllabic -syllabic] on the left. */

@@ -109,7 +109,7 @@ describe("conditions", () => {
     expect(ds[0]!.message).toContain("write +stress in a +syllabic target instead");
   });
   test("contradictory conditions are a warning", () => {
-    expect(found("rule r:\n  t -> d / _ where onset, coda")).toEqual([["warning", "grammar/conditions-contradict", "3:12"]]);
+    expect(found("rule r:\n  t -> d / _ where syllable-initial, coda")).toEqual([["warning", "grammar/conditions-contradict", "3:12"]]);
   });
   test("syllable conditions without a syllabify step are a warning", () => {
     const ds = checkText("rule r:\n  t -> d / _ where coda").diagnostics;
