@@ -3,6 +3,7 @@
 
 import { Command } from "commander";
 import { registerClasses } from "./classes.js";
+import { registerImport } from "./import.js";
 
 const program = new Command();
 program
@@ -10,5 +11,6 @@ program
   .description("Compile SPE-style phonological rules into finite-state transducers and run pronunciation lexicons through them.")
   .version("0.1.0");
 registerClasses(program);
+registerImport(program);
 
 await program.parseAsync(process.argv);

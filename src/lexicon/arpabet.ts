@@ -207,82 +207,102 @@ const JSON_PAIR = /^(\s*)("(?:[^"\\]|\\.)*")\s*:\s*("(?:[^"\\]|\\.)*")\s*,?\s*$/
  * Every other line becomes a row or a positioned reject; nothing stops the import.
  */
 export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
-  const rows: ImportedRow[] = [];
-  const rejects: RejectedRow[] = [];
+  const acc = new Accumulator(table, opts.file);
   let n = 0;
-  let comments = 0;
-  let blanks = 0;
   for (let raw of lines) {
     n++;
     if (raw.endsWith("\r")) raw = raw.slice(0, -1);
     if (n === 1 && raw.charCodeAt(0) === 0xfeff) raw = raw.slice(1);
     const trimmed = raw.trim();
     if (trimmed === "") {
-      blanks++;
+      acc.blanks++;
       continue;
     }
     if (trimmed.startsWith(";;;") || trimmed === "{" || trimmed === "}" || trimmed === "};") {
-      comments++;
+      acc.comments++;
       continue;
     }
-    const rejectAt = (offset: number, code: string, reason: string): void => {
-      rejects.push({ kind: "reject", file: opts.file, line: n, column: Array.from(raw.slice(0, offset)).length + 1, code, reason, raw });
-    };
-    let word: string;
-    let phones: string;
-    let phonesAt: number;
-    let note: string | undefined;
     const json = JSON_PAIR.exec(raw);
     if (json) {
+      let word: string;
+      let phones: string;
       try {
         word = JSON.parse(json[2]!) as string;
         phones = JSON.parse(json[3]!) as string;
       } catch {
-        rejectAt(json[1]!.length, "arpabet/bad-json", "This line is not a valid JSON string pair.");
+        acc.reject(n, raw, json[1]!.length, "arpabet/bad-json", "This line is not a valid JSON string pair.");
         continue;
       }
-      phonesAt = raw.lastIndexOf(json[3]!) + 1;
-    } else {
-      const m = /^(\s*)(\S+)(\s+)(.*)$/.exec(raw);
-      if (!m) {
-        rejectAt(raw.length - raw.trimStart().length, "arpabet/no-phones", "The entry has a word but no phones.");
-        continue;
-      }
-      word = m[2]!;
-      phonesAt = m[1]!.length + m[2]!.length + m[3]!.length;
-      phones = m[4]!;
+      acc.entry(n, raw, word, phones, raw.lastIndexOf(json[3]!) + 1);
+      continue;
     }
-    // A trailing comment, as `# …` after the phones (CMU dictionary style).
+    const m = /^(\s*)(\S+)(\s+)(.*)$/.exec(raw);
+    if (!m) {
+      acc.reject(n, raw, raw.length - raw.trimStart().length, "arpabet/no-phones", "The entry has a word but no phones.");
+      continue;
+    }
+    acc.entry(n, raw, m[2]!, m[4]!, m[1]!.length + m[2]!.length + m[3]!.length);
+  }
+  return acc.result(n);
+}
+
+/** Collects rows and rejects; one entry is a word and its phone string, with where the phones start on the line. */
+class Accumulator {
+  readonly rows: ImportedRow[] = [];
+  readonly rejects: RejectedRow[] = [];
+  comments = 0;
+  blanks = 0;
+  constructor(
+    private readonly table: ArpabetTable,
+    private readonly file: string,
+  ) {}
+
+  /** `offset` is in UTF-16 units of `raw`; the reject's column counts code points from 1. */
+  reject(line: number, raw: string, offset: number, code: string, reason: string): void {
+    this.rejects.push({ kind: "reject", file: this.file, line, column: Array.from(raw.slice(0, offset)).length + 1, code, reason, raw });
+  }
+
+  entry(line: number, raw: string, word: string, phones: string, phonesAt: number): void {
+    // A trailing comment, as `# …` after the phones (CMU dictionary style), becomes the note.
+    let note: string | undefined;
     const hash = phones.indexOf("#");
     if (hash >= 0) {
       const c = phones.slice(hash + 1).trim();
       if (c !== "") note = c;
       phones = phones.slice(0, hash);
     }
-    if (raw.includes("\ufffd")) {
-      rejectAt(raw.indexOf("\ufffd"), "arpabet/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).");
-      continue;
+    const bad = raw.indexOf("\ufffd");
+    if (bad >= 0) {
+      this.reject(line, raw, bad, "arpabet/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).");
+      return;
     }
     const [base, variant] = splitVariant(word);
-    const c = convertArpabet(phones, table);
+    const c = convertArpabet(phones, this.table);
     if (!c.ok) {
-      rejectAt(phonesAt + c.offset, c.code, c.reason);
-      continue;
+      this.reject(line, raw, phonesAt + c.offset, c.code, c.reason);
+      return;
     }
-    rows.push({ word: base.normalize("NFC"), pron: c.pron, line: n, variant, ...(note === undefined ? {} : { note }) });
+    this.rows.push({ word: base.normalize("NFC"), pron: c.pron, line, variant, ...(note === undefined ? {} : { note }) });
   }
-  return { rows, rejects, lines: n, comments, blanks };
+
+  result(lines: number): ImportResult {
+    return { rows: this.rows, rejects: this.rejects, lines, comments: this.comments, blanks: this.blanks };
+  }
 }
 
 /**
  * Imports a dictionary object `{ word: "PH1 PH2 …" }` (such as the npm package
  * `cmu-pronouncing-dictionary`'s `dictionary`). Entries are numbered from 1 in the object's order;
- * that number is the `line` of rows and rejects.
+ * that number is the `line` of rows and rejects, whose `raw` is the entry as a `"word": "phones"` pair.
  */
 export function importArpabetDictionary(dict: Readonly<Record<string, string>>, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
-  // Each entry becomes one line of the JSON-pair form, so positions and rules are those of importArpabet.
-  function* lines(): Generator<string> {
-    for (const [word, phones] of Object.entries(dict)) yield `${JSON.stringify(word)}: ${JSON.stringify(phones)}`;
+  const acc = new Accumulator(table, opts.file);
+  let n = 0;
+  for (const word in dict) {
+    n++;
+    const phones = dict[word]!;
+    const key = JSON.stringify(word);
+    acc.entry(n, `${key}: ${JSON.stringify(phones)}`, word, phones, key.length + 3);
   }
-  return importArpabet(lines(), table, opts);
+  return acc.result(n);
 }

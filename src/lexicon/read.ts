@@ -127,20 +127,25 @@ type QuoteCheck =
  * where each field's value starts. Columns count code points from 1.
  */
 export function checkQuoting(raw: string): QuoteCheck {
-  const cps = Array.from(raw);
+  // Scan UTF-16 units; columns are code points, so count surrogate pairs once (only when there are any).
+  const col = /[\ud800-\udfff]/.test(raw) ? (i: number): number => Array.from(raw.slice(0, i)).length + 1 : (i: number): number => i + 1;
+  const QUOTE = 34;
+  const COMMA = 44;
+  const n = raw.length;
   const fields: { column: number; quoted: boolean }[] = [];
   let i = 0;
   for (;;) {
-    if (cps[i] === '"') {
+    if (raw.charCodeAt(i) === QUOTE) {
       const open = i;
-      fields.push({ column: i + 2, quoted: true });
+      fields.push({ column: col(i) + 1, quoted: true });
       i++;
       for (;;) {
-        if (i >= cps.length) {
-          return { ok: false, column: open + 1, code: "lexicon/unclosed-quote", reason: `The quoted field that starts at column ${open + 1} is not closed on this line (a field cannot span lines).` };
+        if (i >= n) {
+          const c = col(open);
+          return { ok: false, column: c, code: "lexicon/unclosed-quote", reason: `The quoted field that starts at column ${c} is not closed on this line (a field cannot span lines).` };
         }
-        if (cps[i] === '"') {
-          if (cps[i + 1] === '"') {
+        if (raw.charCodeAt(i) === QUOTE) {
+          if (raw.charCodeAt(i + 1) === QUOTE) {
             i += 2;
             continue;
           }
@@ -149,17 +154,19 @@ export function checkQuoting(raw: string): QuoteCheck {
         }
         i++;
       }
-      if (i < cps.length && cps[i] !== ",") {
-        return { ok: false, column: i + 1, code: "lexicon/text-after-quote", reason: `Unexpected '${cps[i]}' after the closing quote of a field; write a quote inside a quoted field as "".` };
+      if (i < n && raw.charCodeAt(i) !== COMMA) {
+        const ch = String.fromCodePoint(raw.codePointAt(i)!);
+        return { ok: false, column: col(i), code: "lexicon/text-after-quote", reason: `Unexpected '${ch}' after the closing quote of a field; write a quote inside a quoted field as "".` };
       }
     } else {
-      fields.push({ column: i + 1, quoted: false });
-      while (i < cps.length && cps[i] !== ",") i++;
+      fields.push({ column: col(i), quoted: false });
+      const comma = raw.indexOf(",", i);
+      i = comma < 0 ? n : comma;
     }
-    if (i >= cps.length) return { ok: true, fields };
+    if (i >= n) return { ok: true, fields };
     i++; // the comma
-    if (i === cps.length) {
-      fields.push({ column: i + 1, quoted: false });
+    if (i === n) {
+      fields.push({ column: col(i), quoted: false });
       return { ok: true, fields };
     }
   }
@@ -188,8 +195,14 @@ async function* textChunks(source: NodeJS.ReadableStream): AsyncGenerator<string
   if (rest !== "") yield rest;
 }
 
-/** Physical lines: split at LF, a CR before the LF dropped, the BOM removed from line 1. */
-async function* physicalLines(chunks: AsyncIterable<string>): AsyncGenerator<string> {
+/** Lines forwarded to csv-parse in one write at most (bounds the lines in flight; fewer, larger writes are faster). */
+const BATCH_LINES = 256;
+
+/**
+ * Physical lines, in batches (the complete lines of one input chunk, at most BATCH_LINES each):
+ * split at LF, a CR before the LF dropped, the BOM removed from line 1.
+ */
+async function* physicalLines(chunks: AsyncIterable<string>): AsyncGenerator<string[]> {
   let carry = "";
   let first = true;
   for await (const chunk of chunks) {
@@ -199,16 +212,22 @@ async function* physicalLines(chunks: AsyncIterable<string>): AsyncGenerator<str
       first = false;
     }
     let start = 0;
+    let batch: string[] = [];
     for (;;) {
       const nl = text.indexOf("\n", start);
       if (nl < 0) break;
       const end = nl > start && text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
-      yield text.slice(start, end);
+      batch.push(text.slice(start, end));
+      if (batch.length === BATCH_LINES) {
+        yield batch;
+        batch = [];
+      }
       start = nl + 1;
     }
+    if (batch.length > 0) yield batch;
     carry = text.slice(start);
   }
-  if (carry !== "") yield carry.endsWith("\r") ? carry.slice(0, -1) : carry;
+  if (carry !== "") yield [carry.endsWith("\r") ? carry.slice(0, -1) : carry];
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -341,43 +360,48 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     // count stays equal to the physical line number (it skips empty lines).
     async function* forward(): AsyncGenerator<string> {
       try {
-        for await (const raw of physicalLines(textChunks(stream))) {
-          const line = ++stats.lines;
-          if (raw.startsWith("#")) {
-            stats.commentLines++;
-            yield "\n";
-            continue;
-          }
-          if (raw.trim() === "") {
-            stats.blankLines++;
-            yield "\n";
-            continue;
-          }
-          const q = checkQuoting(raw);
-          const bad = raw.indexOf("\ufffd");
-          if (headerPending) {
-            headerPending = false;
-            stats.headerLine = line;
-            if (!q.ok) {
-              fatal = diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line, column: q.column });
-              return;
-            }
-          } else {
-            stats.dataLines++;
-            if (bad >= 0) {
-              early.push(reject(line, Array.from(raw.slice(0, bad)).length + 1, "lexicon/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).", raw));
-              yield "\n";
+        for await (const batch of physicalLines(textChunks(stream))) {
+          let out = "";
+          for (const raw of batch) {
+            const line = ++stats.lines;
+            if (raw.startsWith("#")) {
+              stats.commentLines++;
+              out += "\n";
               continue;
             }
-            if (!q.ok) {
-              early.push(reject(line, q.column, q.code, q.reason, raw));
-              yield "\n";
+            if (raw.trim() === "") {
+              stats.blankLines++;
+              out += "\n";
               continue;
             }
+            const q = checkQuoting(raw);
+            if (headerPending) {
+              headerPending = false;
+              stats.headerLine = line;
+              if (!q.ok) {
+                fatal = diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line, column: q.column });
+                if (out !== "") yield out;
+                return;
+              }
+            } else {
+              stats.dataLines++;
+              const bad = raw.indexOf("\ufffd");
+              if (bad >= 0) {
+                early.push(reject(line, Array.from(raw.slice(0, bad)).length + 1, "lexicon/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).", raw));
+                out += "\n";
+                continue;
+              }
+              if (!q.ok) {
+                early.push(reject(line, q.column, q.code, q.reason, raw));
+                out += "\n";
+                continue;
+              }
+            }
+            inFlight.set(line, { line, raw, fields: q.ok ? q.fields : [] });
+            if (inFlight.size > stats.maxInFlight) stats.maxInFlight = inFlight.size;
+            out += raw + "\n";
           }
-          inFlight.set(line, { line, raw, fields: q.ok ? q.fields : [] });
-          if (inFlight.size > stats.maxInFlight) stats.maxInFlight = inFlight.size;
-          yield raw + "\n";
+          yield out;
         }
       } catch (e) {
         readError = e as Error;
@@ -410,7 +434,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
         early.sort((a, b) => a.line - b.line);
       },
     });
-    const input = Readable.from(forward());
+    const input = Readable.from(forward(), { highWaterMark: 2 });
     input.pipe(parser);
 
     let header: Map<LexiconColumn, number> | undefined;

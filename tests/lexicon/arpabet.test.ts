@@ -1,6 +1,7 @@
 // Tests of the ARPAbet import: the shipped mapping table, line formats, alternates, comments,
 // rejects with positions, and the whole CMU Pronouncing Dictionary read through the en-us inventory.
 
+import { Readable } from "node:stream";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import { dictionary } from "cmu-pronouncing-dictionary";
@@ -8,7 +9,8 @@ import { loadInventory, tokenise } from "../../src/inventory/index.js";
 import type { Inventory } from "../../src/inventory/types.js";
 import { convertArpabet, importArpabet, importArpabetDictionary, loadArpabetTable, parseArpabetTable } from "../../src/lexicon/arpabet.js";
 import type { ArpabetTable } from "../../src/lexicon/arpabet.js";
-import { applyStress } from "../../src/lexicon/read.js";
+import { applyStress, readLexicon } from "../../src/lexicon/read.js";
+import { importedCsv } from "../../src/cli/import.js";
 
 const loadedTable = loadArpabetTable();
 if (loadedTable.table === undefined) throw new Error(loadedTable.diagnostics.map((d) => d.message).join("; "));
@@ -170,4 +172,25 @@ describe("the CMU Pronouncing Dictionary (npm cmu-pronouncing-dictionary, ISC)",
     // The 22 entries with a trailing "# …" comment keep it as a note (e.g. "aalborg  … # place, danish")
     expect(r.rows.filter((x) => x.note !== undefined).length).toBe(Object.values(dictionary).filter((p) => p.includes("#")).length);
   });
+});
+
+describe("the CMU Pronouncing Dictionary through the whole import path", () => {
+  it("writes a lexicon CSV that the lexicon reader reads back with zero rejects", async () => {
+    const r = importArpabetDictionary(dictionary, table, { file: "cmu-pronouncing-dictionary" });
+    // Fed in chunks of 1,000 lines, as a file read in 64 KiB chunks would arrive.
+    const lines = [...importedCsv(r.rows)];
+    const chunks: string[] = [];
+    for (let i = 0; i < lines.length; i += 1000) chunks.push(lines.slice(i, i + 1000).join(""));
+    const reader = readLexicon(Readable.from(chunks), { inventory: inv, file: "cmu.csv" });
+    const rejected: string[] = [];
+    let n = 0;
+    for await (const item of reader) {
+      if (item.kind === "reject") rejected.push(`${item.line}: ${item.reason} (${item.raw})`);
+      else n++;
+    }
+    expect(reader.diagnostics).toEqual([]);
+    expect(rejected).toEqual([]);
+    expect(n).toBe(Object.keys(dictionary).length);
+    expect(reader.stats.dataLines).toBe(n);
+  }, 60_000);
 });

@@ -1,0 +1,63 @@
+// Tests of `strata import --arpabet` (runImport): files written, rejects file, summary and exit codes.
+
+import { mkdtemp, readFile, writeFile, readdir } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { parse } from "csv-parse/sync";
+import { runImport } from "../../src/cli/import.js";
+
+async function dictFile(lines: string[]): Promise<{ dir: string; path: string }> {
+  const dir = await mkdtemp(join(tmpdir(), "strata-import-"));
+  const path = join(dir, "demo.dict");
+  await writeFile(path, lines.join("\n") + "\n");
+  return { dir, path };
+}
+
+describe("strata import --arpabet", () => {
+  it("writes the lexicon CSV and reconciles lines in its summary", async () => {
+    const { dir, path } = await dictFile([";;; invented words", "QUELLMARSH  K W EH1 L M AA2 R SH", "TARROWBY  T AE1 R OW0 B IY0", "TARROWBY(2)  T EH1 R OW0 B IY0", ""]);
+    const out = join(dir, "demo.csv");
+    const o = await runImport({ arpabet: path, output: out });
+    expect(o.exitCode).toBe(0);
+    expect(o.stderr).toContain("import: 5 lines read = 3 entries written + 0 rejected + 1 comment + 1 blank");
+    const rows = parse(await readFile(out, "utf8")) as string[][];
+    expect(rows).toEqual([
+      ["word", "pron", "note"],
+      ["QUELLMARSH", "k w ˈɛ l m ˌɑ ɹ ʃ", ""],
+      ["TARROWBY", "t ˈæ ɹ oʊ b i", ""],
+      ["TARROWBY", "t ˈɛ ɹ oʊ b i", ""],
+    ]);
+    expect(await readdir(dir)).toEqual(["demo.csv", "demo.dict"]);
+  });
+
+  it("writes rejects beside the output and exits 1 unless rejects are allowed", async () => {
+    const { dir, path } = await dictFile(["ZORBY  Z AO1 R B QX0", "FENWOLD  F EH1 N W OW0 L D"]);
+    const out = join(dir, "demo.csv");
+    const o = await runImport({ arpabet: path, output: out });
+    expect(o.exitCode).toBe(1);
+    expect(o.stderr).toContain(`${path}:1:18: error: 'QX0' is not a phone of the mapping table arpabet.csv. [arpabet/unknown-phone]`);
+    expect(o.stderr).toContain("--allow-rejects");
+    const rejects = parse(await readFile(`${out}.rejects.csv`, "utf8")) as string[][];
+    expect(rejects[1]).toEqual([path, "1", "18", "arpabet/unknown-phone", "'QX0' is not a phone of the mapping table arpabet.csv.", "ZORBY  Z AO1 R B QX0"]);
+    expect((parse(await readFile(out, "utf8")) as string[][]).map((r) => r[0])).toEqual(["word", "FENWOLD"]);
+    const allowed = await runImport({ arpabet: path, output: out, allowRejects: true });
+    expect(allowed.exitCode).toBe(0);
+  });
+
+  it("writes to standard output without -o", async () => {
+    const { path } = await dictFile(["HOLM  HH OW1 M"]);
+    const o = await runImport({ arpabet: path });
+    expect(o.stdout).toBe("word,pron,note\nHOLM,h ˈoʊ m,\n");
+  });
+
+  it("exits 2 with a positioned error when the dictionary or the table cannot be read", async () => {
+    const missing = await runImport({ arpabet: "/nonexistent/strata.dict" });
+    expect(missing.exitCode).toBe(2);
+    expect(missing.stderr).toContain("/nonexistent/strata.dict:1:1: error: Cannot read the dictionary: there is no such file.");
+    const { path } = await dictFile(["HOLM  HH OW1 M"]);
+    const noTable = await runImport({ arpabet: path, table: "/nonexistent/table.csv" });
+    expect(noTable.exitCode).toBe(2);
+    expect(noTable.stderr).toContain("arpabet/unreadable");
+  });
+});
