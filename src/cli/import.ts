@@ -18,7 +18,7 @@ export interface ImportOptions {
   readonly output?: string;
   /** Mapping table; the shipped lexicons/en-us/arpabet.csv when absent. */
   readonly table?: string;
-  /** Rejects CSV; `<output>.rejects.csv` when absent and an output file is given. */
+  /** Rejects CSV (written even when empty); `<output>.rejects.csv` when absent and an output file is given. */
   readonly rejects?: string;
   /** Exit 0 even when some entries were rejected. */
   readonly allowRejects?: boolean;
@@ -65,7 +65,8 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
     stdout = [...importedCsv(result.rows)].join("");
   }
   const rejectsPath = opts.rejects ?? (opts.output !== undefined ? `${opts.output}.rejects.csv` : undefined);
-  if (rejectsPath !== undefined && result.rejects.length > 0) await writeRejects(rejectsPath, result.rejects);
+  // Written even when empty, so a rejects file from an earlier run never outlives its import.
+  if (rejectsPath !== undefined) await writeRejects(rejectsPath, result.rejects);
 
   let stderr = "";
   for (const r of result.rejects.slice(0, SHOWN_REJECTS)) stderr += formatDiagnostic(rejectDiagnostic(r)) + "\n";

@@ -28,7 +28,8 @@ describe("strata import --arpabet", () => {
       ["TARROWBY", "t ˈæ ɹ oʊ b i", ""],
       ["TARROWBY", "t ˈɛ ɹ oʊ b i", ""],
     ]);
-    expect(await readdir(dir)).toEqual(["demo.csv", "demo.dict"]);
+    expect(await readdir(dir)).toEqual(["demo.csv", "demo.csv.rejects.csv", "demo.dict"]);
+    expect(await readFile(join(dir, "demo.csv.rejects.csv"), "utf8")).toBe("file,line,column,code,reason,raw\n");
   });
 
   it("writes rejects beside the output and exits 1 unless rejects are allowed", async () => {
