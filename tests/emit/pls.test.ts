@@ -1,5 +1,8 @@
 // Tests of the PLS 1.0 writer: schema validity (our XSD, libxml2), each requirement of the
 // Recommendation checked beside the section that states it, escaping, and errors for bad input.
+// Section numbers of W3C PLS 1.0 (Recommendation, 14 October 2008): §2 (alphabets), §4.1 (lexicon),
+// §4.4 (lexeme) and §4.5 (grapheme) were checked against secondary sources that quote them; §4.2, §4.3,
+// §4.6, §4.7, §4.8 and §4.9 are from memory and marked so beside each check.
 
 import { mkdtemp, readFile, readdir, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
@@ -74,7 +77,7 @@ describe("PLS writer: lexemes", () => {
   it("writes one lexeme per entry: grapheme first, then the pronunciations, then examples", async () => {
     const got = lexemes(await write(DEMO));
     // W3C PLS 1.0 §4.4: a lexeme holds one or more grapheme, then one or more phoneme/alias, then any example
-    // (the order is the Recommendation's content model for lexeme; §4.5 grapheme, §4.6 phoneme, §4.8 example)
+    // (the order is the Recommendation's content model for lexeme; §4.5 grapheme, §4.6 phoneme, §4.8 example) (section number from memory)
     expect(got).toEqual([
       [["grapheme", "Quellmarsh", null], ["phoneme", "ˈkʰwɛl.mɑɹʃ", null]],
       [["grapheme", "Tarrowby", null], ["phoneme", "ˈtʰæ.ɹoʊ.bi", null], ["phoneme", "ˈtʰɛ.ɹoʊ.bi", "true"]],
@@ -84,15 +87,15 @@ describe("PLS writer: lexemes", () => {
 
   it("marks exactly the preferred pronunciation with prefer=\"true\" when there are several", async () => {
     const got = lexemes(await write([{ word: "Brindle", phonemes: ["ˈbɹɪn.dəl", "ˈbɹɪn.dl̩", "ˈbɹɪ.nəl"], preferred: 2 }]));
-    // W3C PLS 1.0 §4.6: prefer="true" marks the pronunciation a TTS processor must use among several
+    // W3C PLS 1.0 §4.6: prefer="true" marks the pronunciation a TTS processor must use among several (section number from memory)
     expect(got[0]!.filter(([, , p]) => p === "true").map(([, t]) => t)).toEqual(["ˈbɹɪ.nəl"]);
-    // §4.6: prefer defaults to "false", so the others carry no attribute
+    // §4.6: prefer defaults to "false", so the others carry no attribute (section number from memory)
     expect(got[0]!.filter(([n, , p]) => n === "phoneme" && p === null)).toHaveLength(2);
   });
 
   it("writes no prefer attribute on a lone pronunciation", async () => {
     const xml = await write([{ word: "Fenwold", phonemes: ["ˈfɛn.woʊld"] }]);
-    // W3C PLS 1.0 §4.6: prefer only matters among several pronunciations (common practice, no source: leave it out)
+    // W3C PLS 1.0 §4.6: prefer only matters among several pronunciations (common practice, no source: leave it out) (section number from memory)
     expect(xml).not.toContain("prefer");
   });
 
@@ -171,7 +174,7 @@ describe("PLS writer: the schema itself rejects what the Recommendation forbids"
     ["no grapheme", `<lexeme><phoneme>ə</phoneme></lexeme>`],
     // §4.4: at least one phoneme or alias
     ["no pronunciation", `<lexeme><grapheme>a</grapheme></lexeme>`],
-    // §4.6: prefer is "true" or "false"
+    // §4.6: prefer is "true" or "false" (section number from memory)
     ["prefer=yes", `<lexeme><grapheme>a</grapheme><phoneme prefer="yes">ə</phoneme></lexeme>`],
     // §4.1: meta and metadata come before lexemes
     ["meta after lexeme", `${ok}<meta name="a" content="b"/>`],
