@@ -185,6 +185,7 @@ const forBuilder = (s: string): string => s.replace(/&/g, "&amp;");
  * `version="1.0"`, `alphabet="ipa"` and `xml:lang` (§4.1); then per entry one `lexeme` (§4.4) holding
  * its `grapheme` (§4.5), then its `phoneme`s (§4.6) — `prefer="true"` on the preferred one when there
  * are several (§4.6, §4.9) — then its `example`s (§4.8). Memory: one lexeme at a time.
+ * (Section numbers §4.1, §4.4, §4.5 checked against sources quoting the Recommendation; the rest from memory.)
  * Throws PlsError (before anything of the bad entry is emitted) for an entry that cannot be written.
  */
 export async function* plsChunks(
