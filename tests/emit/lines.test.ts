@@ -10,7 +10,7 @@ import { csvField, csvLine } from "../../src/emit/csv.js";
 describe("TSV", () => {
   it("writes word, narrow and broad in that order under a header", () => {
     expect(tsvHeader()).toBe("word\tnarrow\tbroad\n");
-    expect(formatTsvEntry({ word: "Tarrowby", narrow: "ˈtʰæ.ɾoʊ.bi", broad: "ˈtæ.ɹoʊ.bi" })).toBe("Tarrowby\tˈtʰæ.ɾoʊ.bi\tˈtæ.ɹoʊ.bi\n");
+    expect(formatTsvEntry({ word: "Sallowmede", narrow: "ˈsæ.ɫoʊ.ˌmid", broad: "ˈsæ.loʊ.ˌmid" })).toBe("Sallowmede\tˈsæ.ɫoʊ.ˌmid\tˈsæ.loʊ.ˌmid\n");
   });
 
   it("escapes tab, line feed, carriage return and backslash", () => {

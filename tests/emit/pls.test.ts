@@ -23,9 +23,9 @@ import { parseXml, plsSchemaErrors } from "./pls-schema.js";
 
 // Demo words from our own invented transit network (lexicons/demo); the IPA is ours.
 const DEMO: PlsEntry[] = [
-  { word: "Quellmarsh", phonemes: ["ˈkʰwɛl.mɑɹʃ"] },
-  { word: "Tarrowby", phonemes: ["ˈtʰæ.ɹoʊ.bi", "ˈtʰɛ.ɹoʊ.bi"], preferred: 1 },
-  { word: "Ossington Loop", phonemes: ["ˈɑ.sɪŋ.tən ˈlup"], examples: ["Change at Ossington Loop for the ferry."] },
+  { word: "Quillhaven", phonemes: ["ˈkʰwɪl.ˌheɪ.vən"] },
+  { word: "Sallowmede", phonemes: ["ˈsæ.loʊ.ˌmid", "ˈsɑ.loʊ.ˌmid"], preferred: 1 },
+  { word: "Pellanor Park", phonemes: ["ˈpʰɛ.lə.ˌnɔɹ ˈpʰɑɹk"], examples: ["Change at Pellanor Park for the ferry."] },
 ];
 
 const PLS = "pls";
@@ -79,35 +79,35 @@ describe("PLS writer: lexemes", () => {
     // W3C PLS 1.0 §4.4: a lexeme holds one or more grapheme, then one or more phoneme/alias, then any example
     // (the order is the Recommendation's content model for lexeme; §4.5 grapheme, §4.6 phoneme, §4.8 example) (section number from memory)
     expect(got).toEqual([
-      [["grapheme", "Quellmarsh", null], ["phoneme", "ˈkʰwɛl.mɑɹʃ", null]],
-      [["grapheme", "Tarrowby", null], ["phoneme", "ˈtʰæ.ɹoʊ.bi", null], ["phoneme", "ˈtʰɛ.ɹoʊ.bi", "true"]],
-      [["grapheme", "Ossington Loop", null], ["phoneme", "ˈɑ.sɪŋ.tən ˈlup", null], ["example", "Change at Ossington Loop for the ferry.", null]],
+      [["grapheme", "Quillhaven", null], ["phoneme", "ˈkʰwɪl.ˌheɪ.vən", null]],
+      [["grapheme", "Sallowmede", null], ["phoneme", "ˈsæ.loʊ.ˌmid", null], ["phoneme", "ˈsɑ.loʊ.ˌmid", "true"]],
+      [["grapheme", "Pellanor Park", null], ["phoneme", "ˈpʰɛ.lə.ˌnɔɹ ˈpʰɑɹk", null], ["example", "Change at Pellanor Park for the ferry.", null]],
     ]);
   });
 
   it("marks exactly the preferred pronunciation with prefer=\"true\" when there are several", async () => {
-    const got = lexemes(await write([{ word: "Brindle", phonemes: ["ˈbɹɪn.dəl", "ˈbɹɪn.dl̩", "ˈbɹɪ.nəl"], preferred: 2 }]));
+    const got = lexemes(await write([{ word: "Brindlewick", phonemes: ["ˈbɹɪn.dəl.ˌwɪk", "ˈbɹɪn.dl̩.ˌwɪk", "ˈbɹɪ.nəl.ˌwɪk"], preferred: 2 }]));
     // W3C PLS 1.0 §4.6: prefer="true" marks the pronunciation a TTS processor must use among several (section number from memory)
-    expect(got[0]!.filter(([, , p]) => p === "true").map(([, t]) => t)).toEqual(["ˈbɹɪ.nəl"]);
+    expect(got[0]!.filter(([, , p]) => p === "true").map(([, t]) => t)).toEqual(["ˈbɹɪ.nəl.ˌwɪk"]);
     // §4.6: prefer defaults to "false", so the others carry no attribute (section number from memory)
     expect(got[0]!.filter(([n, , p]) => n === "phoneme" && p === null)).toHaveLength(2);
   });
 
   it("writes no prefer attribute on a lone pronunciation", async () => {
-    const xml = await write([{ word: "Fenwold", phonemes: ["ˈfɛn.woʊld"] }]);
+    const xml = await write([{ word: "Fennamere", phonemes: ["ˈfɛ.nə.ˌmɪɹ"] }]);
     // W3C PLS 1.0 §4.6: prefer only matters among several pronunciations (common practice, no source: leave it out) (section number from memory)
     expect(xml).not.toContain("prefer");
   });
 
   it("writes identical pronunciations once, keeping the preferred one", async () => {
-    const got = lexemes(await write([{ word: "Holm", phonemes: ["hoʊm", "hoʊlm", "hoʊm"], preferred: 2 }]));
-    expect(got[0]).toEqual([["grapheme", "Holm", null], ["phoneme", "hoʊm", "true"], ["phoneme", "hoʊlm", null]]);
+    const got = lexemes(await write([{ word: "Kest", phonemes: ["kɛst", "kɛs", "kɛst"], preferred: 2 }]));
+    expect(got[0]).toEqual([["grapheme", "Kest", null], ["phoneme", "kɛst", "true"], ["phoneme", "kɛs", null]]);
   });
 
   it("normalises text to NFC", async () => {
     // Unicode 15 UAX #15: e + U+0301 COMBINING ACUTE ACCENT composes to U+00E9 under NFC
-    const got = lexemes(await write([{ word: "Vale\u0301", phonemes: ["va\u0303"] }]));
-    expect(got[0]![0]![1]).toBe("Val\u00e9");
+    const got = lexemes(await write([{ word: "Sallowme\u0301de", phonemes: ["va\u0303"] }]));
+    expect(got[0]![0]![1]).toBe("Sallowm\u00e9de");
     expect(got[0]![1]![1]).toBe("v\u00e3");
   });
 
@@ -203,7 +203,7 @@ describe("PLS writer: bad input gives a clear error", () => {
     const path = join(out, "lexicon.pls");
     const r = await writePls(
       path,
-      [DEMO[0]!, { word: "Kell\u0007by", phonemes: ["ˈkɛl.bi"], source: { file: "demo.csv", line: 7, column: 1 } }],
+      [DEMO[0]!, { word: "Kest\u0007lemoor", phonemes: ["ˈkɛ.səl.ˌmʊɹ"], source: { file: "demo.csv", line: 7, column: 1 } }],
       { lang: "en-US" },
     );
     // W3C XML 1.0 (5th ed.) §2.2 production [2] Char excludes U+0007
@@ -211,7 +211,7 @@ describe("PLS writer: bad input gives a clear error", () => {
     if (r.ok) return;
     expect(r.error).toMatchObject({ file: "demo.csv", line: 7, code: "pls/invalid-xml-char", severity: "error" });
     expect(r.error.message).toContain("U+0007");
-    expect(r.error.message).toContain("Kell<U+0007>by");
+    expect(r.error.message).toContain("Kest<U+0007>lemoor");
     // written whole or not at all: no file and no temporary file are left behind
     expect(await readdir(out)).toEqual([]);
   });

@@ -79,29 +79,29 @@ describe("importArpabet: line formats", () => {
   it("reads WORD  PHONES lines, (2) alternates, ;;; comments, trailing # comments and blank lines", () => {
     const src = [
       ";;; demo dictionary, invented words",
-      "QUELLMARSH  K W EH1 L M AA2 R SH",
-      "TARROWBY  T AE1 R OW0 B IY0",
-      "TARROWBY(2)  T EH1 R OW0 B IY0",
+      "QUILLHAVEN  K W IH1 L HH EY2 V AH0 N",
+      "SALLOWMEDE  S AE1 L OW0 M IY2 D",
+      "SALLOWMEDE(2)  S AA1 L OW0 M IY2 D",
       "",
-      "FENWOLD F EH1 N W OW0 L D # place, invented",
+      "FENNAMERE F EH1 N AH0 M IH2 R # place, invented",
     ];
     const r = importArpabet(src, table, { file: "demo.dict" });
     expect(r.rejects).toEqual([]);
     expect(r.rows).toEqual([
-      { word: "QUELLMARSH", pron: "k w ˈɛ l m ˌɑ ɹ ʃ", line: 2, variant: 1 },
-      { word: "TARROWBY", pron: "t ˈæ ɹ oʊ b i", line: 3, variant: 1 },
-      { word: "TARROWBY", pron: "t ˈɛ ɹ oʊ b i", line: 4, variant: 2 },
-      { word: "FENWOLD", pron: "f ˈɛ n w oʊ l d", line: 6, variant: 1, note: "place, invented" },
+      { word: "QUILLHAVEN", pron: "k w ˈɪ l h ˌeɪ v ə n", line: 2, variant: 1 },
+      { word: "SALLOWMEDE", pron: "s ˈæ l oʊ m ˌi d", line: 3, variant: 1 },
+      { word: "SALLOWMEDE", pron: "s ˈɑ l oʊ m ˌi d", line: 4, variant: 2 },
+      { word: "FENNAMERE", pron: "f ˈɛ n ə m ˌɪ ɹ", line: 6, variant: 1, note: "place, invented" },
     ]);
     expect({ lines: r.lines, comments: r.comments, blanks: r.blanks }).toEqual({ lines: 6, comments: 1, blanks: 1 });
   });
 
   it("reads a JSON object written one entry a line", () => {
-    const src = ["{", '  "holm": "HH OW1 M",', '  "holm(2)": "HH OW1 L M"', "}"];
+    const src = ["{", '  "pellanor": "P EH1 L AH0 N AO2 R",', '  "pellanor(2)": "P EH1 L AH0 N ER2"', "}"];
     const r = importArpabet(src, table, { file: "demo.json" });
     expect(r.rows.map((x) => [x.word, x.pron, x.variant, x.line])).toEqual([
-      ["holm", "h ˈoʊ m", 1, 2],
-      ["holm", "h ˈoʊ l m", 2, 3],
+      ["pellanor", "p ˈɛ l ə n ˌɔ ɹ", 1, 2],
+      ["pellanor", "p ˈɛ l ə n ˌɝ", 2, 3],
     ]);
   });
 
@@ -111,23 +111,23 @@ describe("importArpabet: line formats", () => {
 
   it("rejects bad entries with their line and column and goes on", () => {
     const src = [
-      "ZORBY  Z AO1 R B QX0",
-      "KELL  K1 EH1 L",
-      "BRINDLE  B R IH1 N D AH L",
-      "LONELY",
-      '  "holm": "HH OW7 M",',
-      "FENWOLD  F EH1 N W OW0 L D",
+      "DOVRENNY  D AA1 V R EH0 N IY0 QX0",
+      "KEST  K1 EH1 S T",
+      "BRINDLEWICK  B R IH1 N D AH L W IH2 K",
+      "CORVELLAN",
+      '  "pellanor": "P EH7 L",',
+      "FENNAMERE  F EH1 N AH0 M IH2 R",
     ];
     const r = importArpabet(src, table, { file: "bad.dict" });
     expect(r.rejects.map((x) => [x.line, x.column, x.code])).toEqual([
-      [1, 18, "arpabet/unknown-phone"],
+      [1, 31, "arpabet/unknown-phone"],
       [2, 7, "arpabet/stress-on-consonant"],
-      [3, 22, "arpabet/missing-stress"],
+      [3, 26, "arpabet/missing-stress"],
       [4, 1, "arpabet/no-phones"],
-      [5, 15, "arpabet/bad-stress"],
+      [5, 18, "arpabet/bad-stress"],
     ]);
     expect(r.rejects[0]!.reason).toContain("QX0");
-    expect(r.rows.map((x) => x.word)).toEqual(["FENWOLD"]);
+    expect(r.rows.map((x) => x.word)).toEqual(["FENNAMERE"]);
   });
 });
 

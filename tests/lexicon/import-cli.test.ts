@@ -16,7 +16,7 @@ async function dictFile(lines: string[]): Promise<{ dir: string; path: string }>
 
 describe("strata import --arpabet", () => {
   it("writes the lexicon CSV and reconciles lines in its summary", async () => {
-    const { dir, path } = await dictFile([";;; invented words", "QUELLMARSH  K W EH1 L M AA2 R SH", "TARROWBY  T AE1 R OW0 B IY0", "TARROWBY(2)  T EH1 R OW0 B IY0", ""]);
+    const { dir, path } = await dictFile([";;; invented words", "QUILLHAVEN  K W IH1 L HH EY2 V AH0 N", "SALLOWMEDE  S AE1 L OW0 M IY2 D", "SALLOWMEDE(2)  S AA1 L OW0 M IY2 D", ""]);
     const out = join(dir, "demo.csv");
     const o = await runImport({ arpabet: path, output: out });
     expect(o.exitCode).toBe(0);
@@ -24,39 +24,39 @@ describe("strata import --arpabet", () => {
     const rows = parse(await readFile(out, "utf8")) as string[][];
     expect(rows).toEqual([
       ["word", "pron", "note"],
-      ["QUELLMARSH", "k w ˈɛ l m ˌɑ ɹ ʃ", ""],
-      ["TARROWBY", "t ˈæ ɹ oʊ b i", ""],
-      ["TARROWBY", "t ˈɛ ɹ oʊ b i", ""],
+      ["QUILLHAVEN", "k w ˈɪ l h ˌeɪ v ə n", ""],
+      ["SALLOWMEDE", "s ˈæ l oʊ m ˌi d", ""],
+      ["SALLOWMEDE", "s ˈɑ l oʊ m ˌi d", ""],
     ]);
     expect(await readdir(dir)).toEqual(["demo.csv", "demo.csv.rejects.csv", "demo.dict"]);
     expect(await readFile(join(dir, "demo.csv.rejects.csv"), "utf8")).toBe("file,line,column,code,reason,raw\n");
   });
 
   it("writes rejects beside the output and exits 1 unless rejects are allowed", async () => {
-    const { dir, path } = await dictFile(["ZORBY  Z AO1 R B QX0", "FENWOLD  F EH1 N W OW0 L D"]);
+    const { dir, path } = await dictFile(["DOVRENNY  D AA1 V R EH0 N IY0 QX0", "FENNAMERE  F EH1 N AH0 M IH2 R"]);
     const out = join(dir, "demo.csv");
     const o = await runImport({ arpabet: path, output: out });
     expect(o.exitCode).toBe(1);
-    expect(o.stderr).toContain(`${path}:1:18: error: 'QX0' is not a phone of the mapping table arpabet.csv. [arpabet/unknown-phone]`);
+    expect(o.stderr).toContain(`${path}:1:31: error: 'QX0' is not a phone of the mapping table arpabet.csv. [arpabet/unknown-phone]`);
     expect(o.stderr).toContain("--allow-rejects");
     const rejects = parse(await readFile(`${out}.rejects.csv`, "utf8")) as string[][];
-    expect(rejects[1]).toEqual([path, "1", "18", "arpabet/unknown-phone", "'QX0' is not a phone of the mapping table arpabet.csv.", "ZORBY  Z AO1 R B QX0"]);
-    expect((parse(await readFile(out, "utf8")) as string[][]).map((r) => r[0])).toEqual(["word", "FENWOLD"]);
+    expect(rejects[1]).toEqual([path, "1", "31", "arpabet/unknown-phone", "'QX0' is not a phone of the mapping table arpabet.csv.", "DOVRENNY  D AA1 V R EH0 N IY0 QX0"]);
+    expect((parse(await readFile(out, "utf8")) as string[][]).map((r) => r[0])).toEqual(["word", "FENNAMERE"]);
     const allowed = await runImport({ arpabet: path, output: out, allowRejects: true });
     expect(allowed.exitCode).toBe(0);
   });
 
   it("writes to standard output without -o", async () => {
-    const { path } = await dictFile(["HOLM  HH OW1 M"]);
+    const { path } = await dictFile(["KEST  K EH1 S T"]);
     const o = await runImport({ arpabet: path });
-    expect(o.stdout).toBe("word,pron,note\nHOLM,h ˈoʊ m,\n");
+    expect(o.stdout).toBe("word,pron,note\nKEST,k ˈɛ s t,\n");
   });
 
   it("exits 2 with a positioned error when the dictionary or the table cannot be read", async () => {
     const missing = await runImport({ arpabet: "/nonexistent/strata.dict" });
     expect(missing.exitCode).toBe(2);
     expect(missing.stderr).toContain("/nonexistent/strata.dict:1:1: error: Cannot read the dictionary: there is no such file.");
-    const { path } = await dictFile(["HOLM  HH OW1 M"]);
+    const { path } = await dictFile(["KEST  K EH1 S T"]);
     const noTable = await runImport({ arpabet: path, table: "/nonexistent/table.csv" });
     expect(noTable.exitCode).toBe(2);
     expect(noTable.stderr).toContain("arpabet/unreadable");
