@@ -4,6 +4,8 @@
 import { Command } from "commander";
 import { registerClasses } from "./classes.js";
 import { registerImport } from "./import.js";
+import { registerBuild } from "./build.js";
+import { registerTranscribe } from "./transcribe.js";
 
 const program = new Command();
 program
@@ -12,5 +14,7 @@ program
   .version("0.1.0");
 registerClasses(program);
 registerImport(program);
+registerBuild(program);
+registerTranscribe(program);
 
 await program.parseAsync(process.argv);

@@ -378,6 +378,12 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
             if (headerPending) {
               headerPending = false;
               stats.headerLine = line;
+              const cr = raw.indexOf("\r");
+              if (cr >= 0) {
+                fatal = diagnostic("error", "lexicon/cr-line-ends", "The lines of this file end in a bare carriage return (CR); Strata reads lines that end in LF or CRLF.", { file, line, column: Array.from(raw.slice(0, cr)).length + 1 });
+                if (out !== "") yield out;
+                return;
+              }
               if (!q.ok) {
                 fatal = diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line, column: q.column });
                 if (out !== "") yield out;

@@ -13,6 +13,8 @@ export interface SymbolView {
   readonly kind: Uint8Array;
   /** 1 primary, 2 secondary, 0 anything else (unstressed, unassigned, non-nucleus). */
   readonly stress: Uint8Array;
+  /** 1 for [+syllabic] segments. */
+  readonly nucleus: Uint8Array;
 }
 
 // Unicode Spacing Modifier Letters: U+02C8 MODIFIER LETTER VERTICAL LINE (primary stress),
@@ -25,6 +27,7 @@ export function symbolView(alphabet: Alphabet, inventory: Inventory): SymbolView
   const texts: string[] = new Array<string>(n).fill("");
   const kind = new Uint8Array(n);
   const stress = new Uint8Array(n);
+  const nucleusOf = new Uint8Array(n);
   kind[WORD] = 1;
   kind[SYLL] = 2;
   texts[WORD] = "#";
@@ -36,13 +39,14 @@ export function symbolView(alphabet: Alphabet, inventory: Inventory): SymbolView
     kind[s.id] = 3;
     texts[s.id] = s.text;
     const nucleus = iSyllabic !== undefined && s.bundle[iSyllabic] === "+";
+    if (nucleus) nucleusOf[s.id] = 1;
     if (!nucleus || iStress === undefined || iPrimary === undefined) continue;
     if (s.bundle[iStress] === "+") stress[s.id] = s.bundle[iPrimary] === "+" ? 1 : 2;
   }
   if (alphabet.segments.length > 0 && alphabet.segments[0]!.id !== FIRST_SEGMENT) {
     throw new Error("alphabet segments must start at FIRST_SEGMENT");
   }
-  return { texts, kind, stress };
+  return { texts, kind, stress, nucleus: nucleusOf };
 }
 
 export interface RenderOptions {
@@ -51,46 +55,51 @@ export interface RenderOptions {
 }
 
 /**
- * Renders one entry. Outer '#' are dropped, an inner '#' (between words of a phrase) becomes a
- * space, each syllable is prefixed by ˈ / ˌ when its nucleus is stressed, otherwise by '.' when it
- * is not the first of its word.
+ * Renders one entry, exactly as the interpreter's `symsToIpa` writes symbol arrays: outer '#'
+ * dropped, an inner run of '#' (between words of a phrase) becomes one space; each stretch between
+ * boundaries is prefixed by ˈ / ˌ when its first nucleus is stressed, otherwise by '.' when a
+ * syllable boundary opened it; a later stressed nucleus in the same stretch (a word not
+ * syllabified) gets its mark right before it.
  */
 export function renderIpa(ids: ArrayLike<number>, view: SymbolView, opts: RenderOptions = {}): string {
   const dots = opts.syllables ?? true;
-  let out = "";
-  let syl = "";
-  let sylStress = 0;
-  let firstInWord = true;
-  let wordOpen = false;
-  const flush = (): void => {
-    if (syl === "") return;
-    if (sylStress === 1) out += PRIMARY_MARK;
-    else if (sylStress === 2) out += SECONDARY_MARK;
-    else if (!firstInWord && dots) out += ".";
-    out += syl;
-    syl = "";
-    sylStress = 0;
-    firstInWord = false;
-  };
-  for (let i = 0; i < ids.length; i++) {
-    const id = ids[i]!;
-    const k = view.kind[id];
-    if (k === 3) {
-      if (!wordOpen) {
-        if (out !== "") out += " ";
-        wordOpen = true;
-        firstInWord = true;
+  const { kind, texts, stress } = view;
+  let from = 0;
+  let to = ids.length;
+  while (from < to && kind[ids[from]!] === 1) from++;
+  while (to > from && kind[ids[to - 1]!] === 1) to--;
+  let text = "";
+  let i = from;
+  let opener = 0; // 0 start, 1 word, 2 syllable
+  while (i <= to) {
+    let j = i;
+    while (j < to && kind[ids[j]!] === 3) j++;
+    let firstNucleus = -1;
+    let firstMark = 0;
+    for (let k = i; k < j; k++) {
+      if (view.nucleus[ids[k]!] === 1) {
+        firstNucleus = k;
+        firstMark = stress[ids[k]!]!;
+        break;
       }
-      syl += view.texts[id];
-      const st = view.stress[id]!;
-      if (st !== 0 && (sylStress === 0 || st < sylStress)) sylStress = st;
-    } else if (k === 2) {
-      flush();
-    } else if (k === 1) {
-      flush();
-      wordOpen = false;
     }
+    if (opener === 1) text += " ";
+    if (firstMark === 1) text += PRIMARY_MARK;
+    else if (firstMark === 2) text += SECONDARY_MARK;
+    else if (opener === 2 && dots) text += ".";
+    for (let k = i; k < j; k++) {
+      const id = ids[k]!;
+      if (k !== firstNucleus && view.nucleus[id] === 1) {
+        const st = stress[id];
+        if (st === 1) text += PRIMARY_MARK;
+        else if (st === 2) text += SECONDARY_MARK;
+      }
+      text += texts[id];
+    }
+    if (j >= to) break;
+    opener = kind[ids[j]!] === 1 ? 1 : 2;
+    i = j + 1;
+    while (opener === 1 && i < to && kind[ids[i]!] === 1) i++;
   }
-  flush();
-  return out.normalize("NFC");
+  return text;
 }

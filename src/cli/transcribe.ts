@@ -1,0 +1,111 @@
+// `strata transcribe -g DIR [-d VARIETY] [--format tsv|jsonl|pls] [FILE|-]`: a lexicon CSV in,
+// narrow transcriptions out on stdout as rows arrive (for pipelines); rejects reported on stderr.
+
+import type { Command } from "commander";
+import { formatDiagnostic } from "../diagnostics.js";
+import { formatJsonLine } from "../emit/jsonl.js";
+import { plsChunks, type PlsEntry } from "../emit/pls.js";
+import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
+import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
+import { transcribeRow } from "../lexicon/runner.js";
+import { grammarPath, loadEngine, positiveInt, printDiagnostics, type EngineKind } from "./common.js";
+import { Channel } from "../lexicon/channel.js";
+
+interface TranscribeOptions {
+  grammar: string;
+  dialect?: string;
+  format: string;
+  lang: string;
+  allowRejects: boolean;
+  engine: EngineKind;
+  cacheDir?: string;
+  maxStates?: number;
+}
+
+/** Writes to stdout respecting back-pressure. */
+function write(text: string): Promise<void> | void {
+  if (!process.stdout.write(text)) return new Promise((res) => process.stdout.once("drain", () => res()));
+}
+
+export async function runTranscribe(file: string | undefined, o: TranscribeOptions): Promise<number> {
+  if (!["tsv", "jsonl", "pls"].includes(o.format)) {
+    process.stderr.write(`strata: --format must be tsv, jsonl or pls, not '${o.format}'\n`);
+    return 2;
+  }
+  const loaded = loadEngine(grammarPath(o.grammar, o.dialect), {
+    kind: o.engine,
+    ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
+    ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
+    blame: o.format === "jsonl",
+  });
+  printDiagnostics(loaded.diagnostics);
+  if (!("engine" in loaded)) return 1;
+  const source = file === undefined || file === "-" ? process.stdin : file;
+  const reader = readLexicon(source, { inventory: loaded.inventory, file: file === undefined || file === "-" ? "<stdin>" : file });
+  let rejects = 0;
+  let entries = 0;
+  // PLS: one lexeme per word; rows of a word that follow each other are grouped as they stream.
+  const pls = o.format === "pls" ? new Channel<PlsEntry>() : undefined;
+  const plsWriter = pls !== undefined ? (async () => {
+    for await (const chunk of plsChunks(pls, { lang: o.lang, file: "<stdout>" })) await write(chunk);
+  })() : undefined;
+  let pending: { word: string; phonemes: string[]; line: number; file: string } | undefined;
+  const flush = (): void => {
+    if (pending !== undefined && pls !== undefined) pls.push({ word: pending.word, phonemes: pending.phonemes, preferred: 0, source: { file: pending.file, line: pending.line, column: 1 } });
+    pending = undefined;
+  };
+  if (o.format === "tsv") await write(tsvHeader());
+  try {
+    for await (const item of reader) {
+      const r = item.kind === "row" ? transcribeRow(loaded.engine, item) : item;
+      if (r.kind === "reject") {
+        rejects++;
+        process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
+        continue;
+      }
+      entries++;
+      if (o.format === "tsv") await write(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
+      else if (o.format === "jsonl") await write(formatJsonLine({ word: r.word, ...(r.id !== undefined ? { id: r.id } : {}), narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, source: { file: r.file, line: r.line } }));
+      else {
+        const mine = [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+        if (pending !== undefined && pending.word === r.word) {
+          for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
+        } else {
+          flush();
+          pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+        }
+      }
+    }
+    flush();
+    pls?.close();
+    await plsWriter;
+  } catch (err) {
+    pls?.fail(err);
+    await plsWriter?.catch(() => undefined);
+    throw err;
+  }
+  printDiagnostics(reader.diagnostics);
+  const stats = reader.stats;
+  process.stderr.write(`strata: ${stats.dataLines} rows read = ${entries} written + ${rejects} rejected\n`);
+  if (reader.diagnostics.some((d) => d.severity === "error")) return 1;
+  if (rejects > 0 && !o.allowRejects) return 3;
+  return 0;
+}
+
+export function registerTranscribe(program: Command): void {
+  program
+    .command("transcribe")
+    .description("stream a lexicon CSV through a grammar; narrow transcriptions on stdout")
+    .argument("[file]", "lexicon CSV (word,pron,...); '-' or nothing for standard input")
+    .requiredOption("-g, --grammar <dir>", "grammar folder (grammar.strata inside) or a .strata file")
+    .option("-d, --dialect <variety>", "use <dir>/<variety>.strata instead of grammar.strata")
+    .option("--format <format>", "tsv, jsonl or pls", "tsv")
+    .option("--lang <tag>", "BCP 47 tag for PLS xml:lang", "und")
+    .option("--allow-rejects", "exit 0 even when some rows were rejected", false)
+    .option("--engine <kind>", "machine or interpreter", "machine")
+    .option("--cache-dir <dir>", "read and write compiled machines here")
+    .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
+    .action(async (file: string | undefined, opts: TranscribeOptions) => {
+      process.exitCode = await runTranscribe(file, opts);
+    });
+}

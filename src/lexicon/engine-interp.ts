@@ -1,0 +1,36 @@
+// An Engine backed by the reference interpreter (no automata): slow, but written independently of
+// the compiler, so `strata build --check` and the tests can compare the two on whole lexicons.
+
+import type { Grammar } from "../grammar/ast.js";
+import type { Inventory } from "../inventory/types.js";
+import { applyGrammar, prepareGrammar, symsToIpa, WORD_EDGE, wordKey, type PreparedGrammar, type Word } from "../interp/index.js";
+import type { Engine, Transcription } from "./engine.js";
+
+/** The grammar with only its syllabify and stress steps: what the broad (syllabified) column shows. */
+export function prosodyOnly(grammar: Grammar): Grammar {
+  return { ...grammar, steps: grammar.steps.filter((s) => s.kind !== "rule") };
+}
+
+export class InterpreterEngine implements Engine {
+  readonly steps: readonly string[];
+  private readonly full: PreparedGrammar;
+  private readonly broadOnly: PreparedGrammar;
+
+  constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16) {
+    this.steps = grammar.steps.map((s) => s.name);
+    this.full = prepareGrammar(grammar, inventory);
+    this.broadOnly = prepareGrammar(prosodyOnly(grammar), inventory);
+  }
+
+  transcribeWord(symbols: Word): Transcription | undefined {
+    const word = [WORD_EDGE, ...symbols, WORD_EDGE];
+    const run = applyGrammar(this.full, this.inventory, word, { maxVariants: this.maxVariants });
+    const broadRun = applyGrammar(this.broadOnly, this.inventory, word);
+    const ipa = (w: Word): string => symsToIpa(w, this.inventory, { syllables: true });
+    const prefKey = wordKey(run.preferred);
+    const preferred = run.variants.find((v) => wordKey(v.word) === prefKey);
+    const narrow = ipa(run.preferred);
+    const variants = [narrow, ...run.outputs.filter((w) => wordKey(w) !== prefKey).map(ipa)];
+    return { narrow, broad: ipa(broadRun.preferred), variants, rules: preferred?.changedBy ?? [] };
+  }
+}

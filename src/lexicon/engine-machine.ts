@@ -1,0 +1,126 @@
+// The production Engine: the composed, frozen cascade of a compiled grammar gives the narrow form;
+// a one-block-per-step compilation of the same grammar says which steps changed the entry (blame);
+// the grammar's syllabify and stress steps alone give the broad syllabified column.
+
+import type { Diagnostic } from "../diagnostics.js";
+import type { Grammar } from "../grammar/ast.js";
+import type { Inventory } from "../inventory/types.js";
+import { WORD_EDGE, type Word } from "../interp/index.js";
+import { compileGrammar, type Compiled } from "../compile/index.js";
+import { PreferredRunner } from "../compile/cascade.js";
+import type { Engine, Transcription } from "./engine.js";
+import { prosodyOnly } from "./engine-interp.js";
+import { renderIpa, symbolView, type SymbolView } from "./render.js";
+
+export interface MachineEngineOptions {
+  /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
+  readonly cacheDir?: string;
+  /** Largest composed block in states (the compiler's default when absent). */
+  readonly maxStates?: number;
+  /** Most variants per entry (default 16). */
+  readonly maxVariants?: number;
+  /** Compute which steps changed each entry (default true; costs one run per step). */
+  readonly blame?: boolean;
+}
+
+export class MachineEngine implements Engine {
+  readonly steps: readonly string[];
+  private readonly view: SymbolView;
+  private readonly broadView: SymbolView;
+  private readonly out: number[] = [];
+
+  constructor(
+    readonly compiled: Compiled,
+    private readonly stepwise: Compiled | null,
+    private readonly broad: Compiled,
+    inventory: Inventory,
+    stepNames: readonly string[],
+    private readonly maxVariants: number,
+  ) {
+    this.steps = stepNames;
+    this.view = symbolView(compiled.alphabet, inventory);
+    this.broadView = symbolView(broad.alphabet, inventory);
+  }
+
+  /** Runs the preferred cascade on '#'-bracketed symbol ids; undefined when the machine rejects them. */
+  runIds(ids: ArrayLike<number>): number[] | undefined {
+    const out: number[] = [];
+    return this.compiled.preferred.run(ids, out) ? out : undefined;
+  }
+
+  transcribeWord(symbols: Word): Transcription | undefined {
+    const word = [WORD_EDGE, ...symbols, WORD_EDGE];
+    const ids = this.compiled.encode(word);
+    const bids = this.broad.encode(word);
+    if (ids === null || bids === null) return undefined;
+    const out = this.out;
+    out.length = 0;
+    if (!this.compiled.preferred.run(ids, out)) return undefined;
+    const narrow = renderIpa(out, this.view);
+    const bout: number[] = [];
+    if (!this.broad.preferred.run(bids, bout)) return undefined;
+    const broadText = renderIpa(bout, this.broadView);
+    let variants: string[] = [narrow];
+    if (this.compiled.hasVariants) {
+      const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view));
+      variants = [narrow, ...[...new Set(all)].filter((v) => v !== narrow)];
+    }
+    return { narrow, broad: broadText, variants, rules: this.blame(ids) };
+  }
+
+  /** Steps whose own machine changed the (preferred) word, in order. */
+  private blame(ids: number[]): string[] {
+    if (this.stepwise === null) return [];
+    const changed: string[] = [];
+    let cur: number[] = ids;
+    for (const b of this.stepwise.preferredBlocks) {
+      const next: number[] = [];
+      const runner = this.stepRunner(b.from);
+      if (runner === undefined || !runner(cur, next)) break;
+      if (!sameIds(cur, next)) changed.push(this.steps[b.from]!);
+      cur = next;
+    }
+    return changed;
+  }
+
+  private runnersByStep: Map<number, (i: ArrayLike<number>, o: number[]) => boolean> | undefined;
+  private stepRunner(step: number): ((i: ArrayLike<number>, o: number[]) => boolean) | undefined {
+    if (this.runnersByStep === undefined) {
+      this.runnersByStep = new Map();
+      const sw = this.stepwise!;
+      for (const b of sw.preferredBlocks) {
+        const runner = new PreferredRunner([b]);
+        this.runnersByStep.set(b.from, (i, o) => runner.run(i, o));
+      }
+    }
+    return this.runnersByStep.get(step);
+  }
+}
+
+function sameIds(a: readonly number[], b: readonly number[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+/** Compiles (or reads from the cache) everything the machine engine needs for one grammar. */
+export function machineEngine(
+  grammar: Grammar,
+  inventory: Inventory,
+  opts: MachineEngineOptions = {},
+): { engine?: MachineEngine; diagnostics: Diagnostic[] } {
+  const common = { ...(opts.cacheDir !== undefined ? { cacheDir: opts.cacheDir } : {}) };
+  const main = compileGrammar(grammar, inventory, { ...common, ...(opts.maxStates !== undefined ? { maxStates: opts.maxStates } : {}) });
+  const diagnostics = [...main.diagnostics];
+  if (main.compiled === null) return { diagnostics };
+  let stepwise: Compiled | null = null;
+  if (opts.blame ?? true) {
+    const sw = compileGrammar(grammar, inventory, { ...common, maxStates: 1 });
+    if (sw.compiled === null) return { diagnostics: [...diagnostics, ...sw.diagnostics] };
+    stepwise = sw.compiled;
+  }
+  const broad = compileGrammar(prosodyOnly(grammar), inventory, common);
+  if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
+  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16);
+  return { engine, diagnostics };
+}
