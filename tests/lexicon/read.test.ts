@@ -201,6 +201,12 @@ describe("lexicon reader: the header", () => {
     expect(reader.diagnostics).toEqual([expect.objectContaining({ code: "lexicon/unreadable", file: "/nonexistent/strata/lexicon.csv", line: 1 })]);
   });
 
+  it("reports a file whose lines end in a bare CR", async () => {
+    const { items, reader } = await readText("word,pron\rKest,kɛst\r");
+    expect(items).toEqual([]);
+    expect(reader.diagnostics.map((d) => [d.code, d.line, d.column])).toEqual([["lexicon/cr-line-ends", 1, 10]]);
+  });
+
   it("reports a header with broken quoting as an error for the file", async () => {
     const { reader } = await readText('"word,pron\nKest,kɛst\n');
     expect(reader.diagnostics.map((d) => [d.code, d.line, d.column])).toEqual([["lexicon/unclosed-quote", 1, 1]]);
