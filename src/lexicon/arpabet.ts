@@ -202,8 +202,9 @@ const JSON_PAIR = /^(\s*)("(?:[^"\\]|\\.)*")\s*:\s*("(?:[^"\\]|\\.)*")\s*,?\s*$/
  * Imports an ARPAbet dictionary given as lines. Accepted line forms:
  * - `WORD  PH1 PH2 …` (one or more spaces or tabs after the word), optionally `WORD(2) …` for an
  *   alternative pronunciation, optionally ending in ` # comment` (kept as the row's note);
- * - `"word": "PH1 PH2 …",` — a JSON object written one entry a line; lines `{` and `}` are skipped;
- * - `;;;` starts a comment line; blank lines are skipped.
+ * - `"word": "PH1 PH2 …",` — a JSON object written one entry a line; a line ending in `{` and the
+ *   lines `}` and `};` are skipped (so a JavaScript module exporting such an object also reads);
+ * - `;;;`, `//` and `/*` start a comment line; blank lines are skipped.
  * Every other line becomes a row or a positioned reject; nothing stops the import.
  */
 export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
@@ -218,7 +219,8 @@ export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts
       acc.blanks++;
       continue;
     }
-    if (trimmed.startsWith(";;;") || trimmed === "{" || trimmed === "}" || trimmed === "};") {
+    // Comment lines, and the lines that open or close a JSON (or JavaScript module) object.
+    if (trimmed.startsWith(";;;") || trimmed.startsWith("//") || trimmed.startsWith("/*") || trimmed.endsWith("{") || trimmed === "}" || trimmed === "};") {
       acc.comments++;
       continue;
     }

@@ -194,3 +194,18 @@ describe("the CMU Pronouncing Dictionary through the whole import path", () => {
     expect(reader.stats.dataLines).toBe(n);
   }, 60_000);
 });
+
+describe("the CMU Pronouncing Dictionary as a file, line by line", () => {
+  it("imports the package's own module file (a JavaScript object, one entry a line) with zero rejects", async () => {
+    const { readFile } = await import("node:fs/promises");
+    const { createRequire } = await import("node:module");
+    const path = createRequire(import.meta.url).resolve("cmu-pronouncing-dictionary/index.js");
+    const lines = (await readFile(path, "utf8")).split("\n");
+    const r = importArpabet(lines, table, { file: path });
+    expect(r.rejects).toEqual([]);
+    expect(r.rows.length).toBe(Object.keys(dictionary).length);
+    // the rest are the doc comment, the `export const dictionary = {` line and the closing brace (and a final empty line)
+    expect(r.lines).toBe(r.rows.length + r.comments + r.blanks);
+    expect(r.comments).toBe(3);
+  });
+});
