@@ -97,15 +97,17 @@ export function ruleContext(grammar: Pick<Grammar, "classes" | "nodes">, inv: In
 
 export { isBoundaryBlind };
 
-const desugared = new WeakMap<Rule, Rule>();
+const desugared = new WeakMap<Rule, { inv: Inventory; rule: Rule }>();
 
-/** The front end's `desugar`, memoised per rule object (it builds a new rule on every call). */
-export function desugarOnce(rule: Rule): Rule {
-  let d = desugared.get(rule);
-  if (d === undefined) {
-    d = rule.environments.some((e) => e.conditions.length > 0) ? desugar(rule) : rule;
-    desugared.set(rule, d);
-  }
+/**
+ * The front end's `desugar`, given the inventory and classes (so literal segments and classes
+ * are intersected with the condition material exactly), memoised per rule object and inventory.
+ */
+export function desugarOnce(rule: Rule, ctx: Pick<RuleContext, "inv" | "classes">): Rule {
+  const hit = desugared.get(rule);
+  if (hit !== undefined && hit.inv === ctx.inv) return hit.rule;
+  const d = rule.environments.some((e) => e.conditions.length > 0) ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()] }) : rule;
+  desugared.set(rule, { inv: ctx.inv, rule: d });
   return d;
 }
 
@@ -126,7 +128,7 @@ export type PrepareResult = { readonly rule: PreparedRule; readonly diagnostics:
 export function prepareRule(rule: Rule, ctx: RuleContext): PrepareResult {
   const hit = cache.get(rule);
   if (hit !== undefined && hit.ctx === ctx) return hit.result;
-  const written = ctx.conditions === "direct" ? rule : desugarOnce(rule);
+  const written = ctx.conditions === "direct" ? rule : desugarOnce(rule, ctx);
   const result = new Preparer(written, ctx).run();
   cache.set(rule, { ctx, result });
   return result;

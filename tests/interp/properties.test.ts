@@ -4,11 +4,12 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import type { Element, Environment, Pattern, ProsodicCondition, Rule } from "../../src/grammar/ast.js";
+import { checkGrammar } from "../../src/grammar/index.js";
 import { applyGrammar, applyRule, applyRuleDetailed, isBoundaryBlind, syllabify, wordKey } from "../../src/interp/index.js";
 import type { RuleContext, Sym } from "../../src/interp/index.js";
 import { ARB_CLASSES, ARB_NODES, arbGrammar, arbWord } from "../support/arb-grammar.js";
 import { tinyInventory as inv } from "../support/tiny-inventory.js";
-import { SPAN, bun, clusters, env } from "../support/ast.js";
+import { clusters } from "../support/ast.js";
 import { resolveClusters } from "../../src/interp/index.js";
 
 const classes = new Map(ARB_CLASSES.map((c) => [c.name, c] as const));
@@ -79,28 +80,29 @@ describe("the interpreter on random grammars", () => {
     );
   });
 
-  it("the front end's desugaring agrees with the conditions read one by one (DEVELOPERS.md table), on syllabified words, consonant targets and unwritten sides", () => {
+  it("the front end's desugaring agrees with the conditions read one by one (DEVELOPERS.md table) on syllabified words", () => {
+    // Only on syllabified words: on a string without '.', "the syllable of the target" is not
+    // defined, and the two readings may differ there (the checker warns about such grammars).
     const on = resolveClusters(clusters("p t k b d n pn tn kn"), inv).list;
     const co = resolveClusters(clusters("p t k n nt"), inv).list;
-    const conds: ProsodicCondition[] = ["onset", "coda", "syllable-initial", "syllable-final", "word-initial", "word-final", "stressed", "unstressed", "primary"];
-    const arbRule = fc.record({
-      target: fc.constantFrom("-syllabic", "-syllabic +voice", "-syllabic -nasal", "-syllabic +coronal"),
-      conditions: fc.uniqueArray(fc.constantFrom(...conds), { minLength: 1, maxLength: 2 }),
-      mode: fc.constantFrom("simultaneous", "left-to-right", "right-to-left" as const),
-    }).map(({ target, conditions, mode }): Rule => ({
-      kind: "rule", name: "r", span: SPAN, optional: false, mode: mode as Rule["mode"], prefer: "applied",
-      target: [bun(target)], change: [{ kind: "bundle", specs: [{ kind: "value", feature: "nasal", value: "+", span: SPAN }], span: SPAN }],
-      environments: [env([], [], conditions)],
-    }));
+    const withConditions = rules.filter((r) => r.environments.some((e) => e.conditions.length > 0));
     fc.assert(
-      fc.property(arbRule, arbWord(inv, { maxLength: 7 }), (r, w0) => {
-        // One syllable has one nucleus, so a pair of conditions placing nuclei on both sides reads alike only on real syllables.
+      fc.property(withConditions, arbWord(inv, { maxLength: 6 }), (r, w0) => {
         const w = syllabify(w0, on, co, inv).word;
         const a = applyRule(r, ctxFor(r, "desugared"), w).map(wordKey);
         const b = applyRule(r, ctxFor(r, "direct"), w).map(wordKey);
         expect(a).toEqual(b);
       }),
       { numRuns: 400 },
+    );
+  });
+
+  it("generated grammars pass the grammar checker without errors", () => {
+    fc.assert(
+      fc.property(arbGrammar(), ({ grammar }) => {
+        expect(checkGrammar(grammar, inv).filter((d) => d.severity === "error")).toEqual([]);
+      }),
+      { numRuns: 200 },
     );
   });
 });
