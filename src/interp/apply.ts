@@ -65,19 +65,57 @@ function isInsertionSite(view: readonly Sym[], k: number): boolean {
   return isSegment(s) || (k === view.length - 1 && isWordEdge(s));
 }
 
-export function applyPrepared(p: PreparedRule, word: Word): RuleOutputs {
+/**
+ * Apply a resolved rule. `limit` (default: none) bounds the number of distinct outputs kept:
+ * the search takes the preferred choice first at every site, so the preferred output is always
+ * among those kept, and `capped` says the search stopped at the limit (outputs may be missing).
+ */
+export function applyPrepared(p: PreparedRule, word: Word, limit = Number.POSITIVE_INFINITY): RuleOutputs & { readonly capped: boolean } {
   const v = makeView(word, p.blind);
   const results = new Map<string, Sym[]>();
   let preferred: Sym[] | null = null;
-  const record = (w: Sym[], pref: boolean): void => {
-    const k = wordKey(w);
-    if (!results.has(k)) results.set(k, w);
-    if (pref) preferred = w;
+  let capped = false;
+  const scan: Scan = {
+    record(w, pref) {
+      const k = wordKey(w);
+      if (!results.has(k)) {
+        if (results.size >= limit) {
+          capped = true;
+          return;
+        }
+        results.set(k, w);
+      }
+      if (pref) preferred = w;
+    },
+    full: () => results.size >= limit && preferred !== null && (capped = true),
   };
-  if (p.mode === "right-to-left") backward(p, v, record);
-  else forward(p, v, record);
+  if (p.mode === "right-to-left") backward(p, v, scan);
+  else forward(p, v, scan);
   const outputs = [...results.keys()].sort().map((k) => results.get(k) as Sym[]);
-  return { outputs, preferred: preferred ?? (outputs[0] as Sym[]) };
+  return { outputs, preferred: preferred ?? (outputs[0] as Sym[]), capped };
+}
+
+interface Scan {
+  record(w: Sym[], pref: boolean): void;
+  /** True once no more outputs are wanted (the search then stops). */
+  full(): boolean;
+}
+
+/**
+ * Run the branches of one site: the rewrite (one per change variant) and, for an optional rule
+ * or where no site holds, the copy; the preferred branch goes first.
+ */
+function branch(p: PreparedRule, scan: Scan, changes: readonly Sym[][], apply: (c: Sym[], pref: boolean) => void, copy: (pref: boolean) => void, pref: boolean): void {
+  const tasks: (() => void)[] = changes.map((c, idx) => () => apply(c, pref && idx === 0 && !(p.optional && p.prefer === "unapplied")));
+  if (changes.length === 0 || p.optional) {
+    const copyTask = (): void => copy(pref && !(changes.length > 0 && p.prefer === "applied"));
+    if (changes.length > 0 && p.prefer === "unapplied") tasks.unshift(copyTask);
+    else tasks.push(copyTask);
+  }
+  for (const t of tasks) {
+    if (scan.full()) return;
+    t();
+  }
 }
 
 /** The symbols a change writes over the target span `view[k .. k+n)`, with the span's dots in place. */
@@ -96,12 +134,12 @@ function splice(v: View, k: number, n: number, change: readonly Sym[]): Sym[] {
 }
 
 /** simultaneous and left-to-right: scan from the left; leftmost sites win, matches never overlap. */
-function forward(p: PreparedRule, v: View, record: (w: Sym[], pref: boolean) => void): void {
+function forward(p: PreparedRule, v: View, scan: Scan): void {
   const n = p.target.length;
   const { view } = v;
   const go = (k: number, out: Sym[], outView: Sym[], pref: boolean): void => {
     if (k >= view.length) {
-      record([...out, ...v.trailing], pref);
+      scan.record([...out, ...v.trailing], pref);
       return;
     }
     const left = p.mode === "left-to-right" ? { arr: outView, end: outView.length } : { arr: view, end: k };
@@ -109,25 +147,23 @@ function forward(p: PreparedRule, v: View, record: (w: Sym[], pref: boolean) => 
     if (n === 0 ? isInsertionSite(view, k) : k + n <= view.length) {
       changes = siteChanges(p, view.slice(k, k + n), left, { arr: view, start: k + n });
     }
-    const copy = (): void => go(k + 1, [...out, ...(v.dots[k] as Sym[]), view[k] as Sym], [...outView, view[k] as Sym], pref && !(changes.length > 0 && p.prefer === "applied"));
-    changes.forEach((c, idx) => {
-      const written = splice(v, k, n, c);
-      const writtenView = n === 0 ? [...c, view[k] as Sym] : c;
-      const prefHere = pref && idx === 0 && !(p.optional && p.prefer === "unapplied");
-      go(k + (n === 0 ? 1 : n), [...out, ...written], [...outView, ...writtenView], prefHere);
-    });
-    if (changes.length === 0 || p.optional) copy();
+    branch(
+      p, scan, changes,
+      (c, pr) => go(k + (n === 0 ? 1 : n), [...out, ...splice(v, k, n, c)], [...outView, ...(n === 0 ? [...c, view[k] as Sym] : c)], pr),
+      (pr) => go(k + 1, [...out, ...(v.dots[k] as Sym[]), view[k] as Sym], [...outView, view[k] as Sym], pr),
+      pref,
+    );
   };
   go(0, [], [], true);
 }
 
 /** right-to-left: the mirror image; the right side is read from the output already written. */
-function backward(p: PreparedRule, v: View, record: (w: Sym[], pref: boolean) => void): void {
+function backward(p: PreparedRule, v: View, scan: Scan): void {
   const n = p.target.length;
   const { view } = v;
   const go = (e: number, out: Sym[], outView: Sym[], pref: boolean): void => {
     if (e <= 0) {
-      record(out, pref);
+      scan.record(out, pref);
       return;
     }
     if (n === 0) {
@@ -136,25 +172,23 @@ function backward(p: PreparedRule, v: View, record: (w: Sym[], pref: boolean) =>
       const sym = view[k] as Sym;
       const rightView = [sym, ...outView];
       const changes = isInsertionSite(view, k) ? siteChanges(p, [], { arr: view, end: k }, { arr: rightView, start: 0 }) : [];
-      changes.forEach((c, idx) => {
-        const prefHere = pref && idx === 0 && !(p.optional && p.prefer === "unapplied");
-        go(k, [...splice(v, k, 0, c), ...out], [...c, ...rightView], prefHere);
-      });
-      if (changes.length === 0 || p.optional) {
-        go(k, [...(v.dots[k] as Sym[]), sym, ...out], rightView, pref && !(changes.length > 0 && p.prefer === "applied"));
-      }
+      branch(
+        p, scan, changes,
+        (c, pr) => go(k, [...splice(v, k, 0, c), ...out], [...c, ...rightView], pr),
+        (pr) => go(k, [...(v.dots[k] as Sym[]), sym, ...out], rightView, pr),
+        pref,
+      );
       return;
     }
     const k = e - n;
     const changes = k >= 0 ? siteChanges(p, view.slice(k, e), { arr: view, end: k }, { arr: outView, start: 0 }) : [];
-    changes.forEach((c, idx) => {
-      const prefHere = pref && idx === 0 && !(p.optional && p.prefer === "unapplied");
-      go(k, [...splice(v, k, n, c), ...out], [...c, ...outView], prefHere);
-    });
-    if (changes.length === 0 || p.optional) {
-      const j = e - 1;
-      go(j, [...(v.dots[j] as Sym[]), view[j] as Sym, ...out], [view[j] as Sym, ...outView], pref && !(changes.length > 0 && p.prefer === "applied"));
-    }
+    const j = e - 1;
+    branch(
+      p, scan, changes,
+      (c, pr) => go(k, [...splice(v, k, n, c), ...out], [...c, ...outView], pr),
+      (pr) => go(j, [...(v.dots[j] as Sym[]), view[j] as Sym, ...out], [view[j] as Sym, ...outView], pr),
+      pref,
+    );
   };
   go(view.length, [...v.trailing], [], true);
 }

@@ -132,7 +132,9 @@ export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory,
             results = [{ word: v.word, preferred: v.preferred }];
             break;
           }
-          const r = applyPrepared(step.rule, v.word);
+          // Each variant may give at most `max` words here; the preferred one is always among them.
+          const r = applyPrepared(step.rule, v.word, max);
+          if (r.capped) capped = true;
           const prefKey = wordKey(r.preferred);
           results = r.outputs.map((w) => ({ word: w, preferred: v.preferred && wordKey(w) === prefKey }));
           break;

@@ -3,7 +3,7 @@
 
 import { describe, expect, it } from "vitest";
 import type { Rule } from "../../src/grammar/ast.js";
-import { applyRule, applyRuleDetailed, ruleContext } from "../../src/interp/index.js";
+import { applyPrepared, applyRule, applyRuleDetailed, prepareRule, ruleContext, wordKey } from "../../src/interp/index.js";
 import { StrataError } from "../../src/diagnostics.js";
 import { tinyInventory as inv } from "../support/tiny-inventory.js";
 import { SB, WB, bun, chBun, chSeg, choice, classDef, cls, env, nodeDef, opt, rep, rule, seg } from "../support/ast.js";
@@ -120,6 +120,22 @@ describe("optional rules", () => {
   it("mark the preferred variant: applied at every site, or at none", () => {
     expect(preferred(flap("applied"), "atata")).toBe("adada");
     expect(preferred(flap("unapplied"), "atata")).toBe("atata");
+  });
+  it("can be bounded: the preferred output is always kept and the cut is reported", () => {
+    for (const prefer of ["applied", "unapplied"] as const) {
+      const r = flap(prefer);
+      const p = prepareRule(r, ruleContext(g, inv, r));
+      if (p.rule === null) throw new Error("unprepared");
+      const w = symsOf("atatatatatatata", inv);
+      const all = applyPrepared(p.rule, w);
+      expect(all.outputs).toHaveLength(128);
+      expect(all.capped).toBe(false);
+      const few = applyPrepared(p.rule, w, 5);
+      expect(few.outputs).toHaveLength(5);
+      expect(few.capped).toBe(true);
+      expect(wordKey(few.preferred)).toBe(wordKey(all.preferred));
+      expect(few.outputs.map(wordKey)).toContain(wordKey(all.preferred));
+    }
   });
   it("continue after an unapplied site at the next symbol, so overlapping sites of a long target are alternatives", () => {
     const r = rule("aa", [seg("a"), seg("a")], [chSeg("i"), chSeg("i")], [], { optional: true });
