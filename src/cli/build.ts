@@ -76,7 +76,8 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     }
     summaries.push(summary);
     const fileErrors = summary.diagnostics.filter((d) => d.code.startsWith("lexicon/") && d.line <= 1);
-    if (!summary.reconciled || fileErrors.length > 0) failed = true;
+    if (!summary.reconciled || fileErrors.length > 0 || summary.outputErrors.length > 0) failed = true;
+    printDiagnostics([...fileErrors, ...summary.outputErrors]);
     if (summary.rowsRejected > 0) rejected = true;
     if (!o.quiet) printSummary(summary, compileMs, outDir, o.samples);
     if (o.check !== undefined) {

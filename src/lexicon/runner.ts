@@ -39,6 +39,8 @@ export interface RunSummary {
   readonly changedBy: readonly { readonly step: string; readonly entries: number }[];
   readonly files: Readonly<Record<string, string>>;
   readonly diagnostics: readonly Diagnostic[];
+  /** Outputs that could not be written (e.g. a character XML 1.0 does not allow, for PLS); that file is absent. */
+  readonly outputErrors: readonly Diagnostic[];
   readonly seconds: number;
   /** rowsRead === entriesWritten + rowsRejected. */
   readonly reconciled: boolean;
@@ -125,6 +127,7 @@ export async function runLexicon(
     throw err;
   }
   const diagnostics = [...reader.diagnostics];
+  const outputErrors: Diagnostic[] = [];
   if (diagnostics.some((d) => d.severity === "error")) {
     const err = new Error(diagnostics.map(formatDiagnostic).join("\n"));
     for (const ch of channels) ch.fail(err);
@@ -139,7 +142,10 @@ export async function runLexicon(
     files["lexicon.pls"] = path;
     const plsEntries: PlsEntry[] = [...lexemes].map(([word, lx]) => ({ word, phonemes: lx.phonemes, preferred: 0, source: lx.source }));
     const res = await writePls(path, plsEntries, { lang: variety.lang });
-    if (!res.ok) diagnostics.push(res.error);
+    if (!res.ok) {
+      outputErrors.push(res.error);
+      delete files["lexicon.pls"];
+    }
   }
   files["rejects.csv"] = join(outDir, "rejects.csv");
   await writeRejects(files["rejects.csv"], rejects);
@@ -156,7 +162,8 @@ export async function runLexicon(
     variantsTotal,
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
-    diagnostics: [...diagnostics, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
+    outputErrors,
+    diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
     reconciled: rowsRead === entries + rejects.length,
   };
@@ -168,6 +175,6 @@ export async function runLexicon(
 function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number): RunSummary {
   return {
     variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0,
-    changedBy: [], files: {}, diagnostics, seconds: (performance.now() - t0) / 1000, reconciled: false,
+    changedBy: [], files: {}, diagnostics, outputErrors: [], seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }
