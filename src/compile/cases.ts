@@ -79,6 +79,13 @@ export interface LowerRuleOptions {
   readonly blind: boolean;
   /** Input symbols that can reach this step. */
   readonly domain: Uint8Array;
+  /** Build the preferred variant: obligatory application, and the first change by key where alpha cases disagree. */
+  readonly preferred?: boolean;
+}
+
+/** Sort keys of symbol ids, as the interpreter orders changes ('#', '.', or the bundle's key). */
+export function symbolKeys(a: Alphabet): string[] {
+  return ["", "#", ".", ...a.segments.map((s) => s.key)];
 }
 
 /**
@@ -149,7 +156,9 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
   return {
     name: rule.name,
     mode: rule.mode,
-    optional: rule.optional && !opts.asObligatory,
+    optional: rule.optional && !opts.asObligatory && !opts.preferred,
+    preferSmallest: opts.preferred === true,
+    keys: opts.preferred === true ? symbolKeys(alphabet) : [],
     blind: opts.blind,
     n,
     cases,

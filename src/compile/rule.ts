@@ -52,6 +52,13 @@ export interface LoweredRule {
   readonly size: number;
   /** Input symbols the machine accepts (the step's domain). */
   readonly domain: Uint8Array;
+  /**
+   * Keep only the preferred change where alpha cases disagree at one site: the change whose
+   * symbols sort first by key (the interpreter's choice). Exact for one-segment targets.
+   */
+  readonly preferSmallest?: boolean;
+  /** Sort key of each symbol id (for `preferSmallest`). */
+  readonly keys?: readonly string[];
 }
 
 /** A transducer as plain arcs (state 0 is not necessarily the start). Labels: input, output symbol ids, 0 = ε. */
@@ -83,6 +90,8 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   const leftOnOutput = mode === "left-to-right";
   const rightOnOutput = rtl;
   const nl = lefts.length;
+  const prefer = r.preferSmallest === true && n === 1;
+  const keys = r.keys ?? [];
   const domain: number[] = [];
   for (let x = 1; x < size; x++) if (r.domain[x]) domain.push(x);
 
@@ -234,9 +243,15 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
           const y = o0[x]!;
           if (y < 0) continue;
           nextS = n === 1 ? 0 : 1 + cases.indexOf(c) * n + 1;
+          // Cases whose change on x sorts before this one must not hold here (preferred variant).
+          const better = prefer ? cases.filter((d) => d !== c && d.target[0]![x] && d.out[0]![x]! >= 0 && keys[d.out[0]![x]!]! < keys[y]!) : [];
+          const excludeBetter = (p: Int32Array, v: Pending[]): boolean => {
+            for (const d of better) if (leftHolds(p, d) && !spawn(v, d.right, false)) return false;
+            return true;
+          };
           go([x, y], (k, p, v) => {
-            if (!rtl) return k === 0 ? spawn(v, c.right, true) : true;
-            if (n === 1 && k === 1) return leftHolds(p, c) && spawn(v, c.right, true);
+            if (!rtl) return k === 0 ? spawn(v, c.right, true) && excludeBetter(p, v) : true;
+            if (n === 1 && k === 1) return leftHolds(p, c) && spawn(v, c.right, true) && excludeBetter(p, v);
             return true;
           });
         }

@@ -94,3 +94,22 @@ export const wordArb: fc.Arbitrary<Sym[]> = fc
     { maxLength: 7 },
   )
   .map((body) => [WORD_EDGE, ...body, WORD_EDGE]);
+
+/** Random onset and coda lists over the tiny inventory's consonants (null: none declared). */
+const CONS = ["p", "t", "k", "b", "d", "n"] as const;
+const clusterArb = fc.array(fc.constantFrom(...CONS), { minLength: 1, maxLength: 3 }).map((c) => ({ segments: c, span: SPAN }));
+export const clusterListArb = fc.option(fc.uniqueArray(clusterArb, { maxLength: 10, selector: (c) => c.segments.join("") }), { freq: 5 });
+
+/** Random heavy patterns: a nucleus with a feature, or a nucleus followed by a consonant. */
+export const heavyArb: fc.Arbitrary<Pattern[]> = fc.subarray([
+  { kind: "sequence", items: [pat(bun("+syllabic +nasal"))], span: SPAN } as Pattern,
+  { kind: "sequence", items: [pat(bun("+syllabic +coronal"))], span: SPAN } as Pattern,
+  { kind: "sequence", items: [pat(bun("+syllabic")), pat(bun("-syllabic"))], span: SPAN } as Pattern,
+]);
+
+/** A random stress step. */
+export const stressArb = fc.record({
+  edge: fc.constantFrom<"left" | "right">("left", "right"),
+  position: fc.integer({ min: 1, max: 3 }),
+  otherwise: fc.option(fc.integer({ min: 1, max: 3 }), { freq: 2 }),
+});

@@ -1,0 +1,120 @@
+// The compiled-machine cache under build/cache/: one file per (grammar, inventory, compiler
+// version) key, written whole (temp file, then rename) and checked by a checksum when read.
+//
+// File layout (little-endian): "STRATA-CACHE\n" magic, u32 format version, 32-byte SHA-256 of the
+// payload, then the payload: u32 JSON length, the JSON (metadata), then every machine as Int32
+// words [states, start, finalCount, finals…, arcCount, (from, input, output, to)…].
+
+import { createHash } from "node:crypto";
+import { mkdirSync, readFileSync, renameSync, writeFileSync, existsSync, unlinkSync } from "node:fs";
+import { join } from "node:path";
+import { Fst } from "../fst/index.js";
+
+const MAGIC = Buffer.from("STRATA-CACHE\n", "utf8");
+const FORMAT = 1;
+
+export function sha256(parts: readonly (string | Uint8Array)[]): string {
+  const h = createHash("sha256");
+  for (const p of parts) {
+    h.update(typeof p === "string" ? Buffer.from(p, "utf8") : p);
+    h.update("\u0000");
+  }
+  return h.digest("hex");
+}
+
+export function cachePath(dir: string, key: string): string {
+  return join(dir, `${key}.bin`);
+}
+
+function encodeMachine(f: Fst, words: number[]): void {
+  words.push(f.numStates, f.numStates > 0 ? f.start : -1);
+  const finals: number[] = [];
+  for (let s = 0; s < f.numStates; s++) {
+    if (!f.isFinal(s)) continue;
+    if ((f.finalOutput(s) ?? []).length > 0) throw new Error("cache: final outputs are not stored");
+    finals.push(s);
+  }
+  words.push(finals.length, ...finals);
+  words.push(f.numArcs());
+  for (let s = 0; s < f.numStates; s++) for (const a of f.arcs(s)) words.push(s, a.input, a.output, a.target);
+}
+
+function decodeMachine(w: Int32Array, at: { i: number }): Fst {
+  const f = new Fst();
+  const n = w[at.i++]!;
+  const start = w[at.i++]!;
+  f.addStates(n);
+  if (n > 0) f.setStart(start);
+  const nf = w[at.i++]!;
+  for (let k = 0; k < nf; k++) f.setFinal(w[at.i++]!);
+  const na = w[at.i++]!;
+  for (let k = 0; k < na; k++) {
+    const s = w[at.i]!, i = w[at.i + 1]!, o = w[at.i + 2]!, t = w[at.i + 3]!;
+    at.i += 4;
+    f.addArc(s, i, o, t);
+  }
+  return f;
+}
+
+/** Writes metadata and machines whole: temp file in the same folder, then rename. */
+export function writeCache(dir: string, key: string, meta: unknown, machines: readonly Fst[]): void {
+  mkdirSync(dir, { recursive: true });
+  const json = Buffer.from(JSON.stringify(meta), "utf8");
+  const words: number[] = [];
+  for (const m of machines) encodeMachine(m, words);
+  const body = Buffer.from(Int32Array.from(words).buffer);
+  const head = Buffer.alloc(4);
+  head.writeUInt32LE(json.length, 0);
+  const payload = Buffer.concat([head, json, body]);
+  const digest = createHash("sha256").update(payload).digest();
+  const fmt = Buffer.alloc(4);
+  fmt.writeUInt32LE(FORMAT, 0);
+  const file = cachePath(dir, key);
+  const tmp = `${file}.${process.pid}.tmp`;
+  writeFileSync(tmp, Buffer.concat([MAGIC, fmt, digest, payload]));
+  renameSync(tmp, file);
+}
+
+export type CacheRead =
+  | { readonly state: "missing" }
+  | { readonly state: "corrupt"; readonly reason: string }
+  | { readonly state: "ok"; readonly meta: unknown; readonly machines: Fst[] };
+
+/** Reads a cache file; a wrong magic, format, checksum or a truncated body is "corrupt". */
+export function readCache(dir: string, key: string, machineCount: (meta: unknown) => number): CacheRead {
+  const file = cachePath(dir, key);
+  if (!existsSync(file)) return { state: "missing" };
+  let buf: Buffer;
+  try {
+    buf = readFileSync(file);
+  } catch (e) {
+    return { state: "corrupt", reason: `cannot read: ${(e as Error).message}` };
+  }
+  const min = MAGIC.length + 4 + 32 + 4;
+  if (buf.length < min || !buf.subarray(0, MAGIC.length).equals(MAGIC)) return { state: "corrupt", reason: "not a Strata cache file" };
+  if (buf.readUInt32LE(MAGIC.length) !== FORMAT) return { state: "corrupt", reason: "written by another cache format" };
+  const digest = buf.subarray(MAGIC.length + 4, MAGIC.length + 36);
+  const payload = buf.subarray(MAGIC.length + 36);
+  if (!createHash("sha256").update(payload).digest().equals(digest)) return { state: "corrupt", reason: "checksum mismatch" };
+  try {
+    const jl = payload.readUInt32LE(0);
+    const meta: unknown = JSON.parse(payload.subarray(4, 4 + jl).toString("utf8"));
+    const body = payload.subarray(4 + jl);
+    if (body.length % 4 !== 0) return { state: "corrupt", reason: "truncated machine data" };
+    const words = new Int32Array(body.buffer.slice(body.byteOffset, body.byteOffset + body.length));
+    const at = { i: 0 };
+    const machines: Fst[] = [];
+    const count = machineCount(meta);
+    for (let k = 0; k < count; k++) machines.push(decodeMachine(words, at));
+    if (at.i !== words.length) return { state: "corrupt", reason: "machine data does not match its description" };
+    return { state: "ok", meta, machines };
+  } catch (e) {
+    return { state: "corrupt", reason: `unreadable: ${(e as Error).message}` };
+  }
+}
+
+/** Removes a cache file (used before rebuilding a corrupt one). */
+export function dropCache(dir: string, key: string): void {
+  const file = cachePath(dir, key);
+  if (existsSync(file)) unlinkSync(file);
+}

@@ -1,0 +1,138 @@
+// The cascade: the steps' machines composed in order into one machine, or — where a composition
+// would exceed a size limit — into consecutive blocks applied in sequence (the same relation).
+// Also the runners: the preferred cascade frozen for speed, the variants cascade for every output.
+
+import {
+  FstError, FstLimitError, compose, determiniseTransducer, minimise, type Fst,
+} from "../fst/index.js";
+import { FrozenFst, freeze, freezeDeterministic, type DeterministicRunner } from "../fst/frozen.js";
+
+export interface Block {
+  readonly machine: Fst;
+  /** Steps [from, to) of the cascade composed into this block (indices into the machine list). */
+  readonly from: number;
+  readonly to: number;
+  readonly states: number;
+  readonly arcs: number;
+}
+
+/**
+ * Composes `machines` left to right (Mohri, Pereira & Riley composition, then minimisation). When a
+ * composition would pass `maxStates` states, the current block is closed and the next machine
+ * starts a new one; applying the blocks in sequence gives the same relation as one machine.
+ * `null` entries (identity steps) are skipped.
+ */
+export function composeCascade(machines: readonly (Fst | null)[], maxStates: number): Block[] {
+  const blocks: Block[] = [];
+  let acc: Fst | null = null;
+  let from = 0;
+  const close = (to: number): void => {
+    if (acc === null) return;
+    blocks.push({ machine: acc, from, to, states: acc.numStates, arcs: acc.numArcs() });
+    acc = null;
+  };
+  machines.forEach((m, i) => {
+    if (m === null) return;
+    if (acc === null) { acc = m; from = i; return; }
+    let next: Fst | null = null;
+    try {
+      const c = compose(acc, m, { maxStates });
+      next = c.numStates > maxStates ? null : minimise(c);
+      if (next !== null && next.numStates > maxStates) next = null;
+    } catch (e) {
+      if (!(e instanceof FstLimitError)) throw e;
+      next = null;
+    }
+    if (next === null) {
+      close(i);
+      acc = m;
+      from = i;
+    } else acc = next;
+  });
+  close(machines.length);
+  return blocks;
+}
+
+/** Runs one functional block: a dense sequential table when the block is subsequential, else a search. */
+interface BlockRunner {
+  run(input: ArrayLike<number>, out: number[]): boolean;
+  readonly kind: "sequential" | "search";
+}
+
+function blockRunner(m: Fst): BlockRunner {
+  // A subsequential block becomes a dense table; when determinisation does not terminate within a
+  // few times the block's size (no bounded delay: right contexts of unbounded length), search.
+  let d: ReturnType<typeof determiniseTransducer> | null = null;
+  try {
+    d = determiniseTransducer(m, { maxStates: Math.min(Math.max(500, 2 * m.numStates), 50_000) });
+  } catch (e) {
+    if (!(e instanceof FstLimitError)) throw e;
+  }
+  if (d !== null && d.ok) {
+    let r: DeterministicRunner | null = null;
+    try {
+      r = freezeDeterministic(d.fst);
+    } catch (e) {
+      if (!(e instanceof FstError)) throw e;
+    }
+    if (r !== null) { const run = r; return { kind: "sequential", run: (input, out) => run.run(input, out) }; }
+  }
+  const f: FrozenFst = freeze(m);
+  return {
+    kind: "search",
+    run: (input, out) => {
+      const res = f.applyAll(input, 1);
+      const first = res.outputs[0];
+      if (first === undefined) return false;
+      for (const x of first) out.push(x);
+      return true;
+    },
+  };
+}
+
+/** The preferred cascade: each block functional; runs them in sequence. */
+export class PreferredRunner {
+  private readonly runners: BlockRunner[];
+  constructor(blocks: readonly Block[]) {
+    this.runners = blocks.map((b) => blockRunner(b.machine));
+  }
+  /** How each block runs ("sequential": dense table; "search": general search for the one output). */
+  get kinds(): string[] {
+    return this.runners.map((r) => r.kind);
+  }
+  /** Runs the word (symbol ids, '#'-bracketed); appends the output to `out`; false when rejected. */
+  run(symbols: ArrayLike<number>, out: number[]): boolean {
+    if (this.runners.length === 0) { for (let i = 0; i < symbols.length; i++) out.push(symbols[i]!); return true; }
+    let cur: ArrayLike<number> = symbols;
+    for (let k = 0; k < this.runners.length; k++) {
+      const buf: number[] = k === this.runners.length - 1 ? out : [];
+      if (!this.runners[k]!.run(cur, buf)) return false;
+      cur = buf;
+    }
+    return true;
+  }
+}
+
+/** Every output of the variants cascade (sorted, distinct), at most `cap`; `capped` when some were dropped. */
+export class VariantsRunner {
+  private readonly frozen: FrozenFst[];
+  constructor(blocks: readonly Block[]) {
+    this.frozen = blocks.map((b) => freeze(b.machine));
+  }
+  run(symbols: ArrayLike<number>, cap = 16): { outputs: number[][]; capped: boolean } {
+    let cur: number[][] = [Array.from(symbols)];
+    let capped = false;
+    for (const f of this.frozen) {
+      const next = new Map<string, number[]>();
+      for (const w of cur) {
+        const r = f.applyAll(w, cap);
+        if (r.capped) capped = true;
+        for (const o of r.outputs) next.set(o.join(","), o);
+      }
+      const keys = [...next.keys()].sort();
+      if (keys.length > cap) capped = true;
+      cur = keys.slice(0, cap).map((k) => next.get(k)!);
+    }
+    return { outputs: cur, capped };
+  }
+}

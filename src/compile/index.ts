@@ -1,0 +1,314 @@
+// The rule compiler's public surface: a grammar and its inventory become the alphabet, one machine
+// per step (rules, syllabify, stress), the composed cascades (preferred and variants) and runners.
+
+import type { Grammar, Rule, Step } from "../grammar/ast.js";
+import { desugar as grammarDesugar, isBoundaryBlind } from "../grammar/index.js";
+import type { Bundle, Inventory } from "../inventory/types.js";
+import { bundleKey } from "../inventory/types.js";
+import type { Sym } from "../interp/index.js";
+import { SYLLABLE_EDGE, WORD_EDGE } from "../interp/index.js";
+import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import type { Fst } from "../fst/index.js";
+import { type Alphabet, computeAlphabet, FIRST_SEGMENT, SYLL, WORD, symbolText } from "./alphabet.js";
+import { ContextTooLargeError } from "./context.js";
+import { SymbolLowering, lowerRule } from "./cases.js";
+import { Lowering, LowerError } from "./lower.js";
+import { buildRule, RuleTooLargeError, type PairNfa } from "./rule.js";
+import { buildStress, buildSyllabifier } from "./prosody.js";
+import { finishMachine, pairNfaToFst } from "./machine.js";
+import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
+import { dropCache, readCache, sha256, writeCache } from "./cache.js";
+
+export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from "./alphabet.js";
+export type { Block } from "./cascade.js";
+
+/** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
+export const COMPILER_VERSION = "strata-compile-1";
+
+export interface CompileOptions {
+  /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */
+  readonly cacheDir?: string;
+  /** Largest composed block, in states, before the cascade starts a new block (default 50 000). */
+  readonly maxStates?: number;
+  /** Shorthand expansion (default: the grammar front end's `desugar`). */
+  readonly desugar?: (rule: Rule) => Rule;
+}
+
+/** Size of one step's machine (the variants machine; `preferred*` when the preferred one differs). */
+export interface StepSize {
+  readonly name: string;
+  readonly kind: Step["kind"];
+  readonly optional: boolean;
+  readonly states: number;
+  readonly arcs: number;
+  readonly preferredStates: number;
+  readonly preferredArcs: number;
+}
+
+export interface CascadeSize {
+  readonly blocks: readonly { readonly from: number; readonly to: number; readonly states: number; readonly arcs: number }[];
+  readonly states: number;
+  readonly arcs: number;
+}
+
+export interface Compiled {
+  readonly alphabet: Alphabet;
+  readonly steps: readonly StepSize[];
+  /** The preferred cascade (optional rules at their preferred setting), frozen. */
+  readonly preferred: PreferredRunner;
+  readonly preferredSize: CascadeSize;
+  readonly variantsSize: CascadeSize;
+  /** True when some optional rule (or alpha ambiguity) can give a word several outputs. */
+  readonly hasVariants: boolean;
+  /** Every output of the grammar for a word (symbol ids), sorted, at most `cap`. */
+  variants(symbols: ArrayLike<number>, cap?: number): { outputs: number[][]; capped: boolean };
+  /** Symbol ids of an interpreter word; null when a segment is outside the alphabet. */
+  encode(word: readonly Sym[]): number[] | null;
+  decode(ids: ArrayLike<number>): Sym[];
+  /** "hit": read from the cache; "miss": compiled and stored; "rebuilt": the cached file was stale or corrupt; "off": no cache folder. */
+  readonly cache: "hit" | "miss" | "rebuilt" | "off";
+  readonly cacheKey: string;
+  /** Milliseconds: compiling the steps, composing, freezing (zero for parts read from the cache). */
+  readonly timings: { readonly steps: number; readonly compose: number; readonly freeze: number; readonly total: number };
+  /** The block machines of both cascades (for DOT output and tests). */
+  readonly preferredBlocks: readonly Block[];
+  readonly variantBlocks: readonly Block[];
+}
+
+export type CompileResult = { readonly compiled: Compiled; readonly diagnostics: readonly Diagnostic[] } | { readonly compiled: null; readonly diagnostics: readonly Diagnostic[] };
+
+/** Everything before composition: the alphabet and each step's machines. */
+export interface CompiledSteps {
+  readonly alphabet: Alphabet;
+  readonly steps: readonly { readonly step: Step; readonly variants: Fst; readonly preferred: Fst | null }[];
+}
+
+function stepError(step: Step, e: unknown): Diagnostic {
+  if (e instanceof LowerError) return e.diagnostic;
+  const span = step.span;
+  if (e instanceof RuleTooLargeError || e instanceof ContextTooLargeError) {
+    return diagnostic("error", "compile/too-large", `Step '${step.name}' is too large to compile: ${e.message}. Simplify its contexts or split the rule.`, span);
+  }
+  throw e;
+}
+
+/**
+ * The desugared steps, as the compiler and the interpreter both read them. The default is the
+ * grammar front end's `desugar` with the inventory and classes (so literals and classes are
+ * intersected exactly with the condition material).
+ */
+export function desugaredSteps(grammar: Grammar, inv: Inventory, desugar?: (r: Rule) => Rule): Step[] {
+  const d = desugar ?? ((r: Rule) => grammarDesugar(r, { inventory: inv, classes: grammar.classes }));
+  return grammar.steps.map((s) => (s.kind === "rule" ? d(s) : s));
+}
+
+/** Compiles one step into its machine(s) over the alphabet. `preferred` null: the preferred cascade skips it (identity). */
+export function compileStep(
+  grammar: Grammar, low: Lowering, alphabet: Alphabet, step: Step, domain: Uint8Array,
+): { variants: Fst; preferred: Fst | null } {
+  const sl = new SymbolLowering(low, alphabet);
+  const fin = (p: PairNfa): Fst => finishMachine(pairNfaToFst(p));
+  switch (step.kind) {
+    case "syllabify": {
+      const m = fin(buildSyllabifier(grammar, low, alphabet, domain, step.span));
+      return { variants: m, preferred: m };
+    }
+    case "stress": {
+      const m = fin(buildStress(step, grammar, sl, domain));
+      return { variants: m, preferred: m };
+    }
+    case "rule": {
+      const blind = isBoundaryBlind(step);
+      const variants = fin(buildRule(lowerRule(sl, step, { blind, domain })));
+      if (step.optional && step.prefer === "unapplied") return { variants, preferred: null };
+      const preferred = fin(buildRule(lowerRule(sl, step, { blind, domain, preferred: true })));
+      return { variants, preferred };
+    }
+    default: {
+      const never: never = step;
+      throw new Error(String(never));
+    }
+  }
+}
+
+/** Alphabet and per-step machines, with diagnostics for anything that cannot be compiled. */
+export function compileSteps(grammar: Grammar, inv: Inventory, opts: CompileOptions = {}): { result: CompiledSteps | null; diagnostics: Diagnostic[] } {
+  const diagnostics: Diagnostic[] = [];
+  const steps = desugaredSteps(grammar, inv, opts.desugar);
+  const low = new Lowering(grammar, inv);
+  let alphabet: Alphabet;
+  try {
+    alphabet = computeAlphabet(grammar, inv, low, steps);
+  } catch (e) {
+    if (e instanceof LowerError) return { result: null, diagnostics: [e.diagnostic] };
+    throw e;
+  }
+  const out: { step: Step; variants: Fst; preferred: Fst | null }[] = [];
+  steps.forEach((step, k) => {
+    try {
+      out.push({ step, ...compileStep(grammar, low, alphabet, step, alphabet.domains[k]!) });
+    } catch (e) {
+      diagnostics.push(stepError(step, e));
+    }
+  });
+  if (diagnostics.some((d) => d.severity === "error")) return { result: null, diagnostics };
+  return { result: { alphabet, steps: out }, diagnostics };
+}
+
+function cascadeSize(blocks: readonly Block[]): CascadeSize {
+  return {
+    blocks: blocks.map((b) => ({ from: b.from, to: b.to, states: b.states, arcs: b.arcs })),
+    states: blocks.reduce((n, b) => n + b.states, 0),
+    arcs: blocks.reduce((n, b) => n + b.arcs, 0),
+  };
+}
+
+/** The cache key: compiler version, options that change the result, the grammar and the inventory. */
+export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number): string {
+  const invData = {
+    features: inv.features,
+    segments: inv.segments.map((s) => [s.symbol, bundleKey(s.bundle)]),
+    diacritics: inv.diacritics.map((d) => [d.mark, d.name, [...d.sets.entries()], d.aliases, d.order]),
+  };
+  const g = { ...grammar, file: "", files: [] };
+  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(g), JSON.stringify(invData)]);
+}
+
+interface CacheMeta {
+  readonly version: string;
+  readonly alphabet: { readonly bundles: string[]; readonly texts: string[]; readonly domains: number[][] };
+  readonly steps: StepSize[];
+  readonly preferred: { from: number; to: number }[];
+  readonly variants: { from: number; to: number }[];
+  readonly hasVariants: boolean;
+}
+
+function alphabetFromMeta(meta: CacheMeta["alphabet"]): Alphabet {
+  const byKey = new Map<string, number>();
+  const segments = meta.bundles.map((key, i) => {
+    byKey.set(key, i + FIRST_SEGMENT);
+    return { id: i + FIRST_SEGMENT, key, bundle: [...key] as Bundle, text: meta.texts[i]! };
+  });
+  const size = segments.length + FIRST_SEGMENT;
+  const domains = meta.domains.map((ids) => { const d = new Uint8Array(size); for (const i of ids) d[i] = 1; return d; });
+  return { size, segments, byKey, domains };
+}
+
+function isCacheMeta(m: unknown): m is CacheMeta {
+  return typeof m === "object" && m !== null && (m as { version?: unknown }).version === COMPILER_VERSION
+    && Array.isArray((m as CacheMeta).preferred) && Array.isArray((m as CacheMeta).variants);
+}
+
+/**
+ * Compiles a grammar (steps in order) over an inventory. Errors come back as diagnostics with
+ * the offending rule's position; with `cacheDir`, a previous compilation with the same key is
+ * read instead (a corrupt or stale file is rebuilt and reported as "rebuilt").
+ */
+export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOptions = {}): CompileResult {
+  const t0 = performance.now();
+  const maxStates = opts.maxStates ?? 50_000;
+  const key = cacheKeyOf(grammar, inv, maxStates);
+  let cacheState: Compiled["cache"] = opts.cacheDir === undefined ? "off" : "miss";
+  if (opts.cacheDir !== undefined) {
+    const read = readCache(opts.cacheDir, key, (m) => (isCacheMeta(m) ? m.preferred.length + m.variants.length : 0));
+    if (read.state === "ok" && isCacheMeta(read.meta)) {
+      const meta = read.meta;
+      const machines = read.machines;
+      const pb: Block[] = meta.preferred.map((r, i) => ({ ...r, machine: machines[i]!, states: machines[i]!.numStates, arcs: machines[i]!.numArcs() }));
+      const vb: Block[] = meta.variants.map((r, i) => {
+        const m = machines[meta.preferred.length + i]!;
+        return { ...r, machine: m, states: m.numStates, arcs: m.numArcs() };
+      });
+      const t1 = performance.now();
+      const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 });
+      return { compiled: { ...compiled, timings: { steps: 0, compose: 0, freeze: performance.now() - t1, total: performance.now() - t0 } }, diagnostics: [] };
+    }
+    if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
+      cacheState = "rebuilt";
+      dropCache(opts.cacheDir, key);
+    }
+  }
+  const { result, diagnostics } = compileSteps(grammar, inv, opts);
+  if (result === null) return { compiled: null, diagnostics };
+  const t1 = performance.now();
+  const steps: StepSize[] = result.steps.map(({ step, variants, preferred }) => ({
+    name: step.name, kind: step.kind, optional: step.kind === "rule" && step.optional,
+    states: variants.numStates, arcs: variants.numArcs(),
+    preferredStates: preferred?.numStates ?? 0, preferredArcs: preferred?.numArcs() ?? 0,
+  }));
+  const preferredBlocks = composeCascade(result.steps.map((s) => s.preferred), maxStates);
+  const hasVariants = result.steps.some((s) => s.step.kind === "rule" && (s.step.optional || s.preferred === null || !sameMachine(s.variants, s.preferred)));
+  const variantBlocks = hasVariants ? composeCascade(result.steps.map((s) => s.variants), maxStates) : preferredBlocks;
+  const t2 = performance.now();
+  if (opts.cacheDir !== undefined) {
+    const a = result.alphabet;
+    const meta: CacheMeta = {
+      version: COMPILER_VERSION,
+      alphabet: {
+        bundles: a.segments.map((s) => s.key),
+        texts: a.segments.map((s) => s.text),
+        domains: a.domains.map((d) => { const ids: number[] = []; d.forEach((v, i) => { if (v) ids.push(i); }); return ids; }),
+      },
+      steps,
+      preferred: preferredBlocks.map((b) => ({ from: b.from, to: b.to })),
+      variants: variantBlocks.map((b) => ({ from: b.from, to: b.to })),
+      hasVariants,
+    };
+    writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)]);
+  }
+  const compiled = assemble(result.alphabet, steps, preferredBlocks, variantBlocks, hasVariants, cacheState, key, { steps: t1 - t0, compose: t2 - t1, freeze: 0, total: 0 });
+  const t3 = performance.now();
+  return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: t3 - t0 } }, diagnostics };
+}
+
+/** Structural equality of two machines (same states, finals and arcs in order). */
+function sameMachine(a: Fst, b: Fst): boolean {
+  if (a.numStates !== b.numStates || a.numArcs() !== b.numArcs() || a.start !== b.start) return false;
+  for (let s = 0; s < a.numStates; s++) {
+    if (a.isFinal(s) !== b.isFinal(s)) return false;
+    const x = a.arcs(s), y = b.arcs(s);
+    if (x.length !== y.length) return false;
+    for (let k = 0; k < x.length; k++) if (x[k]!.input !== y[k]!.input || x[k]!.output !== y[k]!.output || x[k]!.target !== y[k]!.target) return false;
+  }
+  return true;
+}
+
+function assemble(
+  alphabet: Alphabet, steps: StepSize[], preferredBlocks: Block[], variantBlocks: Block[], hasVariants: boolean,
+  cache: Compiled["cache"], cacheKey: string, timings: Compiled["timings"],
+): Compiled {
+  const preferred = new PreferredRunner(preferredBlocks);
+  const variantsRunner = new VariantsRunner(variantBlocks);
+  const encode = (word: readonly Sym[]): number[] | null => {
+    const out: number[] = [];
+    for (const s of word) {
+      if (s.kind === "boundary") { out.push(s.which === "word" ? WORD : SYLL); continue; }
+      const id = alphabet.byKey.get(bundleKey(s.bundle));
+      if (id === undefined) return null;
+      out.push(id);
+    }
+    return out;
+  };
+  const decode = (ids: ArrayLike<number>): Sym[] => {
+    const out: Sym[] = [];
+    for (let i = 0; i < ids.length; i++) {
+      const id = ids[i]!;
+      if (id === WORD) out.push(WORD_EDGE);
+      else if (id === SYLL) out.push(SYLLABLE_EDGE);
+      else {
+        const seg = alphabet.segments[id - FIRST_SEGMENT];
+        if (seg === undefined) throw new Error(`decode: no symbol ${id} (${symbolText(alphabet, id)})`);
+        out.push({ kind: "segment", bundle: seg.bundle });
+      }
+    }
+    return out;
+  };
+  return {
+    alphabet, steps, preferred,
+    preferredSize: cascadeSize(preferredBlocks),
+    variantsSize: cascadeSize(variantBlocks),
+    hasVariants,
+    variants: (symbols, cap = 16) => variantsRunner.run(symbols, cap),
+    encode, decode, cache, cacheKey, timings, preferredBlocks, variantBlocks,
+  };
+}

@@ -1,0 +1,350 @@
+// The prosodic steps as transducers, built directly as acceptors of correct input:output
+// alignments: the syllabifier (delete every '.', then insert boundaries by the Maximal Onset
+// Principle within the declared onsets and codas) and default stress (fixed or weight-sensitive).
+// Both follow exactly the interpreter's documented procedure (src/interp/prosody.ts).
+
+import type { Grammar, StressStep } from "../grammar/ast.js";
+import type { Bundle } from "../inventory/types.js";
+import { resolveClusters } from "../interp/index.js";
+import { type Alphabet, EPSILON, FIRST_SEGMENT, SYLL, WORD } from "./alphabet.js";
+import { anySet, dfaFromRx, type Rx } from "./context.js";
+import type { SymbolLowering } from "./cases.js";
+import { lowerError, type Lowering } from "./lower.js";
+import type { PairNfa } from "./rule.js";
+
+/** Builds a PairNfa from explicit states, arcs and finals. */
+class PairBuilder {
+  states = 0;
+  readonly arcs: number[] = [];
+  readonly finals: number[] = [];
+  add(): number { return this.states++; }
+  arc(from: number, i: number, o: number, to: number): void { this.arcs.push(from, i, o, to); }
+  done(start: number): PairNfa {
+    return { states: this.states, start, finals: this.finals, arcs: Int32Array.from(this.arcs) };
+  }
+}
+
+// ---- syllabification ------------------------------------------------------------------------
+
+/**
+ * The syllabifier as a pair acceptor: output = input without its '.', with '.' inserted between
+ * nuclei where the interpreter's `syllabify` cuts each cluster.
+ *
+ * Construction. The language of correctly syllabified strings is recognised deterministically:
+ * after a nucleus, the cluster X read so far is abstracted by a signature that is a right
+ * congruence for the cut (X itself while it is a proper prefix of a legal coda; the suffixes Z of X
+ * whose remainder is a legal coda and that begin a legal onset; the longest suffix of X that is a
+ * proper prefix of a legal onset — the Aho–Corasick state). At the inserted '.', the signature
+ * fixes the set of onsets Y for which cut(X·Y) = |X|, computed on a representative by the same
+ * procedure as the interpreter; the following consonants must spell one of them before the next
+ * nucleus. Since legal clusters are finite, the signatures are finitely many.
+ */
+export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alphabet, domain: Uint8Array, span: StressStep["span"]): PairNfa {
+  const inv = low.inventory;
+  const read = (list: Grammar["onsets"], what: string): (readonly Bundle[])[] | null => {
+    const r = resolveClusters(list, inv);
+    if (r.unknown.length > 0) {
+      const u = r.unknown[0]!;
+      throw lowerError("compile/unknown-segment", `${what}: '${u.symbol}' is not a segment of the inventory.`, u.cluster.span);
+    }
+    return r.list === null ? null : r.list.map((c) => [...c]);
+  };
+  const onsetList = read(grammar.onsets, "onsets");
+  const codaList = read(grammar.codas, "codas");
+  const segKey = (b: Bundle): string => low.segmental.map((i) => b[i]).join("");
+  // Consonant classes: non-nucleus symbols grouped by their non-prosodic features.
+  const classOf = new Int32Array(alphabet.size).fill(-1);
+  const classKeys: string[] = [];
+  const classIndex = new Map<string, number>();
+  const nucleus = new Uint8Array(alphabet.size);
+  for (const s of alphabet.segments) {
+    if (low.isNucleus(s.bundle)) { nucleus[s.id] = 1; continue; }
+    const k = segKey(s.bundle);
+    let c = classIndex.get(k);
+    if (c === undefined) { c = classKeys.length; classKeys.push(k); classIndex.set(k, c); }
+    classOf[s.id] = c;
+  }
+  const toStrings = (list: (readonly Bundle[])[] | null): Set<string> | null => {
+    if (list === null) return null;
+    const out = new Set<string>();
+    for (const c of list) {
+      const ids = c.map((b) => classIndex.get(segKey(b)));
+      if (ids.every((x) => x !== undefined)) out.add(ids.join(","));
+    }
+    return out;
+  };
+  const O = toStrings(onsetList);
+  const K = toStrings(codaList);
+  const key = (xs: readonly number[]): string => xs.join(",");
+  const legalO = (xs: readonly number[]): boolean => xs.length === 0 || O === null || O.has(key(xs));
+  const legalK = (xs: readonly number[]): boolean => xs.length === 0 || K === null || K.has(key(xs));
+  /** The interpreter's cut of an inter-nucleus cluster (src/interp/prosody.ts, syllabifyRegion). */
+  const cut = (c: readonly number[]): number => {
+    for (let j = 0; j <= c.length; j++) if (legalO(c.slice(j)) && legalK(c.slice(0, j))) return j;
+    for (let j = 0; j < c.length; j++) if (legalO(c.slice(j))) return j;
+    return c.length - 1;
+  };
+  const prefixesOf = (set: Set<string> | null): Set<string> => {
+    const out = new Set<string>([""]);
+    if (set) for (const s of set) { const p = s.split(","); for (let i = 1; i <= p.length; i++) out.add(p.slice(0, i).join(",")); }
+    return out;
+  };
+  const oPrefixes = prefixesOf(O);
+  const kPrefixes = prefixesOf(K);
+  const oProper = new Set<string>([""]);
+  if (O) for (const s of O) { const p = s.split(","); for (let i = 1; i < p.length; i++) oProper.add(p.slice(0, i).join(",")); }
+  const maxO = O ? Math.max(0, ...[...O].map((s) => s.split(",").length)) : 0;
+  const consonants: number[] = classKeys.map((_, i) => i);
+  /** Candidate onsets after a cut: the legal onsets, ε, and every single consonant (fallback). */
+  const candidates: number[][] = [[]];
+  const candSeen = new Set<string>([""]);
+  if (O) for (const s of O) if (!candSeen.has(s)) { candSeen.add(s); candidates.push(s.split(",").map(Number)); }
+  for (const c of consonants) if (!candSeen.has(String(c))) { candSeen.add(String(c)); candidates.push([c]); }
+
+  /** Signature of a cluster (see the method note): a right congruence that fixes the valid onsets. */
+  const sigOf = (x: readonly number[]): string => {
+    if (O === null) return x.length === 0 ? "e" : "n"; // every cut is at 0
+    const xk = key(x);
+    const trie = K === null ? "U" : kPrefixes.has(xk) ? `T${xk}` : "N";
+    const zs: string[] = [];
+    for (let l = 1; l <= Math.min(maxO, x.length); l++) {
+      const z = key(x.slice(x.length - l));
+      if (oPrefixes.has(z) && legalK(x.slice(0, x.length - l))) zs.push(z);
+    }
+    let star = "";
+    for (let l = Math.min(maxO, x.length); l >= 1; l--) {
+      const z = key(x.slice(x.length - l));
+      if (oProper.has(z)) { star = z; break; }
+    }
+    return `${trie}|${zs.join(";")}|${star}`;
+  };
+  const validOnsets = (x: readonly number[]): string[] | "any" => {
+    if (O === null) return x.length === 0 ? "any" : [];
+    const out: string[] = [];
+    for (const y of candidates) if (cut([...x, ...y]) === x.length) out.push(key(y));
+    return out;
+  };
+
+  const b = new PairBuilder();
+  const R = b.add();
+  b.finals.push(R);
+  const xState = new Map<string, number>();
+  const xRep: number[][] = [];
+  const xIds: number[] = [];
+  const internX = (x: number[]): number => {
+    const s = sigOf(x);
+    let id = xState.get(s);
+    if (id === undefined) {
+      id = b.add();
+      xState.set(s, id);
+      xRep.push(x);
+      xIds.push(id);
+      b.finals.push(id);
+    }
+    return id;
+  };
+  // Y states: (valid-onset set, onset prefix read so far).
+  const yState = new Map<string, number>();
+  const yWork: { set: Set<string> | "any"; setKey: string; y: number[]; id: number }[] = [];
+  const yPrefixSets = new Map<string, Set<string>>();
+  const internY = (set: Set<string> | "any", setKey: string, y: number[]): number => {
+    const k = `${setKey}#${key(y)}`;
+    let id = yState.get(k);
+    if (id === undefined) {
+      id = b.add();
+      yState.set(k, id);
+      yWork.push({ set, setKey, y, id });
+    }
+    return id;
+  };
+  const ids = (pred: (id: number) => boolean): number[] => {
+    const out: number[] = [];
+    for (let x = FIRST_SEGMENT; x < alphabet.size; x++) if (domain[x] && pred(x)) out.push(x);
+    return out;
+  };
+  const nucleusIds = ids((x) => nucleus[x] === 1);
+  const consIds = ids((x) => nucleus[x] === 0);
+  const x0 = internX([]);
+  // R: the region's initial cluster (no boundary), until the first nucleus.
+  for (const c of consIds) b.arc(R, c, c, R);
+  for (const v of nucleusIds) b.arc(R, v, v, x0);
+  b.arc(R, WORD, WORD, R);
+  for (let i = 0; i < xIds.length; i++) {
+    const id = xIds[i]!;
+    const rep = xRep[i]!;
+    for (const c of consIds) b.arc(id, c, c, internX([...rep, classOf[c]!]));
+    b.arc(id, WORD, WORD, R);
+    const valid = validOnsets(rep);
+    if (valid !== "any" && valid.length === 0) continue;
+    const setKey = valid === "any" ? "any" : valid.join(";");
+    let set: Set<string> | "any" = "any";
+    if (valid !== "any") {
+      set = new Set(valid);
+      if (!yPrefixSets.has(setKey)) yPrefixSets.set(setKey, prefixesOf(set));
+    }
+    b.arc(id, EPSILON, SYLL, internY(set, setKey, []));
+  }
+  for (let i = 0; i < yWork.length; i++) {
+    const { set, setKey, y, id } = yWork[i]!;
+    const prefixes = set === "any" ? null : yPrefixSets.get(setKey)!;
+    for (const c of consIds) {
+      // With every onset legal ("any"), what was read does not matter: stay in one state.
+      const ny = prefixes ? [...y, classOf[c]!] : [];
+      if (prefixes && !prefixes.has(key(ny))) continue;
+      b.arc(id, c, c, internY(set, setKey, ny));
+    }
+    if (set === "any" || set.has(key(y))) for (const v of nucleusIds) b.arc(id, v, v, x0);
+  }
+  // Every '.' of the input is deleted, wherever it stands.
+  for (let s = 0; s < b.states; s++) b.arc(s, SYLL, EPSILON, s);
+  void span;
+  return b.done(R);
+}
+
+// ---- default stress ---------------------------------------------------------------------------
+
+/**
+ * Default stress as a pair acceptor. Per word (stretch between '#'), either the word keeps its
+ * nuclei as they are (it has a nucleus that is not [0stress 0primary], or none at all), or every
+ * nucleus is [0stress 0primary] and is written [+stress +primary] at the chosen syllable and
+ * [-stress -primary] elsewhere. The acceptor guesses the mode at the word's first nucleus and
+ * checks it at the word's end, with the chosen syllable computed as the interpreter does:
+ * position N from the edge, clamped to the syllables there are; weight-sensitive: N if heavy,
+ * else M (clamped). It remembers the count of nuclei (capped), the heaviness and stress of the
+ * first (from left) or last (from right) max(N, M) syllables, and the heavy-rhyme recogniser's
+ * state for the current rhyme (nucleus up to the next '.', '#' or nucleus).
+ */
+export function buildStress(step: StressStep, grammar: Grammar, sl: SymbolLowering, domain: Uint8Array): PairNfa {
+  const { low, alphabet } = sl;
+  const size = alphabet.size;
+  if (low.stressIdx < 0 || low.primaryIdx < 0 || low.syllabicIdx < 0) {
+    // Without prosodic features the interpreter leaves words unchanged: the identity.
+    const b = new PairBuilder();
+    const s = b.add();
+    b.finals.push(s);
+    for (let x = 1; x < size; x++) if (domain[x]) b.arc(s, x, x, s);
+    return b.done(s);
+  }
+  const Kmax = Math.max(step.position, step.otherwise ?? 0, 1);
+  // Heavy rhymes: some heavy pattern matches a prefix of the rhyme, i.e. rhyme ∈ H·Σ*.
+  const heavyRx: Rx = { k: "seq", items: [{ k: "alt", options: grammar.heavy.map((h) => sl.pattern(h, new Map())) }, { k: "star", body: { k: "set", set: anySet(size) } }] };
+  const heavy = step.otherwise !== null && grammar.heavy.length > 0 ? dfaFromRx(heavyRx, size) : null;
+  const stressed = new Int32Array(size).fill(-1);
+  const unstressed = new Int32Array(size).fill(-1);
+  for (const s of alphabet.segments) {
+    if (!low.isNucleus(s.bundle)) continue;
+    for (const v of ["+", "-"] as const) {
+      const bnd = [...s.bundle];
+      bnd[low.stressIdx] = v;
+      bnd[low.primaryIdx] = v;
+      (v === "+" ? stressed : unstressed)[s.id] = sl.idOf(bnd);
+    }
+  }
+  const withStress = (x: number, v: "+" | "-"): number => (v === "+" ? stressed : unstressed)[x]!;
+  const isNuc = new Uint8Array(size);
+  const isZero = new Uint8Array(size);
+  for (const s of alphabet.segments) {
+    if (!low.isNucleus(s.bundle)) continue;
+    isNuc[s.id] = 1;
+    if (s.bundle[low.stressIdx] === "0" && s.bundle[low.primaryIdx] === "0") isZero[s.id] = 1;
+  }
+
+  // State: mode (0 no nucleus yet, 1 keep, 2 assign), sawNonZero (keep mode), count (capped at
+  // Kmax+1), syllable records [heavy, primary] for the relevant syllables, current rhyme state
+  // (-1 closed), current syllable is primary, and (from right) whether a primary fell out of the window.
+  interface St { mode: number; nz: number; count: number; recs: [number, number][]; rh: number; cur: number; lost: number }
+  const keyOf = (s: St): string => `${s.mode}|${s.nz}|${s.count}|${s.recs.map((r) => r.join("")).join(",")}|${s.rh}|${s.cur}|${s.lost}`;
+  const b = new PairBuilder();
+  const index = new Map<string, number>();
+  const work: St[] = [];
+  const intern = (s: St): number => {
+    const k = keyOf(s);
+    let id = index.get(k);
+    if (id === undefined) { id = b.add(); index.set(k, id); work.push(s); }
+    return id;
+  };
+  // Rhyme state: ≥ 0 an open rhyme (recogniser state), -2 closed light, -3 closed heavy, -1 none.
+  const heavyBit = (rh: number): number => (rh === -3 ? 1 : heavy !== null && rh >= 0 && heavy.accept[rh] === 1 ? 1 : 0);
+  const closeRhyme = (rh: number): number => (rh >= 0 ? (heavyBit(rh) ? -3 : -2) : rh);
+  /** The record list after the current syllable is finished with heaviness h and primary flag p. */
+  // A primary outside the first/last max(N, M) syllables can never be the chosen one: such
+  // records make the path fail at once (lost = 1), which keeps the state space small.
+  const pushRecord = (s: St, h: number, p: number): { recs: [number, number][]; lost: number } => {
+    const recs = [...s.recs];
+    let lost = s.lost;
+    if (step.edge === "left") {
+      if (recs.length < Kmax) recs.push([h, p]);
+      else if (p) lost = 1;
+    } else {
+      recs.push([h, p]);
+      if (recs.length > Kmax) { const dropped = recs.shift()!; if (dropped[1]) lost = 1; }
+    }
+    return { recs, lost };
+  };
+  const primaries = (recs: [number, number][], cur: number): number => recs.reduce((n, r) => n + r[1], cur);
+  /** Checks a finished word in assign mode: exactly the chosen syllable is primary. */
+  const chosenOk = (recs: [number, number][], count: number, lost: number): boolean => {
+    if (lost) return false;
+    // count is capped at Kmax+1; clamping only matters when count <= Kmax, when it is exact.
+    const idx = (pos: number): number => {
+      const p = Math.min(Math.max(pos, 1), count);
+      return step.edge === "left" ? p - 1 : recs.length - p; // index into recs
+    };
+    let chosen = idx(step.position);
+    if (step.otherwise !== null && !(recs[chosen]?.[0] === 1)) chosen = idx(step.otherwise);
+    return recs.every((r, i) => (r[1] === 1) === (i === chosen));
+  };
+  const finish = (s: St): boolean => {
+    if (s.mode === 0) return true;
+    if (s.mode === 1) return s.nz === 1;
+    const { recs, lost } = pushRecord(s, heavyBit(s.rh), s.cur);
+    return chosenOk(recs, s.count, lost);
+  };
+  intern({ mode: 0, nz: 0, count: 0, recs: [], rh: -1, cur: 0, lost: 0 });
+  const fresh: St = { mode: 0, nz: 0, count: 0, recs: [], rh: -1, cur: 0, lost: 0 };
+  for (let i = 0; i < work.length; i++) {
+    const s = work[i]!;
+    const id = i;
+    if (finish(s)) b.finals.push(id);
+    for (let x = 1; x < size; x++) {
+      if (!domain[x]) continue;
+      if (x === WORD) {
+        if (finish(s)) b.arc(id, WORD, WORD, intern(fresh));
+        continue;
+      }
+      if (x === SYLL) {
+        b.arc(id, x, x, intern({ ...s, rh: s.mode === 2 ? closeRhyme(s.rh) : -1 }));
+        continue;
+      }
+      if (!isNuc[x]) {
+        const rh = s.rh >= 0 && heavy ? heavy.next[s.rh * size + x]! : s.rh;
+        b.arc(id, x, x, intern({ ...s, rh: s.mode === 2 ? rh : -1 }));
+        continue;
+      }
+      // A nucleus: finish the previous syllable, start a new one.
+      const zero = isZero[x] === 1;
+      const count = Math.min(s.count + 1, Kmax + 1);
+      const rhStart = heavy ? heavy.next[heavy.start * size + x]! : -1;
+      if (s.mode === 0 || s.mode === 1) {
+        // keep mode (chosen at the first nucleus, or continuing)
+        b.arc(id, x, x, intern({ mode: 1, nz: s.nz | (zero ? 0 : 1), count: 0, recs: [], rh: -1, cur: 0, lost: 0 }));
+      }
+      if ((s.mode === 0 || s.mode === 2) && zero) {
+        let recs: [number, number][] = [];
+        let lost = 0;
+        if (s.mode === 2) {
+          ({ recs, lost } = pushRecord(s, heavyBit(s.rh), s.cur));
+        }
+        if (lost) continue;
+        for (const v of ["+", "-"] as const) {
+          const y = withStress(x, v);
+          if (y < 0) continue;
+          const cur = v === "+" ? 1 : 0;
+          if (primaries(recs, cur) > 1) continue; // one primary per word
+          b.arc(id, x, y, intern({ mode: 2, nz: 0, count, recs, rh: heavy ? rhStart : -1, cur, lost }));
+        }
+      }
+    }
+  }
+  return b.done(0);
+}

@@ -1,0 +1,117 @@
+// Differential tests: compiled machines against the reference interpreter on random rules,
+// random small grammars (rules, syllabify, stress) and random words over the tiny inventory.
+
+import { describe, it, expect } from "vitest";
+import fc from "fast-check";
+import { tinyInventory as inv } from "../support/tiny-inventory.js";
+import { grammar, classDef, nodeDef, bun, syllabifyStep, stressStep } from "../support/ast.js";
+import { compileGrammar, compileSteps } from "../../src/compile/index.js";
+import { applyAll } from "../../src/fst/frozen.js";
+import { applyGrammar, applyRuleDetailed, ruleContext, wordKey, type Sym } from "../../src/interp/index.js";
+import { desugar, isBoundaryBlind } from "../../src/grammar/index.js";
+import type { Grammar, Rule, Step } from "../../src/grammar/ast.js";
+import { StrataError } from "../../src/diagnostics.js";
+import { clusterListArb, heavyArb, ruleArb, stressArb, wordArb } from "./gen.js";
+
+const extra = { classes: [classDef("V", [bun("+syllabic")])], nodes: [nodeDef("place", ["labial", "coronal"])] };
+const interpOptsOf = (g: Grammar) => ({ desugar: (r: Rule) => desugar(r, { inventory: inv, classes: g.classes }), isBoundaryBlind: (r: Rule) => isBoundaryBlind(r), maxVariants: 2000 });
+const desugarIn = (g: Grammar) => (r: Rule) => desugar(r, { inventory: inv, classes: g.classes });
+
+/** Does the interpreter accept this rule (prepare without errors)? */
+function interpretable(r0: Rule, g: Grammar, w: Sym[]): boolean {
+  const r = desugarIn(g)(r0);
+  try {
+    applyRuleDetailed(r, { ...ruleContext(g, inv, r), boundaryBlind: isBoundaryBlind(r) }, w);
+    return true;
+  } catch (e) {
+    if (e instanceof StrataError) return false;
+    throw e;
+  }
+}
+
+function checkGrammar(g: Grammar, words: Sym[][]): void {
+  const res = compileGrammar(g, inv, { maxStates: 400 });
+  expect(res.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
+  const c = res.compiled!;
+  for (const w of words) {
+    const ids = c.encode(w)!;
+    const run = applyGrammar(g, inv, w, interpOptsOf(g));
+    const v = c.variants(ids, 2000);
+    if (run.capped || v.capped) continue;
+    const got = v.outputs.map((o) => wordKey(c.decode(o))).sort();
+    const exp = run.outputs.map(wordKey).sort();
+    expect(got, `word ${wordKey(w)}`).toEqual(exp);
+    const out: number[] = [];
+    expect(c.preferred.run(ids, out)).toBe(true);
+    expect(wordKey(c.decode(out)), `preferred of ${wordKey(w)}`).toBe(wordKey(run.preferred));
+  }
+}
+
+describe("compiled rules agree with the interpreter", () => {
+  it("one random rule: every output (sets) and the preferred output, per word", () => {
+    fc.assert(
+      fc.property(ruleArb, fc.array(wordArb, { minLength: 1, maxLength: 6 }), (r, words) => {
+        const g = grammar([r], extra);
+        if (!interpretable(r, g, words[0]!)) return;
+        const steps = compileSteps(g, inv);
+        expect(steps.diagnostics).toEqual([]);
+        const { alphabet, steps: [m] } = steps.result!;
+        const rd = desugarIn(g)(r);
+        const ctx = { ...ruleContext(g, inv, rd), boundaryBlind: isBoundaryBlind(rd) };
+        const dec = compileGrammar(g, inv).compiled!;
+        void alphabet;
+        for (const w of words) {
+          const exp = applyRuleDetailed(rd, ctx, w);
+          const ids = dec.encode(w)!;
+          const got = applyAll(m!.variants, ids, 10_000).outputs;
+          expect(got.map((o) => wordKey(dec.decode(o))).sort(), `word ${wordKey(w)}`).toEqual(exp.outputs.map(wordKey).sort());
+          // Known gap (documented in DEVELOPERS.md): the preferred change among alpha cases that
+          // disagree at one site is chosen exactly only for one-segment targets.
+          if (r.target.length > 1 && exp.outputs.length > 1) continue;
+          const pref = m!.preferred === null ? [ids] : applyAll(m!.preferred, ids, 10).outputs;
+          expect(pref.length, `preferred of ${wordKey(w)} is one output`).toBe(1);
+          expect(wordKey(dec.decode(pref[0]!))).toBe(wordKey(exp.preferred));
+        }
+      }),
+      { numRuns: 400 },
+    );
+  });
+
+  it("syllabify with random onset and coda lists", () => {
+    fc.assert(
+      fc.property(clusterListArb, clusterListArb, fc.array(wordArb, { minLength: 1, maxLength: 8 }), (onsets, codas, words) => {
+        checkGrammar(grammar([syllabifyStep()], { ...extra, onsets, codas }), words);
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it("default stress, fixed and weight-sensitive, after syllabify", () => {
+    fc.assert(
+      fc.property(stressArb, heavyArb, clusterListArb, fc.array(wordArb, { minLength: 1, maxLength: 8 }), (st, heavy, onsets, words) => {
+        const steps: Step[] = [syllabifyStep(), stressStep(st.edge, st.position, st.otherwise)];
+        checkGrammar(grammar(steps, { ...extra, onsets, heavy }), words);
+      }),
+      { numRuns: 150 },
+    );
+  });
+
+  it("random grammars: rules, syllabify and stress in random order, whole cascade", () => {
+    fc.assert(
+      fc.property(
+        fc.array(ruleArb, { minLength: 1, maxLength: 3 }), stressArb, heavyArb, clusterListArb, clusterListArb,
+        fc.array(wordArb, { minLength: 1, maxLength: 5 }), fc.nat(),
+        (rules, st, heavy, onsets, codas, words, seed) => {
+          const named = rules.map((r, i) => ({ ...r, name: `r${i}` }));
+          const g0 = grammar(named, extra);
+          if (!named.every((r) => interpretable(r, g0, words[0]!))) return;
+          const steps: Step[] = [...named];
+          steps.splice(seed % (steps.length + 1), 0, syllabifyStep());
+          steps.splice((seed >> 3) % (steps.length + 1), 0, stressStep(st.edge, st.position, st.otherwise));
+          checkGrammar(grammar(steps, { ...extra, onsets, codas, heavy }), words);
+        },
+      ),
+      { numRuns: 150 },
+    );
+  });
+});
