@@ -48,8 +48,8 @@ export function sortedDistinct(words: readonly Word[]): Sym[][] {
 
 /**
  * A finding about a word (not about the grammar's source text): for example a consonant
- * cluster that the declared onsets and codas cannot syllabify. `at` is the index in the word
- * (as given to the step) where the cluster starts; `cluster` holds its segments.
+ * cluster that the declared onsets and codas cannot syllabify. `at` is the index in the word the
+ * step returns where the cluster starts; `cluster` holds its segments.
  */
 export interface Lint {
   readonly code: string;

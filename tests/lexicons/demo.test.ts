@@ -70,6 +70,19 @@ describe("the demo lexicon", () => {
     });
   }
 
+  test("every step of each variety has work to do in the demo lexicon", async () => {
+    const { rows } = await readDemo();
+    for (const file of ["grammar.strata", "careful.strata"] as const) {
+      const v = variety(file);
+      const used = new Set<string>();
+      for (const r of rows) {
+        const run = applyGrammar(v.prepared, v.inventory, [WORD_EDGE, ...r.symbols, WORD_EDGE]);
+        for (const t of run.trace) if (t.changed) used.add(t.step);
+      }
+      expect([...used].sort(), file).toEqual(v.grammar.steps.map((s) => s.name).sort());
+    }
+  });
+
   test("the scenario's showcase entries, read from the lexicon", async () => {
     const { rows } = await readDemo();
     const general = variety("grammar.strata");

@@ -67,7 +67,7 @@ const arbSide: fc.Arbitrary<Pattern> = fc.array(arbItem, { maxLength: 2 }).map((
 const arbConditions = (targetIsVowel: boolean): fc.Arbitrary<ProsodicCondition[]> => {
   const all: ProsodicCondition[] = ["onset", "coda", "syllable-initial", "syllable-final", "word-initial", "word-final", "stressed", "unstressed", "primary"];
   if (targetIsVowel) all.push("nucleus");
-  return fc.oneof({ weight: 3, arbitrary: fc.constant([]) }, { weight: 1, arbitrary: fc.uniqueArray(fc.constantFrom(...all), { minLength: 1, maxLength: 2 }) });
+  return fc.oneof({ weight: 3, arbitrary: fc.constant<ProsodicCondition[]>([]) }, { weight: 1, arbitrary: fc.uniqueArray(fc.constantFrom(...all), { minLength: 1, maxLength: 2 }) });
 };
 const arbEnv = (targetIsVowel: boolean): fc.Arbitrary<Environment> =>
   fc.record({ left: arbSide, right: arbSide, conditions: arbConditions(targetIsVowel) }).map(
