@@ -150,7 +150,9 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
         const d = dfaFromRx(rightRx, size);
         return siteDfa ? dfaProduct(d, siteDfa, "and") : d;
       });
-      cases.push({ target, out, insert, left, right });
+      const afterRx: Rx = { k: "seq", items: [R, any] };
+      const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => dfaFromRx(afterRx, size)) : undefined;
+      cases.push(rightAfter === undefined ? { target, out, insert, left, right } : { target, out, insert, left, right, rightAfter });
     }
   }
   return {

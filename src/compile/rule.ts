@@ -35,6 +35,8 @@ export interface RuleCase {
   readonly left: number;
   /** Index into `rights`: τ·ρ·Σ* (simultaneous, left-to-right) or ρ·Σ* (right-to-left); insertion sites also need "a segment next, or the final #". */
   readonly right: number;
+  /** Index into `rights` of ρ·Σ* (simultaneous and left-to-right, preferred variant of 2+ segment targets). */
+  readonly rightAfter?: number;
 }
 
 export interface LoweredRule {
@@ -91,14 +93,38 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   const rightOnOutput = rtl;
   const nl = lefts.length;
   const prefer = r.preferSmallest === true && n === 1;
+  const preferLong = r.preferSmallest === true && n > 1;
   const keys = r.keys ?? [];
+  /** Advances the comparison list over target position j reading x (see State.cmp). */
+  const compareStep = (cmp: readonly number[], c: RuleCase, j: number, x: number): number[] => {
+    const out: number[] = [];
+    const mine = keys[c.out[j]![x]!]!;
+    for (let i = 0; i < cmp.length; i += 2) {
+      const d = cases[cmp[i]!]!;
+      if (!d.target[j]![x]) continue;
+      const o = d.out[j]![x]!;
+      if (o < 0) continue;
+      let st = cmp[i + 1]!;
+      if (st === 0) {
+        const theirs = keys[o]!;
+        if (theirs > mine) continue;
+        if (theirs < mine) st = 1;
+      }
+      out.push(cmp[i]!, st);
+    }
+    return out;
+  };
   const domain: number[] = [];
   for (let x = 1; x < size; x++) if (r.domain[x]) domain.push(x);
 
   // ---- state store ------------------------------------------------------------------------
-  type State = { s: number; p: Int32Array; v: Pending[] };
+  // cmp (preferred variant, targets of 2+ segments): inside a chunk rewritten by case c, the
+  // cases d whose left context held at the chunk's start and whose target matches so far, each
+  // with how d's change compares with c's so far (0 equal, 1 d sorts first). At the chunk's end
+  // every d that sorts first must not hold (its right context is then checked as a negative).
+  type State = { s: number; p: Int32Array; v: Pending[]; cmp: readonly number[] };
   const keyOf = (st: State): string => {
-    let k = `${st.s}|${st.p.join(",")}|`;
+    let k = `${st.s}|${st.p.join(",")}|${st.cmp.join(",")}|`;
     for (const e of st.v) k += `${e.b}:${e.q}${e.pos ? "+" : "-"},`;
     return k;
   };
@@ -171,7 +197,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   };
 
   // ---- exploration --------------------------------------------------------------------------
-  const start: State = { s: 0, p: Int32Array.from(lefts.map((d) => d.start)), v: [] };
+  const start: State = { s: 0, p: Int32Array.from(lefts.map((d) => d.start)), v: [], cmp: [] };
   intern(start);
   const finals: number[] = [];
 
@@ -185,6 +211,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
       }
       if (ok) finals.push(id);
     }
+    let nextCmp: readonly number[] = [];
     const go = (pairs: number[], events: (phase: number, p: Int32Array, v: Pending[]) => boolean): void => {
       // phase k: before pair k (k = 0..len), events may check lefts and spawn rights.
       const p = Int32Array.from(st.p);
@@ -198,7 +225,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         v = nv;
       }
       const ns = nextS;
-      emit(id, pairs, intern({ s: ns, p, v: normalise(v) }));
+      emit(id, pairs, intern({ s: ns, p, v: normalise(v), cmp: ns === 0 ? [] : nextCmp }));
     };
     let nextS = 0;
     const none = (): boolean => true;
@@ -243,6 +270,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
           const y = o0[x]!;
           if (y < 0) continue;
           nextS = n === 1 ? 0 : 1 + cases.indexOf(c) * n + 1;
+          nextCmp = preferLong ? compareStep(cases.flatMap((d, di) => (d !== c && (rtl || leftHolds(st.p, d)) ? [di, 0] : [])), c, 0, x) : [];
           // Cases whose change on x sorts before this one must not hold here (preferred variant).
           const better = prefer ? cases.filter((d) => d !== c && d.target[0]![x] && d.out[0]![x]! >= 0 && keys[d.out[0]![x]!]! < keys[y]!) : [];
           const excludeBetter = (p: Int32Array, v: Pending[]): boolean => {
@@ -269,8 +297,17 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         if (y < 0) continue;
         nextS = j + 1 === n ? 0 : st.s + 1;
         const last = j + 1 === n;
+        const cmp = preferLong ? compareStep(st.cmp, c, j, x) : [];
+        nextCmp = cmp;
         go([x, y], (k, p, v) => {
-          if (rtl && last && k === 1) return leftHolds(p, c) && spawn(v, c.right, true);
+          if (rtl && last && k === 1 && !(leftHolds(p, c) && spawn(v, c.right, true))) return false;
+          if (preferLong && last && k === 1) {
+            for (let i = 0; i < cmp.length; i += 2) {
+              if (cmp[i + 1] !== 1) continue;
+              const d = cases[cmp[i]!]!;
+              if (rtl ? leftHolds(p, d) && !spawn(v, d.right, false) : !spawn(v, d.rightAfter!, false)) return false;
+            }
+          }
           return true;
         });
       }
