@@ -1,0 +1,411 @@
+// The bench of the main job: the en-us grammar over the whole CMU Pronouncing Dictionary — compile
+// (cold, cached), the frozen composed machine, the reference interpreter, a bare table walk, a
+// hand-written regular-expression cascade and `strata build` end to end — measured in one run,
+// with every ratio taken from figures of that run (medians of repetitions) and the output checks
+// that make the comparisons valid. Exits non-zero only on a failed output check, never on a timing.
+
+import { availableParallelism, totalmem } from "node:os";
+import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { join, relative } from "node:path";
+import { loadGrammar, type Grammar } from "../src/grammar/index.js";
+import type { Inventory } from "../src/inventory/types.js";
+import { compileGrammar, type Compiled } from "../src/compile/index.js";
+import { formatDiagnostic } from "../src/diagnostics.js";
+import { applyGrammar, prepareGrammar, type PreparedGrammar } from "../src/interp/index.js";
+import { renderIpa, symbolView } from "../src/lexicon/render.js";
+import { packSymbols, packageRootFrom, readCmuWords, writeCmuFolder, type CmuWord, type SymbolArrays } from "./cmu.js";
+import { regexCascade } from "./regex-cascade.js";
+import { SUBSET_RULES, prosodyGrammar, subsetGrammar } from "./subset.js";
+import { randomDfa, walk } from "./table-walk.js";
+import { fmt, fmtMB, fmtMs, fmtRate, median, runChild, sampleIndices, textTable, timeRepeated, type ChildRun } from "./util.js";
+import { writePerformanceSection } from "./readme.js";
+
+export interface MainJobOptions {
+  /** The package root (default: found from this file). */
+  readonly root?: string;
+  /** Timed repetitions of in-process measurements (default 5). */
+  readonly reps?: number;
+  /** Repetitions of child-process measurements (compile, build, I/O floor; default 3). */
+  readonly childReps?: number;
+  /** Size of the seeded random sample the interpreter is timed on (default 3000). */
+  readonly sample?: number;
+  /** Write the figures into README.md's "## Performance" section (default true). */
+  readonly writeReadme?: boolean;
+}
+
+export interface MainJobResult {
+  /** False when an output check failed (the comparison is void); timings never make it false. */
+  readonly ok: boolean;
+  readonly failures: readonly string[];
+  readonly figures: Readonly<Record<string, number | string | null>>;
+}
+
+const SEED = 20240611;
+
+interface CompileChild {
+  loadMs: number;
+  compileMs: number;
+  totalMs: number;
+  cache: string;
+  timings: { steps: number; compose: number; freeze: number; total: number };
+  alphabet: number;
+  steps: { name: string; kind: string; optional: boolean; states: number; arcs: number; preferredStates: number; preferredArcs: number }[];
+  preferred: { states: number; arcs: number; blocks: { from: number; to: number; states: number; arcs: number }[] };
+  variants: { states: number; arcs: number };
+  runnerKinds: string[];
+}
+
+function parseChildJson<T>(run: ChildRun, what: string): T {
+  if (run.code !== 0) throw new Error(`${what} failed (exit ${run.code}):\n${run.stderr.slice(0, 4000)}`);
+  const last = run.stdout.trim().split("\n").pop() ?? "";
+  return JSON.parse(last) as T;
+}
+
+function compileIn(grammar: Grammar, inv: Inventory, cacheDir: string, what: string): Compiled {
+  const r = compileGrammar(grammar, inv, { cacheDir });
+  if (r.compiled === null) throw new Error(`${what} does not compile:\n${r.diagnostics.map(formatDiagnostic).join("\n")}`);
+  return r.compiled;
+}
+
+/** Runs the preferred cascade over every view; returns the total output length (the checksum). */
+function runAll(c: Compiled, views: readonly Int32Array[]): number {
+  const out: number[] = [];
+  let sum = 0;
+  const run = c.preferred;
+  for (let k = 0; k < views.length; k++) {
+    out.length = 0;
+    if (!run.run(views[k]!, out)) throw new Error(`the machine rejected entry ${k}`);
+    sum += out.length;
+  }
+  return sum;
+}
+
+/** Every entry's preferred output rendered as narrow IPA (stress marks, '.' between syllables). */
+function renderAll(c: Compiled, inv: Inventory, views: readonly Int32Array[]): (string | null)[] {
+  const view = symbolView(c.alphabet, inv);
+  const out: number[] = [];
+  return views.map((v) => {
+    out.length = 0;
+    return c.preferred.run(v, out) ? renderIpa(out, view) : null;
+  });
+}
+
+/** Machine output vs interpreter output (as symbol ids) on the sample; returns descriptions of the first differences. */
+function checkAgainstInterpreter(c: Compiled, prepared: PreparedGrammar, inv: Inventory, words: readonly CmuWord[], views: readonly Int32Array[], sample: readonly number[], label: string): string[] {
+  const bad: string[] = [];
+  const out: number[] = [];
+  for (const k of sample) {
+    const want = c.encode(applyGrammar(prepared, inv, words[k]!.syms).preferred);
+    out.length = 0;
+    const ok = c.preferred.run(views[k]!, out);
+    const same = ok && want !== null && want.length === out.length && want.every((x, i) => x === out[i]);
+    if (!same) bad.push(`${label}: ${words[k]!.word} (line ${words[k]!.line}): machine and interpreter differ`);
+  }
+  return bad;
+}
+
+function sub(arrays: SymbolArrays, idx: readonly number[]): SymbolArrays {
+  const views = idx.map((k) => arrays.views[k]!);
+  const total = views.reduce((n, v) => n + v.length, 0);
+  const ids = new Int32Array(total);
+  const at = new Int32Array(views.length + 1);
+  let p = 0;
+  views.forEach((v, i) => {
+    ids.set(v, p);
+    p += v.length;
+    at[i + 1] = p;
+  });
+  return { ids, at, views: views.map((_, i) => ids.subarray(at[i]!, at[i + 1]!)) };
+}
+
+function machineInfo(): { cpus: number; cpu: string; node: string; memory: string } {
+  let cpu = "unknown CPU";
+  try {
+    const m = /^model name\s*:\s*(.+)$/m.exec(readFileSync("/proc/cpuinfo", "utf8"));
+    if (m) cpu = m[1]!.trim();
+  } catch {
+    /* not Linux: keep "unknown CPU" */
+  }
+  return { cpus: availableParallelism(), cpu, node: process.version, memory: `${fmt(totalmem() / 2 ** 30, 1)} GiB` };
+}
+
+const say = (s = ""): void => void process.stdout.write(s + "\n");
+
+export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobResult> {
+  const root = opts.root ?? packageRootFrom(import.meta.url);
+  const reps = Math.max(1, opts.reps ?? 5);
+  const childReps = Math.max(1, opts.childReps ?? 3);
+  const sampleSize = opts.sample ?? 3000;
+  const failures: string[] = [];
+  const figures: Record<string, number | string | null> = {};
+  const distBench = join(root, "dist", "bench");
+  const rssWrapper = join(distBench, "rss.js");
+  const grammarPath = join(root, "lexicons", "en-us", "grammar.strata");
+  const work = join(root, "build", "bench");
+  mkdirSync(work, { recursive: true });
+
+  say("== Main job: the en-us grammar over the CMU Pronouncing Dictionary ==");
+  const info = machineInfo();
+  say(`machine: ${info.cpus} CPUs (${info.cpu}), ${info.memory}, Node ${info.node}`);
+
+  // --- Data --------------------------------------------------------------------------------
+  const folder = writeCmuFolder(root);
+  say(`data: ${fmt(folder.entries)} CMU entries → ${relative(root, folder.csv)} (${fmt(folder.rows)} rows, ${folder.rejects} rejected by the import)`);
+  if (folder.rejects > 0) failures.push(`the ARPAbet import rejected ${folder.rejects} CMU entries`);
+
+  // --- Compile: cold (empty cache) and cached, each in its own child process ------------------
+  const cacheDir = join(work, "cache");
+  const childCompile = join(distBench, "child-compile.js");
+  const cold: CompileChild[] = [];
+  const cached: CompileChild[] = [];
+  const coldRss: number[] = [];
+  const cachedRss: number[] = [];
+  for (let k = 0; k < childReps; k++) {
+    rmSync(cacheDir, { recursive: true, force: true });
+    const c = await runChild(rssWrapper, childCompile, [grammarPath, cacheDir, "full"]);
+    const cj = parseChildJson<CompileChild>(c, "cold compile");
+    if (cj.cache !== "miss") failures.push(`cold compile read a cache (${cj.cache})`);
+    cold.push(cj);
+    if (c.maxRssBytes !== null) coldRss.push(c.maxRssBytes);
+    const h = await runChild(rssWrapper, childCompile, [grammarPath, cacheDir, "full"]);
+    const hj = parseChildJson<CompileChild>(h, "cached compile");
+    if (hj.cache !== "hit") failures.push(`second compile did not read the cache (${hj.cache})`);
+    cached.push(hj);
+    if (h.maxRssBytes !== null) cachedRss.push(h.maxRssBytes);
+  }
+  const coldMs = median(cold.map((c) => c.totalMs));
+  const cachedMs = median(cached.map((c) => c.totalMs));
+  const sizes = cold[0]!;
+  say();
+  say(`-- compile (load + compileGrammar, child processes, median of ${childReps}) --`);
+  say(textTable(["", "time", "peak RSS"], [
+    ["cold (empty cache)", fmtMs(coldMs), fmtMB(coldRss.length > 0 ? Math.max(...coldRss) : null)],
+    ["  steps / compose / freeze", `${fmtMs(median(cold.map((c) => c.timings.steps)))} / ${fmtMs(median(cold.map((c) => c.timings.compose)))} / ${fmtMs(median(cold.map((c) => c.timings.freeze)))}`, ""],
+    ["from the build/ cache", fmtMs(cachedMs), fmtMB(cachedRss.length > 0 ? Math.max(...cachedRss) : null)],
+  ]));
+  say();
+  say(textTable(
+    ["step", "kind", "states", "arcs", "preferred states", "preferred arcs"],
+    [
+      ...sizes.steps.map((s) => [s.name, s.kind + (s.optional ? " (optional)" : ""), fmt(s.states), fmt(s.arcs), fmt(s.preferredStates), fmt(s.preferredArcs)]),
+      ["composed (preferred)", `${sizes.preferred.blocks.length} block(s), ${sizes.runnerKinds.join(" ")}`, fmt(sizes.preferred.states), fmt(sizes.preferred.arcs), "", ""],
+      ["composed (variants)", "", fmt(sizes.variants.states), fmt(sizes.variants.arcs), "", ""],
+    ],
+  ));
+  say(`alphabet: ${sizes.alphabet} symbols`);
+  Object.assign(figures, {
+    coldCompileMs: coldMs, cachedCompileMs: cachedMs,
+    compilePeakRssBytes: coldRss.length > 0 ? Math.max(...coldRss) : null,
+    composedStates: sizes.preferred.states, composedArcs: sizes.preferred.arcs,
+    variantsStates: sizes.variants.states, variantsArcs: sizes.variants.arcs, alphabet: sizes.alphabet,
+    runner: sizes.runnerKinds.join(" "),
+  });
+
+  // --- In process: the machines (read from the cache just written), the words -----------------
+  const loaded = loadGrammar(grammarPath);
+  if (loaded.grammar === undefined || loaded.inventory === undefined || loaded.diagnostics.some((d) => d.severity === "error")) {
+    throw new Error(loaded.diagnostics.map(formatDiagnostic).join("\n"));
+  }
+  const grammar = loaded.grammar;
+  const inv = loaded.inventory;
+  const full = compileIn(grammar, inv, cacheDir, "the en-us grammar");
+  const t0 = performance.now();
+  const { words, rejects } = await readCmuWords(folder.csv, inv);
+  const readMs = performance.now() - t0;
+  if (rejects > 0) failures.push(`the lexicon reader rejected ${rejects} rows of the converted dictionary`);
+  const all = packSymbols(words, full.encode);
+  const segments = all.ids.length - 2 * words.length;
+  say();
+  say(`read + tokenise ${fmt(words.length)} entries (in process, once): ${fmtMs(readMs)}; ${fmt(all.ids.length)} input symbols (${fmt(segments)} segments + 2 '#' per entry)`);
+
+  // --- Output check: machine = interpreter on the sample ---------------------------------------
+  const sampleIdx = sampleIndices(words.length, sampleSize, SEED);
+  const prepared = prepareGrammar(grammar, inv);
+  const diffs = checkAgainstInterpreter(full, prepared, inv, words, all.views, sampleIdx, "en-us");
+  if (diffs.length > 0) failures.push(`${diffs.length} of ${sampleIdx.length} sampled entries differ between the composed machine and the interpreter`, ...diffs.slice(0, 10));
+  say(`check: composed machine = reference interpreter on the ${fmt(sampleIdx.length)}-entry sample: ${diffs.length === 0 ? "yes" : `NO (${diffs.length} differ)`}`);
+
+  // --- Apply throughput ------------------------------------------------------------------------
+  const machineAll = timeRepeated(() => runAll(full, all.views), reps);
+  const machineEps = words.length / (machineAll.median / 1000);
+  const machineSymPs = all.ids.length / (machineAll.median / 1000);
+  const machineSegPs = segments / (machineAll.median / 1000);
+  const samp = sub(all, sampleIdx);
+  const sampSyms = samp.ids.length;
+  const machineSample = timeRepeated(() => runAll(full, samp.views), reps);
+  const interpSample = timeRepeated(() => {
+    let n = 0;
+    for (const k of sampleIdx) n += applyGrammar(prepared, inv, words[k]!.syms).preferred.length;
+    return n;
+  }, Math.min(reps, 3));
+  const dfa = randomDfa(Math.max(1, full.preferredSize.states), full.alphabet.size, SEED);
+  const walkAll = timeRepeated(() => walk(dfa, all.ids, all.at), reps);
+  const walkSymPs = all.ids.length / (walkAll.median / 1000);
+  const machineSampleEps = sampleIdx.length / (machineSample.median / 1000);
+  const interpEps = sampleIdx.length / (interpSample.median / 1000);
+
+  // --- The regular-expression cascade: check, then time ----------------------------------------
+  const prosody = compileIn(prosodyGrammar(grammar), inv, cacheDir, "the en-us prosody steps");
+  const subset = compileIn(subsetGrammar(grammar), inv, cacheDir, "the en-us subset");
+  const allP = packSymbols(words, prosody.encode);
+  const allS = packSymbols(words, subset.encode);
+  const broad = renderAll(prosody, inv, allP.views);
+  const strataSubset = renderAll(subset, inv, allS.views);
+  const subsetDiffs = checkAgainstInterpreter(subset, prepareGrammar(subsetGrammar(grammar), inv), inv, words, allS.views, sampleIdx, "subset");
+  if (subsetDiffs.length > 0) failures.push(`the subset grammar's machine differs from the interpreter on ${subsetDiffs.length} sampled entries`, ...subsetDiffs.slice(0, 10));
+  const mismatches: string[] = [];
+  const broadStrings: string[] = [];
+  for (let k = 0; k < words.length; k++) {
+    const b = broad[k];
+    const want = strataSubset[k];
+    if (b === null || b === undefined || want === null || want === undefined) {
+      mismatches.push(`${words[k]!.word} (line ${words[k]!.line}): Strata rejected the entry`);
+      continue;
+    }
+    broadStrings.push(b);
+    const got = regexCascade(b);
+    if (got !== want) mismatches.push(`${words[k]!.word} (line ${words[k]!.line}): /${b}/ → regex [${got}], Strata [${want}]`);
+  }
+  say(`check: regex cascade = Strata (rules ${SUBSET_RULES.join(", ")}) on all ${fmt(words.length)} entries: ${mismatches.length === 0 ? "yes" : `NO (${mismatches.length} differ)`}`);
+  if (mismatches.length > 0) {
+    failures.push(`the regular-expression cascade differs from Strata on ${mismatches.length} entries; the comparison is void`, ...mismatches.slice(0, 10));
+  }
+  const regexAll = timeRepeated(() => {
+    let n = 0;
+    for (let k = 0; k < broadStrings.length; k++) n += regexCascade(broadStrings[k]!).length;
+    return n;
+  }, reps);
+  const regexEps = broadStrings.length / (regexAll.median / 1000);
+  const subsetAll = timeRepeated(() => runAll(subset, allS.views), reps);
+  const subsetEps = words.length / (subsetAll.median / 1000);
+
+  say();
+  say(`-- apply (in process, median of ${reps}; sample = ${fmt(sampleIdx.length)} entries, seed ${SEED}) --`);
+  say(textTable(["", "entries", "time", "entries/s", "segments/s", "symbols/s"], [
+    ["composed machine, whole dictionary", fmt(words.length), fmtMs(machineAll.median), fmtRate(machineEps), fmtRate(machineSegPs), fmtRate(machineSymPs)],
+    ["composed machine, sample", fmt(sampleIdx.length), fmtMs(machineSample.median), fmtRate(machineSampleEps), "", fmtRate(sampSyms / (machineSample.median / 1000))],
+    ["reference interpreter, sample", fmt(sampleIdx.length), fmtMs(interpSample.median), fmtRate(interpEps), "", fmtRate(sampSyms / (interpSample.median / 1000))],
+    [`bare table walk (${fmt(dfa.states)} × ${dfa.symbols} Int32Array)`, fmt(words.length), fmtMs(walkAll.median), fmtRate(words.length / (walkAll.median / 1000)), "", fmtRate(walkSymPs)],
+    [`regex cascade (${SUBSET_RULES.length} rules, on strings)`, fmt(broadStrings.length), fmtMs(regexAll.median), fmtRate(regexEps), "", ""],
+    [`subset machine (same ${SUBSET_RULES.length} rules + prosody)`, fmt(words.length), fmtMs(subsetAll.median), fmtRate(subsetEps), "", fmtRate(allS.ids.length / (subsetAll.median / 1000))],
+  ]));
+  Object.assign(figures, {
+    entries: words.length, symbols: all.ids.length, segments,
+    machineEntriesPerS: machineEps, machineSegmentsPerS: machineSegPs, machineSymbolsPerS: machineSymPs,
+    machineSampleEntriesPerS: machineSampleEps, interpreterEntriesPerS: interpEps,
+    walkSymbolsPerS: walkSymPs, regexEntriesPerS: regexEps, subsetMachineEntriesPerS: subsetEps,
+  });
+
+  // --- End to end: strata build, and the I/O floor ---------------------------------------------
+  const cli = join(root, "dist", "src", "cli", "main.js");
+  const outRoot = join(work, "out");
+  const builds: ChildRun[] = [];
+  let coldBuild: ChildRun | null = null;
+  if (!existsSync(cli)) {
+    failures.push(`${relative(root, cli)} is missing: build the project first (npm run bench does)`);
+  } else {
+    const args = [cli, "build", folder.dir, "--out", outRoot, "--format", "tsv", "pls", "--quiet"];
+    rmSync(outRoot, { recursive: true, force: true });
+    coldBuild = await runChild(rssWrapper, args[0]!, args.slice(1), { cwd: root });
+    for (let k = 0; k < childReps; k++) builds.push(await runChild(rssWrapper, args[0]!, args.slice(1), { cwd: root }));
+    for (const b of [coldBuild, ...builds]) {
+      if (b.code !== 0) {
+        failures.push(`strata build exited with ${b.code}: ${b.stderr.trim().split("\n").slice(0, 5).join(" | ")}`);
+        break;
+      }
+    }
+  }
+  const floorRuns: ChildRun[] = [];
+  const floorScript = join(distBench, "child-io-floor.js");
+  const floorOut = join(work, "io-floor.tsv");
+  for (let k = 0; k < childReps; k++) floorRuns.push(await runChild(rssWrapper, floorScript, [folder.csv, grammarPath, floorOut]));
+  if (floorRuns.some((r) => r.code !== 0)) failures.push(`the I/O floor script failed: ${floorRuns.find((r) => r.code !== 0)!.stderr.slice(0, 400)}`);
+
+  // Output check: the build's TSV holds one line per entry, and its narrow column is the machine's output.
+  const tsvPath = join(outRoot, "cmu", "general", "lexicon.tsv");
+  const narrowAll = renderAll(full, inv, all.views);
+  if (builds.length > 0 && existsSync(tsvPath)) {
+    const lines = readFileSync(tsvPath, "utf8").split("\n");
+    if (lines[lines.length - 1] === "") lines.pop();
+    if (lines.length - 1 !== words.length) failures.push(`the build's TSV has ${lines.length - 1} entries, the lexicon ${words.length}`);
+    let differ = 0;
+    const firsts: string[] = [];
+    for (let k = 0; k < Math.min(words.length, lines.length - 1); k++) {
+      const [w, narrow] = lines[k + 1]!.split("\t");
+      if (w !== words[k]!.word || narrow !== narrowAll[k]) {
+        differ++;
+        if (firsts.length < 5) firsts.push(`line ${k + 2}: TSV ${w} [${narrow}], bench ${words[k]!.word} [${narrowAll[k]}]`);
+      }
+    }
+    if (differ > 0) failures.push(`the build's TSV differs from the composed machine's output on ${differ} entries`, ...firsts);
+    if (!existsSync(join(outRoot, "cmu", "general", "lexicon.pls"))) failures.push("the build wrote no lexicon.pls");
+  } else if (builds.length > 0) failures.push(`the build wrote no ${relative(root, tsvPath)}`);
+
+  const buildMs = builds.length > 0 ? median(builds.map((b) => b.wallMs)) : null;
+  const buildRss = builds.length > 0 ? Math.max(...builds.map((b) => b.maxRssBytes ?? 0), coldBuild?.maxRssBytes ?? 0) : null;
+  const floorMs = median(floorRuns.map((r) => r.wallMs));
+  const floorRss = Math.max(...floorRuns.map((r) => r.maxRssBytes ?? 0));
+  say();
+  say(`-- end to end (child processes, wall time spawn to exit, median of ${childReps}) --`);
+  say(textTable(["", "wall", "entries/s", "peak RSS"], [
+    ["strata build → TSV + PLS, empty cache (once)", coldBuild ? fmtMs(coldBuild.wallMs) : "n/a", coldBuild ? fmtRate(words.length / (coldBuild.wallMs / 1000)) : "", fmtMB(coldBuild?.maxRssBytes ?? null)],
+    ["strata build → TSV + PLS, cached machines", buildMs !== null ? fmtMs(buildMs) : "n/a", buildMs !== null ? fmtRate(words.length / (buildMs / 1000)) : "", fmtMB(buildRss)],
+    ["I/O floor: read CSV, write TSV, no rules", fmtMs(floorMs), fmtRate(words.length / (floorMs / 1000)), fmtMB(floorRss)],
+  ]));
+  Object.assign(figures, { buildColdMs: coldBuild?.wallMs ?? null, buildMs, buildPeakRssBytes: buildRss, ioFloorMs: floorMs, ioFloorPeakRssBytes: floorRss });
+
+  // --- Ratios against the targets (figures of this run only) -----------------------------------
+  const ratios: { name: string; value: number | null; target: string; met: boolean | null; shown: string }[] = [];
+  const ratio = (name: string, value: number | null, target: string, met: (v: number) => boolean, shown: (v: number) => string): void => {
+    ratios.push({ name, value, target, met: value === null ? null : met(value), shown: value === null ? "n/a" : shown(value) });
+  };
+  const x = (v: number): string => `${fmt(v, v < 10 ? 2 : 1)}×`;
+  ratio("table walk ÷ composed machine (symbols/s)", walkSymPs / machineSymPs, "≤ 5×", (v) => v <= 5, x);
+  ratio("composed machine ÷ interpreter (entries/s, sample)", machineSampleEps / interpEps, "≥ 20×", (v) => v >= 20, x);
+  ratio("composed machine ÷ regex cascade (entries/s)", machineEps / regexEps, "≥ 10×", (v) => v >= 10, x);
+  ratio("  same 5 rules: subset machine ÷ regex cascade", subsetEps / regexEps, "(for information)", () => true, x);
+  ratio("strata build ÷ I/O floor (wall)", buildMs !== null ? buildMs / floorMs : null, "≤ 3×", (v) => v <= 3, x);
+  ratio("strata build peak RSS", buildRss, "≤ 400 MB", (v) => v <= 400e6, (v) => fmtMB(v));
+  ratio("cached compile ÷ cold compile", cachedMs / coldMs, "≤ 5%", (v) => v <= 0.05, (v) => `${fmt(v * 100, 1)}%`);
+  say();
+  say("-- targets --");
+  say(textTable(["ratio", "measured", "target", "met"], ratios.map((r) => [r.name, r.shown, r.target, r.met === null ? "n/a" : r.met ? "yes" : "NO"])));
+  for (const r of ratios) figures[`ratio: ${r.name.trim()}`] = r.value;
+
+  if (failures.length > 0) {
+    say();
+    say("OUTPUT CHECKS FAILED:");
+    for (const f of failures) say(`  ${f}`);
+  }
+
+  writeFileSync(join(work, "main-job.json"), JSON.stringify({ machine: info, figures, failures, date: new Date().toISOString() }, null, 2) + "\n");
+
+  if (opts.writeReadme ?? true) {
+    const body = [
+      `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}.`,
+      `Data: the whole CMU Pronouncing Dictionary (${fmt(words.length)} entries, npm \`cmu-pronouncing-dictionary\`) through \`lexicons/en-us/grammar.strata\` (all rules, syllabification and stress).`,
+      `In-process figures are medians of ${reps} runs, child-process figures (compile, build, I/O floor) medians of ${childReps}; every ratio is taken from figures of the same run.`,
+      failures.length > 0 ? `\n**The output checks failed in this run; the comparisons below are void.**` : "",
+      "",
+      "| measure | figure |",
+      "|---|---|",
+      `| compile, cold (empty cache) | ${fmtMs(coldMs)}, peak RSS ${fmtMB(figures["compilePeakRssBytes"] as number | null)} |`,
+      `| compile, from the build/ cache | ${fmtMs(cachedMs)} |`,
+      `| composed machine (preferred) | ${fmt(sizes.preferred.states)} states, ${fmt(sizes.preferred.arcs)} arcs, ${sizes.preferred.blocks.length} block(s) |`,
+      `| composed machine, whole dictionary | ${fmtRate(machineEps)} entries, ${fmtRate(machineSegPs)} segments |`,
+      `| reference interpreter (${fmt(sampleIdx.length)}-entry sample) | ${fmtRate(interpEps)} entries (machine on the same sample ${fmtRate(machineSampleEps)}) |`,
+      `| bare table walk | ${fmtRate(walkSymPs)} symbols (machine ${fmtRate(machineSymPs)}) |`,
+      `| regex cascade (${SUBSET_RULES.join(", ")}) | ${fmtRate(regexEps)} entries (Strata machine of the same rules ${fmtRate(subsetEps)}) |`,
+      `| \`strata build\` → TSV + PLS, cached machines | ${buildMs !== null ? fmtMs(buildMs) : "n/a"}, peak RSS ${fmtMB(buildRss)} |`,
+      `| I/O floor (read CSV, write TSV, no rules) | ${fmtMs(floorMs)} |`,
+      "",
+      "| ratio | measured | target | met |",
+      "|---|---|---|---|",
+      ...ratios.map((r) => `| ${r.name.trim()} | ${r.shown} | ${r.target} | ${r.met === null ? "n/a" : r.met ? "yes" : "**no**"} |`),
+      "",
+      "Reproduce: `npm run bench` (figures also in `build/bench/main-job.json`).",
+    ].join("\n");
+    writePerformanceSection(join(root, "README.md"), body);
+  }
+  return { ok: failures.length === 0, failures, figures };
+}
