@@ -6,6 +6,8 @@ import { registerClasses } from "./classes.js";
 import { registerImport } from "./import.js";
 import { registerBuild } from "./build.js";
 import { registerTranscribe } from "./transcribe.js";
+import { registerCompile } from "./compile.js";
+import { registerGraph } from "./graph.js";
 
 const program = new Command();
 program
@@ -16,5 +18,7 @@ registerClasses(program);
 registerImport(program);
 registerBuild(program);
 registerTranscribe(program);
+registerCompile(program);
+registerGraph(program);
 
 await program.parseAsync(process.argv);
