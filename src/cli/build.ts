@@ -11,6 +11,8 @@ import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../
 import { loadEngine, packageRoot, printDiagnostics, positiveInt, type EngineKind } from "./common.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
+import { WorkerPool } from "../lexicon/pool.js";
+import { availableParallelism } from "node:os";
 
 interface BuildOptions {
   out: string;
@@ -22,7 +24,11 @@ interface BuildOptions {
   cache: boolean;
   maxStates?: number;
   samples: number;
+  workers: string;
 }
+
+/** Lexicons at least this long are spread over worker threads when --workers is auto. */
+const WORKERS_FROM_ROWS = 20_000;
 
 /** Counts data lines cheaply (for the progress bar's total). */
 async function countLines(path: string): Promise<number> {
@@ -49,7 +55,14 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const outRoot = resolve(o.out);
   const cacheDir = o.cache ? join(outRoot, "cache") : undefined;
   const tty = process.stderr.isTTY === true && !o.quiet;
-  const total = tty ? await countLines(manifest.lexicon) : 0;
+  const lines = await countLines(manifest.lexicon);
+  const total = tty ? lines : 0;
+  const wanted = o.workers === "auto" ? (lines >= WORKERS_FROM_ROWS ? Math.min(8, availableParallelism()) : 1) : Number(o.workers);
+  if (!Number.isInteger(wanted) || wanted < 1) {
+    process.stderr.write(`strata: --workers must be 'auto' or a positive whole number\n`);
+    return 2;
+  }
+  const threads = o.engine === "machine" && WorkerPool.script() !== undefined ? wanted : 1;
   let failed = false;
   let rejected = false;
   const summaries: RunSummary[] = [];
@@ -66,13 +79,19 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     const bar = tty ? new cliProgress.SingleBar({ format: `${variety.name.padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
     bar?.start(Math.max(1, total - 1), 0);
     let summary: RunSummary;
+    let pool: WorkerPool | undefined;
     try {
+      if (threads > 1) {
+        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true });
+      }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
+        ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
     } finally {
       bar?.stop();
+      await pool?.close();
     }
     summaries.push(summary);
     const fileErrors = summary.diagnostics.filter((d) => d.code.startsWith("lexicon/") && d.line <= 1);
@@ -135,6 +154,7 @@ export function registerBuild(program: Command): void {
     .option("--check <n>", "also compare the first N entries with the reference interpreter", positiveInt("--check"))
     .option("--no-cache", "do not read or write compiled machines under <out>/cache")
     .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
+    .option("--workers <n>", "worker threads for the machines: a number, or auto (all cores for lexicons of 20,000 rows or more)", "auto")
     .option("--samples <n>", "sample lines to print per variety", (v) => Number(v), 6)
     .action(async (dir: string | undefined, opts: BuildOptions) => {
       if (opts.engine !== "machine" && opts.engine !== "interpreter") {

@@ -48,11 +48,21 @@ export class MachineEngine implements Engine {
     return this.compiled.preferred.run(ids, out) ? out : undefined;
   }
 
-  transcribeWord(symbols: Word): Transcription | undefined {
+  /** Symbol ids of a reader word (with its '#' edges) for the full and the prosody-only machines. */
+  encode(symbols: Word): { ids: number[]; bids: number[] } | undefined {
     const word = [WORD_EDGE, ...symbols, WORD_EDGE];
     const ids = this.compiled.encode(word);
     const bids = this.broad.encode(word);
-    if (ids === null || bids === null) return undefined;
+    return ids === null || bids === null ? undefined : { ids, bids };
+  }
+
+  transcribeWord(symbols: Word): Transcription | undefined {
+    const e = this.encode(symbols);
+    return e === undefined ? undefined : this.transcribeIds(e.ids, e.bids);
+  }
+
+  /** The work a worker thread does: machines over encoded ids, IPA out. */
+  transcribeIds(ids: number[], bids: number[]): Transcription | undefined {
     const out = this.out;
     out.length = 0;
     if (!this.compiled.preferred.run(ids, out)) return undefined;

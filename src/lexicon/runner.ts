@@ -9,7 +9,9 @@ import { writePls, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import type { Inventory } from "../inventory/types.js";
 import { Channel } from "./channel.js";
-import type { Engine, EntryResult } from "./engine.js";
+import type { Engine, EntryResult, Transcription } from "./engine.js";
+import { MachineEngine } from "./engine-machine.js";
+import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
@@ -20,6 +22,8 @@ export interface RunOptions {
   /** Called every `progressEvery` rows with the rows read so far (for a progress bar). */
   readonly onProgress?: (rowsRead: number) => void;
   readonly progressEvery?: number;
+  /** Worker threads to spread the machines' work over (output identical to one thread). */
+  readonly pool?: WorkerPool;
 }
 
 export interface RunSummary {
@@ -47,14 +51,19 @@ export interface RunSummary {
 }
 
 /** Transcribes one read row through the engine; a row the machine cannot take becomes a reject. */
+function outsideAlphabet(row: LexiconRow): RejectedRow {
+  return {
+    kind: "reject", file: row.file, line: row.line, column: row.pronColumn, code: "run/outside-alphabet",
+    reason: "the compiled grammar does not accept this pronunciation (a symbol outside its alphabet)", raw: `${row.word},${row.pron}`,
+  };
+}
+
+/** Words per batch sent to a worker thread. */
+const BATCH = 1024;
+
 export function transcribeRow(engine: Engine, row: LexiconRow): EntryResult | RejectedRow {
   const t = engine.transcribeWord(row.symbols);
-  if (t === undefined) {
-    return {
-      kind: "reject", file: row.file, line: row.line, column: row.pronColumn, code: "run/outside-alphabet",
-      reason: "the compiled grammar does not accept this pronunciation (a symbol outside its alphabet)", raw: `${row.word},${row.pron}`,
-    };
-  }
+  if (t === undefined) return outsideAlphabet(row);
   return { kind: "entry", file: row.file, line: row.line, word: row.word, ...(row.id !== undefined ? { id: row.id } : {}), ...t };
 }
 
@@ -97,29 +106,74 @@ export async function runLexicon(
   const reader = readLexicon(lexiconPath, { inventory });
   let seen = 0;
   const every = opts.progressEvery ?? 1000;
+  const emit = async (r: EntryResult | RejectedRow): Promise<void> => {
+    if (r.kind === "reject") {
+      rejects.push(r);
+      return;
+    }
+    entries++;
+    if (r.variants.length > 1) withVariants++;
+    variantsTotal += r.variants.length;
+    for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
+    tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
+    jsonl?.push(formatJsonLine({ word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line } }));
+    if (formats.has("pls")) {
+      const lx = lexemes.get(r.word);
+      const mine = [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+      if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
+      else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
+    }
+    // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
+    if ((tsv?.backlog ?? 0) > 4096 || (jsonl?.backlog ?? 0) > 4096) await new Promise((res) => setImmediate(res));
+  };
+  const pool = opts.pool;
   try {
-    for await (const item of reader) {
-      seen++;
-      if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
-      const r = item.kind === "row" ? transcribeRow(engine, item) : item;
-      if (r.kind === "reject") {
-        rejects.push(r);
-        continue;
+    if (pool === undefined || !(engine instanceof MachineEngine)) {
+      for await (const item of reader) {
+        seen++;
+        if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
+        await emit(item.kind === "row" ? transcribeRow(engine, item) : item);
       }
-      entries++;
-      if (r.variants.length > 1) withVariants++;
-      variantsTotal += r.variants.length;
-      for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
-      tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-      jsonl?.push(formatJsonLine({ word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line } }));
-      if (formats.has("pls")) {
-        const lx = lexemes.get(r.word);
-        const mine = [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
-        if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
-        else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
+    } else {
+      // Batches in flight on the workers, emitted strictly in submission order.
+      const queue: { items: (LexiconRow | RejectedRow)[]; done: Promise<(Transcription | null)[]> }[] = [];
+      let items: (LexiconRow | RejectedRow)[] = [];
+      let words: { ids: number[]; bids: number[] }[] = [];
+      const drainOne = async (): Promise<void> => {
+        const head = queue.shift()!;
+        const results = await head.done;
+        let k = 0;
+        for (const item of head.items) {
+          if (item.kind === "reject") {
+            await emit(item);
+            continue;
+          }
+          const t = results[k++];
+          await emit(t === null || t === undefined ? outsideAlphabet(item) : { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t });
+        }
+      };
+      const submit = (): void => {
+        queue.push({ items, done: pool.submit(words) });
+        items = [];
+        words = [];
+      };
+      for await (const item of reader) {
+        seen++;
+        if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
+        if (item.kind === "row") {
+          const e = engine.encode(item.symbols);
+          if (e === undefined) {
+            items.push(outsideAlphabet(item));
+            continue;
+          }
+          words.push(e);
+        }
+        items.push(item);
+        if (words.length >= BATCH) submit();
+        while (queue.length > 2 * pool.size) await drainOne();
       }
-      // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
-      if ((tsv?.backlog ?? 0) > 4096 || (jsonl?.backlog ?? 0) > 4096) await new Promise((res) => setImmediate(res));
+      if (items.length > 0) submit();
+      while (queue.length > 0) await drainOne();
     }
   } catch (err) {
     for (const ch of channels) ch.fail(err);

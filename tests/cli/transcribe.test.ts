@@ -2,7 +2,7 @@
 // and writing each transcription as soon as its row arrives, in every output format.
 
 import { execFileSync, spawn } from "node:child_process";
-import { mkdtempSync } from "node:fs";
+import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -82,4 +82,19 @@ describe("strata transcribe", () => {
     expect(r.stderr).toContain("2 rows read = 1 written + 1 rejected");
     expect(run([...G, "--allow-rejects"], input).status).toBe(0);
   });
+});
+
+describe("strata build with worker threads (compiled CLI)", () => {
+  it("writes byte-identical outputs with 1 and 2 worker threads", () => {
+    const out1 = mkdtempSync(join(tmpdir(), "strata-w1-"));
+    const out2 = mkdtempSync(join(tmpdir(), "strata-w2-"));
+    for (const [out, n] of [[out1, "1"], [out2, "2"]] as const) {
+      execFileSync(process.execPath, [CLI, "build", "lexicons/demo", "-o", out, "--workers", n, "-q"], { cwd: ROOT, stdio: "pipe" });
+    }
+    for (const v of ["general", "careful"]) {
+      for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls", "rejects.csv"]) {
+        expect(readFileSync(join(out2, "demo", v, f), "utf8")).toBe(readFileSync(join(out1, "demo", v, f), "utf8"));
+      }
+    }
+  }, 300_000);
 });
