@@ -5,7 +5,8 @@ import { writeFileSync, renameSync } from "node:fs";
 import type { Command } from "commander";
 import { diagnostic } from "../diagnostics.js";
 import { compileGrammar, compileSteps } from "../compile/index.js";
-import { machineToDot } from "../compile/dot.js";
+import { machineToDot, type DotOptions } from "../compile/dot.js";
+import type { Inventory } from "../inventory/types.js";
 import { loadForCompile, renderAll, type CommandOutcome } from "./compile.js";
 
 export interface GraphCommandOptions {
@@ -18,6 +19,14 @@ export interface GraphCommandOptions {
 }
 
 const COMMAND_LINE = { file: "<command line>", line: 1, column: 1 };
+
+function prosodyOf(inv: Inventory): DotOptions["prosody"] {
+  const stress = inv.featureIndex.get("stress");
+  const primary = inv.featureIndex.get("primary");
+  const syl = inv.featureIndex.get("syllabic");
+  if (stress === undefined || primary === undefined || syl === undefined) return undefined;
+  return { stress, primary, nucleus: (b) => b[syl] === "+" };
+}
 
 /** Runs `strata graph`; the DOT text is the outcome's stdout. */
 export function runGraph(g: string, step: string | undefined, opts: GraphCommandOptions = {}): CommandOutcome {
@@ -38,7 +47,7 @@ export function runGraph(g: string, step: string | undefined, opts: GraphCommand
       const msg = `The whole cascade does not fit in one machine of at most ${limit} states (${blocks.length} blocks, ${size} states); draw one step instead, or raise --limit.`;
       return { stdout: "", stderr: renderAll([diagnostic("error", "cli/graph-too-large", msg, COMMAND_LINE)]), exitCode: 1 };
     }
-    const dot = machineToDot(blocks[0]!.machine, r.compiled.alphabet, { title: `${grammar.file}: whole cascade (${which})` });
+    const dot = machineToDot(blocks[0]!.machine, r.compiled.alphabet, { title: `${grammar.file}: whole cascade (${which})`, prosody: prosodyOf(inventory) });
     return { stdout: dot, stderr: "", exitCode: 0 };
   }
   if (step === undefined) {
@@ -56,7 +65,7 @@ export function runGraph(g: string, step: string | undefined, opts: GraphCommand
   if (m === null) {
     return { stdout: "", stderr: renderAll([diagnostic("error", "cli/graph-skipped", `Step '${step}' is optional and prefers not to apply: its preferred machine is the identity; draw it without --preferred.`, COMMAND_LINE)]), exitCode: 1 };
   }
-  const dot = machineToDot(m, r.result.alphabet, { title: `${step} (${which}): ${m.numStates} states, ${m.numArcs()} arcs` });
+  const dot = machineToDot(m, r.result.alphabet, { title: `${step} (${which}): ${m.numStates} states, ${m.numArcs()} arcs`, prosody: prosodyOf(inventory) });
   return { stdout: dot, stderr: "", exitCode: 0 };
 }
 
