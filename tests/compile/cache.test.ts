@@ -1,0 +1,112 @@
+// The compiled-machine cache: a miss writes, a hit reads the same machines back, a corrupt or
+// truncated file is detected and rebuilt, and a changed grammar or inventory gets another key.
+
+import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterEach, describe, expect, it } from "vitest";
+import { compileGrammar, type Compiled } from "../../src/compile/index.js";
+import type { Grammar } from "../../src/grammar/ast.js";
+import { wordKey } from "../../src/interp/index.js";
+import { bun, chBun, classDef, env, grammar, rule, seg, syllabifyStep, stressStep, clusters } from "../support/ast.js";
+import { tinyInventory as inv } from "../support/tiny-inventory.js";
+import { symsOf } from "../support/words.js";
+
+const dirs: string[] = [];
+const tmp = (): string => {
+  const d = mkdtempSync(join(tmpdir(), "strata-cache-"));
+  dirs.push(d);
+  return d;
+};
+afterEach(() => {
+  for (const d of dirs.splice(0)) rmSync(d, { recursive: true, force: true });
+});
+
+const g: Grammar = grammar(
+  [
+    syllabifyStep(),
+    stressStep("right", 2),
+    rule("voicing", [bun("-syllabic -nasal")], [chBun("+voice")], [env([bun("+syllabic")], [bun("+syllabic -stress")])]),
+    rule("nasal", [seg("a")], [chBun("+nasal")], [env([], [seg("n")])], { optional: true }),
+  ],
+  { classes: [classDef("V", [bun("+syllabic")])], onsets: clusters("p t k b d n pt"), codas: clusters("p t k n") },
+);
+
+const WORDS = ["#pataka#", "#anta#", "#tapan#", "#ipta#"];
+
+function outputs(c: Compiled): string[] {
+  return WORDS.map((w) => {
+    const ids = c.encode(symsOf(w, inv))!;
+    const out: number[] = [];
+    c.preferred.run(ids, out);
+    return `${wordKey(c.decode(out))} / ${c.variants(ids).outputs.map((o) => wordKey(c.decode(o))).join(" | ")}`;
+  });
+}
+
+function compiled(dir: string | undefined, gr: Grammar = g): Compiled {
+  const r = compileGrammar(gr, inv, dir === undefined ? {} : { cacheDir: dir });
+  expect(r.diagnostics).toEqual([]);
+  return r.compiled!;
+}
+
+describe("compiled-machine cache", () => {
+  it("misses, then hits with the same machines and results", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    expect(first.cache).toBe("miss");
+    expect(readdirSync(dir)).toEqual([`${first.cacheKey}.bin`]);
+    const second = compiled(dir);
+    expect(second.cache).toBe("hit");
+    expect(second.cacheKey).toBe(first.cacheKey);
+    expect(second.preferredSize).toEqual(first.preferredSize);
+    expect(second.steps).toEqual(first.steps);
+    expect(outputs(second)).toEqual(outputs(first));
+    expect(outputs(first)).toEqual(outputs(compiled(undefined)));
+  });
+
+  it("is off without a folder", () => {
+    expect(compiled(undefined).cache).toBe("off");
+  });
+
+  it("detects a flipped byte and rebuilds", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const file = join(dir, `${first.cacheKey}.bin`);
+    const bytes = readFileSync(file);
+    bytes[bytes.length - 5] = bytes[bytes.length - 5]! ^ 0xff;
+    writeFileSync(file, bytes);
+    const again = compiled(dir);
+    expect(again.cache).toBe("rebuilt");
+    expect(outputs(again)).toEqual(outputs(first));
+    expect(compiled(dir).cache).toBe("hit");
+  });
+
+  it("detects a truncated file and a foreign file", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const file = join(dir, `${first.cacheKey}.bin`);
+    writeFileSync(file, readFileSync(file).subarray(0, 40));
+    expect(compiled(dir).cache).toBe("rebuilt");
+    writeFileSync(file, "not a cache file at all");
+    expect(compiled(dir).cache).toBe("rebuilt");
+    expect(compiled(dir).cache).toBe("hit");
+  });
+
+  it("gives a changed grammar another key (stale files are never read)", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const changed: Grammar = { ...g, steps: g.steps.slice(0, 3) };
+    const other = compiled(dir, changed);
+    expect(other.cache).toBe("miss");
+    expect(other.cacheKey).not.toBe(first.cacheKey);
+    expect(readdirSync(dir).sort()).toEqual([`${first.cacheKey}.bin`, `${other.cacheKey}.bin`].sort());
+    const invChanged = compileGrammar(g, { ...inv, segments: inv.segments.slice(0, 7) }, { cacheDir: dir });
+    expect(invChanged.compiled?.cacheKey ?? "errors").not.toBe(first.cacheKey);
+  });
+
+  it("writes whole files: no temporary file is left behind", () => {
+    const dir = tmp();
+    compiled(dir);
+    expect(readdirSync(dir).filter((f) => f.endsWith(".tmp"))).toEqual([]);
+  });
+});
