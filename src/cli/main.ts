@@ -8,6 +8,8 @@ import { registerBuild } from "./build.js";
 import { registerTranscribe } from "./transcribe.js";
 import { registerCompile } from "./compile.js";
 import { registerGraph } from "./graph.js";
+import { registerLint } from "./lint.js";
+import { registerClusters } from "./clusters.js";
 
 const program = new Command();
 program
@@ -20,5 +22,7 @@ registerBuild(program);
 registerTranscribe(program);
 registerCompile(program);
 registerGraph(program);
+registerLint(program);
+registerClusters(program);
 
 await program.parseAsync(process.argv);
