@@ -98,7 +98,9 @@ export function lintRow(row: LexiconRow, ctx: LintContext): LintFinding[] {
   if (row.stressMarked && !tokens.some((x) => x.kind === "stress" && x.level === "primary")) {
     at("warning", "lint/no-primary", "the entry has stress marks but no primary stress (ˈ).", wholePron.column, wholePron.length);
   }
-  if (!row.stressMarked && !ctx.assignsStress) {
+  // A word without a nucleus cannot carry stress; lint/no-nucleus below says so.
+  const anyNucleus = segTokens.some((x) => x.bundle[inv.featureIndex.get("syllabic") ?? -1] === "+");
+  if (!row.stressMarked && !ctx.assignsStress && anyNucleus) {
     at("error", "lint/unstressed-entry", "the entry has no stress mark and the grammar has no 'stress' step to assign one.", wholePron.column, wholePron.length);
   }
 
