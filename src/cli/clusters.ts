@@ -44,10 +44,11 @@ export async function runClusters(file: string, opts: ClustersOptions = {}): Pro
   const compared = g.grammar.onsets !== null || g.grammar.codas !== null;
   const name = fromStdin ? "<stdin>" : basename(file);
 
-  let out = `-- Onsets and codas derived by 'strata clusters' from ${name}: the consonants before the first vowel\n`;
-  out += `-- and after the last vowel of each word (${r.words} words of ${d.rows} rows; ${r.skipped} without a nucleus skipped).\n`;
-  out += `-- Counts are occurrences${min > 1 ? `; clusters seen fewer than ${min} times are left out` : ""}. Edit before use: rare clusters\n`;
-  out += `-- are often loanwords or names, and medial clusters may need onsets or codas no word edge shows.\n`;
+  let out = `-- Onsets and codas derived by 'strata clusters' from ${name}: the consonants before the first\n`;
+  out += `-- nucleus and after the last nucleus of each word (${r.words} words of ${d.rows} rows; ${r.skipped} without a nucleus skipped).\n`;
+  out += `-- Counts are occurrences${min > 1 ? `; clusters seen fewer than ${min} times are left out` : ""}.\n`;
+  out += `-- Edit before use: rare clusters are often loanwords or names, and medial clusters may need\n`;
+  out += `-- onsets or codas that no word edge shows.\n`;
   if (compared) out += `-- '*' marks a cluster that ${basename(gpath)} does not declare yet.\n`;
   out += countsComment(`onsets (${onsets.length}):`, onsets);
   out += countsComment(`codas (${codas.length}):`, codas);

@@ -119,7 +119,9 @@ export class ClusterCounter {
       const c: ClusterCount = { segments: v.segments, text, count: v.count, writable };
       out.push(list === undefined || list === null ? c : { ...c, declared: list.some((d) => d.length === v.bundles.length && d.every((b, i) => sameSegment(this.inv, b, v.bundles[i]!))) });
     }
-    return out.sort((a, b) => b.count - a.count || (a.text < b.text ? -1 : a.text > b.text ? 1 : 0));
+    // Code-point order (not locale order) keeps the output byte-stable; the segment split breaks ties of equal text.
+    const cmp = (x: string, y: string): number => (x < y ? -1 : x > y ? 1 : 0);
+    return out.sort((a, b) => b.count - a.count || cmp(a.text, b.text) || cmp(a.segments.join(" "), b.segments.join(" ")));
   }
 }
 
@@ -164,7 +166,8 @@ export function countsComment(title: string, clusters: readonly ClusterCount[], 
   let cur = "--  ";
   for (const c of clusters) {
     const mark = c.declared === false ? "*" : "";
-    const item = `${c.text}${mark} ${c.count}`;
+    // A cluster that cannot be written joined is shown with its segments apart (t+ʃ).
+    const item = `${c.writable ? c.text : c.segments.join("+")}${mark} ${c.count}`;
     if (cur.length > 4 && cur.length + 3 + item.length > width) {
       s += cur + "\n";
       cur = "--  ";
