@@ -128,6 +128,8 @@ export class VariantsRunner {
         const r = f.applyAll(w, cap);
         if (r.capped) capped = true;
         for (const o of r.outputs) next.set(o.join(","), o);
+        // Past the cap the rest cannot be kept anyway: stop multiplying variants.
+        if (next.size > cap) { capped = true; break; }
       }
       const keys = [...next.keys()].sort();
       if (keys.length > cap) capped = true;

@@ -12,6 +12,7 @@ import { desugar, isBoundaryBlind } from "../../src/grammar/index.js";
 import type { Grammar, Rule, Step } from "../../src/grammar/ast.js";
 import { StrataError } from "../../src/diagnostics.js";
 import { clusterListArb, heavyArb, ruleArb, stressArb, wordArb } from "./gen.js";
+import { arbGrammar, arbWord } from "../support/arb-grammar.js";
 
 const extra = { classes: [classDef("V", [bun("+syllabic")])], nodes: [nodeDef("place", ["labial", "coronal"])] };
 const interpOptsOf = (g: Grammar) => ({ desugar: (r: Rule) => desugar(r, { inventory: inv, classes: g.classes }), isBoundaryBlind: (r: Rule) => isBoundaryBlind(r), maxVariants: 2000 });
@@ -70,7 +71,7 @@ describe("compiled rules agree with the interpreter", () => {
           expect(wordKey(dec.decode(pref[0]!))).toBe(wordKey(exp.preferred));
         }
       }),
-      { numRuns: 400 },
+      { numRuns: 300 },
     );
   });
 
@@ -108,7 +109,16 @@ describe("compiled rules agree with the interpreter", () => {
           checkGrammar(grammar(steps, { ...extra, onsets, codas, heavy }), words);
         },
       ),
-      { numRuns: 150 },
+      { numRuns: 100 },
+    );
+  });
+
+  it("the shared random grammars (tests/support) × random words, with and without '.'", () => {
+    fc.assert(
+      fc.property(arbGrammar(), fc.array(fc.oneof(arbWord(inv, { dots: true }), arbWord(inv)), { minLength: 1, maxLength: 5 }), ({ grammar: g }, words) => {
+        checkGrammar(g, words);
+      }),
+      { numRuns: 80 },
     );
   });
 });
