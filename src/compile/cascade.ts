@@ -59,12 +59,12 @@ interface BlockRunner {
   readonly kind: "sequential" | "search";
 }
 
-function blockRunner(m: Fst): BlockRunner {
+function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
   // A subsequential block becomes a dense table; when determinisation does not terminate within a
   // few times the block's size (no bounded delay: right contexts of unbounded length), search.
   let d: ReturnType<typeof determiniseTransducer> | null = null;
   try {
-    d = determiniseTransducer(m, { maxStates: Math.min(Math.max(500, 2 * m.numStates), 50_000) });
+    if (tryTable) d = determiniseTransducer(m, { maxStates: Math.min(Math.max(500, 2 * m.numStates), 50_000) });
   } catch (e) {
     if (!(e instanceof FstLimitError)) throw e;
   }
@@ -93,8 +93,9 @@ function blockRunner(m: Fst): BlockRunner {
 /** The preferred cascade: each block functional; runs them in sequence. */
 export class PreferredRunner {
   private readonly runners: BlockRunner[];
-  constructor(blocks: readonly Block[]) {
-    this.runners = blocks.map((b) => blockRunner(b.machine));
+  /** `kinds`: how each block ran before (from the cache), so a known search block skips the determinisation attempt. */
+  constructor(blocks: readonly Block[], kinds?: readonly string[]) {
+    this.runners = blocks.map((b, i) => blockRunner(b.machine, kinds?.[i] !== "search"));
   }
   /** How each block runs ("sequential": dense table; "search": general search for the one output). */
   get kinds(): string[] {

@@ -181,6 +181,8 @@ interface CacheMeta {
   readonly preferred: { from: number; to: number }[];
   readonly variants: { from: number; to: number }[];
   readonly hasVariants: boolean;
+  /** How each preferred block runs ("sequential" or "search"). */
+  readonly runners?: readonly string[];
 }
 
 function alphabetFromMeta(meta: CacheMeta["alphabet"]): Alphabet {
@@ -220,7 +222,7 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
         return { ...r, machine: m, states: m.numStates, arcs: m.numArcs() };
       });
       const t1 = performance.now();
-      const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 });
+      const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 }, meta.runners);
       return { compiled: { ...compiled, timings: { steps: 0, compose: 0, freeze: performance.now() - t1, total: performance.now() - t0 } }, diagnostics: [] };
     }
     if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
@@ -240,6 +242,8 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
   const hasVariants = result.steps.some((s) => s.step.kind === "rule" && (s.step.optional || s.preferred === null || !sameMachine(s.variants, s.preferred)));
   const variantBlocks = hasVariants ? composeCascade(result.steps.map((s) => s.variants), maxStates) : preferredBlocks;
   const t2 = performance.now();
+  const compiled = assemble(result.alphabet, steps, preferredBlocks, variantBlocks, hasVariants, cacheState, key, { steps: t1 - t0, compose: t2 - t1, freeze: 0, total: 0 });
+  const t3 = performance.now();
   if (opts.cacheDir !== undefined) {
     const a = result.alphabet;
     const meta: CacheMeta = {
@@ -253,12 +257,11 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
       preferred: preferredBlocks.map((b) => ({ from: b.from, to: b.to })),
       variants: variantBlocks.map((b) => ({ from: b.from, to: b.to })),
       hasVariants,
+      runners: compiled.preferred.kinds,
     };
     writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)]);
   }
-  const compiled = assemble(result.alphabet, steps, preferredBlocks, variantBlocks, hasVariants, cacheState, key, { steps: t1 - t0, compose: t2 - t1, freeze: 0, total: 0 });
-  const t3 = performance.now();
-  return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: t3 - t0 } }, diagnostics };
+  return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
 }
 
 /** Structural equality of two machines (same states, finals and arcs in order). */
@@ -275,9 +278,9 @@ function sameMachine(a: Fst, b: Fst): boolean {
 
 function assemble(
   alphabet: Alphabet, steps: StepSize[], preferredBlocks: Block[], variantBlocks: Block[], hasVariants: boolean,
-  cache: Compiled["cache"], cacheKey: string, timings: Compiled["timings"],
+  cache: Compiled["cache"], cacheKey: string, timings: Compiled["timings"], kinds?: readonly string[],
 ): Compiled {
-  const preferred = new PreferredRunner(preferredBlocks);
+  const preferred = new PreferredRunner(preferredBlocks, kinds);
   const variantsRunner = new VariantsRunner(variantBlocks);
   const encode = (word: readonly Sym[]): number[] | null => {
     const out: number[] = [];
