@@ -1,0 +1,323 @@
+// Frozen machines for hot paths: a general typed-array form (compressed sparse rows) that
+// returns every output of an input, and a dense-table runner for sequential machines.
+
+import { removeInputEpsilons, type StrArc, type StrMachine } from "./epsilon.js";
+import { EPSILON, Fst, FstError, type Label } from "./fst.js";
+import { isSequential } from "./minimise.js";
+
+/** All distinct outputs of one input, sorted; `capped` when more existed than were kept. */
+export interface ApplyResult {
+  readonly outputs: Label[][];
+  readonly capped: boolean;
+}
+
+function compareLabels(a: readonly Label[], b: readonly Label[]): number {
+  const n = Math.min(a.length, b.length);
+  for (let k = 0; k < n; k++) if (a[k] !== b[k]) return (a[k] as number) - (b[k] as number);
+  return a.length - b.length;
+}
+
+/**
+ * Any machine in compressed sparse rows: the arcs of state s are at first[s] … first[s+1]-1,
+ * sorted by (input, output, target); ε-input arcs therefore come first. The final output of s is
+ * finalLabels[finalFirst[s] … finalFirst[s+1]-1] when isFinal[s] = 1.
+ */
+export class FrozenFst {
+  constructor(
+    readonly start: number,
+    readonly first: Int32Array,
+    readonly input: Int32Array,
+    readonly output: Int32Array,
+    readonly target: Int32Array,
+    readonly isFinal: Uint8Array,
+    readonly finalFirst: Int32Array,
+    readonly finalLabels: Int32Array,
+  ) {}
+
+  get numStates(): number {
+    return this.isFinal.length;
+  }
+
+  get numArcs(): number {
+    return this.input.length;
+  }
+
+  /**
+   * Every distinct output of `input`, sorted, at most `cap` of them. The search is depth-first over
+   * configurations (state, position, output so far), each visited once, so ε-input cycles that
+   * write nothing terminate; one that writes output has infinitely many outputs and ends the
+   * search with `capped` once `cap` outputs or `maxConfigurations` configurations are reached.
+   * When capped, which outputs were kept follows the (deterministic) search order.
+   */
+  applyAll(input: ArrayLike<Label>, cap = 64, maxConfigurations = 1_000_000): ApplyResult {
+    const n = input.length;
+    if (this.numStates === 0) return { outputs: [], capped: false };
+    // Output strings as nodes of a trie: node 0 is the empty string.
+    const parent: number[] = [-1];
+    const last: number[] = [EPSILON];
+    const child = new Map<string, number>();
+    const extend = (node: number, l: Label): number => {
+      if (l === EPSILON) return node;
+      const key = `${node},${l}`;
+      let c = child.get(key);
+      if (c === undefined) {
+        c = parent.length;
+        parent.push(node);
+        last.push(l);
+        child.set(key, c);
+      }
+      return c;
+    };
+    const seen = new Set<string>();
+    const results = new Set<number>();
+    const stack: number[] = [this.start, 0, 0];
+    seen.add(`${this.start},0,0`);
+    let capped = false;
+    while (stack.length > 0) {
+      const node = stack.pop() as number;
+      const pos = stack.pop() as number;
+      const s = stack.pop() as number;
+      if (pos === n && this.isFinal[s] === 1) {
+        let r = node;
+        for (let k = this.finalFirst[s] as number; k < (this.finalFirst[s + 1] as number); k++) r = extend(r, this.finalLabels[k] as number);
+        if (!results.has(r)) {
+          if (results.size >= cap) {
+            capped = true;
+            break;
+          }
+          results.add(r);
+        }
+      }
+      const end = this.first[s + 1] as number;
+      const x = pos < n ? (input[pos] as number) : -1;
+      for (let k = this.first[s] as number; k < end; k++) {
+        const i = this.input[k] as number;
+        let np: number;
+        if (i === EPSILON) np = pos;
+        else if (i === x) np = pos + 1;
+        else if (i > x) break;
+        else continue;
+        const t = this.target[k] as number;
+        const nn = extend(node, this.output[k] as number);
+        const key = `${t},${np},${nn}`;
+        if (seen.has(key)) continue;
+        if (seen.size >= maxConfigurations) {
+          capped = true;
+          break;
+        }
+        seen.add(key);
+        stack.push(t, np, nn);
+      }
+      if (capped) break;
+    }
+    const outputs = [...results].map((r) => {
+      const w: Label[] = [];
+      for (let x = r; x > 0; x = parent[x] as number) w.push(last[x] as number);
+      return w.reverse();
+    });
+    outputs.sort(compareLabels);
+    return { outputs, capped };
+  }
+}
+
+/** The compressed-sparse-row form of any machine. */
+export function freeze(fst: Fst): FrozenFst {
+  const n = fst.numStates;
+  const first = new Int32Array(n + 1);
+  for (let s = 0; s < n; s++) first[s + 1] = (first[s] as number) + fst.arcs(s).length;
+  const m = first[n] as number;
+  const input = new Int32Array(m);
+  const output = new Int32Array(m);
+  const target = new Int32Array(m);
+  const isFinal = new Uint8Array(n);
+  const finalFirst = new Int32Array(n + 1);
+  const finalLabels: number[] = [];
+  for (let s = 0; s < n; s++) {
+    const list = fst.arcs(s).slice().sort((a, b) => a.input - b.input || a.output - b.output || a.target - b.target);
+    let k = first[s] as number;
+    for (const a of list) {
+      input[k] = a.input;
+      output[k] = a.output;
+      target[k] = a.target;
+      k++;
+    }
+    const f = fst.finalOutput(s);
+    if (f !== undefined) {
+      isFinal[s] = 1;
+      finalLabels.push(...f);
+    }
+    finalFirst[s + 1] = finalLabels.length;
+  }
+  return new FrozenFst(n > 0 ? fst.start : 0, first, input, output, target, isFinal, finalFirst, Int32Array.from(finalLabels));
+}
+
+/** Every distinct output of `input` (sorted, at most `cap`). Freezes first: freeze once to apply often. */
+export function applyAll(fst: Fst | FrozenFst, input: ArrayLike<Label>, cap = 64): ApplyResult {
+  return (fst instanceof FrozenFst ? fst : freeze(fst)).applyAll(input, cap);
+}
+
+/**
+ * Input-symbol classes: labels that every state treats alike (same target and output) share a
+ * class, so dense tables have one column per class instead of one per label. Class 0 holds the
+ * labels no state reads. The standard alphabet compression of table-driven scanners.
+ */
+export function inputClasses(m: StrMachine, outputKey: (a: StrArc) => string): { classOf: Int32Array; classes: number } {
+  let maxLabel = 0;
+  for (const list of m.arcs) for (const a of list) maxLabel = Math.max(maxLabel, a.input);
+  const sig: string[][] = Array.from({ length: maxLabel + 1 }, () => []);
+  m.arcs.forEach((list, s) => {
+    for (const a of list) (sig[a.input] as string[]).push(`${s}>${a.target}:${outputKey(a)}`);
+  });
+  const classOf = new Int32Array(maxLabel + 1);
+  const ids = new Map<string, number>([["", 0]]);
+  for (let l = 1; l <= maxLabel; l++) {
+    const key = (sig[l] as string[]).join(" ");
+    let c = ids.get(key);
+    if (c === undefined) {
+      c = ids.size;
+      ids.set(key, c);
+    }
+    classOf[l] = c;
+  }
+  return { classOf, classes: ids.size };
+}
+
+/**
+ * The fast runner of a sequential machine: one dense row per state and one column per input
+ * class. Per input symbol the loop does a class lookup, a table lookup and writes the output
+ * (`out` code 0: nothing, > 0: that label, < 0: a string at pool[-code-1] = length, labels…).
+ * When every label is its own class the class lookup is skipped.
+ */
+export class DeterministicRunner {
+  constructor(
+    readonly start: number,
+    readonly classes: number,
+    readonly classOf: Int32Array,
+    readonly next: Int32Array,
+    readonly out: Int32Array,
+    /** -1: not final; otherwise the offset of the final output in `pool`. */
+    readonly finalAt: Int32Array,
+    readonly pool: Int32Array,
+  ) {
+    let identity = classes === classOf.length;
+    for (let l = 1; identity && l < classOf.length; l++) if (classOf[l] !== l) identity = false;
+    this.identity = identity;
+  }
+
+  /** True when class c is label c for every label (the class lookup is skipped). */
+  readonly identity: boolean;
+
+  get numStates(): number {
+    return this.finalAt.length;
+  }
+
+  /** Scratch output buffer reused between calls (grown on demand). */
+  private scratch = new Int32Array(256);
+
+  /** Runs `input`; appends the output to `out` and returns true, or returns false when rejected. */
+  run(input: ArrayLike<Label>, out: Label[]): boolean {
+    for (;;) {
+      const n = this.runInto(input, this.scratch);
+      if (n === -2) {
+        this.scratch = new Int32Array(this.scratch.length * 4);
+        continue;
+      }
+      if (n < 0) return false;
+      for (let k = 0; k < n; k++) out.push(this.scratch[k] as number);
+      return true;
+    }
+  }
+
+  /**
+   * The hot loop: runs `input` writing the output into `out`; returns the output length, -1 when
+   * the input is rejected, -2 when `out` is too small.
+   */
+  runInto(input: ArrayLike<Label>, out: Int32Array): number {
+    const { next, classes, classOf, pool } = this;
+    const codes = this.out;
+    const cap = out.length;
+    let n = 0;
+    let s = this.start;
+    const len = input.length;
+    const nc = classOf.length;
+    for (let i = 0; i < len; i++) {
+      const x = input[i] as number;
+      if (x <= 0 || x >= nc) return -1;
+      const idx = s * classes + (this.identity ? x : (classOf[x] as number));
+      const t = next[idx] as number;
+      if (t < 0) return -1;
+      const o = codes[idx] as number;
+      if (o > 0) {
+        if (n >= cap) return -2;
+        out[n++] = o;
+      } else if (o < 0) {
+        const at = -o - 1;
+        const end = at + 1 + (pool[at] as number);
+        if (n + end - at - 1 > cap) return -2;
+        for (let k = at + 1; k < end; k++) out[n++] = pool[k] as number;
+      }
+      s = t;
+    }
+    const f = this.finalAt[s] as number;
+    if (f < 0) return -1;
+    const end = f + 1 + (pool[f] as number);
+    if (n + end - f - 1 > cap) return -2;
+    for (let k = f + 1; k < end; k++) out[n++] = pool[k] as number;
+    return n;
+  }
+
+  /** True when the machine accepts `input`. */
+  accepts(input: ArrayLike<Label>): boolean {
+    const { next, classes, classOf } = this;
+    let s = this.start;
+    for (let i = 0; i < input.length; i++) {
+      const x = input[i] as number;
+      if (x <= 0 || x >= classOf.length) return false;
+      s = next[s * classes + (classOf[x] as number)] as number;
+      if (s < 0) return false;
+    }
+    return (this.finalAt[s] as number) >= 0;
+  }
+}
+
+/**
+ * Freezes a sequential machine (`isSequential`: deterministic on input, string outputs as chains
+ * of ε-input arcs, such as `determinise`, `determiniseTransducer` and `minimise` produce) into
+ * dense tables. Throws FstError for any other machine; see `freezeFunctional` for functional
+ * machines that are not sequential.
+ */
+export function freezeDeterministic(fst: Fst): DeterministicRunner {
+  if (!isSequential(fst)) throw new FstError("freezeDeterministic needs a sequential machine (deterministic on input)");
+  const free = removeInputEpsilons(fst);
+  if (!free.ok) throw new FstError("freezeDeterministic: the machine has an ε-input cycle");
+  const m = free.machine;
+  // A chain at the start is no special case: ε-input removal has already moved its output onto
+  // the start state's arcs and final output.
+  const n = m.arcs.length;
+  const { classOf, classes } = inputClasses(m, (a) => a.output.join(","));
+  const next = new Int32Array(n * classes).fill(-1);
+  const codes = new Int32Array(n * classes);
+  const pool: number[] = [];
+  const poolAt = new Map<string, number>();
+  const intern = (w: readonly Label[]): number => {
+    const key = w.join(",");
+    let at = poolAt.get(key);
+    if (at === undefined) {
+      at = pool.length;
+      pool.push(w.length, ...w);
+      poolAt.set(key, at);
+    }
+    return at;
+  };
+  const finalAt = new Int32Array(n).fill(-1);
+  for (let s = 0; s < n; s++) {
+    for (const a of m.arcs[s] as StrArc[]) {
+      const idx = s * classes + (classOf[a.input] as number);
+      next[idx] = a.target;
+      codes[idx] = a.output.length === 0 ? 0 : a.output.length === 1 ? (a.output[0] as number) : -(intern(a.output) + 1);
+    }
+    const f = (m.finals[s] as (readonly Label[])[])[0];
+    if (f !== undefined) finalAt[s] = intern(f);
+  }
+  return new DeterministicRunner(m.start, classes, classOf, next, codes, finalAt, Int32Array.from(pool));
+}

@@ -1,0 +1,32 @@
+// The public surface of the finite-state core: every operation other rooms use is re-exported here.
+// See src/fst/README.md for the representation decisions and the measured figures.
+
+export { EPSILON, Fst, FstError, SymbolTable, acceptorOf, emptyFst, expandFinalOutputs, transducerOf } from "./fst.js";
+export type { Arc, FstStats, Label, StateId } from "./fst.js";
+export {
+  accessible,
+  canonicalOrder,
+  closure,
+  coaccessible,
+  concat,
+  invert,
+  isEmpty,
+  keepStates,
+  mapArcs,
+  optional,
+  plus,
+  project,
+  reverse,
+  star,
+  trim,
+  union,
+} from "./basic.js";
+export { FstLimitError, compose, composeAll, intersect, sortedArcs } from "./compose.js";
+export type { ComposeOptions, SortedArcs } from "./compose.js";
+export { removeEpsilon, removeInputEpsilons } from "./epsilon.js";
+export type { InputEpsilonFree, StrArc, StrMachine } from "./epsilon.js";
+export { determinise, determiniseTransducer } from "./determinise.js";
+export type { DeterminiseFailure, DeterminiseOptions, DeterminiseResult } from "./determinise.js";
+export { coarsestPartition, isDeterministic, isSequential, minimise } from "./minimise.js";
+export { DeterministicRunner, FrozenFst, applyAll, freeze, freezeDeterministic, inputClasses } from "./frozen.js";
+export type { ApplyResult } from "./frozen.js";
