@@ -30,3 +30,20 @@ export type { DeterminiseFailure, DeterminiseOptions, DeterminiseResult } from "
 export { coarsestPartition, isDeterministic, isSequential, minimise } from "./minimise.js";
 export { DeterministicRunner, FrozenFst, applyAll, freeze, freezeDeterministic, inputClasses } from "./frozen.js";
 export type { ApplyResult } from "./frozen.js";
+export { complement, difference, equivalent, isFunctional, shortestDifference } from "./equivalence.js";
+export type { Difference, FunctionalityResult } from "./equivalence.js";
+export { FunctionalRunner, freezeFunctional } from "./functional.js";
+export type { FreezeFunctionalOptions, FreezeFunctionalResult } from "./functional.js";
+export {
+  FORMAT_VERSION,
+  crc32,
+  deserialise,
+  deserialiseDeterministic,
+  deserialiseFunctional,
+  serialise,
+  serialiseDeterministic,
+  serialiseFunctional,
+} from "./serialise.js";
+export type { Deserialised } from "./serialise.js";
+export { toDot } from "./dot.js";
+export type { FstDotOptions } from "./dot.js";

@@ -41,6 +41,7 @@ export function relation(fst: Fst, maxIn: number, maxOut: number, ignore: "none"
 export function transduce(fst: Fst, x: readonly Label[], maxOut: number): string[] {
   const result = new Set<string>();
   if (fst.numStates === 0) return [];
+  const live = canFinish(fst);
   const seen = new Set<string>();
   const stack: [number, number, Label[]][] = [[fst.start, 0, []]];
   while (stack.length > 0) {
@@ -51,6 +52,7 @@ export function transduce(fst: Fst, x: readonly Label[], maxOut: number): string
     const f = fst.finalOutput(s);
     if (pos === x.length && f !== undefined && y.length + f.length <= maxOut) result.add([...y, ...f].join(","));
     for (const a of fst.arcs(s)) {
+      if (!live[a.target]) continue;
       if (a.input !== EPSILON && (pos >= x.length || a.input !== x[pos])) continue;
       const y2 = a.output === EPSILON ? y : [...y, a.output];
       if (y2.length > maxOut) continue;
@@ -58,6 +60,22 @@ export function transduce(fst: Fst, x: readonly Label[], maxOut: number): string
     }
   }
   return [...result].sort();
+}
+
+/** States from which some final state can be reached (a plain fixed point, for pruning the search). */
+function canFinish(fst: Fst): boolean[] {
+  const live = Array.from({ length: fst.numStates }, (_, s) => fst.isFinal(s));
+  let changed = true;
+  while (changed) {
+    changed = false;
+    for (let s = 0; s < fst.numStates; s++) {
+      if (!live[s] && fst.arcs(s).some((a) => live[a.target])) {
+        live[s] = true;
+        changed = true;
+      }
+    }
+  }
+  return live;
 }
 
 /** The strings of an acceptor up to length n, as keys "a,b". */
