@@ -125,6 +125,7 @@ function open(bytes: Uint8Array, kind: Kind): Reader {
   const version = view.getUint16(4, true);
   if (version !== FORMAT_VERSION) throw new FstError(`format version ${version}, this build reads ${FORMAT_VERSION}`);
   if (bytes[6] !== kind) throw new FstError(`holds kind ${bytes[6]}, expected kind ${kind}`);
+  if (bytes[7] !== 0) throw new FstError("reserved header byte is not zero (corrupt)");
   const len = view.getUint32(8, true);
   if (len !== bytes.length - HEADER) throw new FstError(`payload is ${bytes.length - HEADER} bytes, header says ${len} (truncated?)`);
   if (view.getUint32(12, true) !== crc32(bytes, HEADER, bytes.length)) throw new FstError("checksum mismatch (corrupt)");
