@@ -84,7 +84,7 @@ export function liveAssignments(low: Lowering, rule: Rule, bundles: readonly Bun
  * every symbol any word can carry. Throws LowerError (with the rule's position) for an
  * unwritable produced bundle or when the alphabet exceeds MAX_ALPHABET.
  */
-export function computeAlphabet(grammar: Grammar, inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][]): Alphabet {
+export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][]): Alphabet {
   const bundles: Bundle[] = [];
   const keys = new Set<string>();
   const add = (b: Bundle): boolean => {
@@ -174,6 +174,5 @@ export function computeAlphabet(grammar: Grammar, inv: Inventory, low: Lowering,
     for (const s of segments) if (createdAt.get(s.key)! < count) d[s.id] = 1;
     return d;
   });
-  void grammar;
   return { size: segments.length + 3, segments, byKey, domains };
 }

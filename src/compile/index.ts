@@ -110,7 +110,7 @@ export function compileStep(
   const fin = (p: PairNfa): Fst => finishMachine(pairNfaToFst(p));
   switch (step.kind) {
     case "syllabify": {
-      const m = fin(buildSyllabifier(grammar, low, alphabet, domain, step.span));
+      const m = fin(buildSyllabifier(grammar, low, alphabet, domain));
       return { variants: m, preferred: m };
     }
     case "stress": {
@@ -121,6 +121,8 @@ export function compileStep(
       const blind = isBoundaryBlind(step);
       const variants = fin(buildRule(lowerRule(sl, step, { blind, domain })));
       if (step.optional && step.prefer === "unapplied") return { variants, preferred: null };
+      // An obligatory rule without variables has one output per word: its preferred machine is the same.
+      if (!step.optional && low.variables(step).size === 0) return { variants, preferred: variants };
       const preferred = fin(buildRule(lowerRule(sl, step, { blind, domain, preferred: true })));
       return { variants, preferred };
     }
@@ -138,7 +140,7 @@ export function compileSteps(grammar: Grammar, inv: Inventory, opts: CompileOpti
   const low = new Lowering(grammar, inv);
   let alphabet: Alphabet;
   try {
-    alphabet = computeAlphabet(grammar, inv, low, steps);
+    alphabet = computeAlphabet(inv, low, steps);
   } catch (e) {
     if (e instanceof LowerError) return { result: null, diagnostics: [e.diagnostic] };
     throw e;

@@ -39,7 +39,7 @@ class PairBuilder {
  * procedure as the interpreter; the following consonants must spell one of them before the next
  * nucleus. Since legal clusters are finite, the signatures are finitely many.
  */
-export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alphabet, domain: Uint8Array, span: StressStep["span"]): PairNfa {
+export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alphabet, domain: Uint8Array): PairNfa {
   const inv = low.inventory;
   const read = (list: Grammar["onsets"], what: string): (readonly Bundle[])[] | null => {
     const r = resolveClusters(list, inv);
@@ -197,7 +197,6 @@ export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alph
   }
   // Every '.' of the input is deleted, wherever it stands.
   for (let s = 0; s < b.states; s++) b.arc(s, SYLL, EPSILON, s);
-  void span;
   return b.done(R);
 }
 

@@ -189,7 +189,6 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
 
   // ---- output arcs ----------------------------------------------------------------------
   const arcs: number[] = [];
-  let extra = 0; // intermediate states for multi-pair tokens, numbered after exploration
   const chains: { from: number; pairs: number[]; to: number }[] = [];
   const emit = (from: number, pairs: number[], to: number): void => {
     if (pairs.length === 2) arcs.push(from, pairs[0]!, pairs[1]!, to);
@@ -325,8 +324,6 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
       from = to;
     }
   }
-  extra = next - states.length;
-  void extra;
   return { states: next, start: 0, finals, arcs: Int32Array.from(arcs) };
 }
 
