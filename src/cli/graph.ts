@@ -4,7 +4,8 @@
 import { writeFileSync, renameSync } from "node:fs";
 import type { Command } from "commander";
 import { diagnostic } from "../diagnostics.js";
-import { compileGrammar, compileSteps } from "../compile/index.js";
+import { compileSteps } from "../compile/index.js";
+import { composeCascade } from "../compile/cascade.js";
 import { machineToDot, type DotOptions } from "../compile/dot.js";
 import type { Inventory } from "../inventory/types.js";
 import { loadForCompile, renderAll, type CommandOutcome } from "./compile.js";
@@ -39,15 +40,16 @@ export function runGraph(g: string, step: string | undefined, opts: GraphCommand
       return { stdout: "", stderr: renderAll([diagnostic("error", "cli/graph-args", "Give either a step name or --all, not both.", COMMAND_LINE)]), exitCode: 1 };
     }
     const limit = opts.limit ?? 400;
-    const r = compileGrammar(grammar, inventory, { maxStates: Math.max(limit, 1) });
-    if (r.compiled === null) return { stdout: "", stderr: renderAll(r.diagnostics), exitCode: 1 };
-    const blocks = opts.preferred === true ? r.compiled.preferredBlocks : r.compiled.variantBlocks;
+    // Compose only (no runners): the machines are drawn, not run.
+    const r = compileSteps(grammar, inventory);
+    if (r.result === null) return { stdout: "", stderr: renderAll(r.diagnostics), exitCode: 1 };
+    const blocks = composeCascade(r.result.steps.map((x) => (opts.preferred === true ? x.preferred : x.variants)), Math.max(limit, 1));
     if (blocks.length !== 1 || blocks[0]!.states > limit) {
-      const size = blocks.reduce((s, b) => s + b.states, 0);
+      const size = blocks.reduce((n, b) => n + b.states, 0);
       const msg = `The whole cascade does not fit in one machine of at most ${limit} states (${blocks.length} blocks, ${size} states); draw one step instead, or raise --limit.`;
       return { stdout: "", stderr: renderAll([diagnostic("error", "cli/graph-too-large", msg, COMMAND_LINE)]), exitCode: 1 };
     }
-    const dot = machineToDot(blocks[0]!.machine, r.compiled.alphabet, { title: `${grammar.file}: whole cascade (${which})`, prosody: prosodyOf(inventory) });
+    const dot = machineToDot(blocks[0]!.machine, r.result.alphabet, { title: `${grammar.file}: whole cascade (${which})`, prosody: prosodyOf(inventory) });
     return { stdout: dot, stderr: "", exitCode: 0 };
   }
   if (step === undefined) {

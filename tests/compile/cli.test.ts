@@ -47,7 +47,7 @@ describe("strata compile", () => {
   });
 
   it("reports sizes as JSON, with blocks when the limit is small", () => {
-    const r = runCompile(EN_US, { cache: false, json: true, maxStates: 100 });
+    const r = runCompile(EN_US, { cache: false, json: true, maxStates: 300 });
     expect(r.exitCode).toBe(0);
     const j = JSON.parse(r.stdout) as { steps: { name: string; states: number; arcs: number }[]; preferred: { blocks: unknown[]; states: number }; cache: string };
     expect(j.cache).toBe("off");
