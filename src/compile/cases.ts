@@ -49,6 +49,66 @@ export class SymbolLowering {
     }
   }
 
+  /**
+   * The paths of `p` that pass through elements binding every variable of `need` (null: none).
+   * A variable the match leaves unbound takes only the inventory's combinations (the interpreter
+   * completes it so); a case giving it another value must therefore bind it on the match path.
+   */
+  patternBinding(p: Pattern, asg: Assignment, need: readonly string[]): Rx | null {
+    if (need.length === 0) return this.pattern(p, asg);
+    const alt = (xs: (Rx | null)[]): Rx | null => {
+      const ok = xs.filter((x): x is Rx => x !== null);
+      return ok.length === 0 ? null : ok.length === 1 ? ok[0]! : { k: "alt", options: ok };
+    };
+    const subsets = (xs: readonly string[]): string[][] => xs.reduce<string[][]>((acc, x) => acc.flatMap((a) => [a, [...a, x]]), [[]]);
+    const minus = (a: readonly string[], b: readonly string[]): string[] => a.filter((x) => !b.includes(x));
+    /** Items in order binding `need` between them (each needed variable by some item). */
+    const items = (list: readonly Pattern[], want: readonly string[]): Rx | null => {
+      if (list.length === 0) return want.length === 0 ? EPS_RX : null;
+      const [first, ...rest] = list;
+      return alt(subsets(want).map((here) => {
+        const a = this.patternBinding(first!, asg, here);
+        const b = items(rest, minus(want, here));
+        return a === null || b === null ? null : { k: "seq", items: [a, b] };
+      }));
+    };
+    switch (p.kind) {
+      case "element": {
+        const e = p.element;
+        if (e.kind === "class") {
+          const def = this.low.classes.get(e.name);
+          if (!def) return null;
+          return alt(def.members.map((m) => this.patternBinding({ kind: "element", element: m }, asg, need)));
+        }
+        const binds = e.kind === "bundle" ? e.specs.flatMap((sp) => (sp.kind === "variable" ? [sp.variable] : [])) : [];
+        return need.every((v) => binds.includes(v)) ? this.pattern(p, asg) : null;
+      }
+      case "sequence": return items(p.items, need);
+      case "optional": return this.patternBinding(p.body, asg, need);
+      case "choice": return alt(p.options.map((o) => this.patternBinding(o, asg, need)));
+      case "repeat": {
+        // Unrolled: min copies, then (bounded) optional copies or a starred tail; some copy binds.
+        const any = this.pattern(p.body, asg);
+        const copies: Pattern[] = Array.from({ length: p.min }, () => p.body);
+        if (p.max !== null) {
+          const opt: Pattern = { kind: "optional", body: p.body, span: p.span };
+          for (let i = p.min; i < p.max; i++) copies.push(opt);
+          return items(copies, need);
+        }
+        // body{min,} = body^min · body*; a binding copy in the star part: body* · b · body*.
+        const star: Rx = { k: "star", body: any };
+        const inFixed = items(copies, need);
+        const inStar = alt(subsets(need).filter((h) => h.length > 0).map((here) => {
+          const fixed = items(copies, minus(need, here));
+          const b = this.patternBinding(p.body, asg, here);
+          return fixed === null || b === null ? null : { k: "seq", items: [fixed, star, b, star] };
+        }));
+        return alt([inFixed === null ? null : { k: "seq", items: [inFixed, star] }, inStar]);
+      }
+      default: { const never: never = p; throw new Error(String(never)); }
+    }
+  }
+
   /** The id of a bundle, or -1 when the alphabet lacks it. */
   idOf(b: Bundle): number {
     return this.alphabet.byKey.get(bundleKey(b)) ?? -1;
@@ -114,7 +174,24 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
 
   const cases: RuleCase[] = [];
   const envs = rule.environments.length > 0 ? rule.environments : [null];
+  // Node variables the change uses and the target does not bind: values outside the inventory's
+  // combinations need a binding element on the match path (see patternBinding).
+  const vars = low.variables(rule);
+  const targetVars = new Set<string>();
+  const visit = (e: Element): void => {
+    if (e.kind === "bundle") for (const sp of e.specs) { if (sp.kind === "variable") targetVars.add(sp.variable); }
+    else if (e.kind === "class") low.classes.get(e.name)?.members.forEach(visit);
+  };
+  rule.target.forEach(visit);
+  const changeVars = new Set<string>();
+  for (const c of rule.change) if (c.kind === "bundle") for (const sp of c.specs) if (sp.kind === "variable") changeVars.add(sp.variable);
+  const invTuples = new Map<string, Set<string>>();
+  for (const [name, v] of vars) {
+    if (!v.node || targetVars.has(name) || !changeVars.has(name)) continue;
+    invTuples.set(name, new Set(low.inventory.segments.map((sg) => v.idx.map((i) => sg.bundle[i]).join(""))));
+  }
   for (const asg of liveAssignments(low, rule, domainBundles)) {
+    const need = [...invTuples.entries()].filter(([name, tuples]) => !tuples.has(asg.get(name)!.join(""))).map(([name]) => name);
     const target = rule.target.map((e) => sl.elementSet(e, asg));
     if (target.some((t) => !t.some((v, i) => v === 1 && opts.domain[i] === 1))) continue;
     const out: Int32Array[] = rule.target.map((e, j) => {
@@ -139,9 +216,23 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
       return id;
     }) : [];
     const targetRx: Rx[] = target.map((set) => ({ k: "set", set }));
+    const sides: { L: Rx; R: Rx }[] = [];
     for (const env of envs) {
-      const L = env ? sl.pattern(env.left, asg) : EPS_RX;
-      const R = env ? sl.pattern(env.right, asg) : EPS_RX;
+      if (need.length === 0) {
+        sides.push({ L: env ? sl.pattern(env.left, asg) : EPS_RX, R: env ? sl.pattern(env.right, asg) : EPS_RX });
+        continue;
+      }
+      if (env === null) continue;
+      // Each needed variable is bound on the left or on the right.
+      for (let mask = 0; mask < 1 << need.length; mask++) {
+        const onLeft = need.filter((_, i) => (mask >> i) & 1);
+        const onRight = need.filter((_, i) => !((mask >> i) & 1));
+        const L = sl.patternBinding(env.left, asg, onLeft);
+        const R = sl.patternBinding(env.right, asg, onRight);
+        if (L !== null && R !== null) sides.push({ L, R });
+      }
+    }
+    for (const { L, R } of sides) {
       if (rxIsEmpty(L) || rxIsEmpty(R)) continue;
       const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
       const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };

@@ -4,7 +4,8 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
 import { tinyInventory as inv } from "../support/tiny-inventory.js";
-import { grammar, classDef, nodeDef, bun, syllabifyStep, stressStep } from "../support/ast.js";
+import { grammar, classDef, nodeDef, bun, syllabifyStep, stressStep, rule, seg, chBun, env, opt } from "../support/ast.js";
+import { symsOf } from "../support/words.js";
 import { compileGrammar, compileSteps } from "../../src/compile/index.js";
 import { applyAll } from "../../src/fst/frozen.js";
 import { applyGrammar, applyRuleDetailed, ruleContext, wordKey, type Sym } from "../../src/interp/index.js";
@@ -120,5 +121,22 @@ describe("compiled rules agree with the interpreter", () => {
       }),
       { numRuns: 80 },
     );
+  });
+});
+
+describe("a node variable bound only in an optional context element", () => {
+  // Unbound on the match path, the interpreter gives it every place combination of the inventory's
+  // segments; bound, the matched segment's — here tʷ, made by the first rule, whose place
+  // [+labial +coronal] no inventory segment has.
+  it("ranges over the inventory's combinations when unbound, and takes a derived one when bound", () => {
+    const lab = rule("labialise", [seg("t")], [chBun("+labial")], [env([], [seg("n")])]);
+    const assim = rule("assimilate", [seg("n")], [chBun("αplace")], [env([opt(bun("-syllabic αplace"))], [])]);
+    const g = grammar([lab, assim], extra);
+    const words = ["#tn#", "#atna#", "#an#", "#tan#", "#pn#"].map((w) => symsOf(w, inv));
+    checkGrammar(g, words);
+    const c = compileGrammar(g, inv).compiled!;
+    const outs = c.variants(c.encode(words[0]!)!).outputs.map((o) => c.decode(o));
+    // "tn": the bound path gives n the place of tʷ; the unbound one, each inventory combination.
+    expect(outs.length).toBe(4);
   });
 });
