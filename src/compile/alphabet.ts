@@ -132,16 +132,19 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
         continue;
       }
       if (rule.change.length === 0) continue;
+      const produce = (nb: Bundle): void => {
+        if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
+      };
       rule.target.forEach((e, j) => {
         const m = low.element(e, asg);
         const c = rule.change[j];
         if (!c) return;
-        for (const b of before) {
-          if (!m.seg(b)) continue;
-          const nb = low.applyChange(c, asg, b);
-          if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
-        }
+        // A literal written over a boundary is an inserted segment (the interpreter's convention).
+        if ((m.word || m.syll) && c.kind === "segment") produce(low.inserted(c));
+        for (const b of before) if (m.seg(b)) produce(low.applyChange(c, asg, b));
       });
+      // A literal change longer than its target writes the rest as inserted segments.
+      for (const c of rule.change.slice(rule.target.length)) produce(low.inserted(c));
     }
     if (bundles.length > MAX_ALPHABET) {
       throw lowerError("compile/alphabet-too-large", `The rules produce more than ${MAX_ALPHABET} distinct segments (rule '${rule.name}' reached ${bundles.length}); check for a change that multiplies segments.`, rule.span);

@@ -3,7 +3,7 @@
 // Also the runners: the preferred cascade frozen for speed, the variants cascade for every output.
 
 import {
-  FstError, FstLimitError, compose, determiniseTransducer, minimise, type Fst,
+  FstError, FstLimitError, compose, determiniseTransducer, freezeFunctional, minimise, type Fst,
 } from "../fst/index.js";
 import { FrozenFst, freeze, freezeDeterministic, type DeterministicRunner } from "../fst/frozen.js";
 
@@ -53,10 +53,10 @@ export function composeCascade(machines: readonly (Fst | null)[], maxStates: num
   return blocks;
 }
 
-/** Runs one functional block: a dense sequential table when the block is subsequential, else a search. */
+/** Runs one functional block: a dense sequential table when the block is subsequential, else the two-pass functional runner (a search only if that cannot be built). */
 interface BlockRunner {
   run(input: ArrayLike<number>, out: number[]): boolean;
-  readonly kind: "sequential" | "search";
+  readonly kind: "sequential" | "functional" | "search";
 }
 
 function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
@@ -77,6 +77,13 @@ function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
     }
     if (r !== null) { const run = r; return { kind: "sequential", run: (input, out) => run.run(input, out) }; }
   }
+  // Not subsequential (a right context of unbounded length): the two-pass runner for functional
+  // transducers (a right-to-left DFA, then a left-to-right deterministic choice; src/fst/functional.ts).
+  const fr = freezeFunctional(m, { check: false });
+  if (fr.ok) {
+    const runner = fr.runner;
+    return { kind: "functional", run: (input, out) => runner.run(input, out) };
+  }
   const f: FrozenFst = freeze(m);
   return {
     kind: "search",
@@ -95,7 +102,7 @@ export class PreferredRunner {
   private readonly runners: BlockRunner[];
   /** `kinds`: how each block ran before (from the cache), so a known search block skips the determinisation attempt. */
   constructor(blocks: readonly Block[], kinds?: readonly string[]) {
-    this.runners = blocks.map((b, i) => blockRunner(b.machine, kinds?.[i] !== "search"));
+    this.runners = blocks.map((b, i) => blockRunner(b.machine, kinds === undefined || kinds[i] === "sequential"));
   }
   /** How each block runs ("sequential": dense table; "search": general search for the one output). */
   get kinds(): string[] {

@@ -161,8 +161,8 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
   const n = rule.target.length;
   const m = rule.change.length;
   if (n === 0 && m === 0) throw lowerError("compile/empty-rule", `Rule '${rule.name}' has ∅ as both target and change.`, rule.span);
-  if (n > 0 && m > 0 && m !== n) {
-    throw lowerError("compile/change-length", `Rule '${rule.name}': a change of ${m} segments for a target of ${n} is not supported by the compiler; write one change element per target element.`, rule.span);
+  if (n > 0 && m > 0 && m !== n && rule.change.some((c) => c.kind === "bundle")) {
+    throw lowerError("compile/change-length", `Rule '${rule.name}': a feature change needs one element per target element (target ${n}, change ${m}).`, rule.span);
   }
   const rtl = rule.mode === "right-to-left";
   const lefts = new DfaPool(size);
@@ -199,7 +199,8 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
       const t = target[j]!;
       for (let x = 1; x < size; x++) {
         if (!t[x]) continue;
-        if (m === 0) { o[x] = EPSILON; continue; }
+        // Deletion, or a literal change shorter than the target: the rest of the target goes.
+        if (j >= m) { o[x] = EPSILON; continue; }
         const c = rule.change[j]!;
         if (x === WORD || x === SYLL) {
           // A boundary target: a feature change leaves it as it is; a literal writes an inserted segment.
@@ -215,6 +216,9 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
       if (id < 0) throw lowerError("compile/internal", `Rule '${rule.name}': an inserted segment is missing from the alphabet.`, c.span);
       return id;
     }) : [];
+    // A literal change longer than the target writes its extra segments after the last one.
+    const tail = n > 0 && m > n ? rule.change.slice(n).map((c) => sl.idOf(low.inserted(c))) : [];
+    if (tail.some((t) => t < 0)) throw lowerError("compile/internal", `Rule '${rule.name}': a written segment is missing from the alphabet.`, rule.span);
     const targetRx: Rx[] = target.map((set) => ({ k: "set", set }));
     const sides: { L: Rx; R: Rx }[] = [];
     for (const env of envs) {
@@ -243,7 +247,12 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
       });
       const afterRx: Rx = { k: "seq", items: [R, any] };
       const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => dfaFromRx(afterRx, size)) : undefined;
-      cases.push(rightAfter === undefined ? { target, out, insert, left, right } : { target, out, insert, left, right, rightAfter });
+      cases.push({
+        target, out, insert, left, right,
+        ...(rightAfter !== undefined ? { rightAfter } : {}),
+        ...(tail.length > 0 ? { tail } : {}),
+        ...(n > 0 && m > 0 && m !== n && opts.blind ? { dotsAfter: true } : {}),
+      });
     }
   }
   return {

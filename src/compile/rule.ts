@@ -37,6 +37,10 @@ export interface RuleCase {
   readonly right: number;
   /** Index into `rights` of ρ·Σ* (simultaneous and left-to-right, preferred variant of 2+ segment targets). */
   readonly rightAfter?: number;
+  /** A literal change longer than its target: the extra segments, written after the last target segment. */
+  readonly tail?: readonly number[];
+  /** A literal change of another length in a boundary-blind rule: the '.' inside the target go after the change. */
+  readonly dotsAfter?: boolean;
 }
 
 export interface LoweredRule {
@@ -122,9 +126,10 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   // cases d whose left context held at the chunk's start and whose target matches so far, each
   // with how d's change compares with c's so far (0 equal, 1 d sorts first). At the chunk's end
   // every d that sorts first must not hold (its right context is then checked as a negative).
-  type State = { s: number; p: Int32Array; v: Pending[]; cmp: readonly number[] };
+  // d: '.' held back inside a chunk whose change has another length (written after the change).
+  type State = { s: number; p: Int32Array; v: Pending[]; cmp: readonly number[]; d: number };
   const keyOf = (st: State): string => {
-    let k = `${st.s}|${st.p.join(",")}|${st.cmp.join(",")}|`;
+    let k = `${st.s}|${st.d}|${st.p.join(",")}|${st.cmp.join(",")}|`;
     for (const e of st.v) k += `${e.b}:${e.q}${e.pos ? "+" : "-"},`;
     return k;
   };
@@ -196,7 +201,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   };
 
   // ---- exploration --------------------------------------------------------------------------
-  const start: State = { s: 0, p: Int32Array.from(lefts.map((d) => d.start)), v: [], cmp: [] };
+  const start: State = { s: 0, p: Int32Array.from(lefts.map((d) => d.start)), v: [], cmp: [], d: 0 };
   intern(start);
   const finals: number[] = [];
 
@@ -224,10 +229,18 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         v = nv;
       }
       const ns = nextS;
-      emit(id, pairs, intern({ s: ns, p, v: normalise(v), cmp: ns === 0 ? [] : nextCmp }));
+      emit(id, pairs, intern({ s: ns, p, v: normalise(v), cmp: ns === 0 ? [] : nextCmp, d: ns === 0 ? 0 : nextD }));
     };
     let nextS = 0;
+    let nextD = 0;
     const none = (): boolean => true;
+    /** The pairs of a chunk's last token: the change, any longer literal's extra segments, held-back dots. */
+    const lastPairs = (c: RuleCase, x: number, y: number, dots: number): number[] => {
+      const out = [x, y];
+      for (const t of c.tail ?? []) out.push(EPSILON, t);
+      for (let i = 0; i < dots; i++) out.push(EPSILON, SYLL);
+      return out;
+    };
 
     if (st.s === 0) {
       // Copy decisions (and '.' passed through by boundary-blind rules).
@@ -276,9 +289,12 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
             for (const d of better) if (leftHolds(p, d) && !spawn(v, d.right, false)) return false;
             return true;
           };
-          go([x, y], (k, p, v) => {
+          const pairs = n === 1 ? lastPairs(c, x, y, 0) : [x, y];
+          const end = pairs.length / 2;
+          nextD = 0;
+          go(pairs, (k, p, v) => {
             if (!rtl) return k === 0 ? spawn(v, c.right, true) && excludeBetter(p, v) : true;
-            if (n === 1 && k === 1) return leftHolds(p, c) && spawn(v, c.right, true) && excludeBetter(p, v);
+            if (n === 1 && k === end) return leftHolds(p, c) && spawn(v, c.right, true) && excludeBetter(p, v);
             return true;
           });
         }
@@ -287,7 +303,13 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
       const ci = Math.floor((st.s - 1) / n);
       const j = (st.s - 1) % n;
       const c = cases[ci]!;
-      if (blind) { nextS = st.s; go([SYLL, SYLL], none); }
+      if (blind) {
+        nextS = st.s;
+        nextCmp = st.cmp;
+        // Dots inside the target: copied in place, or held back (at most 8) after a change of another length.
+        if (c.dotsAfter !== true) { nextD = st.d; go([SYLL, SYLL], none); }
+        else if (st.d < 8) { nextD = st.d + 1; go([SYLL, EPSILON], none); }
+      }
       const tj = c.target[j]!;
       const oj = c.out[j]!;
       for (const x of domain) {
@@ -298,9 +320,12 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         const last = j + 1 === n;
         const cmp = preferLong ? compareStep(st.cmp, c, j, x) : [];
         nextCmp = cmp;
-        go([x, y], (k, p, v) => {
-          if (rtl && last && k === 1 && !(leftHolds(p, c) && spawn(v, c.right, true))) return false;
-          if (preferLong && last && k === 1) {
+        nextD = st.d;
+        const pairs = last ? lastPairs(c, x, y, st.d) : [x, y];
+        const end = pairs.length / 2;
+        go(pairs, (k, p, v) => {
+          if (rtl && last && k === end && !(leftHolds(p, c) && spawn(v, c.right, true))) return false;
+          if (preferLong && last && k === end) {
             for (let i = 0; i < cmp.length; i += 2) {
               if (cmp[i + 1] !== 1) continue;
               const d = cases[cmp[i]!]!;

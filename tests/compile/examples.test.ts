@@ -8,8 +8,9 @@ import { applyAll } from "../../src/fst/frozen.js";
 import type { Rule } from "../../src/grammar/ast.js";
 import type { Bundle, Diacritic, FeatureValue, Inventory, Segment } from "../../src/inventory/types.js";
 import { PROSODIC_FEATURES } from "../../src/inventory/types.js";
-import { WORD_EDGE, type Sym } from "../../src/interp/index.js";
-import { bun, chSeg, env, grammar, rule, seg, WB } from "../support/ast.js";
+import { WORD_EDGE, applyGrammar, wordKey, type Sym } from "../../src/interp/index.js";
+import { desugar, isBoundaryBlind } from "../../src/grammar/index.js";
+import { bun, chSeg, env, grammar, rule, seg, SB, WB } from "../support/ast.js";
 import { tinyInventory } from "../support/tiny-inventory.js";
 import { ipaOf, symsOf } from "../support/words.js";
 
@@ -108,5 +109,34 @@ describe("Kaplan & Kay 1994 nasal assimilation cascade (from memory)", () => {
       words = words.flatMap((w) => symbols.map((s) => [...w, s]));
     }
     expect(checked).toBe(1 + 6 + 36 + 216 + 1296 + 7776);
+  });
+});
+
+describe("literal changes of another length than the target (coalescence, breaking)", () => {
+  const g = (r: Rule) => grammar([r]);
+  it("agree with the interpreter, boundary-blind or not, in every mode", () => {
+    const rules: Rule[] = [];
+    for (const mode of ["simultaneous", "left-to-right", "right-to-left"] as const) {
+      // a i → e-like coalescence into one segment (here: 'i'), and a → a i breaking.
+      rules.push(rule(`coalesce-${mode}`, [seg("a"), seg("i")], [chSeg("i")], [], { mode }));
+      rules.push(rule(`break-${mode}`, [seg("a")], [chSeg("a"), chSeg("i")], [env([], [seg("t")])], { mode }));
+      rules.push(rule(`three-${mode}`, [seg("p"), seg("a"), seg("t")], [chSeg("t"), chSeg("a")], [], { mode, optional: true }));
+      // Sees boundaries ('$' in the context): '.' inside the target blocks it.
+      rules.push(rule(`coalesce-initial-${mode}`, [seg("a"), seg("i")], [chSeg("i")], [env([SB], [])], { mode }));
+    }
+    const words = ["#paita#", "#ai.ai#", "#a.it#", "#pa.tat#", "#atai#", "#p.at#"];
+    for (const r of rules) {
+      const c = compiled([r]);
+      for (const w of words) {
+        const sym = symsOf(w, tinyInventory);
+        const want = applyGrammar(g(r), tinyInventory, sym, { desugar: (x: Rule) => desugar(x, { inventory: tinyInventory, classes: [] }), isBoundaryBlind: (x: Rule) => isBoundaryBlind(x) });
+        const ids = c.encode(sym)!;
+        const got = c.variants(ids).outputs.map((o) => wordKey(c.decode(o))).sort();
+        expect(got, `${r.name} on ${w}`).toEqual(want.outputs.map(wordKey).sort());
+        const out: number[] = [];
+        expect(c.preferred.run(ids, out)).toBe(true);
+        expect(wordKey(c.decode(out)), `${r.name} on ${w} (preferred)`).toBe(wordKey(want.preferred));
+      }
+    }
   });
 });
