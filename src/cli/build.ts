@@ -25,6 +25,7 @@ interface BuildOptions {
   maxStates?: number;
   samples: number;
   workers: string;
+  syllableBreaks: boolean;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
@@ -68,7 +69,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const summaries: RunSummary[] = [];
   for (const variety of manifest.varieties) {
     const t0 = performance.now();
-    const loaded = loadEngine(variety.grammar, { kind: o.engine, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
+    const loaded = loadEngine(variety.grammar, { kind: o.engine, syllables: o.syllableBreaks, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics.filter((d) => d.severity === "error" || !o.quiet));
     if (!("engine" in loaded)) {
       failed = true;
@@ -82,7 +83,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     let pool: WorkerPool | undefined;
     try {
       if (threads > 1) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true });
+        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables: o.syllableBreaks });
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
@@ -154,6 +155,7 @@ export function registerBuild(program: Command): void {
     .option("--check <n>", "also compare the first N entries with the reference interpreter", positiveInt("--check"))
     .option("--no-cache", "do not read or write compiled machines under <out>/cache")
     .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
+    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
     .option("--workers <n>", "worker threads for the machines: a number, or auto (all cores for lexicons of 20,000 rows or more)", "auto")
     .option("--samples <n>", "sample lines to print per variety", (v) => Number(v), 6)
     .action(async (dir: string | undefined, opts: BuildOptions) => {

@@ -67,19 +67,20 @@ export interface LoadedEngine {
 /** Loads, checks and compiles (or interprets) a grammar; diagnostics are returned, never thrown. */
 export function loadEngine(
   path: string,
-  opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean } = {},
+  opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean } = {},
 ): LoadedEngine | { readonly diagnostics: readonly Diagnostic[] } {
   const g = loadGrammar(path);
   if (g.grammar === undefined || g.inventory === undefined || g.diagnostics.some((d) => d.severity === "error")) {
     return { diagnostics: g.diagnostics };
   }
   if (opts.kind === "interpreter") {
-    return { grammar: g.grammar, inventory: g.inventory, engine: new InterpreterEngine(g.grammar, g.inventory), diagnostics: g.diagnostics };
+    return { grammar: g.grammar, inventory: g.inventory, engine: new InterpreterEngine(g.grammar, g.inventory, 16, opts.syllables ?? true), diagnostics: g.diagnostics };
   }
   const m = machineEngine(g.grammar, g.inventory, {
     ...(opts.cacheDir !== undefined ? { cacheDir: opts.cacheDir } : {}),
     ...(opts.maxStates !== undefined ? { maxStates: opts.maxStates } : {}),
     ...(opts.blame !== undefined ? { blame: opts.blame } : {}),
+    ...(opts.syllables !== undefined ? { syllables: opts.syllables } : {}),
   });
   if (m.engine === undefined) return { diagnostics: [...g.diagnostics, ...m.diagnostics] };
   return { grammar: g.grammar, inventory: g.inventory, engine: m.engine, diagnostics: [...g.diagnostics, ...m.diagnostics] };

@@ -20,6 +20,7 @@ interface TranscribeOptions {
   engine: EngineKind;
   cacheDir?: string;
   maxStates?: number;
+  syllableBreaks: boolean;
 }
 
 /** Writes to stdout respecting back-pressure. */
@@ -37,6 +38,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
     ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
     blame: o.format === "jsonl",
+    syllables: o.syllableBreaks,
   });
   printDiagnostics(loaded.diagnostics);
   if (!("engine" in loaded)) return 1;
@@ -103,6 +105,7 @@ export function registerTranscribe(program: Command): void {
     .option("--lang <tag>", "BCP 47 tag for PLS xml:lang", "und")
     .option("--allow-rejects", "exit 0 even when some rows were rejected", false)
     .option("--engine <kind>", "machine or interpreter", "machine")
+    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
     .option("--cache-dir <dir>", "read and write compiled machines here")
     .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
     .action(async (file: string | undefined, opts: TranscribeOptions) => {

@@ -16,7 +16,7 @@ export class InterpreterEngine implements Engine {
   private readonly full: PreparedGrammar;
   private readonly broadOnly: PreparedGrammar;
 
-  constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16) {
+  constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16, private readonly syllables = true) {
     this.steps = grammar.steps.map((s) => s.name);
     this.full = prepareGrammar(grammar, inventory);
     this.broadOnly = prepareGrammar(prosodyOnly(grammar), inventory);
@@ -26,7 +26,7 @@ export class InterpreterEngine implements Engine {
     const word = [WORD_EDGE, ...symbols, WORD_EDGE];
     const run = applyGrammar(this.full, this.inventory, word, { maxVariants: this.maxVariants });
     const broadRun = applyGrammar(this.broadOnly, this.inventory, word);
-    const ipa = (w: Word): string => symsToIpa(w, this.inventory, { syllables: true });
+    const ipa = (w: Word): string => symsToIpa(w, this.inventory, { syllables: this.syllables });
     const prefKey = wordKey(run.preferred);
     const preferred = run.variants.find((v) => wordKey(v.word) === prefKey);
     const narrow = ipa(run.preferred);

@@ -21,6 +21,8 @@ export interface MachineEngineOptions {
   readonly maxVariants?: number;
   /** Compute which steps changed each entry (default true; costs one run per step). */
   readonly blame?: boolean;
+  /** Write '.' between unstressed syllables (default true; stress marks are always written). */
+  readonly syllables?: boolean;
 }
 
 export class MachineEngine implements Engine {
@@ -36,6 +38,7 @@ export class MachineEngine implements Engine {
     inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
+    private readonly render: { readonly syllables: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
     this.view = symbolView(compiled.alphabet, inventory);
@@ -66,13 +69,13 @@ export class MachineEngine implements Engine {
     const out = this.out;
     out.length = 0;
     if (!this.compiled.preferred.run(ids, out)) return undefined;
-    const narrow = renderIpa(out, this.view);
+    const narrow = renderIpa(out, this.view, this.render);
     const bout: number[] = [];
     if (!this.broad.preferred.run(bids, bout)) return undefined;
-    const broadText = renderIpa(bout, this.broadView);
+    const broadText = renderIpa(bout, this.broadView, this.render);
     let variants: string[] = [narrow];
     if (this.compiled.hasVariants) {
-      const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view));
+      const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view, this.render));
       variants = [narrow, ...[...new Set(all)].filter((v) => v !== narrow)];
     }
     return { narrow, broad: broadText, variants, rules: this.blame(ids) };
@@ -131,6 +134,6 @@ export function machineEngine(
   }
   const broad = compileGrammar(prosodyOnly(grammar), inventory, common);
   if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
-  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16);
+  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true });
   return { engine, diagnostics };
 }

@@ -11,6 +11,7 @@ export interface WorkerSetup {
   readonly cacheDir?: string;
   readonly maxStates?: number;
   readonly blame: boolean;
+  readonly syllables: boolean;
 }
 
 export interface WorkerBatch {
@@ -34,6 +35,7 @@ const built = g.grammar !== undefined && g.inventory !== undefined
     ...(setup.cacheDir !== undefined ? { cacheDir: setup.cacheDir } : {}),
     ...(setup.maxStates !== undefined ? { maxStates: setup.maxStates } : {}),
     blame: setup.blame,
+    syllables: setup.syllables,
   })
   : undefined;
 const engine = built?.engine;

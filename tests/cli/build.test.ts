@@ -17,7 +17,7 @@ const DEMO = join(ROOT, "lexicons", "demo");
 const GRAMMAR = join(ROOT, "lexicons", "en-us", "grammar.strata");
 const CACHE_OUT = mkdtempSync(join(tmpdir(), "strata-build-"));
 
-const quietOpts = (out: string) => ({ out, allowRejects: false, quiet: true, engine: "machine" as const, cache: true, samples: 0, workers: "auto" });
+const quietOpts = (out: string) => ({ out, allowRejects: false, quiet: true, engine: "machine" as const, cache: true, samples: 0, workers: "auto", syllableBreaks: true });
 
 let stdout: ReturnType<typeof vi.spyOn>;
 let stderr: ReturnType<typeof vi.spyOn>;

@@ -56,6 +56,16 @@ describe("strata transcribe", () => {
     expect(lines.length).toBe(4);
   }, 120_000);
 
+  it("drops syllable breaks on request and keeps the stress marks (IPA Handbook 1999: ˈ before the stressed syllable)", () => {
+    const input = "word,pron\ncatalog,ˈkætəlɔɡ\n";
+    const dotted = run([...G], input).stdout.trim().split("\n")[1]!.split("\t");
+    const plain = run([...G, "--no-syllable-breaks"], input).stdout.trim().split("\n")[1]!.split("\t");
+    expect(dotted[1]).toContain(".");
+    expect(plain[1]).not.toContain(".");
+    expect(plain[1]).toBe(dotted[1]!.replace(/\./g, ""));
+    expect(plain[1]!.startsWith("ˈ")).toBe(true);
+  });
+
   it("writes JSON Lines with variants and the rules that applied", () => {
     const r = run([...G, "--format", "jsonl"], "word,pron,id\nbottle,ˈbɑtəl,b1\n");
     expect(r.status).toBe(0);
