@@ -182,6 +182,48 @@ export function inputClasses(m: StrMachine, outputKey: (a: StrArc) => string): {
   return { classOf, classes: ids.size };
 }
 
+/** Output code of an arc that writes the symbol it reads (identity arcs share input classes). */
+export const COPY = -0x80000000;
+
+/** Output code of an arc: 0 nothing, COPY the input symbol, > 0 that label, < 0 a string in the pool. */
+export function outputCode(input: Label, output: readonly Label[], intern: (w: readonly Label[]) => number): number {
+  if (output.length === 0) return 0;
+  if (output.length === 1) return output[0] === input ? COPY : (output[0] as number);
+  return -(intern(output) + 1);
+}
+
+/** The class key of an arc's output: identity arcs get one key whatever their label. */
+export const outputKey = (a: StrArc): string => (a.output.length === 1 && a.output[0] === a.input ? "=" : a.output.join(","));
+
+/** The packed one-load table of `DeterministicRunner.packed`, or null when the machine does not fit it. */
+function packTable(next: Int32Array, out: Int32Array, states: number): Int32Array | null {
+  if (states >= 1 << 21) return null;
+  const packed = new Int32Array(next.length);
+  for (let k = 0; k < next.length; k++) {
+    const t = next[k] as number;
+    const o = out[k] as number;
+    if (t < 0) {
+      packed[k] = -1;
+      continue;
+    }
+    let code: number;
+    if (o === 0) code = 0;
+    else if (o === COPY) code = 1;
+    else if (o > 0 && o < 1023) code = o + 1;
+    else return null;
+    packed[k] = (t << 10) | code;
+  }
+  return packed;
+}
+
+/** Copies the pool string at `at` (length, labels…) to out[n…]; returns the new length or -2 when full. */
+function writeString(pool: Int32Array, at: number, out: Int32Array, n: number): number {
+  const len = pool[at] as number;
+  if (n + len > out.length) return -2;
+  for (let k = 1; k <= len; k++) out[n++] = pool[at + k] as number;
+  return n;
+}
+
 /**
  * The fast runner of a sequential machine: one dense row per state and one column per input
  * class. Per input symbol the loop does a class lookup, a table lookup and writes the output
@@ -202,7 +244,25 @@ export class DeterministicRunner {
     let identity = classes === classOf.length;
     for (let l = 1; identity && l < classOf.length; l++) if (classOf[l] !== l) identity = false;
     this.identity = identity;
+    let maxArc = 1;
+    for (const o of out) if (o < 0 && o !== COPY) maxArc = Math.max(maxArc, pool[-o - 1] as number);
+    let maxFinal = 0;
+    for (const f of finalAt) if (f >= 0) maxFinal = Math.max(maxFinal, pool[f] as number);
+    this.maxArcOutput = maxArc;
+    this.maxFinalOutput = maxFinal;
+    this.packed = packTable(next, out, finalAt.length);
   }
+
+  /**
+   * When every arc writes at most one label below 1023 and there are fewer than 2²¹ states: one
+   * Int32 per transition, target << 10 | code (code 0: nothing, 1: the symbol read, c ≥ 2: label
+   * c-1), -1 for none. A step is then one load, as in a bare table walk.
+   */
+  readonly packed: Int32Array | null;
+
+  /** Longest output of one arc (at least 1) and of a final state: the room a run can need. */
+  readonly maxArcOutput: number;
+  readonly maxFinalOutput: number;
 
   /** True when class c is label c for every label (the class lookup is skipped). */
   readonly identity: boolean;
@@ -229,41 +289,199 @@ export class DeterministicRunner {
   }
 
   /**
-   * The hot loop: runs `input` writing the output into `out`; returns the output length, -1 when
-   * the input is rejected, -2 when `out` is too small.
+   * The hot loop: runs input[from … to) writing the output into `out`; returns the output length,
+   * -1 when the input is rejected, -2 when `out` is too small.
    */
-  runInto(input: ArrayLike<Label>, out: Int32Array): number {
+  runInto(input: ArrayLike<Label>, out: Int32Array, from = 0, to = input.length): number {
+    // With room for the longest possible output (and one spare cell), the loop needs no capacity checks.
+    if (out.length > (to - from) * this.maxArcOutput + this.maxFinalOutput) return this.runFast(input, out, from, to, 0);
     const { next, classes, classOf, pool } = this;
     const codes = this.out;
     const cap = out.length;
+    const nc = classOf.length;
     let n = 0;
     let s = this.start;
-    const len = input.length;
-    const nc = classOf.length;
-    for (let i = 0; i < len; i++) {
+    for (let i = from; i < to; i++) {
       const x = input[i] as number;
-      if (x <= 0 || x >= nc) return -1;
-      const idx = s * classes + (this.identity ? x : (classOf[x] as number));
-      const t = next[idx] as number;
-      if (t < 0) return -1;
+      if (x >>> 0 >= nc) return -1;
+      const idx = s * classes + (classOf[x] as number);
+      s = next[idx] as number;
+      if (s < 0) return -1;
       const o = codes[idx] as number;
-      if (o > 0) {
+      if (o === COPY || o > 0) {
         if (n >= cap) return -2;
-        out[n++] = o;
+        out[n++] = o > 0 ? o : x;
       } else if (o < 0) {
-        const at = -o - 1;
-        const end = at + 1 + (pool[at] as number);
-        if (n + end - at - 1 > cap) return -2;
-        for (let k = at + 1; k < end; k++) out[n++] = pool[k] as number;
+        n = writeString(pool, -o - 1, out, n);
+        if (n < 0) return -2;
       }
-      s = t;
     }
     const f = this.finalAt[s] as number;
     if (f < 0) return -1;
-    const end = f + 1 + (pool[f] as number);
-    if (n + end - f - 1 > cap) return -2;
-    for (let k = f + 1; k < end; k++) out[n++] = pool[k] as number;
-    return n;
+    return writeString(pool, f, out, n);
+  }
+
+  /**
+   * `runInto` when `out` is known to be large enough (one spare cell), writing from out[start]:
+   * returns the end of the output, or -1. Class 0 (unknown labels, ε) has no arcs.
+   */
+  private runFast(input: ArrayLike<Label>, out: Int32Array, from: number, to: number, start: number): number {
+    const { classOf, classes } = this;
+    const nc = classOf.length;
+    const identity = this.identity;
+    let n = start;
+    let s = this.start;
+    const packed = this.packed;
+    if (packed !== null) {
+      for (let i = from; i < to; i++) {
+        const x = input[i] as number;
+        if (x >>> 0 >= nc) return -1;
+        const c = packed[s * classes + (identity ? x : (classOf[x] as number))] as number;
+        if (c < 0) return -1;
+        s = c >> 10;
+        const v = c & 1023;
+        out[n] = v === 1 ? x : v - 1;
+        n += v === 0 ? 0 : 1;
+      }
+    } else {
+      const next = this.next;
+      const codes = this.out;
+      for (let i = from; i < to; i++) {
+        const x = input[i] as number;
+        if (x >>> 0 >= nc) return -1;
+        const idx = s * classes + (identity ? x : (classOf[x] as number));
+        s = next[idx] as number;
+        if (s < 0) return -1;
+        const o = codes[idx] as number;
+        if (o > 0) out[n++] = o;
+        else if (o === COPY) out[n++] = x;
+        else if (o < 0) n = writeString(this.pool, -o - 1, out, n);
+      }
+    }
+    const f = this.finalAt[s] as number;
+    if (f < 0) return -1;
+    return writeString(this.pool, f, out, n);
+  }
+
+  /**
+   * Runs many entries in one call (the lexicon runner's hot path): entry e is
+   * input[at[e] … at[e+1]); its output is written to out[outAt[e] … outAt[e+1]) and ok[e] is 1,
+   * or ok[e] is 0 and outAt[e+1] = outAt[e] when it is rejected. Returns the number of accepted
+   * entries, or -2 when `out` is too small (size it as input length × maxArcOutput + entries ×
+   * maxFinalOutput to be safe).
+   */
+  runBatch(input: Int32Array, at: Int32Array, out: Int32Array, outAt: Int32Array, ok: Uint8Array): number {
+    const entries = at.length - 1;
+    if (out.length < (at[entries] as number) * this.maxArcOutput + entries * this.maxFinalOutput + 1) return -2;
+    outAt[0] = 0;
+    const packed = this.packed;
+    if (packed !== null) {
+      return this.identity
+        ? this.runBatchPacked(packed, input, at, out, outAt, ok)
+        : this.runBatchPackedClasses(packed, input, at, out, outAt, ok);
+    }
+    let n = 0;
+    let accepted = 0;
+    for (let e = 0; e < entries; e++) {
+      const begin = n;
+      const r = this.runFast(input, out, at[e] as number, at[e + 1] as number, n);
+      if (r < 0) {
+        n = begin;
+        ok[e] = 0;
+      } else {
+        n = r;
+        ok[e] = 1;
+        accepted++;
+      }
+      outAt[e + 1] = n;
+    }
+    return accepted;
+  }
+
+  /** `runBatch` on the packed table when every label is its own class, the whole loop inline. */
+  private runBatchPacked(packed: Int32Array, input: Int32Array, at: Int32Array, out: Int32Array, outAt: Int32Array, ok: Uint8Array): number {
+    const { finalAt, pool, classOf } = this;
+    const width = this.classes;
+    const nc = classOf.length;
+    const entries = at.length - 1;
+    let n = 0;
+    let accepted = 0;
+    for (let e = 0; e < entries; e++) {
+      const begin = n;
+      let s = this.start;
+      const end = at[e + 1] as number;
+      for (let i = at[e] as number; i < end; i++) {
+        const x = input[i] as number;
+        if (x >>> 0 >= nc) {
+          s = -1;
+          break;
+        }
+        const c = packed[s * width + x] as number;
+        if (c < 0) {
+          s = -1;
+          break;
+        }
+        s = c >> 10;
+        const v = c & 1023;
+        out[n] = v === 1 ? x : v - 1;
+        n += v === 0 ? 0 : 1;
+      }
+      const f = s < 0 ? -1 : (finalAt[s] as number);
+      if (f < 0) {
+        n = begin;
+        ok[e] = 0;
+      } else {
+        const len = pool[f] as number;
+        for (let k = 1; k <= len; k++) out[n++] = pool[f + k] as number;
+        ok[e] = 1;
+        accepted++;
+      }
+      outAt[e + 1] = n;
+    }
+    return accepted;
+  }
+
+  /** `runBatch` on the packed table with a class lookup per symbol, the whole loop inline. */
+  private runBatchPackedClasses(packed: Int32Array, input: Int32Array, at: Int32Array, out: Int32Array, outAt: Int32Array, ok: Uint8Array): number {
+    const { finalAt, pool, classOf } = this;
+    const width = this.classes;
+    const nc = classOf.length;
+    const entries = at.length - 1;
+    let n = 0;
+    let accepted = 0;
+    for (let e = 0; e < entries; e++) {
+      const begin = n;
+      let s = this.start;
+      const end = at[e + 1] as number;
+      for (let i = at[e] as number; i < end; i++) {
+        const x = input[i] as number;
+        if (x >>> 0 >= nc) {
+          s = -1;
+          break;
+        }
+        const c = packed[s * width + (classOf[x] as number)] as number;
+        if (c < 0) {
+          s = -1;
+          break;
+        }
+        s = c >> 10;
+        const v = c & 1023;
+        out[n] = v === 1 ? x : v - 1;
+        n += v === 0 ? 0 : 1;
+      }
+      const f = s < 0 ? -1 : (finalAt[s] as number);
+      if (f < 0) {
+        n = begin;
+        ok[e] = 0;
+      } else {
+        const len = pool[f] as number;
+        for (let k = 1; k <= len; k++) out[n++] = pool[f + k] as number;
+        ok[e] = 1;
+        accepted++;
+      }
+      outAt[e + 1] = n;
+    }
+    return accepted;
   }
 
   /** True when the machine accepts `input`. */
@@ -272,7 +490,7 @@ export class DeterministicRunner {
     let s = this.start;
     for (let i = 0; i < input.length; i++) {
       const x = input[i] as number;
-      if (x <= 0 || x >= classOf.length) return false;
+      if (x >>> 0 >= classOf.length) return false;
       s = next[s * classes + (classOf[x] as number)] as number;
       if (s < 0) return false;
     }
@@ -294,7 +512,7 @@ export function freezeDeterministic(fst: Fst): DeterministicRunner {
   // A chain at the start is no special case: ε-input removal has already moved its output onto
   // the start state's arcs and final output.
   const n = m.arcs.length;
-  const { classOf, classes } = inputClasses(m, (a) => a.output.join(","));
+  const { classOf, classes } = inputClasses(m, outputKey);
   const next = new Int32Array(n * classes).fill(-1);
   const codes = new Int32Array(n * classes);
   const pool: number[] = [];
@@ -314,7 +532,7 @@ export function freezeDeterministic(fst: Fst): DeterministicRunner {
     for (const a of m.arcs[s] as StrArc[]) {
       const idx = s * classes + (classOf[a.input] as number);
       next[idx] = a.target;
-      codes[idx] = a.output.length === 0 ? 0 : a.output.length === 1 ? (a.output[0] as number) : -(intern(a.output) + 1);
+      codes[idx] = outputCode(a.input, a.output, intern);
     }
     const f = (m.finals[s] as (readonly Label[])[])[0];
     if (f !== undefined) finalAt[s] = intern(f);

@@ -7,7 +7,7 @@ import { witnessThrough } from "./determinise.js";
 import { removeInputEpsilons, type StrArc } from "./epsilon.js";
 import { isFunctional } from "./equivalence.js";
 import { Fst, type Label } from "./fst.js";
-import { inputClasses } from "./frozen.js";
+import { COPY, inputClasses, outputCode, outputKey } from "./frozen.js";
 
 /**
  * Runs a functional transducer deterministically in two passes over the input w (Schützenberger's
@@ -24,7 +24,8 @@ import { inputClasses } from "./frozen.js";
  *
  * The machine itself is the ε-input-free form (string outputs on arcs) in dense rows: the arcs
  * of state s on class c are rowFirst[s·K+c] … rowFirst[s·K+c+1]-1. Output codes as in
- * `DeterministicRunner` (0: nothing, > 0: one label, < 0: a string in `pool`).
+ * `DeterministicRunner` (0: nothing, COPY: the symbol read, > 0: one label, < 0: a string in
+ * `pool`); identity arcs therefore share input classes.
  */
 export class FunctionalRunner {
   constructor(
@@ -90,7 +91,8 @@ export class FunctionalRunner {
         }
       }
       const o = arcOut[k] as number;
-      if (o > 0) out.push(o);
+      if (o === COPY) out.push(input[i] as number);
+      else if (o > 0) out.push(o);
       else if (o < 0) {
         const at = -o - 1;
         for (let j = at + 1; j <= at + (pool[at] as number); j++) out.push(pool[j] as number);
@@ -135,7 +137,7 @@ export function freezeFunctional(fst: Fst, options: FreezeFunctionalOptions = {}
   for (const fs of m.finals) {
     if (fs.length > 1) return { ok: false, input: [], message: "a state has two different final outputs" };
   }
-  const { classOf, classes: K } = inputClasses(m, (a) => a.output.join(","));
+  const { classOf, classes: K } = inputClasses(m, outputKey);
   // Left-to-right rows.
   const rowFirst = new Int32Array(n * K + 1);
   for (let s = 0; s < n; s++) for (const a of m.arcs[s] as StrArc[]) (rowFirst[s * K + (classOf[a.input] as number) + 1] as number)++;
@@ -161,7 +163,7 @@ export function freezeFunctional(fst: Fst, options: FreezeFunctionalOptions = {}
     for (const a of list) {
       const k = (fill[s * K + (classOf[a.input] as number)] as number)++;
       arcTarget[k] = a.target;
-      arcOut[k] = a.output.length === 0 ? 0 : a.output.length === 1 ? (a.output[0] as number) : -(intern(a.output) + 1);
+      arcOut[k] = outputCode(a.input, a.output, intern);
     }
     const f = (m.finals[s] as (readonly Label[])[])[0];
     if (f !== undefined) finalAt[s] = intern(f);

@@ -28,7 +28,7 @@ export type { InputEpsilonFree, StrArc, StrMachine } from "./epsilon.js";
 export { determinise, determiniseTransducer } from "./determinise.js";
 export type { DeterminiseFailure, DeterminiseOptions, DeterminiseResult } from "./determinise.js";
 export { coarsestPartition, isDeterministic, isSequential, minimise } from "./minimise.js";
-export { DeterministicRunner, FrozenFst, applyAll, freeze, freezeDeterministic, inputClasses } from "./frozen.js";
+export { COPY, DeterministicRunner, FrozenFst, applyAll, freeze, freezeDeterministic, inputClasses, outputCode, outputKey } from "./frozen.js";
 export type { ApplyResult } from "./frozen.js";
 export { complement, difference, equivalent, isFunctional, shortestDifference } from "./equivalence.js";
 export type { Difference, FunctionalityResult } from "./equivalence.js";

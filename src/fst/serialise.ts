@@ -1,7 +1,7 @@
 // The compact, versioned byte form of machines and runners for caches under build/: a header with
 // a CRC-32 of the payload (so a corrupt or truncated cache is detected), then LEB128 varints.
 
-import { DeterministicRunner } from "./frozen.js";
+import { COPY, DeterministicRunner } from "./frozen.js";
 import { Fst, FstError, type Label } from "./fst.js";
 import { FunctionalRunner } from "./functional.js";
 
@@ -221,7 +221,7 @@ export function deserialiseDeterministic(bytes: Uint8Array): Deserialised<Determ
     check(classOf.every((c) => c < classes), "input classes");
     check(next.every((t) => t >= -1 && t < n), "targets");
     check(finalAt.every((f) => f < pool.length), "final outputs");
-    check(out.every((o) => o >= 0 || -o - 1 < pool.length), "arc outputs");
+    check(out.every((o) => o >= 0 || o === COPY || -o - 1 < pool.length), "arc outputs");
     return new DeterministicRunner(start, classes, classOf, next, out, finalAt, pool);
   });
 }

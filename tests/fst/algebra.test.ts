@@ -264,3 +264,33 @@ function realStates(f: Fst): number {
   for (let s = 0; s < f.numStates; s++) if (!f.arcs(s).some((a) => a.input === EPSILON)) n++;
   return n;
 }
+
+describe("batch running", () => {
+  it("runBatch gives each entry the output of run, and rejects the same entries", () => {
+    fc.assert(
+      fc.property(arbSequential(4, 3), fc.array(fc.array(fc.integer({ min: 0, max: 4 }), { maxLength: 6 }), { maxLength: 12 }), (t, words) => {
+        const run = freezeDeterministic(minimise(t));
+        const at = Int32Array.from([0, ...words.map((_, k) => words.slice(0, k + 1).reduce((n, w) => n + w.length, 0))]);
+        const input = Int32Array.from(words.flat());
+        const out = new Int32Array(input.length * run.maxArcOutput + words.length * run.maxFinalOutput + 1);
+        const outAt = new Int32Array(words.length + 1);
+        const ok = new Uint8Array(words.length);
+        const accepted = run.runBatch(input, at, out, outAt, ok);
+        expect(run.runBatch(input, at, new Int32Array(0), outAt, ok)).toBe(-2);
+        run.runBatch(input, at, out, outAt, ok);
+        let n = 0;
+        words.forEach((w, e) => {
+          const o: Label[] = [];
+          const good = run.run(w, o);
+          expect(ok[e] === 1).toBe(good);
+          if (good) {
+            n++;
+            expect(Array.from(out.subarray(outAt[e] as number, outAt[e + 1] as number))).toEqual(o);
+          }
+        });
+        expect(accepted).toBe(n);
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
