@@ -2,8 +2,10 @@
 // version) key, written whole (temp file, then rename) and checked by a checksum when read.
 //
 // File layout (little-endian): "STRATA-CACHE\n" magic, u32 format version, 32-byte SHA-256 of the
-// payload, then the payload: u32 JSON length, the JSON (metadata), then every machine as Int32
-// words [states, start, finalCount, finals…, arcCount, (from, input, output, to)…].
+// payload, then the payload: u32 JSON length, the JSON (metadata), u32 byte length of the machine
+// words, every machine as Int32 words [states, start, finalCount, finals…, arcCount,
+// (from, input, output, to)…], then each blob as u32 length and bytes (frozen runner tables in
+// the fst/serialise format; length 0 for none).
 
 import { createHash } from "node:crypto";
 import { mkdirSync, readFileSync, renameSync, writeFileSync, existsSync, unlinkSync } from "node:fs";
@@ -11,7 +13,7 @@ import { join } from "node:path";
 import { Fst } from "../fst/index.js";
 
 const MAGIC = Buffer.from("STRATA-CACHE\n", "utf8");
-const FORMAT = 1;
+const FORMAT = 2;
 
 export function sha256(parts: readonly (string | Uint8Array)[]): string {
   const h = createHash("sha256");
@@ -57,15 +59,19 @@ function decodeMachine(w: Int32Array, at: { i: number }): Fst {
 }
 
 /** Writes metadata and machines whole: temp file in the same folder, then rename. */
-export function writeCache(dir: string, key: string, meta: unknown, machines: readonly Fst[]): void {
+export function writeCache(dir: string, key: string, meta: unknown, machines: readonly Fst[], blobs: readonly (Uint8Array | null)[] = []): void {
   mkdirSync(dir, { recursive: true });
   const json = Buffer.from(JSON.stringify(meta), "utf8");
   const words: number[] = [];
   for (const m of machines) encodeMachine(m, words);
   const body = Buffer.from(Int32Array.from(words).buffer);
-  const head = Buffer.alloc(4);
-  head.writeUInt32LE(json.length, 0);
-  const payload = Buffer.concat([head, json, body]);
+  const u32 = (n: number): Buffer => { const b = Buffer.alloc(4); b.writeUInt32LE(n, 0); return b; };
+  const parts: Buffer[] = [u32(json.length), json, u32(body.length), body, u32(blobs.length)];
+  for (const b of blobs) {
+    parts.push(u32(b === null ? 0 : b.length));
+    if (b !== null) parts.push(Buffer.from(b));
+  }
+  const payload = Buffer.concat(parts);
   const digest = createHash("sha256").update(payload).digest();
   const fmt = Buffer.alloc(4);
   fmt.writeUInt32LE(FORMAT, 0);
@@ -78,7 +84,7 @@ export function writeCache(dir: string, key: string, meta: unknown, machines: re
 export type CacheRead =
   | { readonly state: "missing" }
   | { readonly state: "corrupt"; readonly reason: string }
-  | { readonly state: "ok"; readonly meta: unknown; readonly machines: Fst[] };
+  | { readonly state: "ok"; readonly meta: unknown; readonly machines: Fst[]; readonly blobs: (Uint8Array | null)[] };
 
 /** Reads a cache file; a wrong magic, format, checksum or a truncated body is "corrupt". */
 export function readCache(dir: string, key: string, machineCount: (meta: unknown) => number): CacheRead {
@@ -97,17 +103,31 @@ export function readCache(dir: string, key: string, machineCount: (meta: unknown
   const payload = buf.subarray(MAGIC.length + 36);
   if (!createHash("sha256").update(payload).digest().equals(digest)) return { state: "corrupt", reason: "checksum mismatch" };
   try {
-    const jl = payload.readUInt32LE(0);
-    const meta: unknown = JSON.parse(payload.subarray(4, 4 + jl).toString("utf8"));
-    const body = payload.subarray(4 + jl);
-    if (body.length % 4 !== 0) return { state: "corrupt", reason: "truncated machine data" };
+    let pos = 0;
+    const u32 = (): number => { const v = payload.readUInt32LE(pos); pos += 4; return v; };
+    const jl = u32();
+    const meta: unknown = JSON.parse(payload.subarray(pos, pos + jl).toString("utf8"));
+    pos += jl;
+    const bl = u32();
+    if (bl % 4 !== 0 || pos + bl > payload.length) return { state: "corrupt", reason: "truncated machine data" };
+    const body = payload.subarray(pos, pos + bl);
+    pos += bl;
     const words = new Int32Array(body.buffer.slice(body.byteOffset, body.byteOffset + body.length));
     const at = { i: 0 };
     const machines: Fst[] = [];
     const count = machineCount(meta);
     for (let k = 0; k < count; k++) machines.push(decodeMachine(words, at));
     if (at.i !== words.length) return { state: "corrupt", reason: "machine data does not match its description" };
-    return { state: "ok", meta, machines };
+    const nb = u32();
+    const blobs: (Uint8Array | null)[] = [];
+    for (let k = 0; k < nb; k++) {
+      const len = u32();
+      if (pos + len > payload.length) return { state: "corrupt", reason: "truncated runner data" };
+      blobs.push(len === 0 ? null : new Uint8Array(payload.subarray(pos, pos + len)));
+      pos += len;
+    }
+    if (pos !== payload.length) return { state: "corrupt", reason: "trailing bytes" };
+    return { state: "ok", meta, machines, blobs };
   } catch (e) {
     return { state: "corrupt", reason: `unreadable: ${(e as Error).message}` };
   }

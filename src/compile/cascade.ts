@@ -4,8 +4,9 @@
 
 import {
   FstError, FstLimitError, compose, determiniseTransducer, freezeFunctional, minimise, type Fst,
+  FrozenFst, freeze, freezeDeterministic, type DeterministicRunner,
+  serialiseDeterministic, deserialiseDeterministic, serialiseFunctional, deserialiseFunctional,
 } from "../fst/index.js";
-import { FrozenFst, freeze, freezeDeterministic, type DeterministicRunner } from "../fst/frozen.js";
 
 export interface Block {
   readonly machine: Fst;
@@ -57,6 +58,25 @@ export function composeCascade(machines: readonly (Fst | null)[], maxStates: num
 interface BlockRunner {
   run(input: ArrayLike<number>, out: number[]): boolean;
   readonly kind: "sequential" | "functional" | "search";
+  /** The frozen tables as bytes (fst/serialise), for the cache; absent for a search. */
+  readonly bytes?: () => Uint8Array;
+}
+
+/** A block runner read back from the cache; null when the bytes do not decode. */
+function runnerFromBytes(kind: string, bytes: Uint8Array): BlockRunner | null {
+  if (kind === "sequential") {
+    const d = deserialiseDeterministic(bytes);
+    if (!d.ok) return null;
+    const r = d.value;
+    return { kind: "sequential", run: (input, out) => r.run(input, out), bytes: () => bytes };
+  }
+  if (kind === "functional") {
+    const d = deserialiseFunctional(bytes);
+    if (!d.ok) return null;
+    const r = d.value;
+    return { kind: "functional", run: (input, out) => r.run(input, out), bytes: () => bytes };
+  }
+  return null;
 }
 
 function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
@@ -75,14 +95,14 @@ function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
     } catch (e) {
       if (!(e instanceof FstError)) throw e;
     }
-    if (r !== null) { const run = r; return { kind: "sequential", run: (input, out) => run.run(input, out) }; }
+    if (r !== null) { const run = r; return { kind: "sequential", run: (input, out) => run.run(input, out), bytes: () => serialiseDeterministic(run) }; }
   }
   // Not subsequential (a right context of unbounded length): the two-pass runner for functional
   // transducers (a right-to-left DFA, then a left-to-right deterministic choice; src/fst/functional.ts).
   const fr = freezeFunctional(m, { check: false });
   if (fr.ok) {
     const runner = fr.runner;
-    return { kind: "functional", run: (input, out) => runner.run(input, out) };
+    return { kind: "functional", run: (input, out) => runner.run(input, out), bytes: () => serialiseFunctional(runner) };
   }
   const f: FrozenFst = freeze(m);
   return {
@@ -100,11 +120,22 @@ function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
 /** The preferred cascade: each block functional; runs them in sequence. */
 export class PreferredRunner {
   private readonly runners: BlockRunner[];
-  /** `kinds`: how each block ran before (from the cache), so a known search block skips the determinisation attempt. */
-  constructor(blocks: readonly Block[], kinds?: readonly string[]) {
-    this.runners = blocks.map((b, i) => blockRunner(b.machine, kinds === undefined || kinds[i] === "sequential"));
+  /**
+   * `kinds`: how each block ran before (from the cache), so a known non-sequential block skips the
+   * determinisation attempt; `frozen`: the runners' tables from the cache (rebuilt when missing or bad).
+   */
+  constructor(blocks: readonly Block[], kinds?: readonly string[], frozen?: readonly (Uint8Array | null)[]) {
+    this.runners = blocks.map((b, i) => {
+      const bytes = frozen?.[i];
+      const cached = bytes && kinds?.[i] !== undefined ? runnerFromBytes(kinds[i]!, bytes) : null;
+      return cached ?? blockRunner(b.machine, kinds === undefined || kinds[i] === "sequential");
+    });
   }
-  /** How each block runs ("sequential": dense table; "search": general search for the one output). */
+  /** Each block's frozen tables as bytes (null for a search block). */
+  frozenBytes(): (Uint8Array | null)[] {
+    return this.runners.map((r) => (r.bytes ? r.bytes() : null));
+  }
+  /** How each block runs ("sequential": dense table; "functional": two-pass runner; "search": general search for the one output). */
   get kinds(): string[] {
     return this.runners.map((r) => r.kind);
   }

@@ -23,7 +23,7 @@ export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from ".
 export type { Block } from "./cascade.js";
 
 /** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
-export const COMPILER_VERSION = "strata-compile-1";
+export const COMPILER_VERSION = "strata-compile-2";
 
 export interface CompileOptions {
   /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */
@@ -224,7 +224,7 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
         return { ...r, machine: m, states: m.numStates, arcs: m.numArcs() };
       });
       const t1 = performance.now();
-      const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 }, meta.runners);
+      const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 }, meta.runners, read.blobs);
       return { compiled: { ...compiled, timings: { steps: 0, compose: 0, freeze: performance.now() - t1, total: performance.now() - t0 } }, diagnostics: [] };
     }
     if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
@@ -261,7 +261,7 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
       hasVariants,
       runners: compiled.preferred.kinds,
     };
-    writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)]);
+    writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
   }
   return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
 }
@@ -281,8 +281,9 @@ function sameMachine(a: Fst, b: Fst): boolean {
 function assemble(
   alphabet: Alphabet, steps: StepSize[], preferredBlocks: Block[], variantBlocks: Block[], hasVariants: boolean,
   cache: Compiled["cache"], cacheKey: string, timings: Compiled["timings"], kinds?: readonly string[],
+  frozen?: readonly (Uint8Array | null)[],
 ): Compiled {
-  const preferred = new PreferredRunner(preferredBlocks, kinds);
+  const preferred = new PreferredRunner(preferredBlocks, kinds, frozen);
   const variantsRunner = new VariantsRunner(variantBlocks);
   const encode = (word: readonly Sym[]): number[] | null => {
     const out: number[] = [];

@@ -186,10 +186,33 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
     return true;
   };
 
-  const normalise = (v: Pending[]): Pending[] => {
+  // Subsumption among pending checks: for negative checks only the largest languages matter (the
+  // path fails if any accepts), for positive ones only the smallest (all must accept); a positive
+  // check inside a negative one can never be met. Dropping the redundant ones keeps the sets —
+  // and so the states — few.
+  const inclusion = new Map<number, Uint8Array>();
+  const nb = rights.length;
+  /** L(b1 from q1) ⊆ L(b2 from q2)? */
+  const sub = (b1: number, q1: number, b2: number, q2: number): boolean => {
+    let m = inclusion.get(b1 * nb + b2);
+    if (m === undefined) { m = languageInclusion(rights[b1]!, rights[b2]!); inclusion.set(b1 * nb + b2, m); }
+    return m[q1 * rights[b2]!.states + q2] === 1;
+  };
+  const normalise = (v: Pending[]): Pending[] | null => {
     const seen = new Map<string, Pending>();
     for (const e of v) seen.set(`${e.b}:${e.q}:${e.pos ? 1 : 0}`, e);
-    return [...seen.values()].sort((a, b) => a.b - b.b || a.q - b.q || Number(a.pos) - Number(b.pos));
+    let list = [...seen.values()].sort((a, b) => a.b - b.b || a.q - b.q || Number(a.pos) - Number(b.pos));
+    if (list.length > 1) {
+      for (const p of list) if (p.pos) for (const q of list) if (!q.pos && sub(p.b, p.q, q.b, q.q)) return null;
+      list = list.filter((e, i) => !list.some((f, j) => {
+        if (j === i || f.pos !== e.pos) return false;
+        const inner = e.pos ? sub(f.b, f.q, e.b, e.q) : sub(e.b, e.q, f.b, f.q);
+        if (!inner) return false;
+        const equal = e.pos ? sub(e.b, e.q, f.b, f.q) : sub(f.b, f.q, e.b, e.q);
+        return !equal || j < i; // equal languages: keep the first
+      }));
+    }
+    return list;
   };
 
   // ---- output arcs ----------------------------------------------------------------------
@@ -229,7 +252,9 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         v = nv;
       }
       const ns = nextS;
-      emit(id, pairs, intern({ s: ns, p, v: normalise(v), cmp: ns === 0 ? [] : nextCmp, d: ns === 0 ? 0 : nextD }));
+      const nv = normalise(v);
+      if (nv === null) return;
+      emit(id, pairs, intern({ s: ns, p, v: nv, cmp: ns === 0 ? [] : nextCmp, d: ns === 0 ? 0 : nextD }));
     };
     let nextS = 0;
     let nextD = 0;
@@ -359,4 +384,37 @@ export function reversePairNfa(m: PairNfa): PairNfa {
   for (let i = 0; i < m.arcs.length; i += 4) arcs.push(m.arcs[i + 3]!, m.arcs[i + 1]!, m.arcs[i + 2]!, m.arcs[i]!);
   for (const f of m.finals) arcs.push(s0, EPSILON, EPSILON, f);
   return { states: m.states + 1, start: s0, finals: [m.start], arcs: Int32Array.from(arcs) };
+}
+
+/**
+ * Language inclusion between the states of two complete DFAs over one alphabet:
+ * m[p·|b| + q] = 1 iff L(a from p) ⊆ L(b from q). Greatest fixpoint: start from "p accepting
+ * implies q accepting", then remove pairs with a successor pair outside the relation, until
+ * nothing changes. Symbols whose columns agree in both machines are tried once.
+ */
+export function languageInclusion(a: Dfa, b: Dfa): Uint8Array {
+  const na = a.states, nb = b.states, size = a.size;
+  const cols: number[] = [];
+  const seenCol = new Set<string>();
+  for (let s = 1; s < size; s++) {
+    let key = "";
+    for (let q = 0; q < na; q++) key += `${a.next[q * size + s]},`;
+    key += "|";
+    for (let q = 0; q < nb; q++) key += `${b.next[q * size + s]},`;
+    if (!seenCol.has(key)) { seenCol.add(key); cols.push(s); }
+  }
+  const m = new Uint8Array(na * nb);
+  for (let p = 0; p < na; p++) for (let q = 0; q < nb; q++) m[p * nb + q] = a.accept[p] === 1 && b.accept[q] === 0 ? 0 : 1;
+  for (let changed = true; changed;) {
+    changed = false;
+    for (let p = 0; p < na; p++) {
+      for (let q = 0; q < nb; q++) {
+        if (m[p * nb + q] === 0) continue;
+        for (const s of cols) {
+          if (m[a.next[p * size + s]! * nb + b.next[q * size + s]!] === 0) { m[p * nb + q] = 0; changed = true; break; }
+        }
+      }
+    }
+  }
+  return m;
 }

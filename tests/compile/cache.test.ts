@@ -110,3 +110,15 @@ describe("compiled-machine cache", () => {
     expect(readdirSync(dir).filter((f) => f.endsWith(".tmp"))).toEqual([]);
   });
 });
+
+describe("frozen runners in the cache", () => {
+  it("a hit reads the preferred runners' tables back and runs the same", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const second = compiled(dir);
+    expect(second.cache).toBe("hit");
+    expect(second.preferred.kinds).toEqual(first.preferred.kinds);
+    expect(second.preferred.frozenBytes().map((b) => b?.length ?? 0)).toEqual(first.preferred.frozenBytes().map((b) => b?.length ?? 0));
+    expect(outputs(second)).toEqual(outputs(first));
+  });
+});

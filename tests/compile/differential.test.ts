@@ -7,7 +7,7 @@ import { tinyInventory as inv } from "../support/tiny-inventory.js";
 import { grammar, classDef, nodeDef, bun, syllabifyStep, stressStep, rule, seg, chBun, env, opt } from "../support/ast.js";
 import { symsOf } from "../support/words.js";
 import { compileGrammar, compileSteps } from "../../src/compile/index.js";
-import { applyAll } from "../../src/fst/frozen.js";
+import { applyAll } from "../../src/fst/index.js";
 import { applyGrammar, applyRuleDetailed, ruleContext, wordKey, type Sym } from "../../src/interp/index.js";
 import { desugar, isBoundaryBlind } from "../../src/grammar/index.js";
 import type { Grammar, Rule, Step } from "../../src/grammar/ast.js";

@@ -4,7 +4,7 @@
 
 import { describe, expect, it } from "vitest";
 import { compileGrammar, compileSteps, type Compiled } from "../../src/compile/index.js";
-import { applyAll } from "../../src/fst/frozen.js";
+import { applyAll } from "../../src/fst/index.js";
 import type { Rule } from "../../src/grammar/ast.js";
 import type { Bundle, Diacritic, FeatureValue, Inventory, Segment } from "../../src/inventory/types.js";
 import { PROSODIC_FEATURES } from "../../src/inventory/types.js";
