@@ -165,15 +165,17 @@ function cascadeSize(blocks: readonly Block[]): CascadeSize {
   };
 }
 
-/** The cache key: compiler version, options that change the result, the grammar and the inventory. */
+/** The cache key: compiler version, options that change the result, the grammar (as parsed) and the inventory (features, segments, diacritics). */
 export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number): string {
   const invData = {
     features: inv.features,
     segments: inv.segments.map((s) => [s.symbol, bundleKey(s.bundle)]),
     diacritics: inv.diacritics.map((d) => [d.mark, d.name, [...d.sets.entries()], d.aliases, d.order]),
   };
-  const g = { ...grammar, file: "", files: [] };
-  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(g), JSON.stringify(invData)]);
+  // Where the files lie does not change the machines: paths and source positions are left out,
+  // so a moved checkout keeps its cache.
+  const placeless = (k: string, v: unknown): unknown => (k === "span" || k === "file" || k === "files" || k === "inventory" || k === "diacritics" ? undefined : v);
+  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(grammar, placeless), JSON.stringify(invData)]);
 }
 
 interface CacheMeta {

@@ -122,3 +122,12 @@ describe("frozen runners in the cache", () => {
     expect(outputs(second)).toEqual(outputs(first));
   });
 });
+
+describe("cache keys", () => {
+  it("do not depend on where the grammar file lies or on source positions", () => {
+    const moved: Grammar = JSON.parse(JSON.stringify(g).replaceAll("test.strata", "/elsewhere/other.strata")) as Grammar;
+    const a = compileGrammar(g, inv).compiled!;
+    const b = compileGrammar(moved, inv).compiled!;
+    expect(b.cacheKey).toBe(a.cacheKey);
+  });
+});
