@@ -7,7 +7,6 @@ import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import { WORD_EDGE, type Word } from "../interp/index.js";
 import { compileGrammar, type Compiled } from "../compile/index.js";
-import { PreferredRunner } from "../compile/cascade.js";
 import type { Engine, Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type SymbolView } from "./render.js";
@@ -81,32 +80,20 @@ export class MachineEngine implements Engine {
     return { narrow, broad: broadText, variants, rules: this.blame(ids) };
   }
 
-  /** Steps whose own machine changed the (preferred) word, in order. */
+  /** Steps whose own machine changed the (preferred) word, in order (one block per step). */
   private blame(ids: number[]): string[] {
-    if (this.stepwise === null) return [];
+    const sw = this.stepwise;
+    if (sw === null) return [];
     const changed: string[] = [];
     let cur: number[] = ids;
-    for (const b of this.stepwise.preferredBlocks) {
+    const blocks = sw.preferredBlocks;
+    for (let k = 0; k < blocks.length; k++) {
       const next: number[] = [];
-      const runner = this.stepRunner(b.from);
-      if (runner === undefined || !runner(cur, next)) break;
-      if (!sameIds(cur, next)) changed.push(this.steps[b.from]!);
+      if (!sw.preferred.runBlock(k, cur, next)) break;
+      if (!sameIds(cur, next)) changed.push(this.steps[blocks[k]!.from]!);
       cur = next;
     }
     return changed;
-  }
-
-  private runnersByStep: Map<number, (i: ArrayLike<number>, o: number[]) => boolean> | undefined;
-  private stepRunner(step: number): ((i: ArrayLike<number>, o: number[]) => boolean) | undefined {
-    if (this.runnersByStep === undefined) {
-      this.runnersByStep = new Map();
-      const sw = this.stepwise!;
-      for (const b of sw.preferredBlocks) {
-        const runner = new PreferredRunner([b]);
-        this.runnersByStep.set(b.from, (i, o) => runner.run(i, o));
-      }
-    }
-    return this.runnersByStep.get(step);
   }
 }
 
