@@ -139,6 +139,10 @@ export class PreferredRunner {
   get kinds(): string[] {
     return this.runners.map((r) => r.kind);
   }
+  /** Runs block `k` alone (for per-step blame when every block is one step). */
+  runBlock(k: number, symbols: ArrayLike<number>, out: number[]): boolean {
+    return this.runners[k]!.run(symbols, out);
+  }
   /** Runs the word (symbol ids, '#'-bracketed); appends the output to `out`; false when rejected. */
   run(symbols: ArrayLike<number>, out: number[]): boolean {
     if (this.runners.length === 0) { for (let i = 0; i < symbols.length; i++) out.push(symbols[i]!); return true; }
