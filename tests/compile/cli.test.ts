@@ -103,6 +103,18 @@ describe("strata graph", () => {
     expect(big.stderr).toContain("does not fit");
   });
 
+  it("draws the syllabifier and the stress step too", () => {
+    for (const step of ["syllabify", "stress"]) {
+      const r = runGraph(EN_US, step);
+      expect(r.exitCode).toBe(0);
+      expect(r.stdout).toMatch(new RegExp(`label="${step} \\(variants\\): \\d+ states`));
+    }
+    // The syllabifier inserts '.' (ε:.) and deletes the input's (.:ε).
+    const syl = runGraph(EN_US, "syllabify").stdout;
+    expect(syl).toContain("ε:.");
+    expect(syl).toContain(".:ε");
+  });
+
   it("names the steps when the step is unknown", () => {
     const r = runGraph(EN_US, "no-such-rule");
     expect(r.exitCode).toBe(1);

@@ -140,3 +140,18 @@ describe("literal changes of another length than the target (coalescence, breaki
     }
   });
 });
+
+describe("edge cases", () => {
+  it("a grammar without steps is the identity", () => {
+    const c = compiled([]);
+    expect(c.preferredSize.blocks).toEqual([]);
+    const r = run(c, tinyInventory, "#pa.ta#");
+    expect(r.preferred).toBe("pa.ta");
+    expect(r.all).toEqual(["pa.ta"]);
+  });
+
+  it("a word with a segment outside the alphabet is not encoded (null), never a crash", () => {
+    const c = compiled([]);
+    expect(c.encode([WORD_EDGE, { kind: "segment", bundle: ["+", "+", "+", "+", "+", "0", "0"] }, WORD_EDGE])).toBeNull();
+  });
+});
