@@ -26,6 +26,7 @@ interface BuildOptions {
   samples: number;
   workers: string;
   syllableBreaks: boolean;
+  cacheDir?: string;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
@@ -54,7 +55,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     }
   }
   const outRoot = resolve(o.out);
-  const cacheDir = o.cache ? join(outRoot, "cache") : undefined;
+  const cacheDir = o.cache ? resolve(o.cacheDir ?? join(outRoot, "cache")) : undefined;
   const tty = process.stderr.isTTY === true && !o.quiet;
   const lines = await countLines(manifest.lexicon);
   const total = tty ? lines : 0;
@@ -153,7 +154,8 @@ export function registerBuild(program: Command): void {
     .option("-q, --quiet", "no progress bar, no summary", false)
     .option("--engine <kind>", "machine (compiled transducers) or interpreter (the slow reference)", "machine")
     .option("--check <n>", "also compare the first N entries with the reference interpreter", positiveInt("--check"))
-    .option("--no-cache", "do not read or write compiled machines under <out>/cache")
+    .option("--no-cache", "do not read or write compiled machines")
+    .option("--cache-dir <dir>", "where compiled machines are cached (default: <out>/cache)")
     .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
     .option("--workers <n>", "worker threads for the machines: a number, or auto (all cores for lexicons of 20,000 rows or more)", "auto")

@@ -17,7 +17,9 @@ const DEMO = join(ROOT, "lexicons", "demo");
 const GRAMMAR = join(ROOT, "lexicons", "en-us", "grammar.strata");
 const CACHE_OUT = mkdtempSync(join(tmpdir(), "strata-build-"));
 
-const quietOpts = (out: string) => ({ out, allowRejects: false, quiet: true, engine: "machine" as const, cache: true, samples: 0, workers: "auto", syllableBreaks: true });
+// One cache for every test file of a run (keys are content hashes, so sharing is safe).
+const SHARED_CACHE = join(tmpdir(), "strata-test-cache");
+const quietOpts = (out: string) => ({ out, allowRejects: false, quiet: true, engine: "machine" as const, cache: true, cacheDir: SHARED_CACHE, samples: 0, workers: "auto", syllableBreaks: true });
 
 let stdout: ReturnType<typeof vi.spyOn>;
 let stderr: ReturnType<typeof vi.spyOn>;
@@ -100,7 +102,7 @@ describe("strata build on the shipped demo", () => {
 
 describe("compiled machines against the reference interpreter on the demo lexicon", () => {
   it.each(["grammar", "careful"])("en-us %s: same narrow form, variants and broad form for every entry", async (name) => {
-    const loaded = loadEngine(join(ROOT, "lexicons", "en-us", `${name}.strata`), { cacheDir: join(CACHE_OUT, "cache") });
+    const loaded = loadEngine(join(ROOT, "lexicons", "en-us", `${name}.strata`), { cacheDir: SHARED_CACHE });
     if (!("engine" in loaded)) throw new Error(JSON.stringify(loaded.diagnostics));
     const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
     const res = await checkAgainstInterpreter(loaded.engine, interp, loaded.inventory, join(DEMO, "lexicon.csv"));

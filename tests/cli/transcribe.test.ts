@@ -10,7 +10,8 @@ import { plsSchemaErrors } from "../emit/pls-schema.js";
 
 const ROOT = resolve(__dirname, "../..");
 const CLI = join(ROOT, "dist", "src", "cli", "main.js");
-const CACHE = mkdtempSync(join(tmpdir(), "strata-transcribe-"));
+// One cache for every test file of a run (keys are content hashes, so sharing is safe).
+const CACHE = join(tmpdir(), "strata-test-cache");
 
 beforeAll(() => {
   execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", ROOT], { stdio: "inherit" });
@@ -99,7 +100,7 @@ describe("strata build with worker threads (compiled CLI)", () => {
     const out1 = mkdtempSync(join(tmpdir(), "strata-w1-"));
     const out2 = mkdtempSync(join(tmpdir(), "strata-w2-"));
     for (const [out, n] of [[out1, "1"], [out2, "2"]] as const) {
-      execFileSync(process.execPath, [CLI, "build", "lexicons/demo", "-o", out, "--workers", n, "-q"], { cwd: ROOT, stdio: "pipe" });
+      execFileSync(process.execPath, [CLI, "build", "lexicons/demo", "-o", out, "--cache-dir", CACHE, "--workers", n, "-q"], { cwd: ROOT, stdio: "pipe" });
     }
     for (const v of ["general", "careful"]) {
       for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls", "rejects.csv"]) {
