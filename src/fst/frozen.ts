@@ -216,6 +216,26 @@ function packTable(next: Int32Array, out: Int32Array, states: number): Int32Arra
   return packed;
 }
 
+/**
+ * A pool of output strings for frozen tables, each stored once as length, labels…;
+ * `intern` returns a string's offset. Shared by the deterministic and the functional runners.
+ */
+export function stringPool(): { readonly pool: number[]; readonly intern: (w: readonly Label[]) => number } {
+  const pool: number[] = [];
+  const poolAt = new Map<string, number>();
+  const intern = (w: readonly Label[]): number => {
+    const key = w.join(",");
+    let at = poolAt.get(key);
+    if (at === undefined) {
+      at = pool.length;
+      pool.push(w.length, ...w);
+      poolAt.set(key, at);
+    }
+    return at;
+  };
+  return { pool, intern };
+}
+
 /** Copies the pool string at `at` (length, labels…) to out[n…]; returns the new length or -2 when full. */
 function writeString(pool: Int32Array, at: number, out: Int32Array, n: number): number {
   const len = pool[at] as number;
@@ -515,18 +535,7 @@ export function freezeDeterministic(fst: Fst): DeterministicRunner {
   const { classOf, classes } = inputClasses(m, outputKey);
   const next = new Int32Array(n * classes).fill(-1);
   const codes = new Int32Array(n * classes);
-  const pool: number[] = [];
-  const poolAt = new Map<string, number>();
-  const intern = (w: readonly Label[]): number => {
-    const key = w.join(",");
-    let at = poolAt.get(key);
-    if (at === undefined) {
-      at = pool.length;
-      pool.push(w.length, ...w);
-      poolAt.set(key, at);
-    }
-    return at;
-  };
+  const { pool, intern } = stringPool();
   const finalAt = new Int32Array(n).fill(-1);
   for (let s = 0; s < n; s++) {
     for (const a of m.arcs[s] as StrArc[]) {

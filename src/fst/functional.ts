@@ -7,7 +7,7 @@ import { witnessThrough } from "./determinise.js";
 import { removeInputEpsilons, type StrArc } from "./epsilon.js";
 import { isFunctional } from "./equivalence.js";
 import { Fst, type Label } from "./fst.js";
-import { COPY, inputClasses, outputCode, outputKey } from "./frozen.js";
+import { COPY, inputClasses, outputCode, outputKey, stringPool } from "./frozen.js";
 
 /**
  * Runs a functional transducer deterministically in two passes over the input w (Schützenberger's
@@ -145,18 +145,7 @@ export function freezeFunctional(fst: Fst, options: FreezeFunctionalOptions = {}
   const fill = rowFirst.slice(0, n * K);
   const arcTarget = new Int32Array(rowFirst[n * K] as number);
   const arcOut = new Int32Array(arcTarget.length);
-  const pool: number[] = [];
-  const poolAt = new Map<string, number>();
-  const intern = (w: readonly Label[]): number => {
-    const key = w.join(",");
-    let at = poolAt.get(key);
-    if (at === undefined) {
-      at = pool.length;
-      pool.push(w.length, ...w);
-      poolAt.set(key, at);
-    }
-    return at;
-  };
+  const { pool, intern } = stringPool();
   const finalAt = new Int32Array(n).fill(-1);
   for (let s = 0; s < n; s++) {
     const list = (m.arcs[s] as StrArc[]).slice().sort((a, b) => a.input - b.input || a.target - b.target);
