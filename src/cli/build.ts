@@ -59,12 +59,14 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const tty = process.stderr.isTTY === true && !o.quiet;
   const lines = await countLines(manifest.lexicon);
   const total = tty ? lines : 0;
-  const wanted = o.workers === "auto" ? (lines >= WORKERS_FROM_ROWS ? Math.min(8, availableParallelism()) : 1) : Number(o.workers);
-  if (!Number.isInteger(wanted) || wanted < 1) {
-    process.stderr.write(`strata: --workers must be 'auto' or a positive whole number\n`);
+  // Worker threads besides the main thread (which reads, tokenises and writes): auto leaves one
+  // core to the main thread (on 2 cores: one worker; peak memory grows by ~150 MB per worker).
+  const wanted = o.workers === "auto" ? (lines >= WORKERS_FROM_ROWS ? Math.max(1, Math.min(8, availableParallelism() - 1)) : 0) : Number(o.workers);
+  if (!Number.isInteger(wanted) || wanted < 0) {
+    process.stderr.write(`strata: --workers must be 'auto' or a whole number (0: no worker threads)\n`);
     return 2;
   }
-  const threads = o.engine === "machine" && WorkerPool.script() !== undefined ? wanted : 1;
+  const threads = o.engine === "machine" && WorkerPool.script() !== undefined ? wanted : 0;
   let failed = false;
   let rejected = false;
   const summaries: RunSummary[] = [];
@@ -83,7 +85,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     let summary: RunSummary;
     let pool: WorkerPool | undefined;
     try {
-      if (threads > 1) {
+      if (threads > 0) {
         pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables: o.syllableBreaks });
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
@@ -158,7 +160,7 @@ export function registerBuild(program: Command): void {
     .option("--cache-dir <dir>", "where compiled machines are cached (default: <out>/cache)")
     .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
-    .option("--workers <n>", "worker threads for the machines: a number, or auto (all cores for lexicons of 20,000 rows or more)", "auto")
+    .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores, for lexicons of 20,000 rows or more)", "auto")
     .option("--samples <n>", "sample lines to print per variety", (v) => Number(v), 6)
     .action(async (dir: string | undefined, opts: BuildOptions) => {
       if (opts.engine !== "machine" && opts.engine !== "interpreter") {

@@ -58,6 +58,8 @@ export function composeCascade(machines: readonly (Fst | null)[], maxStates: num
 interface BlockRunner {
   run(input: ArrayLike<number>, out: number[]): boolean;
   readonly kind: "sequential" | "functional" | "search";
+  /** Many entries in one call over typed arrays (FunctionalRunner.runBatch); absent for other kinds. */
+  readonly batch?: (input: Int32Array, at: Int32Array, out: Int32Array, outAt: Int32Array, ok: Uint8Array, from?: number) => number;
   /** The frozen tables as bytes (fst/serialise), for the cache; absent for a search. */
   readonly bytes?: () => Uint8Array;
 }
@@ -74,7 +76,7 @@ function runnerFromBytes(kind: string, bytes: Uint8Array): BlockRunner | null {
     const d = deserialiseFunctional(bytes);
     if (!d.ok) return null;
     const r = d.value;
-    return { kind: "functional", run: (input, out) => r.run(input, out), bytes: () => bytes };
+    return { kind: "functional", run: (input, out) => r.run(input, out), batch: r.runBatch.bind(r), bytes: () => bytes };
   }
   return null;
 }
@@ -102,7 +104,7 @@ function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
   const fr = freezeFunctional(m, { check: false });
   if (fr.ok) {
     const runner = fr.runner;
-    return { kind: "functional", run: (input, out) => runner.run(input, out), bytes: () => serialiseFunctional(runner) };
+    return { kind: "functional", run: (input, out) => runner.run(input, out), batch: runner.runBatch.bind(runner), bytes: () => serialiseFunctional(runner) };
   }
   const f: FrozenFst = freeze(m);
   return {
@@ -142,6 +144,44 @@ export class PreferredRunner {
   get kinds(): string[] {
     return this.runners.map((r) => r.kind);
   }
+  /**
+   * Runs a whole batch: entry e is input[at[e] .. at[e+1]). Returns the outputs packed the same
+   * way (`out`, `outAt`) and `ok[e]` (0 when rejected, with an empty output). Blocks with a typed
+   * batch loop use it; others run entry by entry.
+   */
+  runBatch(input: Int32Array, at: Int32Array): { out: Int32Array; outAt: Int32Array; ok: Uint8Array } {
+    const entries = at.length - 1;
+    let cur = { out: input, outAt: at, ok: new Uint8Array(entries).fill(1) };
+    for (const r of this.runners) {
+      const outAt = new Int32Array(entries + 1);
+      const ok = new Uint8Array(entries);
+      let out = new Int32Array(Math.max(16, cur.out.length * 2));
+      if (r.batch !== undefined) {
+        let done = 0;
+        while (done < entries) {
+          done = r.batch(cur.out, cur.outAt, out, outAt, ok, done);
+          if (done < entries) {
+            const bigger = new Int32Array(out.length * 2);
+            bigger.set(out);
+            out = bigger;
+          }
+        }
+      } else {
+        const buf: number[] = [];
+        for (let e = 0; e < entries; e++) {
+          const from = buf.length;
+          if (!r.run(cur.out.subarray(cur.outAt[e]!, cur.outAt[e + 1]!), buf)) buf.length = from;
+          else ok[e] = 1;
+          outAt[e + 1] = buf.length;
+        }
+        out = Int32Array.from(buf);
+      }
+      for (let e = 0; e < entries; e++) ok[e] = ok[e]! & cur.ok[e]!;
+      cur = { out, outAt, ok };
+    }
+    return cur;
+  }
+
   /** Runs block `k` alone (for per-step blame when every block is one step). */
   runBlock(k: number, symbols: ArrayLike<number>, out: number[]): boolean {
     return this.runners[k]!.run(symbols, out);

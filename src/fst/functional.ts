@@ -56,6 +56,104 @@ export class FunctionalRunner {
     return this.words === 0 ? 0 : this.rBits.length / this.words;
   }
 
+  private maxOut = -1;
+
+  /** Longest output one arc or one final state writes (sizes `runBatch`'s output room). */
+  private outBound(): { arc: number; final: number } {
+    let arc = 1;
+    for (let k = 0; k < this.arcOut.length; k++) {
+      const o = this.arcOut[k] as number;
+      if (o < 0 && o !== COPY) arc = Math.max(arc, this.pool[-o - 1] as number);
+    }
+    let fin = 0;
+    for (let s = 0; s < this.finalAt.length; s++) {
+      const f = this.finalAt[s] as number;
+      if (f >= 0) fin = Math.max(fin, this.pool[f] as number);
+    }
+    return { arc, final: fin };
+  }
+
+  /**
+   * Runs many entries in one call, typed arrays only (the hot path of whole-lexicon runs):
+   * entry e is input[at[e] .. at[e+1]); its output goes to out[outAt[e] .. outAt[e+1]) and ok[e]
+   * says whether it was accepted (a rejected entry writes nothing). Stops early when `out` has no
+   * room for the next entry and returns how many entries were done (the caller grows `out`).
+   */
+  runBatch(input: Int32Array, at: Int32Array, out: Int32Array, outAt: Int32Array, ok: Uint8Array, from = 0): number {
+    if (this.maxOut < 0) {
+      const b = this.outBound();
+      this.maxOut = b.arc;
+      this.maxFinal = b.final;
+    }
+    const K = this.classes;
+    const { classOf, rNext, rBits, words, rowFirst, arcTarget, arcOut, pool, finalAt, maxOut, maxFinal } = this;
+    const nc = classOf.length;
+    const entries = at.length - 1;
+    let n = outAt[from] as number;
+    let e = from;
+    for (; e < entries; e++) {
+      const a = at[e] as number;
+      const b = at[e + 1] as number;
+      const len = b - a;
+      if (n + len * maxOut + maxFinal > out.length) break;
+      if (this.sets.length < len + 1) this.sets = new Int32Array(Math.max(len + 1, this.sets.length * 2));
+      const R = this.sets;
+      let r = this.rStart;
+      let good = r >= 0;
+      if (good) {
+        R[len] = r;
+        for (let i = len - 1; i >= 0; i--) {
+          const x = input[a + i] as number;
+          const c = x > 0 && x < nc ? (classOf[x] as number) : 0;
+          r = c === 0 ? -1 : (rNext[r * K + c] as number);
+          if (r < 0) {
+            good = false;
+            break;
+          }
+          R[i] = r;
+        }
+      }
+      let s = this.start;
+      if (good && (((rBits[(R[0] as number) * words + (s >>> 5)] as number) >>> (s & 31)) & 1) === 0) good = false;
+      if (!good) {
+        ok[e] = 0;
+        outAt[e + 1] = n;
+        continue;
+      }
+      for (let i = 0; i < len; i++) {
+        const x = input[a + i] as number;
+        const idx = s * K + (classOf[x] as number);
+        let k = rowFirst[idx] as number;
+        const end = rowFirst[idx + 1] as number;
+        if (end - k > 1) {
+          const base = (R[i + 1] as number) * words;
+          while (k < end) {
+            const t = arcTarget[k] as number;
+            if ((((rBits[base + (t >>> 5)] as number) >>> (t & 31)) & 1) === 1) break;
+            k++;
+          }
+        }
+        const o = arcOut[k] as number;
+        if (o === COPY) out[n++] = x;
+        else if (o > 0) out[n++] = o;
+        else if (o < 0) {
+          const p = -o - 1;
+          const m = pool[p] as number;
+          for (let j = 1; j <= m; j++) out[n++] = pool[p + j] as number;
+        }
+        s = arcTarget[k] as number;
+      }
+      const f = finalAt[s] as number;
+      const m = pool[f] as number;
+      for (let j = 1; j <= m; j++) out[n++] = pool[f + j] as number;
+      ok[e] = 1;
+      outAt[e + 1] = n;
+    }
+    return e;
+  }
+
+  private maxFinal = 0;
+
   /** Runs `input`; appends its output to `out` and returns true, or returns false when the input is not in the domain. */
   run(input: ArrayLike<Label>, out: Label[]): boolean {
     const n = input.length;

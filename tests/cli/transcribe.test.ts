@@ -96,15 +96,17 @@ describe("strata transcribe", () => {
 });
 
 describe("strata build with worker threads (compiled CLI)", () => {
-  it("writes byte-identical outputs with 1 and 2 worker threads", () => {
-    const out1 = mkdtempSync(join(tmpdir(), "strata-w1-"));
-    const out2 = mkdtempSync(join(tmpdir(), "strata-w2-"));
-    for (const [out, n] of [[out1, "1"], [out2, "2"]] as const) {
+  it("writes byte-identical outputs with no worker thread and with 1 and 2 of them", () => {
+    const out1 = mkdtempSync(join(tmpdir(), "strata-w0-"));
+    const out2 = mkdtempSync(join(tmpdir(), "strata-w1-"));
+    const out3 = mkdtempSync(join(tmpdir(), "strata-w2-"));
+    for (const [out, n] of [[out1, "0"], [out2, "1"], [out3, "2"]] as const) {
       execFileSync(process.execPath, [CLI, "build", "lexicons/demo", "-o", out, "--cache-dir", CACHE, "--workers", n, "-q"], { cwd: ROOT, stdio: "pipe" });
     }
     for (const v of ["general", "careful"]) {
       for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls", "rejects.csv"]) {
         expect(readFileSync(join(out2, "demo", v, f), "utf8")).toBe(readFileSync(join(out1, "demo", v, f), "utf8"));
+        expect(readFileSync(join(out3, "demo", v, f), "utf8")).toBe(readFileSync(join(out1, "demo", v, f), "utf8"));
       }
     }
   }, 300_000);
