@@ -201,11 +201,11 @@ export class PreferredRunner {
 
 /** Every output of the variants cascade (sorted, distinct), at most `cap`; `capped` when some were dropped. */
 export class VariantsRunner {
-  private readonly frozen: FrozenFst[];
-  constructor(blocks: readonly Block[]) {
-    this.frozen = blocks.map((b) => freeze(b.machine));
-  }
+  private frozen: FrozenFst[] | undefined;
+  /** Frozen on first use: a cache hit that never asks for variants does not pay for freezing. */
+  constructor(private readonly blocks: readonly Block[]) {}
   run(symbols: ArrayLike<number>, cap = 16): { outputs: number[][]; capped: boolean } {
+    this.frozen ??= this.blocks.map((b) => freeze(b.machine));
     let cur: number[][] = [Array.from(symbols)];
     let capped = false;
     for (const f of this.frozen) {
