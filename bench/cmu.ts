@@ -80,22 +80,19 @@ export interface SymbolArrays {
 
 /** Encodes every word with `encode` (null: outside the alphabet, which is an error here). */
 export function packSymbols(words: readonly CmuWord[], encode: (w: readonly Sym[]) => number[] | null): SymbolArrays {
-  const parts: number[][] = [];
-  let total = 0;
-  for (const w of words) {
+  return packArrays(words.map((w) => {
     const ids = encode(w.syms);
     if (ids === null) throw new Error(`${w.word} (line ${w.line}): a segment outside the compiled alphabet`);
-    parts.push(ids);
-    total += ids.length;
-  }
-  const ids = new Int32Array(total);
+    return ids;
+  }));
+}
+
+/** Concatenates symbol arrays into one Int32Array with entry offsets and a view per entry. */
+export function packArrays(parts: readonly ArrayLike<number>[]): SymbolArrays {
   const at = new Int32Array(parts.length + 1);
-  let k = 0;
-  parts.forEach((p, i) => {
-    ids.set(p, k);
-    k += p.length;
-    at[i + 1] = k;
-  });
+  parts.forEach((p, i) => (at[i + 1] = at[i]! + p.length));
+  const ids = new Int32Array(at[parts.length]!);
+  parts.forEach((p, i) => ids.set(p, at[i]!));
   const views = parts.map((_, i) => ids.subarray(at[i]!, at[i + 1]!));
   return { ids, at, views };
 }

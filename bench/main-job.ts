@@ -14,7 +14,7 @@ import { compileGrammar, type Compiled } from "../src/compile/index.js";
 import { formatDiagnostic } from "../src/diagnostics.js";
 import { applyGrammar, prepareGrammar, type PreparedGrammar } from "../src/interp/index.js";
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
-import { packSymbols, packageRootFrom, readCmuWords, writeCmuFolder, type CmuWord, type SymbolArrays } from "./cmu.js";
+import { packArrays, packSymbols, packageRootFrom, readCmuWords, writeCmuFolder, type CmuWord, type SymbolArrays } from "./cmu.js";
 import { regexCascade } from "./regex-cascade.js";
 import { SUBSET_RULES, prosodyGrammar, subsetGrammar } from "./subset.js";
 import { randomDfa, walk } from "./table-walk.js";
@@ -102,17 +102,7 @@ function checkAgainstInterpreter(c: Compiled, prepared: PreparedGrammar, inv: In
 }
 
 function sub(arrays: SymbolArrays, idx: readonly number[]): SymbolArrays {
-  const views = idx.map((k) => arrays.views[k]!);
-  const total = views.reduce((n, v) => n + v.length, 0);
-  const ids = new Int32Array(total);
-  const at = new Int32Array(views.length + 1);
-  let p = 0;
-  views.forEach((v, i) => {
-    ids.set(v, p);
-    p += v.length;
-    at[i + 1] = p;
-  });
-  return { ids, at, views: views.map((_, i) => ids.subarray(at[i]!, at[i + 1]!)) };
+  return packArrays(idx.map((k) => arrays.views[k]!));
 }
 
 function machineInfo(): { cpus: number; cpu: string; node: string; memory: string } {
