@@ -100,6 +100,23 @@ describe("strata build on the shipped demo", () => {
   });
 });
 
+describe("strata build --check", () => {
+  it("compares the first entries with the reference interpreter and passes on the demo", async () => {
+    const out = join(CACHE_OUT, "demo-check");
+    const printed: string[] = [];
+    stdout.mockImplementation((chunk: unknown) => {
+      printed.push(String(chunk));
+      return true;
+    });
+    try {
+      expect(await runBuild(DEMO, { ...quietOpts(out), check: 40 })).toBe(0);
+    } finally {
+      stdout.mockImplementation(() => true);
+    }
+    expect(printed.join("")).toContain("check: 40 entries compared with the reference interpreter, 0 differ");
+  });
+});
+
 describe("compiled machines against the reference interpreter on the demo lexicon", () => {
   it.each(["grammar", "careful"])("en-us %s: same narrow form, variants and broad form for every entry", async (name) => {
     const loaded = loadEngine(join(ROOT, "lexicons", "en-us", `${name}.strata`), { cacheDir: SHARED_CACHE });
