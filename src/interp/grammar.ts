@@ -163,6 +163,13 @@ export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory,
         else if (entry.preferred && !prior.preferred) next.set(key, { ...prior, preferred: true });
         if (r.preferred) preferredKey = key;
       }
+      // Memory stays bounded (max variants × max outputs each could be millions of words): only
+      // the preferred word and the `max` smallest keys can survive the cut below, so drop the rest now.
+      if (next.size > 2 * max) {
+        capped = true;
+        const smallest = new Set([...next.keys()].filter((k) => k !== preferredKey).sort().slice(0, max));
+        for (const k of [...next.keys()]) if (k !== preferredKey && !smallest.has(k)) next.delete(k);
+      }
     }
     trace.push({ step: step.name, changed });
     const keys = [...next.keys()].sort();
