@@ -2,7 +2,7 @@
 // line (times, cache state, machine sizes). Run apart from the bench so its peak memory is its own.
 // Usage: node dist/bench/child-compile.js GRAMMAR CACHE_DIR [subset|prosody|full]
 
-import { loadGrammar } from "../src/grammar/index.js";
+import { loadGrammarCached } from "../src/grammar/index.js";
 import { compileGrammar } from "../src/compile/index.js";
 import { formatDiagnostic } from "../src/diagnostics.js";
 import { prosodyGrammar, subsetGrammar } from "./subset.js";
@@ -13,7 +13,8 @@ if (grammarPath === undefined || cacheDir === undefined) {
   process.exit(2);
 }
 const t0 = performance.now();
-const loaded = loadGrammar(grammarPath);
+// The same loading path as `strata build` with a cache folder (checked grammars are cached too).
+const loaded = loadGrammarCached(grammarPath, cacheDir);
 if (loaded.grammar === undefined || loaded.inventory === undefined || loaded.diagnostics.some((d) => d.severity === "error")) {
   process.stderr.write(loaded.diagnostics.map(formatDiagnostic).join("\n") + "\n");
   process.exit(1);

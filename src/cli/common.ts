@@ -6,7 +6,7 @@ import { dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
 import pc from "picocolors";
 import { renderDiagnostic, type Diagnostic } from "../diagnostics.js";
-import { loadGrammar } from "../grammar/index.js";
+import { loadGrammar, loadGrammarCached } from "../grammar/index.js";
 import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import type { Engine } from "../lexicon/engine.js";
@@ -69,7 +69,7 @@ export function loadEngine(
   path: string,
   opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean } = {},
 ): LoadedEngine | { readonly diagnostics: readonly Diagnostic[] } {
-  const g = loadGrammar(path);
+  const g = opts.cacheDir !== undefined ? loadGrammarCached(path, opts.cacheDir) : loadGrammar(path);
   if (g.grammar === undefined || g.inventory === undefined || g.diagnostics.some((d) => d.severity === "error")) {
     return { diagnostics: g.diagnostics };
   }

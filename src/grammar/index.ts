@@ -5,4 +5,5 @@ export type * from "./ast.js";
 export { parseGrammarText, STATEMENT_KEYWORDS, PROSODIC_CONDITIONS, elementText, specText, patternSpan } from "./parser.js";
 export { loadGrammar, splitLiterals, GRAMMAR_FILE, type LoadedGrammar } from "./load.js";
 export { checkGrammar } from "./check.js";
+export { loadGrammarCached } from "./cache.js";
 export { desugar, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";

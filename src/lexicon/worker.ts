@@ -2,7 +2,7 @@
 // main thread has just filled) and transcribes batches of encoded words, in the order received.
 
 import { parentPort, workerData } from "node:worker_threads";
-import { loadGrammar } from "../grammar/index.js";
+import { loadGrammar, loadGrammarCached } from "../grammar/index.js";
 import { machineEngine } from "./engine-machine.js";
 import type { Transcription } from "./engine.js";
 
@@ -29,7 +29,7 @@ export type WorkerReply =
 
 const setup = workerData as WorkerSetup;
 const port = parentPort!;
-const g = loadGrammar(setup.grammar);
+const g = setup.cacheDir !== undefined ? loadGrammarCached(setup.grammar, setup.cacheDir) : loadGrammar(setup.grammar);
 const built = g.grammar !== undefined && g.inventory !== undefined
   ? machineEngine(g.grammar, g.inventory, {
     ...(setup.cacheDir !== undefined ? { cacheDir: setup.cacheDir } : {}),

@@ -1,0 +1,68 @@
+// The checked-grammar cache: a hit gives the same grammar as loading afresh; any change to a
+// grammar file, an included file or the inventory is seen; a broken entry or a grammar with
+// errors never comes from the cache.
+
+import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync, appendFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
+import { describe, expect, it } from "vitest";
+import { loadGrammar, loadGrammarCached } from "../../src/grammar/index.js";
+
+const EN_US = resolve(__dirname, "../../lexicons/en-us");
+
+/** A private copy of the shipped en-us folder and an empty cache folder. */
+function copy(): { dir: string; cache: string } {
+  const dir = mkdtempSync(join(tmpdir(), "strata-gcache-"));
+  cpSync(EN_US, dir, { recursive: true });
+  return { dir, cache: join(dir, ".cache") };
+}
+
+const indexFiles = (cache: string) => readdirSync(cache).filter((f) => f.startsWith("grammar-"));
+
+describe("loadGrammarCached", () => {
+  it("a hit gives the grammar and inventory that loading afresh gives", () => {
+    const { dir, cache } = copy();
+    const fresh = loadGrammar(join(dir, "grammar.strata"));
+    const first = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(indexFiles(cache).length).toBe(1);
+    const hit = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(JSON.parse(JSON.stringify(hit.grammar))).toEqual(JSON.parse(JSON.stringify(fresh.grammar)));
+    expect(hit.grammar).toEqual(first.grammar);
+    expect(hit.inventory!.segments).toEqual(fresh.inventory!.segments);
+    expect(hit.diagnostics).toEqual(fresh.diagnostics);
+  });
+
+  it("sees a change in an included file", () => {
+    const { dir, cache } = copy();
+    loadGrammarCached(join(dir, "grammar.strata"), cache);
+    appendFileSync(join(dir, "coarticulation.strata"), "\nrule extra-rule:\n  ʔ -> t / _ #\n");
+    const again = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(again.grammar!.steps.map((s) => s.name)).toContain("extra-rule");
+  });
+
+  it("sees a change in the inventory", () => {
+    const { dir, cache } = copy();
+    const before = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    const csv = readFileSync(join(dir, "segments.csv"), "utf8").split("\n");
+    // Drop the last segment row (keep the header and comments).
+    const last = csv.map((l, i) => [l, i] as const).filter(([l]) => l.trim() !== "" && !l.startsWith("#")).pop()![1];
+    writeFileSync(join(dir, "segments.csv"), csv.filter((_, i) => i !== last).join("\n"));
+    const after = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(after.inventory?.segments.length ?? 0).not.toBe(before.inventory!.segments.length);
+  });
+
+  it("ignores a broken entry, and never caches a grammar with errors", () => {
+    const { dir, cache } = copy();
+    loadGrammarCached(join(dir, "grammar.strata"), cache);
+    writeFileSync(join(cache, indexFiles(cache)[0]!), "{ not json");
+    expect(loadGrammarCached(join(dir, "grammar.strata"), cache).grammar?.steps.length).toBeGreaterThan(5);
+
+    const bad = copy();
+    writeFileSync(join(bad.dir, "broken.strata"), 'inventory "segments.csv"\nrule oops:\n  [+nosuchfeature] -> [-voice]\n');
+    const r1 = loadGrammarCached(join(bad.dir, "broken.strata"), bad.cache);
+    expect(r1.diagnostics.some((d) => d.severity === "error")).toBe(true);
+    const r2 = loadGrammarCached(join(bad.dir, "broken.strata"), bad.cache);
+    expect(r2.diagnostics).toEqual(r1.diagnostics);
+    expect(existsSync(bad.cache) ? indexFiles(bad.cache) : []).toEqual([]);
+  });
+});
