@@ -3,11 +3,10 @@
 
 import type { Command } from "commander";
 import { formatDiagnostic } from "../diagnostics.js";
-import { formatJsonLine } from "../emit/jsonl.js";
 import { plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
-import { transcribeRow } from "../lexicon/runner.js";
+import { entryJsonLine, entryPhonemes, transcribeRow } from "../lexicon/runner.js";
 import { grammarPath, loadEngine, positiveInt, printDiagnostics, type EngineKind } from "./common.js";
 import { Channel } from "../lexicon/channel.js";
 
@@ -67,9 +66,9 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
       }
       entries++;
       if (o.format === "tsv") await write(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-      else if (o.format === "jsonl") await write(formatJsonLine({ word: r.word, ...(r.id !== undefined ? { id: r.id } : {}), narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, source: { file: r.file, line: r.line } }));
+      else if (o.format === "jsonl") await write(entryJsonLine(r));
       else {
-        const mine = [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+        const mine = entryPhonemes(r);
         if (pending !== undefined && pending.word === r.word) {
           for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
         } else {

@@ -58,6 +58,13 @@ function outsideAlphabet(row: LexiconRow): RejectedRow {
   };
 }
 
+/** One entry as a JSON Lines record. */
+export const entryJsonLine = (r: EntryResult): string =>
+  formatJsonLine({ word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line } });
+
+/** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
+export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+
 /** Words per batch sent to a worker thread. */
 const BATCH = 1024;
 
@@ -116,10 +123,10 @@ export async function runLexicon(
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
     tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-    jsonl?.push(formatJsonLine({ word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line } }));
+    jsonl?.push(entryJsonLine(r));
     if (formats.has("pls")) {
       const lx = lexemes.get(r.word);
-      const mine = [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+      const mine = entryPhonemes(r);
       if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
       else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
     }
