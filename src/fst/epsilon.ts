@@ -3,7 +3,7 @@
 // that determinisation, the functionality test and the functional runner work on.
 
 import { coaccessible, trim } from "./basic.js";
-import { EPSILON, Fst, type Label } from "./fst.js";
+import { EPSILON, Fst, expandFinalOutputs, type Label } from "./fst.js";
 
 /**
  * Removes arcs labelled ε:ε. For each state p, every arc leaving a state of p's ε:ε-closure is
@@ -13,7 +13,8 @@ import { EPSILON, Fst, type Label } from "./fst.js";
  * `expandFinalOutputs` should be applied beforehand (removeEpsilon does this itself).
  */
 export function removeEpsilon(fst: Fst): Fst {
-  const m = fst.hasFinalOutputs() ? expandForClosure(fst) : fst;
+  // Final outputs become ε-input chains so that closure merging cannot lose one.
+  const m = expandFinalOutputs(fst);
   const n = m.numStates;
   const r = new Fst();
   if (n === 0) {
@@ -49,28 +50,6 @@ export function removeEpsilon(fst: Fst): Fst {
     if (final) r.setFinal(p);
   }
   return trim(r);
-}
-
-/** Final outputs become ε-input chains so that closure merging cannot lose one. */
-function expandForClosure(fst: Fst): Fst {
-  const r = fst.clone();
-  let sink = -1;
-  for (let s = 0; s < fst.numStates; s++) {
-    const out = fst.finalOutput(s);
-    if (out === undefined || out.length === 0) continue;
-    if (sink < 0) {
-      sink = r.addState();
-      r.setFinal(sink);
-    }
-    r.clearFinal(s);
-    let p = s;
-    out.forEach((l, k) => {
-      const q = k === out.length - 1 ? sink : r.addState();
-      r.addArc(p, EPSILON, l, q);
-      p = q;
-    });
-  }
-  return r;
 }
 
 /** An arc of the string-output form: reads one real symbol, writes a string. */
