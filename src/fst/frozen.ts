@@ -1,6 +1,7 @@
 // Frozen machines for hot paths: a general typed-array form (compressed sparse rows) that
 // returns every output of an input, and a dense-table runner for sequential machines.
 
+import { sortedArcs } from "./compose.js";
 import { removeInputEpsilons, type StrArc, type StrMachine } from "./epsilon.js";
 import { EPSILON, Fst, FstError, type Label } from "./fst.js";
 import { isSequential } from "./minimise.js";
@@ -123,24 +124,11 @@ export class FrozenFst {
 /** The compressed-sparse-row form of any machine. */
 export function freeze(fst: Fst): FrozenFst {
   const n = fst.numStates;
-  const first = new Int32Array(n + 1);
-  for (let s = 0; s < n; s++) first[s + 1] = (first[s] as number) + fst.arcs(s).length;
-  const m = first[n] as number;
-  const input = new Int32Array(m);
-  const output = new Int32Array(m);
-  const target = new Int32Array(m);
+  const { first, input, output, target } = sortedArcs(fst, "input");
   const isFinal = new Uint8Array(n);
   const finalFirst = new Int32Array(n + 1);
   const finalLabels: number[] = [];
   for (let s = 0; s < n; s++) {
-    const list = fst.arcs(s).slice().sort((a, b) => a.input - b.input || a.output - b.output || a.target - b.target);
-    let k = first[s] as number;
-    for (const a of list) {
-      input[k] = a.input;
-      output[k] = a.output;
-      target[k] = a.target;
-      k++;
-    }
     const f = fst.finalOutput(s);
     if (f !== undefined) {
       isFinal[s] = 1;
