@@ -32,7 +32,7 @@ for await (const item of readLexicon(csv, { inventory: loaded.inventory })) {
     continue;
   }
   rows++;
-  ch.push(formatTsvEntry({ word: item.word, narrow: item.pron, broad: item.pron }));
+  ch.push(formatTsvEntry({ key: item.id ?? item.word, word: item.word, narrow: item.pron, broad: item.pron }));
   if (ch.backlog > 4096) await new Promise((res) => setImmediate(res));
 }
 ch.close();

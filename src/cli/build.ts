@@ -2,7 +2,7 @@
 // through each, write TSV, JSON Lines, PLS, rejects and a summary under build/<lexicon>/<variety>/.
 
 import { createReadStream, readFileSync } from "node:fs";
-import { join, relative, resolve } from "node:path";
+import { dirname, join, relative, resolve } from "node:path";
 import type { Command } from "commander";
 import cliProgress from "cli-progress";
 import pc from "picocolors";
@@ -13,6 +13,7 @@ import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
 import { availableParallelism } from "node:os";
+import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from "../regress/record.js";
 
 interface BuildOptions {
   out: string;
@@ -70,6 +71,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   let failed = false;
   let rejected = false;
   const summaries: RunSummary[] = [];
+  const records: VarietyRecord[] = [];
   for (const variety of manifest.varieties) {
     const t0 = performance.now();
     const loaded = loadEngine(variety.grammar, { kind: o.engine, syllables: o.syllableBreaks, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
@@ -78,6 +80,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       failed = true;
       continue;
     }
+    records.push(varietyRecord(dirname(manifest.file), variety, loaded.grammar));
     const compileMs = performance.now() - t0;
     const outDir = join(outRoot, manifest.name, variety.name);
     const bar = tty ? new cliProgress.SingleBar({ format: `${variety.name.padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
@@ -112,6 +115,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       if (res.mismatches.length > 0) failed = true;
     }
   }
+  if (!failed) await writeBuildRecord(join(outRoot, manifest.name), buildRecord(manifest, records));
   if (rejected) {
     const n = summaries.reduce((k, s) => k + s.rowsRejected, 0);
     const msg = `${n} row(s) rejected (see rejects.csv in each variety's folder)`;

@@ -7,6 +7,7 @@ import { plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
 import { entryJsonLine, entryPhonemes, transcribeRow } from "../lexicon/runner.js";
+import { EntryKeys } from "../lexicon/keys.js";
 import { grammarPath, loadEngine, positiveInt, printDiagnostics, type EngineKind } from "./common.js";
 import { Channel } from "../lexicon/channel.js";
 
@@ -56,16 +57,17 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     pending = undefined;
   };
   if (o.format === "tsv") await write(tsvHeader());
+  const keys = new EntryKeys();
   try {
     for await (const item of reader) {
-      const r = item.kind === "row" ? transcribeRow(loaded.engine, item) : item;
+      const r = item.kind === "row" ? transcribeRow(loaded.engine, item, keys.next(item.word, item.id)) : item;
       if (r.kind === "reject") {
         rejects++;
         process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
         continue;
       }
       entries++;
-      if (o.format === "tsv") await write(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
+      if (o.format === "tsv") await write(formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }));
       else if (o.format === "jsonl") await write(entryJsonLine(r));
       else {
         const mine = entryPhonemes(r);

@@ -3,6 +3,8 @@
 
 /** One output record. */
 export interface JsonlEntry {
+  /** The entry key (the `id` column, or word#index): what comparisons match entries by. */
+  readonly key?: string;
   readonly word: string;
   /** The narrow IPA of the preferred variant. */
   readonly narrow: string;
@@ -16,23 +18,34 @@ export interface JsonlEntry {
   readonly id?: string;
   /** Where the pronunciation came from in the input lexicon. */
   readonly source?: { readonly file: string; readonly line: number };
+  /** The preferred variant step by step: each step that changed it and the narrow form after it. */
+  readonly derivation?: readonly { readonly step: string; readonly form: string }[];
+  /** Parallel to `variants`: the steps that changed each variant. */
+  readonly variantSteps?: readonly (readonly string[])[];
+  /** The input row as read: pronunciation as written, part of speech (when given), tags. */
+  readonly input?: { readonly pron: string; readonly pos?: string; readonly tags: readonly string[] };
 }
 
 /**
  * One entry as one LF-terminated line of JSON (RFC 8259).
- * Invariants: keys appear in the order word, id, narrow, broad, variants, rules, source (absent
- * optional keys are left out, never written as null); JSON.stringify escapes control characters
+ * Invariants: keys appear in the order key, word, narrow, broad, variants, rules, id, source,
+ * derivation, variantSteps, input (absent optional keys are left out, never written as null); JSON.stringify escapes control characters
  * and writes lone surrogates as \u escapes (ECMAScript 2019 well-formed JSON.stringify), and we
  * also escape U+2028/U+2029 (valid raw in JSON, but line breaks to many line readers), so the line
  * never contains a raw line break.
  */
 export function formatJsonLine(e: JsonlEntry): string {
-  const o: Record<string, unknown> = { word: e.word };
-  if (e.id !== undefined) o["id"] = e.id;
+  const o: Record<string, unknown> = {};
+  if (e.key !== undefined) o["key"] = e.key;
+  o["word"] = e.word;
   o["narrow"] = e.narrow;
   o["broad"] = e.broad;
   o["variants"] = [...e.variants];
   o["rules"] = [...e.rules];
+  if (e.id !== undefined) o["id"] = e.id;
   if (e.source !== undefined) o["source"] = { file: e.source.file, line: e.source.line };
+  if (e.derivation !== undefined) o["derivation"] = e.derivation.map((d) => ({ step: d.step, form: d.form }));
+  if (e.variantSteps !== undefined) o["variantSteps"] = e.variantSteps.map((s) => [...s]);
+  if (e.input !== undefined) o["input"] = { pron: e.input.pron, ...(e.input.pos !== undefined ? { pos: e.input.pos } : {}), tags: [...e.input.tags] };
   return JSON.stringify(o).replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";
 }

@@ -3,6 +3,8 @@
 
 /** One output line of the TSV file. */
 export interface TsvEntry {
+  /** The entry key (the `id` column, or word#index). */
+  readonly key: string;
   /** The spelling, NFC. */
   readonly word: string;
   /** Narrow IPA with stress marks and syllable dots (what the IPA writer produced). */
@@ -11,7 +13,7 @@ export interface TsvEntry {
   readonly broad: string;
 }
 
-export const TSV_COLUMNS = ["word", "narrow", "broad"] as const;
+export const TSV_COLUMNS = ["key", "word", "narrow", "broad"] as const;
 
 /**
  * Escapes one field deterministically and reversibly:
@@ -41,5 +43,5 @@ export function tsvLine(fields: readonly string[]): string {
 
 /** One entry as one LF-terminated line, columns in `TSV_COLUMNS` order. */
 export function formatTsvEntry(e: TsvEntry): string {
-  return tsvLine([e.word, e.narrow, e.broad]);
+  return tsvLine([e.key, e.word, e.narrow, e.broad]);
 }

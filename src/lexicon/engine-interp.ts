@@ -5,6 +5,7 @@ import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import { applyGrammar, prepareGrammar, symsToIpa, WORD_EDGE, wordKey, type PreparedGrammar, type Word } from "../interp/index.js";
 import type { Engine, Transcription } from "./engine.js";
+import type { DerivationStep } from "./derivation.js";
 
 /** The grammar with only its syllabify and stress steps: what the broad (syllabified) column shows. */
 export function prosodyOnly(grammar: Grammar): Grammar {
@@ -30,7 +31,21 @@ export class InterpreterEngine implements Engine {
     const prefKey = wordKey(run.preferred);
     const preferred = run.variants.find((v) => wordKey(v.word) === prefKey);
     const narrow = ipa(run.preferred);
-    const variants = [narrow, ...run.outputs.filter((w) => wordKey(w) !== prefKey).map(ipa)];
-    return { narrow, broad: ipa(broadRun.preferred), variants, rules: preferred?.changedBy ?? [] };
+    const others = run.variants.filter((v) => wordKey(v.word) !== prefKey);
+    const variants = [narrow, ...others.map((v) => ipa(v.word))];
+    const rules = preferred?.changedBy ?? [];
+    return { narrow, broad: ipa(broadRun.preferred), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)] };
+  }
+
+  /** The preferred word step by step: each step of the prepared grammar alone, on the previous step's preferred output. */
+  derivation(word: Word): DerivationStep[] {
+    const out: DerivationStep[] = [];
+    let cur = word;
+    for (const step of this.full.steps) {
+      const next = applyGrammar({ ...this.full, steps: [step] }, this.inventory, cur, { maxVariants: this.maxVariants }).preferred;
+      if (wordKey(next) !== wordKey(cur)) out.push({ step: step.name, form: symsToIpa(next, this.inventory, { syllables: this.syllables }) });
+      cur = next;
+    }
+    return out;
   }
 }

@@ -10,6 +10,7 @@ import { compileGrammar, type Compiled } from "../compile/index.js";
 import type { Engine, Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type SymbolView } from "./render.js";
+import { preferredDerivation, VariantTracer } from "./derivation.js";
 
 export interface MachineEngineOptions {
   /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
@@ -77,30 +78,25 @@ export class MachineEngine implements Engine {
       const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view, this.render));
       variants = [narrow, ...[...new Set(all)].filter((v) => v !== narrow)];
     }
-    return { narrow, broad: broadText, variants, rules: this.blame(ids) };
-  }
-
-  /** Steps whose own machine changed the (preferred) word, in order (one block per step). */
-  private blame(ids: number[]): string[] {
+    // Blame and derivation: the one-step-per-block compilation, step by step.
     const sw = this.stepwise;
-    if (sw === null) return [];
-    const changed: string[] = [];
-    let cur: number[] = ids;
-    const blocks = sw.preferredBlocks;
-    for (let k = 0; k < blocks.length; k++) {
-      const next: number[] = [];
-      if (!sw.preferred.runBlock(k, cur, next)) break;
-      if (!sameIds(cur, next)) changed.push(this.steps[blocks[k]!.from]!);
-      cur = next;
+    if (sw === null) return { narrow, broad: broadText, variants, rules: [], derivation: [], variantSteps: variants.map(() => []) };
+    const { rules, derivation } = preferredDerivation(sw, this.steps, ids, this.view, this.render);
+    let variantSteps: string[][] = [rules];
+    if (variants.length > 1) {
+      this.tracer ??= new VariantTracer(sw, this.steps);
+      const byText = new Map<string, string[]>();
+      for (const [key, steps] of this.tracer.run(ids, this.maxVariants)) {
+        const text = renderIpa(key.split(",").map(Number), this.view, this.render);
+        if (!byText.has(text)) byText.set(text, steps);
+      }
+      // A variant the traced run dropped at its cap (more than maxVariants on the way) gets no steps.
+      variantSteps = variants.map((v, i) => (i === 0 ? rules : byText.get(v) ?? []));
     }
-    return changed;
+    return { narrow, broad: broadText, variants, rules, derivation, variantSteps };
   }
-}
 
-function sameIds(a: readonly number[], b: readonly number[]): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
+  private tracer: VariantTracer | undefined;
 }
 
 /** Compiles (or reads from the cache) everything the machine engine needs for one grammar. */

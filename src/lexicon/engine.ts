@@ -2,12 +2,15 @@
 // preferred narrow IPA, the syllabified broad form, every variant and the steps that changed it out.
 
 import type { Word } from "../interp/types.js";
+import type { DerivationStep } from "./derivation.js";
 
 export interface EntryResult {
   readonly kind: "entry";
   readonly file: string;
   readonly line: number;
   readonly word: string;
+  /** The entry key: the `id` column when present, else word + '#' + its 1-based pronunciation index (keys.ts). */
+  readonly key: string;
   readonly id?: string;
   /** Narrow IPA of the preferred variant. */
   readonly narrow: string;
@@ -17,6 +20,18 @@ export interface EntryResult {
   readonly variants: readonly string[];
   /** Names of the steps that changed the preferred variant, in grammar order. */
   readonly rules: readonly string[];
+  /** For the preferred variant: each step that changed it, with the narrow form after that step. */
+  readonly derivation: readonly DerivationStep[];
+  /** Parallel to `variants`: the steps that changed each variant. */
+  readonly variantSteps: readonly (readonly string[])[];
+  /** The input row as read (pronunciation as written, part of speech, tags): what a comparison calls the input. */
+  readonly input: EntryInput;
+}
+
+export interface EntryInput {
+  readonly pron: string;
+  readonly pos?: string;
+  readonly tags: readonly string[];
 }
 
 export interface Transcription {
@@ -24,6 +39,8 @@ export interface Transcription {
   readonly broad: string;
   readonly variants: readonly string[];
   readonly rules: readonly string[];
+  readonly derivation: readonly DerivationStep[];
+  readonly variantSteps: readonly (readonly string[])[];
 }
 
 export interface Engine {

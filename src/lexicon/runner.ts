@@ -13,6 +13,7 @@ import type { Engine, EntryResult, Transcription } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
+import { EntryKeys } from "./keys.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
@@ -60,7 +61,13 @@ function outsideAlphabet(row: LexiconRow): RejectedRow {
 
 /** One entry as a JSON Lines record. */
 export const entryJsonLine = (r: EntryResult): string =>
-  formatJsonLine({ word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line } });
+  formatJsonLine({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line }, derivation: r.derivation, variantSteps: r.variantSteps, input: r.input });
+
+/** A read row and its transcription as one entry. */
+const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult => ({
+  kind: "entry", file: row.file, line: row.line, word: row.word, key, ...(row.id !== undefined ? { id: row.id } : {}), ...t,
+  input: { pron: row.pron, ...(row.pos !== undefined ? { pos: row.pos } : {}), tags: row.tags },
+});
 
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
 export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
@@ -68,10 +75,11 @@ export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.varia
 /** Words per batch sent to a worker thread. */
 const BATCH = 1024;
 
-export function transcribeRow(engine: Engine, row: LexiconRow): EntryResult | RejectedRow {
+/** `key`: the entry key (see keys.ts; an EntryKeys gives them in file order). */
+export function transcribeRow(engine: Engine, row: LexiconRow, key: string): EntryResult | RejectedRow {
   const t = engine.transcribeWord(row.symbols);
   if (t === undefined) return outsideAlphabet(row);
-  return { kind: "entry", file: row.file, line: row.line, word: row.word, ...(row.id !== undefined ? { id: row.id } : {}), ...t };
+  return entryOf(row, key, t);
 }
 
 /**
@@ -122,7 +130,7 @@ export async function runLexicon(
     if (r.variants.length > 1) withVariants++;
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
-    tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
+    tsv?.push(formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }));
     jsonl?.push(entryJsonLine(r));
     if (formats.has("pls")) {
       const lx = lexemes.get(r.word);
@@ -134,18 +142,20 @@ export async function runLexicon(
     if ((tsv?.backlog ?? 0) > 4096 || (jsonl?.backlog ?? 0) > 4096) await new Promise((res) => setImmediate(res));
   };
   const pool = opts.pool;
+  const keys = new EntryKeys();
   try {
     if (pool === undefined || !(engine instanceof MachineEngine)) {
       for await (const item of reader) {
         seen++;
         if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
-        await emit(item.kind === "row" ? transcribeRow(engine, item) : item);
+        await emit(item.kind === "row" ? transcribeRow(engine, item, keys.next(item.word, item.id)) : item);
       }
     } else {
       // Batches in flight on the workers, emitted strictly in submission order.
       const queue: { items: (LexiconRow | RejectedRow)[]; done: Promise<(Transcription | null)[]> }[] = [];
       let items: (LexiconRow | RejectedRow)[] = [];
       let words: { ids: number[]; bids: number[] }[] = [];
+      const rowKeys = new Map<LexiconRow, string>();
       const drainOne = async (): Promise<void> => {
         const head = queue.shift()!;
         const results = await head.done;
@@ -156,7 +166,9 @@ export async function runLexicon(
             continue;
           }
           const t = results[k++];
-          await emit(t === null || t === undefined ? outsideAlphabet(item) : { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t });
+          const key = rowKeys.get(item)!;
+          rowKeys.delete(item);
+          await emit(t === null || t === undefined ? outsideAlphabet(item) : entryOf(item, key, t));
         }
       };
       const submit = (): void => {
@@ -168,12 +180,14 @@ export async function runLexicon(
         seen++;
         if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
         if (item.kind === "row") {
+          const key = keys.next(item.word, item.id);
           const e = engine.encode(item.symbols);
           if (e === undefined) {
             items.push(outsideAlphabet(item));
             continue;
           }
           words.push(e);
+          rowKeys.set(item, key);
         }
         items.push(item);
         if (words.length >= BATCH) submit();

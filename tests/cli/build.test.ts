@@ -65,7 +65,7 @@ describe("strata build on the shipped demo", () => {
       expect(summary.rowsRead).toBe(dataLines(csv));
       expect(summary.entriesWritten + summary.rowsRejected).toBe(summary.rowsRead);
       const tsv = readFileSync(join(out, "demo", v, "lexicon.tsv"), "utf8").trimEnd().split("\n");
-      expect(tsv[0]).toBe("word\tnarrow\tbroad");
+      expect(tsv[0]).toBe("key\tword\tnarrow\tbroad");
       expect(tsv.length - 1).toBe(summary.entriesWritten);
       const jsonl = readFileSync(join(out, "demo", v, "lexicon.jsonl"), "utf8").trimEnd().split("\n").map((l) => JSON.parse(l));
       expect(jsonl.length).toBe(summary.entriesWritten);
@@ -150,8 +150,8 @@ describe("rejects", () => {
     const rejects = readFileSync(join(base, "rejects.csv"), "utf8").trimEnd().split("\n");
     expect(rejects.length).toBe(4);
     expect(rejects.slice(1).map((l) => l.split(",")[1])).toEqual(["4", "5", "6"]);
-    expect(readFileSync(join(base, "lexicon.tsv"), "utf8")).toMatch(/^brindle\t/m);
-    expect(readFileSync(join(base, "lexicon.tsv"), "utf8")).toMatch(/^tallow\t/m);
+    expect(readFileSync(join(base, "lexicon.tsv"), "utf8")).toMatch(/^r1\tbrindle\t/m);
+    expect(readFileSync(join(base, "lexicon.tsv"), "utf8")).toMatch(/^r5\ttallow\t/m);
     expect(await runBuild(dir, { ...quietOpts(out), allowRejects: true })).toBe(0);
   });
 

@@ -50,8 +50,8 @@ describe("strata transcribe", () => {
     // of the following record), so feed a second row and wait for the first transcription.
     child.stdin.write("pinwheel,ˈpɪnwil\n");
     await gotLines(2);
-    expect(lines[0]).toBe("word\tnarrow\tbroad");
-    expect(lines[1]!.startsWith("kettle\t")).toBe(true);
+    expect(lines[0]).toBe("key\tword\tnarrow\tbroad");
+    expect(lines[1]!.startsWith("kettle#1\tkettle\t")).toBe(true);
     child.stdin.end("tundra,ˈtʌndɹə\n");
     await new Promise((res) => child.on("close", res));
     expect(lines.length).toBe(4);
@@ -61,10 +61,10 @@ describe("strata transcribe", () => {
     const input = "word,pron\ncatalog,ˈkætəlɔɡ\n";
     const dotted = run([...G], input).stdout.trim().split("\n")[1]!.split("\t");
     const plain = run([...G, "--no-syllable-breaks"], input).stdout.trim().split("\n")[1]!.split("\t");
-    expect(dotted[1]).toContain(".");
-    expect(plain[1]).not.toContain(".");
-    expect(plain[1]).toBe(dotted[1]!.replace(/\./g, ""));
-    expect(plain[1]!.startsWith("ˈ")).toBe(true);
+    expect(dotted[2]).toContain(".");
+    expect(plain[2]).not.toContain(".");
+    expect(plain[2]).toBe(dotted[2]!.replace(/\./g, ""));
+    expect(plain[2]!.startsWith("ˈ")).toBe(true);
   });
 
   it("writes JSON Lines with variants and the rules that applied", () => {

@@ -9,8 +9,8 @@ import { csvField, csvLine } from "../../src/emit/csv.js";
 
 describe("TSV", () => {
   it("writes word, narrow and broad in that order under a header", () => {
-    expect(tsvHeader()).toBe("word\tnarrow\tbroad\n");
-    expect(formatTsvEntry({ word: "Sallowmede", narrow: "ˈsæ.ɫoʊ.ˌmid", broad: "ˈsæ.loʊ.ˌmid" })).toBe("Sallowmede\tˈsæ.ɫoʊ.ˌmid\tˈsæ.loʊ.ˌmid\n");
+    expect(tsvHeader()).toBe("key\tword\tnarrow\tbroad\n");
+    expect(formatTsvEntry({ key: "ct0200", word: "Sallowmede", narrow: "ˈsæ.ɫoʊ.ˌmid", broad: "ˈsæ.loʊ.ˌmid" })).toBe("ct0200\tSallowmede\tˈsæ.ɫoʊ.ˌmid\tˈsæ.loʊ.ˌmid\n");
   });
 
   it("escapes tab, line feed, carriage return and backslash", () => {
@@ -36,8 +36,10 @@ describe("JSON Lines", () => {
   it("writes keys in a fixed order, leaving out absent optional ones", () => {
     const line = formatJsonLine({ rules: ["flap"], variants: ["ˈwɔ.ɾɚ", "ˈwɔ.tɚ"], broad: "ˈwɔ.tɚ", narrow: "ˈwɔ.ɾɚ", word: "water" });
     expect(line).toBe('{"word":"water","narrow":"ˈwɔ.ɾɚ","broad":"ˈwɔ.tɚ","variants":["ˈwɔ.ɾɚ","ˈwɔ.tɚ"],"rules":["flap"]}\n');
-    const withAll = formatJsonLine({ word: "w", id: "7", narrow: "n", broad: "b", variants: [], rules: [], source: { file: "demo.csv", line: 3 } });
-    expect(Object.keys(JSON.parse(withAll) as object)).toEqual(["word", "id", "narrow", "broad", "variants", "rules", "source"]);
+    const withAll = formatJsonLine({
+      input: { pron: "b", tags: [] }, variantSteps: [["r"]], derivation: [{ step: "r", form: "n" }], word: "w", id: "7", narrow: "n", broad: "b", variants: ["n"], rules: ["r"], source: { file: "demo.csv", line: 3 }, key: "7",
+    });
+    expect(Object.keys(JSON.parse(withAll) as object)).toEqual(["key", "word", "narrow", "broad", "variants", "rules", "id", "source", "derivation", "variantSteps", "input"]);
   });
 
   it("is always one line of JSON that parses back (property)", () => {

@@ -1,0 +1,15 @@
+// Entry keys: what a comparison of two builds matches entries by. The lexicon's `id` column when
+// the row has one, otherwise the word, '#', and the pronunciation's 1-based index among that
+// word's rows in file order (`tram#2`).
+
+/** Gives each row its key, in file order. */
+export class EntryKeys {
+  private readonly seen = new Map<string, number>();
+
+  /** The key of the next row of `word` (with its `id`, when the row has one). */
+  next(word: string, id?: string): string {
+    const n = (this.seen.get(word) ?? 0) + 1;
+    this.seen.set(word, n);
+    return id !== undefined && id !== "" ? id : `${word}#${n}`;
+  }
+}
