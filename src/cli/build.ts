@@ -14,6 +14,8 @@ import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
 import { availableParallelism } from "node:os";
 import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from "../regress/record.js";
+import { checkBuildPins, readPins } from "../regress/pinned.js";
+import { openBuild } from "../regress/folder.js";
 
 interface BuildOptions {
   out: string;
@@ -48,6 +50,9 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const { manifest, diagnostics } = loadManifest(dir);
   printDiagnostics(diagnostics);
   if (manifest === undefined) return 1;
+  const pinned = readPins(dirname(manifest.file), manifest.varieties.map((v) => v.name));
+  printDiagnostics(pinned.diagnostics);
+  if (pinned.diagnostics.length > 0) return 1;
   const formats = (o.format ?? [...ALL_FORMATS]) as OutputFormat[];
   for (const f of formats) {
     if (!ALL_FORMATS.includes(f)) {
@@ -115,17 +120,26 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       if (res.mismatches.length > 0) failed = true;
     }
   }
-  if (!failed) await writeBuildRecord(join(outRoot, manifest.name), buildRecord(manifest, records));
+  let pinsFailed = false;
+  if (!failed) {
+    await writeBuildRecord(join(outRoot, manifest.name), buildRecord(manifest, records));
+    if (pinned.pins.length > 0 && formats.includes("jsonl")) {
+      const res = await checkBuildPins(openBuild(join(outRoot, manifest.name)), records.map((r) => r.name), pinned.pins);
+      for (const f of res.failures) process.stderr.write(pc.red(f) + "\n");
+      if (!o.quiet) process.stdout.write(`pinned: ${res.checked - res.failures.length} of ${res.checked} expectations hold\n`);
+      pinsFailed = res.failures.length > 0;
+    }
+  }
   if (rejected) {
     const n = summaries.reduce((k, s) => k + s.rowsRejected, 0);
     const msg = `${n} row(s) rejected (see rejects.csv in each variety's folder)`;
     if (!o.allowRejects) {
       process.stderr.write(pc.red(`strata: ${msg}; rerun with --allow-rejects to accept them`) + "\n");
-      return failed ? 1 : 3;
+      return failed ? 1 : pinsFailed ? 4 : 3;
     }
     if (!o.quiet) process.stderr.write(`strata: ${msg}, allowed by --allow-rejects\n`);
   }
-  return failed ? 1 : 0;
+  return failed ? 1 : pinsFailed ? 4 : 0;
 }
 
 function printSummary(s: RunSummary, compileMs: number, outDir: string, samples: number): void {

@@ -10,6 +10,7 @@ import { registerCompile } from "./compile.js";
 import { registerGraph } from "./graph.js";
 import { registerLint } from "./lint.js";
 import { registerClusters } from "./clusters.js";
+import { registerCompare } from "./compare.js";
 
 const program = new Command();
 program
@@ -24,5 +25,6 @@ registerCompile(program);
 registerGraph(program);
 registerLint(program);
 registerClusters(program);
+registerCompare(program);
 
 await program.parseAsync(process.argv);
