@@ -11,6 +11,7 @@ import { registerGraph } from "./graph.js";
 import { registerLint } from "./lint.js";
 import { registerClusters } from "./clusters.js";
 import { registerCompare } from "./compare.js";
+import { registerAccept } from "./accept.js";
 
 const program = new Command();
 program
@@ -26,5 +27,6 @@ registerGraph(program);
 registerLint(program);
 registerClusters(program);
 registerCompare(program);
+registerAccept(program);
 
 await program.parseAsync(process.argv);

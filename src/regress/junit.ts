@@ -38,11 +38,16 @@ function classText(v: VarietyComparison, cls: string, examples: number): string 
 /** The JUnit XML document (UTF-8, final newline). `examples`: entries listed in each failure's text. */
 export function formatJunit(c: Comparison, examples = 20): string {
   const doc = create({ version: "1.0", encoding: "UTF-8" });
-  const failures = c.varieties.reduce((k, v) => k + v.failedExpectations + v.classes.filter((x) => !x.expected).length, 0);
+  /** Failing cases of a suite: failed pins, unexpected change classes, and the summary case when there are any. */
+  const failing = (v: VarietyComparison): number => {
+    const unexpected = v.classes.filter((x) => !x.expected).length;
+    return v.failedExpectations + unexpected + (unexpected > 0 ? 1 : 0);
+  };
+  const failures = c.varieties.reduce((k, v) => k + failing(v), 0);
   const tests = c.varieties.reduce((k, v) => k + v.expectations.length + v.classes.length + 1, 0);
   const root = doc.ele("testsuites", { name: `strata compare ${c.lexicon}`, tests: String(tests), failures: String(failures), errors: "0" });
   for (const v of c.varieties) {
-    const vFailures = v.failedExpectations + v.classes.filter((x) => !x.expected).length;
+    const vFailures = failing(v);
     const suite = root.ele("testsuite", { name: `${c.lexicon}.${v.name}`, tests: String(v.expectations.length + v.classes.length + 1), failures: String(vFailures), errors: "0", skipped: "0" });
     const props = suite.ele("properties");
     props.ele("property", { name: "old", value: xmlSafe(c.old) });
