@@ -318,7 +318,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
     let differ = 0;
     const firsts: string[] = [];
     for (let k = 0; k < Math.min(words.length, lines.length - 1); k++) {
-      const [w, narrow] = lines[k + 1]!.split("\t");
+      const [, w, narrow] = lines[k + 1]!.split("\t");
       if (w !== words[k]!.word || narrow !== narrowAll[k]) {
         differ++;
         if (firsts.length < 5) firsts.push(`line ${k + 2}: TSV ${w} [${narrow}], bench ${words[k]!.word} [${narrowAll[k]}]`);
