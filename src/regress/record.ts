@@ -26,7 +26,7 @@ export interface VarietyRecord {
   readonly lang: string;
   /** Every grammar file read (the main file first, then includes in the order they were read). */
   readonly grammar: { readonly files: readonly FileHash[] };
-  /** `sha256` over the inventory CSV and the diacritics CSV (see `inventoryHash`); `files` lists both. */
+  /** `sha256` over the contents of the inventory CSV and the diacritics CSV (not their paths); `files` lists both. */
   readonly inventory: { readonly sha256: string; readonly files: readonly FileHash[] };
   /** The grammar's steps in order (rules, syllabify, stress): what blame calls new or removed. */
   readonly steps: readonly string[];
@@ -66,7 +66,7 @@ export function varietyRecord(root: string, variety: Variety, grammar: Grammar):
     if (existsSync(dia)) inv.push({ path: relativePosix(root, dia), sha256: sha256File(dia) });
   }
   const all = createHash("sha256");
-  for (const f of inv) all.update(`${f.path}\u0000${f.sha256}\n`);
+  for (const f of inv) all.update(`${f.sha256}\n`);
   return {
     name: variety.name,
     lang: variety.lang,
