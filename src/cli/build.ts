@@ -79,7 +79,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const records: VarietyRecord[] = [];
   for (const variety of manifest.varieties) {
     const t0 = performance.now();
-    const loaded = loadEngine(variety.grammar, { kind: o.engine, syllables: o.syllableBreaks, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
+    const loaded = loadEngine(variety.grammar, { kind: o.engine, syllables: o.syllableBreaks, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics.filter((d) => d.severity === "error" || !o.quiet));
     if (!("engine" in loaded)) {
       failed = true;
@@ -94,7 +94,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     let pool: WorkerPool | undefined;
     try {
       if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables: o.syllableBreaks });
+        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables: o.syllableBreaks, derivations: formats.includes("jsonl") });
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
@@ -128,6 +128,8 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       for (const f of res.failures) process.stderr.write(pc.red(f) + "\n");
       if (!o.quiet) process.stdout.write(`pinned: ${res.checked - res.failures.length} of ${res.checked} expectations hold\n`);
       pinsFailed = res.failures.length > 0;
+    } else if (pinned.pins.length > 0 && !o.quiet) {
+      process.stderr.write("strata: pinned.csv was not checked: it is checked against lexicon.jsonl, which --format left out\n");
     }
   }
   if (rejected) {

@@ -67,7 +67,7 @@ export interface LoadedEngine {
 /** Loads, checks and compiles (or interprets) a grammar; diagnostics are returned, never thrown. */
 export function loadEngine(
   path: string,
-  opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean } = {},
+  opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean; derivations?: boolean } = {},
 ): LoadedEngine | { readonly diagnostics: readonly Diagnostic[] } {
   const g = opts.cacheDir !== undefined ? loadGrammarCached(path, opts.cacheDir) : loadGrammar(path);
   if (g.grammar === undefined || g.inventory === undefined || g.diagnostics.some((d) => d.severity === "error")) {
@@ -81,6 +81,7 @@ export function loadEngine(
     ...(opts.maxStates !== undefined ? { maxStates: opts.maxStates } : {}),
     ...(opts.blame !== undefined ? { blame: opts.blame } : {}),
     ...(opts.syllables !== undefined ? { syllables: opts.syllables } : {}),
+    ...(opts.derivations !== undefined ? { derivations: opts.derivations } : {}),
   });
   if (m.engine === undefined) return { diagnostics: [...g.diagnostics, ...m.diagnostics] };
   return { grammar: g.grammar, inventory: g.inventory, engine: m.engine, diagnostics: [...g.diagnostics, ...m.diagnostics] };

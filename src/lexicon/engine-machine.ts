@@ -23,6 +23,8 @@ export interface MachineEngineOptions {
   readonly blame?: boolean;
   /** Write '.' between unstressed syllables (default true; stress marks are always written). */
   readonly syllables?: boolean;
+  /** Record each entry's derivation (forms after each step) and each variant's steps (default true; the JSON Lines output needs them). */
+  readonly derivations?: boolean;
 }
 
 export class MachineEngine implements Engine {
@@ -38,7 +40,7 @@ export class MachineEngine implements Engine {
     inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
-    private readonly render: { readonly syllables: boolean } = { syllables: true },
+    private readonly render: { readonly syllables: boolean; readonly derivations?: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
     this.view = symbolView(compiled.alphabet, inventory);
@@ -81,9 +83,11 @@ export class MachineEngine implements Engine {
     // Blame and derivation: the one-step-per-block compilation, step by step.
     const sw = this.stepwise;
     if (sw === null) return { narrow, broad: broadText, variants, rules: [], derivation: [], variantSteps: variants.map(() => []) };
-    const { rules, derivation } = preferredDerivation(sw, this.steps, ids, this.view, this.render);
+    const full = this.render.derivations ?? true;
+    const { rules, derivation } = preferredDerivation(sw, this.steps, ids, full ? this.view : undefined, this.render);
     let variantSteps: string[][] = [rules];
-    if (variants.length > 1) {
+    if (variants.length > 1 && !full) variantSteps = variants.map((_, i) => (i === 0 ? rules : []));
+    else if (variants.length > 1) {
       this.tracer ??= new VariantTracer(sw, this.steps);
       const byText = new Map<string, string[]>();
       for (const [key, steps] of this.tracer.run(ids, this.maxVariants)) {
@@ -117,6 +121,6 @@ export function machineEngine(
   }
   const broad = compileGrammar(prosodyOnly(grammar), inventory, common);
   if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
-  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true });
+  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true, derivations: opts.derivations ?? true });
   return { engine, diagnostics };
 }

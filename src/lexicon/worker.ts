@@ -12,6 +12,7 @@ export interface WorkerSetup {
   readonly maxStates?: number;
   readonly blame: boolean;
   readonly syllables: boolean;
+  readonly derivations?: boolean;
 }
 
 export interface WorkerBatch {
@@ -36,6 +37,7 @@ const built = g.grammar !== undefined && g.inventory !== undefined
     ...(setup.maxStates !== undefined ? { maxStates: setup.maxStates } : {}),
     blame: setup.blame,
     syllables: setup.syllables,
+    ...(setup.derivations !== undefined ? { derivations: setup.derivations } : {}),
   })
   : undefined;
 const engine = built?.engine;

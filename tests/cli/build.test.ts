@@ -53,7 +53,7 @@ describe("strata build on the shipped demo", () => {
     expect(code).toBe(0);
     for (const v of ["general", "careful"]) {
       const files = readdirSync(join(out, "demo", v)).sort();
-      expect(files).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
+      expect(files).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "pinned.json", "rejects.csv", "summary.json"]);
     }
   });
 
