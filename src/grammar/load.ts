@@ -4,6 +4,7 @@
 import * as fs from "node:fs";
 import * as path from "node:path";
 import { diagnostic, type Diagnostic, type SourcePos } from "../diagnostics.js";
+import { capPerFile, MAX_DIAGNOSTICS_PER_FILE } from "../diagnostic-cap.js";
 import { FILE_LIMITS, isInside, readTextFile, realPath } from "../files.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
@@ -18,6 +19,8 @@ export interface LoadOptions {
   readonly maxGrammarBytes?: number;
   /** Most bytes of the inventory or diacritics file (default FILE_LIMITS.inventory). */
   readonly maxInventoryBytes?: number;
+  /** Most diagnostics kept per file; the rest are counted in one more (default MAX_DIAGNOSTICS_PER_FILE). */
+  readonly maxDiagnosticsPerFile?: number;
 }
 
 export interface LoadedGrammar {
@@ -36,6 +39,11 @@ const startOf = (file: string): SourcePos => ({ file, line: 1, column: 1 });
  * partial when there are errors); `inventory` whenever it loaded.
  */
 export function loadGrammar(p: string, opts: LoadOptions = {}): LoadedGrammar {
+  const r = loadUncapped(p, opts);
+  return { ...r, diagnostics: capPerFile(r.diagnostics, "grammar/too-many-problems", opts.maxDiagnosticsPerFile ?? MAX_DIAGNOSTICS_PER_FILE) };
+}
+
+function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
   const diagnostics: Diagnostic[] = [];
   const grammarLimit = opts.maxGrammarBytes ?? FILE_LIMITS.grammar;
   try {

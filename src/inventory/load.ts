@@ -4,6 +4,7 @@
 import { existsSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { diagnostic, hasErrors, type Diagnostic, type SourcePos } from "../diagnostics.js";
+import { capPerFile, MAX_DIAGNOSTICS_PER_FILE } from "../diagnostic-cap.js";
 import { FILE_LIMITS, readTextFile } from "../files.js";
 import { PROSODIC_FEATURES, type Diacritic, type FeatureValue, type Inventory, type Segment } from "./types.js";
 import { readCsv } from "./csv.js";
@@ -311,6 +312,11 @@ export interface InventoryReadOptions {
  * an error diagnostic at `inventoryAt`/`diacriticsAt`, else on its line 1.
  */
 export function loadInventory(csvPath: string, diacriticsPath?: string, opts: InventoryReadOptions = {}): LoadResult {
+  const r = loadUncapped(csvPath, diacriticsPath, opts);
+  return r.diagnostics.length <= MAX_DIAGNOSTICS_PER_FILE ? r : { ...r, diagnostics: capPerFile(r.diagnostics, "inventory/too-many-problems") };
+}
+
+function loadUncapped(csvPath: string, diacriticsPath: string | undefined, opts: InventoryReadOptions): LoadResult {
   const limit = opts.limit ?? FILE_LIMITS.inventory;
   const read = (path: string, what: string, code: string, at: SourcePos | undefined): string | Diagnostic => {
     const r = readTextFile(path, { what, limit, code, ...(at !== undefined ? { at } : {}) });
