@@ -7,12 +7,13 @@ import type { Diagnostic } from "../diagnostics.js";
 import type { Inventory } from "../inventory/index.js";
 import type { Grammar } from "./ast.js";
 import { CheckContext } from "./check-context.js";
+import { checkLimits } from "./check-limits.js";
 import { checkDeclarations } from "./check-names.js";
 import { checkReachability } from "./check-reach.js";
 import { checkRules } from "./check-rule.js";
 
 /** The passes, in order. Later passes may rely on earlier ones (e.g. `broken` rules are skipped). */
-const PASSES: readonly ((c: CheckContext) => void)[] = [checkDeclarations, checkRules, checkReachability];
+const PASSES: readonly ((c: CheckContext) => void)[] = [checkDeclarations, checkRules, checkLimits, checkReachability];
 
 /**
  * Checks a grammar against its inventory. Literal segments should already be split (loadGrammar
