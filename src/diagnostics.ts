@@ -46,6 +46,17 @@ export function formatDiagnostic(d: Diagnostic): string {
   return `${d.file}:${d.line}:${d.column}: ${d.severity}: ${d.message} [${d.code}]`;
 }
 
+let lastText: string | undefined;
+let lastLines: readonly string[] = [];
+/** The lines of a source text; the last split is kept, so rendering many diagnostics of one file splits it once. */
+function linesOf(text: string): readonly string[] {
+  if (text !== lastText) {
+    lastText = text;
+    lastLines = text.split(/\r?\n/);
+  }
+  return lastLines;
+}
+
 /**
  * The one-line form followed by the offending source line and a caret under the span.
  * `sourceText` is the whole file the diagnostic points into, when the caller has it.
@@ -53,7 +64,7 @@ export function formatDiagnostic(d: Diagnostic): string {
 export function renderDiagnostic(d: Diagnostic, sourceText?: string): string {
   const head = formatDiagnostic(d);
   if (sourceText === undefined) return head;
-  const lines = sourceText.split(/\r?\n/);
+  const lines = linesOf(sourceText);
   const text = lines[d.line - 1];
   if (text === undefined) return head;
   const shown = [...text].map((ch) => (ch === "\t" ? " " : ch)).join("");
