@@ -77,7 +77,7 @@ async function writeAll(h: FileHandle, buf: Uint8Array): Promise<void> {
 }
 
 /** Makes the rename itself durable where the platform allows fsync on a folder (best effort). */
-async function syncFolder(dir: string): Promise<void> {
+export async function syncFolder(dir: string): Promise<void> {
   let h: FileHandle | undefined;
   try {
     h = await open(dir, "r");

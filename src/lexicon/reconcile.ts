@@ -1,0 +1,221 @@
+// Reconciliation from what was actually written: the input's records are counted here on their own
+// (not by the reader), the written files are read back, and every input record must be exactly one
+// entry or exactly one reject. A mismatch is an error (a bug in Strata), never a silent flag.
+
+import { createReadStream } from "node:fs";
+import { readFile } from "node:fs/promises";
+import { StringDecoder } from "node:string_decoder";
+import { diagnostic, type Diagnostic } from "../diagnostics.js";
+
+/** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
+export interface InputRecords {
+  readonly count: number;
+  readonly lines: readonly number[];
+  /** The `word` field of each record (trimmed, NFC, as the reader gives it), parallel to `lines`. */
+  readonly words: readonly string[];
+}
+
+/** Lines of a text file, decoded as UTF-8, split at LF with one CR before the LF dropped, streamed. */
+async function* lines(path: string): AsyncGenerator<string> {
+  const decoder = new StringDecoder("utf8");
+  let carry = "";
+  const split = function* (text: string, final: boolean): Generator<string> {
+    let start = 0;
+    for (;;) {
+      const nl = text.indexOf("\n", start);
+      if (nl < 0) break;
+      yield text.slice(start, nl > start && text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl);
+      start = nl + 1;
+    }
+    carry = text.slice(start);
+    if (final && carry !== "") yield carry.endsWith("\r") ? carry.slice(0, -1) : carry;
+  };
+  for await (const chunk of createReadStream(path)) yield* split(carry + decoder.write(chunk as Buffer), false);
+  yield* split(carry + decoder.end(), true);
+}
+
+/**
+ * Counts a lexicon CSV's data records independently of the reader. The lexicon format (README,
+ * "The lexicon CSV"): one record per line; a line ends at LF or CRLF (RFC 4180 §2.1 writes CRLF;
+ * a bare LF is common practice, no source); a CR not followed by LF ends nothing (RFC 4180 allows
+ * it only inside a quoted field, and it is data there); a line starting with `#` is a comment; a
+ * line of white space only is blank; the first other line is the header; the BOM is not data.
+ * Fields are split by RFC 4180 §2 quoting; the header's `word` column (any case) names the word.
+ */
+export async function countInputRecords(path: string): Promise<InputRecords> {
+  const found: number[] = [];
+  const words: string[] = [];
+  let line = 0;
+  let wordAt = -2;
+  for await (let text of lines(path)) {
+    line++;
+    if (line === 1 && text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+    if (text.startsWith("#") || text.trim() === "") continue;
+    const fields = csvRecords(text)[0] ?? [];
+    if (wordAt === -2) {
+      wordAt = fields.findIndex((f) => f.trim().toLowerCase() === "word");
+      continue;
+    }
+    found.push(line);
+    words.push((fields[wordAt] ?? "").trim().normalize("NFC"));
+  }
+  return { count: found.length, lines: found, words };
+}
+
+/**
+ * RFC 4180 records of a CSV text (§2: fields in double quotes may hold commas, quotes written
+ * twice, CR and LF; a record ends at a line break outside quotes; the last record may lack one).
+ * Returns every record's fields.
+ */
+export function csvRecords(text: string): string[][] {
+  const records: string[][] = [];
+  let fields: string[] = [];
+  let field = "";
+  let quoted = false;
+  let any = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text[i]!;
+    any = true;
+    if (quoted) {
+      if (c === '"') {
+        if (text[i + 1] === '"') {
+          field += '"';
+          i++;
+        } else quoted = false;
+      } else field += c;
+    } else if (c === '"') quoted = true;
+    else if (c === ",") {
+      fields.push(field);
+      field = "";
+    } else if (c === "\n" || (c === "\r" && text[i + 1] === "\n")) {
+      if (c === "\r") i++;
+      fields.push(field);
+      records.push(fields);
+      fields = [];
+      field = "";
+      any = false;
+    } else field += c;
+  }
+  if (any) {
+    fields.push(field);
+    records.push(fields);
+  }
+  return records;
+}
+
+/** What a staging folder holds, counted from the files themselves. */
+export interface WrittenCounts {
+  /** Entry lines of lexicon.tsv (header excluded), when written. */
+  readonly tsv?: number;
+  /** Distinct values of the TSV's `word` column, when written. */
+  readonly tsvWords?: number;
+  /** Lines of lexicon.jsonl, when written. */
+  readonly jsonl?: number;
+  /** The `source.line` and `word` of every JSONL record, when written. */
+  readonly jsonlLines?: readonly number[];
+  readonly jsonlWords?: readonly string[];
+  /** `lexeme` elements of lexicon.pls, when written. */
+  readonly plsLexemes?: number;
+  /** Records of rejects.csv (header excluded) and their `line` column. */
+  readonly rejects: number;
+  readonly rejectLines: readonly number[];
+}
+
+const SOURCE_LINE = /"source":\{"file":"(?:[^"\\]|\\.)*","line":(\d+)\}/;
+// A quote outside a JSON string only ever opens or closes one, so `"word":"` is always the key.
+const WORD = /"word":("(?:[^"\\]|\\.)*")/;
+
+/** Reads back the files of one variety's staging folder (each path given is a file that was written). */
+export async function countWritten(files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string }): Promise<WrittenCounts> {
+  let tsv: number | undefined;
+  let tsvWords: number | undefined;
+  if (files.tsv !== undefined) {
+    let wordAt = -1;
+    const words = new Set<string>();
+    let n = -1;
+    for await (const l of lines(files.tsv)) {
+      if (n === -1) wordAt = l.split("\t").indexOf("word");
+      else if (wordAt >= 0) words.add(l.split("\t")[wordAt] ?? "");
+      n++;
+    }
+    tsv = Math.max(0, n);
+    tsvWords = words.size;
+  }
+  let jsonl: number | undefined;
+  let jsonlLines: number[] | undefined;
+  let jsonlWords: string[] | undefined;
+  if (files.jsonl !== undefined) {
+    jsonl = 0;
+    jsonlLines = [];
+    jsonlWords = [];
+    for await (const l of lines(files.jsonl)) {
+      jsonl++;
+      const m = SOURCE_LINE.exec(l);
+      jsonlLines.push(m === null ? 0 : Number(m[1]));
+      const w = WORD.exec(l);
+      jsonlWords.push(w === null ? "" : (JSON.parse(w[1]!) as string));
+    }
+  }
+  let plsLexemes: number | undefined;
+  if (files.pls !== undefined) {
+    plsLexemes = 0;
+    let tail = "";
+    for await (const chunk of createReadStream(files.pls, { encoding: "utf8" })) {
+      const text = tail + (chunk as string);
+      for (let at = text.indexOf("<lexeme>"); at >= 0; at = text.indexOf("<lexeme>", at + 1)) plsLexemes++;
+      tail = text.slice(-7); // shorter than the tag: never counted twice
+    }
+  }
+  const rej = csvRecords(await readFile(files.rejects, "utf8")).slice(1);
+  return {
+    ...(tsv !== undefined ? { tsv, tsvWords } : {}),
+    ...(jsonl !== undefined ? { jsonl, jsonlLines, jsonlWords } : {}),
+    ...(plsLexemes !== undefined ? { plsLexemes } : {}),
+    rejects: rej.length,
+    rejectLines: rej.map((r) => Number(r[1])),
+  };
+}
+
+const rows = (n: number): string => `${n} ${n === 1 ? "row" : "rows"}`;
+const entries = (n: number): string => `${n} ${n === 1 ? "entry" : "entries"}`;
+
+/**
+ * Compares the input's records with what was written: each output format holds entries for
+ * exactly the records that were not rejected, and (with JSON Lines, which names every entry's
+ * line) every record's line is in exactly one of lexicon.jsonl and rejects.csv, and each entry's
+ * word is the word of the record on its line (so rows shifted between lines are caught even when
+ * the counts come out even). Returns the errors
+ * (code `run/unreconciled`), positioned at the first line that is missing or doubled when known.
+ */
+export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts): Diagnostic[] {
+  const out: Diagnostic[] = [];
+  const fail = (message: string, line = 1): void => {
+    out.push(diagnostic("error", "run/unreconciled", `${message} This is a bug in Strata; please report it with the lexicon.`, { file: lexicon, line, column: 1 }));
+  };
+  const check = (name: string, n: number | undefined): void => {
+    if (n !== undefined && n + w.rejects !== input.count) {
+      fail(`The lexicon has ${rows(input.count)} but ${name} holds ${entries(n)} and rejects.csv ${rows(w.rejects)}.`);
+    }
+  };
+  check("lexicon.tsv", w.tsv);
+  check("lexicon.jsonl", w.jsonl);
+  if (w.plsLexemes !== undefined && w.tsvWords !== undefined && w.plsLexemes !== w.tsvWords) {
+    fail(`lexicon.pls holds ${w.plsLexemes} lexemes but lexicon.tsv ${w.tsvWords} distinct words.`);
+  }
+  if (w.jsonlLines !== undefined) {
+    const seen = new Map<number, number>();
+    for (const l of [...w.jsonlLines, ...w.rejectLines]) seen.set(l, (seen.get(l) ?? 0) + 1);
+    const missing = input.lines.filter((l) => (seen.get(l) ?? 0) === 0);
+    const doubled = input.lines.filter((l) => (seen.get(l) ?? 0) > 1);
+    const known = new Set(input.lines);
+    const stray = [...seen.keys()].filter((l) => !known.has(l)).sort((a, b) => a - b);
+    const list = (ls: readonly number[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
+    if (missing.length > 0) fail(`Line${missing.length === 1 ? "" : "s"} ${list(missing)} of the lexicon ${missing.length === 1 ? "is" : "are"} neither an entry nor a reject.`, missing[0]);
+    if (doubled.length > 0) fail(`Line${doubled.length === 1 ? "" : "s"} ${list(doubled)} of the lexicon ${doubled.length === 1 ? "was" : "were"} written more than once.`, doubled[0]);
+    const wordOf = new Map<number, string>(input.lines.map((l, i) => [l, input.words[i]!]));
+    const moved = w.jsonlLines.flatMap((l, i) => (wordOf.has(l) && wordOf.get(l) !== w.jsonlWords?.[i] ? [l] : []));
+    if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved)} of the lexicon ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, moved[0]);
+    if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(stray)}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the lexicon.`, stray[0]);
+  }
+  return out;
+}
