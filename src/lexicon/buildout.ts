@@ -4,13 +4,14 @@
 // build that comparisons never read).
 
 import { randomBytes } from "node:crypto";
-import { mkdirSync, readFileSync, realpathSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync, realpathSync } from "node:fs";
 import { arch, cpus, hostname, platform, totalmem } from "node:os";
 import { join } from "node:path";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { isFsError } from "../tempfile.js";
 import { acquireLock, LOCK_NAME } from "./lock.js";
+import { MANIFEST_NAME } from "./manifest.js";
 import { recoverOutputs, type Recovery } from "./outdir.js";
 import { outputError, relativeTo } from "./summary.js";
 
@@ -75,8 +76,8 @@ const pos = (path: string): { file: string; line: number; column: number } => {
 /**
  * Opens `root` (build/<lexicon>/ or the `-o` folder's) for a build of the lexicon folder `sourceDir`.
  * Refuses, with one error and nothing written, when the folder cannot be created or written, when
- * another live build holds its lock, or when its run.json says it holds another lexicon folder's
- * build (two lexicon folders with the same name). Otherwise takes the lock, puts back or removes
+ * another live build holds its lock, or when its run.json says it holds the build of another
+ * lexicon folder that still exists (two lexicon folders with the same name). Otherwise takes the lock, puts back or removes
  * what killed runs left (lexicon/outdir.ts) and writes a first run.json naming the source folder.
  */
 export async function openBuildOutput(root: string, sourceDir: string): Promise<{ ok: true; output: BuildOutput } | { ok: false; diagnostics: Diagnostic[] }> {
@@ -96,8 +97,10 @@ export async function openBuildOutput(root: string, sourceDir: string): Promise<
     const who = h.pid > 0 ? `another build (process ${h.pid}${h.host !== hostname() ? ` on ${h.host}` : ""}, building ${h.source}, since ${h.started})` : `a lock file Strata cannot read`;
     return fail(diagnostic("error", "output/locked", `The output folder ${shown} is locked by ${who}; wait for it to finish or build elsewhere with -o (remove ${join(shown, LOCK_NAME)} only if no build is running).`, pos(root)));
   }
+  // A recorded folder that no longer holds a lexicon (the checkout moved, the folder was renamed)
+  // claims nothing: this build takes its place.
   const owner = recordedSource(root);
-  if (owner !== undefined && owner !== source) {
+  if (owner !== undefined && owner !== source && existsSync(join(owner, MANIFEST_NAME))) {
     lock.release();
     return fail(diagnostic("error", "output/other-lexicon", `The output folder ${shown} holds the build of another lexicon folder (${owner}); build this one elsewhere with -o, or remove ${shown}.`, pos(root)));
   }

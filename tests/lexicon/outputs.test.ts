@@ -3,7 +3,7 @@
 // written files, two lexicon folders never share an output folder, builds are locked, bad output
 // paths are one positioned message, and outputs do not depend on where the checkout lies.
 
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, statSync, writeFileSync } from "node:fs";
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { hostname, tmpdir } from "node:os";
 import { join, relative, resolve } from "node:path";
 import { spawnSync } from "node:child_process";
@@ -130,8 +130,11 @@ describe("where a build writes", () => {
     expect(err.split("\n")[0]).toMatch(/:1:1: error: The output folder .*twin holds the build of another lexicon folder/);
     expect(snapshot(join(out, "twin", "general"))).toEqual(before);
     expect(JSON.parse(read(join(out, "twin", "run.json"))).source).toBe(a);
-    // The same folder again is fine.
+    // The same folder again is fine; so is another once the recorded one is gone (a moved checkout).
     expect((await build(a, opts(out))).code).toBe(0);
+    rmSync(a, { recursive: true });
+    expect((await build(b, opts(out))).code).toBe(0);
+    expect(JSON.parse(read(join(out, "twin", "run.json"))).source).toBe(b);
   });
 
   it("locks the output folder: a second build while one runs is refused with the holder named", async () => {
