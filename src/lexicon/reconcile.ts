@@ -15,23 +15,37 @@ export interface InputRecords {
   readonly words: readonly string[];
 }
 
-/** Lines of a text file, decoded as UTF-8, split at LF with one CR before the LF dropped, streamed. */
-async function* lines(path: string): AsyncGenerator<string> {
+/**
+ * Calls `fn` with every line of a text file, decoded as UTF-8, split at LF with one CR before the
+ * LF dropped; streamed in chunks, the lines of a chunk handled in one synchronous loop.
+ */
+async function eachLine(path: string, fn: (line: string) => void): Promise<void> {
   const decoder = new StringDecoder("utf8");
   let carry = "";
-  const split = function* (text: string, final: boolean): Generator<string> {
+  const split = (text: string): void => {
     let start = 0;
-    for (;;) {
-      const nl = text.indexOf("\n", start);
-      if (nl < 0) break;
-      yield text.slice(start, nl > start && text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl);
+    for (let nl = text.indexOf("\n"); nl >= 0; nl = text.indexOf("\n", start)) {
+      fn(text.slice(start, nl > start && text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl));
       start = nl + 1;
     }
     carry = text.slice(start);
-    if (final && carry !== "") yield carry.endsWith("\r") ? carry.slice(0, -1) : carry;
   };
-  for await (const chunk of createReadStream(path)) yield* split(carry + decoder.write(chunk as Buffer), false);
-  yield* split(carry + decoder.end(), true);
+  for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 })) split(carry + decoder.write(chunk as Buffer));
+  split(carry + decoder.end());
+  if (carry !== "") fn(carry.endsWith("\r") ? carry.slice(0, -1) : carry);
+}
+
+/** Field `at` of one CSV line: split at commas when the line has no quote, else by RFC 4180 quoting. */
+function fieldOf(line: string, at: number): string {
+  if (line.indexOf('"') >= 0) return csvRecords(line)[0]?.[at] ?? "";
+  let from = 0;
+  for (let k = 0; k < at; k++) {
+    const comma = line.indexOf(",", from);
+    if (comma < 0) return "";
+    from = comma + 1;
+  }
+  const end = line.indexOf(",", from);
+  return line.slice(from, end < 0 ? line.length : end);
 }
 
 /**
@@ -47,18 +61,17 @@ export async function countInputRecords(path: string): Promise<InputRecords> {
   const words: string[] = [];
   let line = 0;
   let wordAt = -2;
-  for await (let text of lines(path)) {
+  await eachLine(path, (raw) => {
     line++;
-    if (line === 1 && text.charCodeAt(0) === 0xfeff) text = text.slice(1);
-    if (text.startsWith("#") || text.trim() === "") continue;
-    const fields = csvRecords(text)[0] ?? [];
+    const text = line === 1 && raw.charCodeAt(0) === 0xfeff ? raw.slice(1) : raw;
+    if (text.charCodeAt(0) === 35 /* # */ || text.trim() === "") return;
     if (wordAt === -2) {
-      wordAt = fields.findIndex((f) => f.trim().toLowerCase() === "word");
-      continue;
+      wordAt = (csvRecords(text)[0] ?? []).findIndex((f) => f.trim().toLowerCase() === "word");
+      return;
     }
     found.push(line);
-    words.push((fields[wordAt] ?? "").trim().normalize("NFC"));
-  }
+    words.push(wordAt < 0 ? "" : fieldOf(text, wordAt).trim().normalize("NFC"));
+  });
   return { count: found.length, lines: found, words };
 }
 
@@ -133,11 +146,16 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
     let wordAt = -1;
     const words = new Set<string>();
     let n = -1;
-    for await (const l of lines(files.tsv)) {
+    await eachLine(files.tsv, (l) => {
       if (n === -1) wordAt = l.split("\t").indexOf("word");
-      else if (wordAt >= 0) words.add(l.split("\t")[wordAt] ?? "");
+      else if (wordAt >= 0) {
+        let from = 0;
+        for (let k = 0; k < wordAt && from >= 0; k++) from = l.indexOf("\t", from) + 1 || -1;
+        const end = from < 0 ? -1 : l.indexOf("\t", from);
+        words.add(from < 0 ? "" : l.slice(from, end < 0 ? l.length : end));
+      }
       n++;
-    }
+    });
     tsv = Math.max(0, n);
     tsvWords = words.size;
   }
@@ -148,22 +166,26 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
     jsonl = 0;
     jsonlLines = [];
     jsonlWords = [];
-    for await (const l of lines(files.jsonl)) {
-      jsonl++;
+    const ls = jsonlLines;
+    const ws = jsonlWords;
+    await eachLine(files.jsonl, (l) => {
+      jsonl!++;
       const m = SOURCE_LINE.exec(l);
-      jsonlLines.push(m === null ? 0 : Number(m[1]));
+      ls.push(m === null ? 0 : Number(m[1]));
       const w = WORD.exec(l);
-      jsonlWords.push(w === null ? "" : (JSON.parse(w[1]!) as string));
-    }
+      ws.push(w === null ? "" : (JSON.parse(w[1]!) as string));
+    });
   }
   let plsLexemes: number | undefined;
   if (files.pls !== undefined) {
     plsLexemes = 0;
-    let tail = "";
-    for await (const chunk of createReadStream(files.pls, { encoding: "utf8" })) {
-      const text = tail + (chunk as string);
-      for (let at = text.indexOf("<lexeme>"); at >= 0; at = text.indexOf("<lexeme>", at + 1)) plsLexemes++;
-      tail = text.slice(-7); // shorter than the tag: never counted twice
+    // Counted in the bytes (the tag is ASCII; UTF-8 never repeats an ASCII byte inside a character).
+    const tag = Buffer.from("<lexeme>");
+    let tail: Buffer = Buffer.alloc(0);
+    for await (const chunk of createReadStream(files.pls, { highWaterMark: 1 << 20 })) {
+      const buf = tail.length === 0 ? (chunk as Buffer) : Buffer.concat([tail, chunk as Buffer]);
+      for (let at = buf.indexOf(tag); at >= 0; at = buf.indexOf(tag, at + tag.length)) plsLexemes++;
+      tail = buf.subarray(Math.max(0, buf.length - (tag.length - 1))); // shorter than the tag: never counted twice
     }
   }
   const rej = csvRecords(await readFile(files.rejects, "utf8")).slice(1);

@@ -1,9 +1,9 @@
 // What a variety's summary.json holds (counts only: no timings, no absolute paths, so two builds
 // of the same input compare byte for byte), and the messages for output paths that cannot be used.
 
-import { isAbsolute, relative, sep } from "node:path";
+import { basename, dirname, isAbsolute, join, relative, sep } from "node:path";
 import { diagnostic, formatDiagnostic, type Diagnostic } from "../diagnostics.js";
-import { fsReason, isFsError } from "../tempfile.js";
+import { fsReason, isFsError, parseTempName } from "../tempfile.js";
 import type { RunSummary } from "./runner.js";
 
 /** `file` relative to `root`, with forward slashes; names that are not absolute paths (`<stdin>`) as they are. */
@@ -39,8 +39,11 @@ export function summaryJson(s: RunSummary, root: string): string {
  */
 export function outputError(path: string, err: unknown): Diagnostic {
   if (!isFsError(err)) throw err;
-  const at = (err as NodeJS.ErrnoException).path ?? path;
+  // Name the file the user knows, not the temporary it was being written through.
+  const raw = (err as NodeJS.ErrnoException & { dest?: string }).dest ?? (err as NodeJS.ErrnoException).path ?? path;
+  const temp = parseTempName(basename(raw));
+  const at = temp === undefined ? raw : join(dirname(raw), temp.target);
   const near = relativeTo(process.cwd(), at);
   const shown = near.startsWith("..") ? at : near;
-  return diagnostic("error", "output/unwritable", `Cannot write the output ${shown}: ${fsReason(err)}.`, { file: shown, line: 1, column: 1 });
+  return diagnostic("error", "output/unwritable", `Cannot write this output: ${fsReason(err)}.`, { file: shown, line: 1, column: 1 });
 }

@@ -174,8 +174,20 @@ describe("where a build writes", () => {
     writeFileSync(blocker, "not a folder\n");
     const { code, err } = await build(dir, opts(blocker));
     expect(code).toBe(1);
-    expect(err).toMatch(/^\S+:1:1: error: Cannot write the output \S+: (a part of the path is a file, not a folder|something else already exists there)\. \[output\/unwritable\]$/m);
+    expect(err).toMatch(/^\S+:1:1: error: Cannot write this output: (a part of the path is a file, not a folder|something else already exists there)\. \[output\/unwritable\]$/m);
     expect(err).not.toMatch(/\n\s+at /);
+  });
+
+  it("a folder where run.json should be: one positioned line, exit 1, no variety written", async () => {
+    const dir = lexiconFolder(GOOD);
+    const out = join(dir, "..", "out");
+    mkdirSync(join(out, "lex", "run.json"), { recursive: true });
+    const { code, err } = await build(dir, opts(out));
+    expect(code).toBe(1);
+    expect(err.trim().split("\n")).toHaveLength(1);
+    expect(err).toMatch(/run\.json:1:1: error: Cannot write this output: it is a folder, not a file\. \[output\/unwritable\]/);
+    expect(existsSync(join(out, "lex", "general"))).toBe(false);
+    expect(readdirSync(join(out, "lex"))).toEqual(["run.json"]);
   });
 
   it("a cache folder that is a file: one warning, and the build succeeds without a cache", async () => {
