@@ -49,7 +49,7 @@ export interface RunSummary {
   readonly changedBy: readonly { readonly step: string; readonly entries: number }[];
   readonly files: Readonly<Record<string, string>>;
   readonly diagnostics: readonly Diagnostic[];
-  /** Outputs that could not be written (e.g. a character XML 1.0 does not allow, for PLS); that file is absent. */
+  /** Why the variety's outputs were not replaced (a path that cannot be written, rows that do not reconcile); empty on success. */
   readonly outputErrors: readonly Diagnostic[];
   readonly seconds: number;
   /** The written files account for every input record exactly once (lexicon/reconcile.ts). */
