@@ -49,28 +49,74 @@ function fieldOf(line: string, at: number): string {
 }
 
 /**
- * Counts a lexicon CSV's data records independently of the reader. The lexicon format (README,
- * "The lexicon CSV"): one record per line; a line ends at LF or CRLF (RFC 4180 §2.1 writes CRLF;
- * a bare LF is common practice, no source); a CR not followed by LF ends nothing (RFC 4180 allows
- * it only inside a quoted field, and it is data there); a line starting with `#` is a comment; a
- * line of white space only is blank; the first other line is the header; the BOM is not data.
+ * Splits one LF-terminated stretch of text (its LF, and the CR of a CR LF, already removed) into
+ * records by the lexicon format's grammar (README, "The lexicon CSV"; RFC 4180 §2 with two
+ * differences): a lone CR ends a physical line and, outside a quoted field, the record; inside a
+ * quoted field it is data (the record then spans lines); a record starting with `#` is a comment
+ * up to the end of its line. Calls `fn` with each record's first line and text; returns the
+ * number of physical lines the stretch held.
+ */
+function splitStretch(seg: string, first: number, fn: (line: number, raw: string) => void): number {
+  let line = first;
+  let pos = 0;
+  for (;;) {
+    const start = line;
+    let end = seg.indexOf("\r", pos);
+    if (end < 0) end = seg.length;
+    else if (seg.charCodeAt(pos) !== 35 /* # */) {
+      // A CR ahead: read the quoting up to the first CR outside a quoted field.
+      let fieldStart = true;
+      let quoted = false;
+      let i = pos;
+      for (; i < seg.length; i++) {
+        const c = seg.charCodeAt(i);
+        if (quoted) {
+          if (c === 34) {
+            if (seg.charCodeAt(i + 1) === 34) i++;
+            else quoted = false;
+          } else if (c === 13) line++;
+          continue;
+        }
+        if (c === 13) break;
+        if (c === 44) fieldStart = true;
+        else {
+          if (c === 34 && fieldStart) quoted = true;
+          fieldStart = false;
+        }
+      }
+      end = i;
+    }
+    fn(start, seg.slice(pos, end));
+    line++;
+    if (end >= seg.length) return line - first;
+    pos = end + 1;
+  }
+}
+
+/**
+ * Counts a lexicon CSV's data records independently of the reader, by the lexicon format's record
+ * grammar (see `splitStretch`): lines end at CR LF, LF or a lone CR (RFC 4180 §2.1 writes CR LF;
+ * LF and CR alone are common practice, no source); a record of spaces and tabs only is blank; a
+ * comment or blank record is not data; the first other record is the header; the BOM is not text.
  * Fields are split by RFC 4180 §2 quoting; the header's `word` column (any case) names the word.
  */
 export async function countInputRecords(path: string): Promise<InputRecords> {
   const found: number[] = [];
   const words: string[] = [];
-  let line = 0;
+  let line = 1;
   let wordAt = -2;
-  await eachLine(path, (raw) => {
-    line++;
-    const text = line === 1 && raw.charCodeAt(0) === 0xfeff ? raw.slice(1) : raw;
-    if (text.charCodeAt(0) === 35 /* # */ || text.trim() === "") return;
+  const record = (at: number, raw: string): void => {
+    if (raw.charCodeAt(0) === 35 /* # */ || /^[ \t]*$/.test(raw)) return;
     if (wordAt === -2) {
-      wordAt = (csvRecords(text)[0] ?? []).findIndex((f) => f.trim().toLowerCase() === "word");
+      wordAt = (csvRecords(raw)[0] ?? []).findIndex((f) => f.trim().toLowerCase() === "word");
       return;
     }
-    found.push(line);
-    words.push(wordAt < 0 ? "" : fieldOf(text, wordAt).trim().normalize("NFC"));
+    found.push(at);
+    words.push(wordAt < 0 ? "" : fieldOf(raw, wordAt).trim().normalize("NFC"));
+  };
+  await eachLine(path, (raw) => {
+    const text = line === 1 && raw.charCodeAt(0) === 0xfeff ? raw.slice(1) : raw;
+    line += splitStretch(text, line, record);
   });
   return { count: found.length, lines: found, words };
 }

@@ -126,11 +126,17 @@ describe("acquireLock", () => {
 });
 
 describe("reconciliation", () => {
-  it("counts records by the lexicon format: CRLF and LF end records, a lone CR does not; comments, blanks and the header are not records", async () => {
+  it("counts records by the lexicon format: CR LF, LF and a lone CR end lines; a lone CR inside quotes is data; comments, blanks and the header are not records", async () => {
     const dir = fresh();
     const p = join(dir, "l.csv");
-    writeFileSync(p, "\ufeff# comment\r\nWord,pron\r\n\r\nkettle,x\r\n\"pin\rwheel\",y\n  \ncat,z");
-    expect(await countInputRecords(p)).toEqual({ count: 3, lines: [4, 5, 7], words: ["kettle", "pin\rwheel", "cat"] });
+    writeFileSync(p, "\ufeff# comment, \"quoted\r\nWord,pron\r\n\r\nkettle,x\r\n\"pin\rwheel\",y\n \t\ncat,z");
+    expect(await countInputRecords(p)).toEqual({ count: 3, lines: [4, 5, 8], words: ["kettle", "pin\rwheel", "cat"] });
+    // CR-only line ends; "row CR CR LF" is a row and then a blank line.
+    writeFileSync(p, "word,pron\rkettle,x\rcat,y\r\r\nowl,z\r");
+    expect(await countInputRecords(p)).toEqual({ count: 3, lines: [2, 3, 5], words: ["kettle", "cat", "owl"] });
+    // A quote left open ends at the LF: one broken record, never the rest of the file.
+    writeFileSync(p, "word,pron\n\"broken,x\nowl,z\n");
+    expect(await countInputRecords(p)).toEqual({ count: 2, lines: [2, 3], words: ["broken,x", "owl"] });
   });
 
   it("csvRecords follows RFC 4180 §2 quoting (quotes doubled, line breaks inside quotes)", () => {
