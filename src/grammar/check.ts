@@ -5,7 +5,7 @@ import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { bundleKey, PROSODIC_FEATURES, realise, bundleOf, describeBundle, type Bundle, type FeatureValue, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, Rule, Span } from "./ast.js";
 import { conditionsSatisfiable } from "./desugar.js";
-import { elementText } from "./parser.js";
+import { elementText } from "./parse-patterns.js";
 
 /** Most bundles the reachability estimate keeps (it over-approximates; the cap keeps it cheap). */
 const MAX_REACHABLE = 20_000;

@@ -7,7 +7,8 @@ import { diagnostic, type Diagnostic, type SourcePos } from "../diagnostics.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
 import { checkGrammar } from "./check.js";
-import { assembleGrammar, parseFile, type TopItem } from "./parser.js";
+import { assembleGrammar, type TopItem } from "./assemble.js";
+import { parseFile } from "./parser.js";
 
 /** The file a grammar folder is read from. */
 export const GRAMMAR_FILE = "grammar.strata";
