@@ -32,6 +32,15 @@ const ASCII_VARIABLES: ReadonlyMap<string, string> = new Map([
   ["delta", "δ"],
 ]);
 
+/**
+ * Limits that keep every later stage (desugaring, the interpreter's matcher, the compiler's
+ * context recognisers) within its stack and time: groups `( )` / `{ }` nested at most
+ * MAX_NESTING deep, and at most MAX_ELEMENTS elements in one statement. Past either, the
+ * statement is reported at the element that crosses the limit (`grammar/too-deep`, `grammar/too-long`).
+ */
+export const MAX_NESTING = 64;
+export const MAX_ELEMENTS = 10_000;
+
 /** Where a pattern sequence is being read (it decides what may appear, e.g. ∅). */
 export type PatternContext = "target" | "change" | "environment" | "group" | "heavy";
 
@@ -39,6 +48,9 @@ export type PatternContext = "target" | "change" | "environment" | "group" | "he
 export class PatternParser {
   readonly sc: Scanner;
   readonly warnings: Diagnostic[] = [];
+  /** Groups open at the cursor, and elements read so far in this statement (see MAX_NESTING). */
+  private depth = 0;
+  private elements = 0;
 
   constructor(
     readonly file: string,
@@ -82,7 +94,7 @@ export class PatternParser {
    * A sequence of pattern items, stopping (without consuming) at the end, an arrow, '/', '_',
    * '|', ')', '}', ',' or the word `where`.
    */
-  sequence(ctx: "target" | "change" | "environment" | "group" | "heavy"): Item[] {
+  sequence(ctx: PatternContext): Item[] {
     const sc = this.sc;
     const out: Item[] = [];
     while (true) {
@@ -98,7 +110,7 @@ export class PatternParser {
   }
 
   /** An atom with an optional SPE subscript/superscript: `C₀`, `C₁`, `C₀²`, `C_0`, `C_0^2`. */
-  item(ctx: "target" | "change" | "environment" | "group" | "heavy"): Item {
+  item(ctx: PatternContext): Item {
     const sc = this.sc;
     const start = sc.index;
     const atom = this.atom(ctx);
@@ -139,11 +151,31 @@ export class PatternParser {
     return n;
   }
 
-  atom(ctx: "target" | "change" | "environment" | "group" | "heavy" | "class"): Item {
+  atom(ctx: PatternContext | "class"): Item {
     const sc = this.sc;
     const start = sc.index;
     const c = sc.peek();
-    if (c === "[") return { kind: "element", element: this.bundle() };
+    if (++this.elements > MAX_ELEMENTS) this.tooLong();
+    if (c === "(" || c === "{") {
+      if (this.depth >= MAX_NESTING)
+        this.fail("grammar/too-deep", `groups '( )' and '{ }' may be nested at most ${MAX_NESTING} deep`);
+      this.depth++;
+      try {
+        return this.group(start, c);
+      } finally {
+        this.depth--;
+      }
+    }
+    return this.simpleAtom(ctx, start, c);
+  }
+
+  private tooLong(): never {
+    return this.fail("grammar/too-long", `a statement may hold at most ${MAX_ELEMENTS} elements; split the rule or use a class or a repetition`);
+  }
+
+  /** `( … )` or `{ … | … }`, the opening bracket at the cursor. */
+  private group(start: number, c: "(" | "{"): Item {
+    const sc = this.sc;
     if (c === "(") {
       sc.next();
       const body = this.noNull(this.sequence("group"));
@@ -156,22 +188,26 @@ export class PatternParser {
       if (body.length === 0) this.fail("grammar/empty-group", "an optional part '( )' is empty", span);
       return { kind: "optional", body: this.toPattern(body, span), span };
     }
-    if (c === "{") {
-      sc.next();
-      const options: Pattern[] = [];
-      while (true) {
-        const os = sc.index;
-        const body = this.noNull(this.sequence("group"));
-        sc.skipSpace();
-        if (body.length === 0) this.fail("grammar/empty-group", "a choice '{ | }' has an empty option", sc.spanHereAt(os));
-        options.push(this.toPattern(body, coverSpan(body, sc.spanHereAt(os))));
-        if (sc.eat("|")) continue;
-        if (sc.eat("}")) break;
-        if (sc.atEnd()) this.fail("grammar/unclosed", "this '{' is never closed", sc.spanHereAt(start));
-        this.expected("'|' or '}'");
-      }
-      return { kind: "choice", options, span: sc.spanFrom(start) };
+    sc.next();
+    const options: Pattern[] = [];
+    while (true) {
+      const os = sc.index;
+      const body = this.noNull(this.sequence("group"));
+      sc.skipSpace();
+      if (body.length === 0) this.fail("grammar/empty-group", "a choice '{ | }' has an empty option", sc.spanHereAt(os));
+      options.push(this.toPattern(body, coverSpan(body, sc.spanHereAt(os))));
+      if (sc.eat("|")) continue;
+      if (sc.eat("}")) break;
+      if (sc.atEnd()) this.fail("grammar/unclosed", "this '{' is never closed", sc.spanHereAt(start));
+      this.expected("'|' or '}'");
     }
+    return { kind: "choice", options, span: sc.spanFrom(start) };
+  }
+
+  /** Everything but a group: bundle, boundary, ∅, class name, IPA segment run. */
+  private simpleAtom(ctx: PatternContext | "class", start: number, c: string | undefined): Item {
+    const sc = this.sc;
+    if (c === "[") return { kind: "element", element: this.bundle() };
     if (c === "#" || c === "$" || c === ".") {
       sc.next();
       return { kind: "element", element: { kind: "boundary", which: c === "#" ? "word" : "syllable", span: sc.spanFrom(start) } };
@@ -187,7 +223,11 @@ export class PatternParser {
       return { kind: "element", element: { kind: "class", name: sc.textFrom(start), span: sc.spanFrom(start) } };
     }
     if (isIpaChar(c)) {
-      while (isIpaChar(sc.peek())) sc.next();
+      // A run splits into up to one segment per code point (by the loader): each counts.
+      while (isIpaChar(sc.peek())) {
+        sc.next();
+        if (sc.index - start > 1 && ++this.elements > MAX_ELEMENTS) this.tooLong();
+      }
       const symbol = sc.textFrom(start).normalize("NFC");
       return { kind: "element", element: { kind: "segment", symbol, span: sc.spanFrom(start) } };
     }
