@@ -41,6 +41,9 @@ const ASCII_VARIABLES: ReadonlyMap<string, string> = new Map([
 export const MAX_NESTING = 64;
 export const MAX_ELEMENTS = 10_000;
 
+/** Words that end a pattern (inside environments they are keywords, not IPA). */
+export const RESERVED_IN_PATTERNS = ["where", "mirrored", "unless"] as const;
+
 /** Where a pattern sequence is being read (it decides what may appear, e.g. ∅). */
 export type PatternContext = "target" | "change" | "environment" | "group" | "heavy";
 
@@ -103,7 +106,7 @@ export class PatternParser {
       if (c === undefined || c === "/" || c === "|" || c === ")" || c === "}" || c === "," || c === "→") break;
       if (sc.looking("->")) break;
       if (c === "_" && this.placeholderAhead()) break;
-      if (sc.lookingWord("where")) break;
+      if (RESERVED_IN_PATTERNS.some((w) => sc.lookingWord(w))) break;
       out.push(this.item(ctx));
     }
     return out;

@@ -2,7 +2,7 @@
 // pattern-level parser (parse-patterns.ts).
 
 import { diagnostic } from "../diagnostics.js";
-import type { ApplicationMode, ChangeElement, Element, Environment, ProsodicCondition, Rule, Span } from "./ast.js";
+import type { ApplicationMode, ChangeElement, Element, Environment, Expansion, ProsodicCondition, Rule, Span } from "./ast.js";
 import type { TopItem } from "./assemble.js";
 import { coverSpan, coverSpans, elementText, itemSpan, PatternParser, patternSpan } from "./parse-patterns.js";
 
@@ -24,7 +24,7 @@ export class RuleParser extends PatternParser {
   /** The items of the file so far (a rule target's `{a | b}` adds an implicit class). */
   items: TopItem[] = [];
 
-  // rule NAME [optional] [simultaneous|left-to-right|right-to-left] [prefer applied|unapplied] : body
+  // rule NAME [optional] [simultaneous|left-to-right|right-to-left] [prefer applied|unapplied] [longest-first] : body
   rule(): void {
     const sc = this.sc;
     this.space();
@@ -36,6 +36,7 @@ export class RuleParser extends PatternParser {
     let optional: boolean | null = null;
     let mode: ApplicationMode | null = null;
     let prefer: "applied" | "unapplied" | null = null;
+    let expansion: Expansion | null = null;
     const dup = (what: string, s: Span): never =>
       this.fail("grammar/duplicate-option", `rule '${name}' states ${what} twice`, s);
     while (true) {
@@ -50,6 +51,9 @@ export class RuleParser extends PatternParser {
         sc.eatWord(m);
         if (mode !== null) dup("how it applies", sc.spanFrom(os));
         mode = m;
+      } else if (sc.eatWord("longest-first")) {
+        if (expansion !== null) dup("'longest-first'", sc.spanFrom(os));
+        expansion = "longest-first";
       } else if (sc.eatWord("prefer")) {
         sc.skipSpace();
         let p: "applied" | "unapplied";
@@ -59,7 +63,7 @@ export class RuleParser extends PatternParser {
         if (prefer !== null) dup("'prefer'", sc.spanFrom(os));
         prefer = p;
       } else {
-        this.expected("':' or a rule option (optional, simultaneous, left-to-right, right-to-left, prefer applied, prefer unapplied)");
+        this.expected("':' or a rule option (optional, simultaneous, left-to-right, right-to-left, prefer applied, prefer unapplied, longest-first)");
       }
     }
     if (prefer !== null && optional !== true)
@@ -71,10 +75,12 @@ export class RuleParser extends PatternParser {
     const target = this.target(name);
     const change = this.change();
     const environments: Environment[] = [];
+    const unless: Environment[] = [];
     sc.skipSpace();
     while (!sc.atEnd()) {
-      if (!sc.eat("/")) this.expected("'/' before an environment");
-      environments.push(this.environment());
+      if (sc.eatWord("unless")) unless.push(this.environment());
+      else if (sc.eat("/")) environments.push(this.environment());
+      else this.expected("'/' before an environment (or 'unless' before one where the rule does not apply)");
       sc.skipSpace();
     }
     const rule: Rule = {
@@ -87,6 +93,8 @@ export class RuleParser extends PatternParser {
       target,
       change,
       environments,
+      ...(unless.length > 0 ? { unless } : {}),
+      ...(expansion !== null ? { expansion } : {}),
     };
     this.items.push({ kind: "step", step: rule });
   }
@@ -158,7 +166,7 @@ export class RuleParser extends PatternParser {
     });
   }
 
-  // / LEFT _ RIGHT [where cond, cond …]
+  // / LEFT _ RIGHT [mirrored] [where cond, cond …]   (also after `unless`)
   environment(): Environment {
     const sc = this.sc;
     sc.skipSpace();
@@ -176,6 +184,10 @@ export class RuleParser extends PatternParser {
     const rightSpan = coverSpan(right, sc.spanHereAt(rightStart));
     sc.skipSpace();
     if (this.placeholderAhead()) this.fail("grammar/extra-underscore", "an environment has only one '_'");
+    const ms = sc.index;
+    const mirrored = sc.eatWord("mirrored");
+    const mirrorSpan = mirrored ? [sc.spanFrom(ms)] : [];
+    sc.skipSpace();
     const conditions: { condition: ProsodicCondition; span: Span }[] = [];
     if (sc.eatWord("where")) {
       sc.skipSpace();
@@ -193,13 +205,13 @@ export class RuleParser extends PatternParser {
           sc.skipSpace();
           continue;
         }
-        if (sc.atEnd() || sc.peek() === "/") break;
+        if (sc.atEnd() || sc.peek() === "/" || sc.lookingWord("unless")) break;
         if (/^[a-z]$/.test(sc.peek() ?? "")) continue;
         this.expected("',' or another environment");
       }
     }
     const span = coverSpans(
-      [sc.spanHereAt(start), ...left.map(itemSpan), underscore, ...right.map(itemSpan), ...conditions.map((c) => c.span)],
+      [sc.spanHereAt(start), ...left.map(itemSpan), underscore, ...right.map(itemSpan), ...mirrorSpan, ...conditions.map((c) => c.span)],
       sc.spanHereAt(start),
     );
     return {
@@ -207,6 +219,7 @@ export class RuleParser extends PatternParser {
       right: { kind: "sequence", items: this.noNull(right), span: rightSpan },
       conditions,
       span,
+      ...(mirrored ? { mirrored } : {}),
     };
   }
 }
