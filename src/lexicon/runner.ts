@@ -160,15 +160,15 @@ export async function runLexicon(
       }
     } else {
       // Batches in flight on the workers, emitted strictly in submission order.
-      const queue: { items: (LexiconRow | RejectedRow)[]; done: Promise<(Transcription | null)[]> }[] = [];
-      let items: (LexiconRow | RejectedRow)[] = [];
+      const queue: { items: (LexiconRow | RejectedRow | EntryResult)[]; done: Promise<(Transcription | null)[]> }[] = [];
+      let items: (LexiconRow | RejectedRow | EntryResult)[] = [];
       let words: { ids: number[]; bids: number[] }[] = [];
       const drainOne = async (): Promise<void> => {
         const head = queue.shift()!;
         const results = await head.done;
         let k = 0;
         for (const item of head.items) {
-          if (item.kind === "reject") {
+          if (item.kind !== "row") {
             await emit(item);
             continue;
           }
@@ -188,7 +188,8 @@ export async function runLexicon(
         if (item.kind === "row") {
           const e = engine.encode(item.symbols);
           if (e === undefined) {
-            items.push(outsideAlphabet(item));
+            // Segments the workers' machines lack: this thread's engine widens its alphabet.
+            items.push(transcribeRow(engine, item));
             continue;
           }
           words.push(e);
