@@ -98,9 +98,10 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       await pool?.close();
     }
     summaries.push(summary);
-    const fileErrors = summary.diagnostics.filter((d) => d.code.startsWith("lexicon/") && d.line <= 1);
+    // The lexicon file's own problems (all of them, capped per file): the same for every variety, so printed once.
+    const fileErrors = summary.fileDiagnostics.filter((d) => d.severity === "error");
     if (!summary.reconciled || fileErrors.length > 0 || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...fileErrors, ...summary.outputErrors]);
+    printDiagnostics([...(summaries.length === 1 ? summary.fileDiagnostics.filter((d) => d.severity === "error" || !o.quiet) : []), ...summary.outputErrors]);
     if (summary.rowsRejected > 0) rejected = true;
     if (!o.quiet) printSummary(summary, compileMs, outDir, o.samples);
     if (o.check !== undefined) {

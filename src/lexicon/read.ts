@@ -71,6 +71,8 @@ export interface LexiconRow {
    * prosodic features (DEVELOPERS.md, "The string every stage sees").
    */
   readonly symbols: Word;
+  /** The whole record as read (no line end), for rejects made later (e.g. by the runner). */
+  readonly raw: string;
   /** Whether the pronunciation had any stress mark (if not, every nucleus is [0stress 0primary]). */
   readonly stressMarked: boolean;
 }
@@ -347,6 +349,7 @@ function readRow(
     kind: "row",
     file,
     line: info.line,
+    raw: info.raw,
     word,
     pron,
     pronColumn: pronField.column,

@@ -155,15 +155,15 @@ describe("rejects", () => {
     expect(await runBuild(dir, { ...quietOpts(out), allowRejects: true })).toBe(0);
   });
 
-  it("a PLS that cannot be written leaves no PLS file (and no temp file) and fails the build", async () => {
+  it("a word with a character XML 1.0 forbids is rejected by the reader, so every output (PLS included) is written whole", async () => {
     const dir = lexiconFolder(["word,pron", "ok,ˈoʊ", "bad\u0001word,ˈbæd", ""].join("\n"));
     const out = join(dir, "out");
-    expect(await runBuild(dir, quietOpts(out))).toBe(1);
+    expect(await runBuild(dir, quietOpts(out))).toBe(3);
     const base = join(out, basenameOf(dir), "general");
     const files = readdirSync(base).sort();
-    expect(files).not.toContain("lexicon.pls");
+    expect(files).toContain("lexicon.pls");
     expect(files.some((f) => f.endsWith(".tmp"))).toBe(false);
-    expect(existsSync(join(base, "lexicon.tsv"))).toBe(true);
+    expect(readFileSync(join(base, "rejects.csv"), "utf8")).toContain("lexicon/control-character");
   });
 
   it("a missing manifest is a positioned error, not a crash", async () => {
