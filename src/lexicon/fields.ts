@@ -118,18 +118,19 @@ export interface Forbidden {
  */
 const FORBIDDEN = /[\u0000-\u0008\u000a-\u001f\u007f-\u009f\ufeff\ufffd\ufffe\uffff]|\p{Cs}/u;
 
-/** The first forbidden character of a record, if any. */
-export function findForbidden(raw: string): Forbidden | undefined {
+/** The first forbidden character of a record (or an entry of another file: codes start with `room/`), if any. */
+export function findForbidden(raw: string, room = "lexicon"): Forbidden | undefined {
   const m = FORBIDDEN.exec(raw);
   if (m === null) return undefined;
   const column = codePointsBetween(raw, 0, m.index) + 1;
   const c = m[0].charCodeAt(0);
   const hex = `U+${c.toString(16).toUpperCase().padStart(4, "0")}`;
-  if (c === 0xfffd) return { column, code: "lexicon/bad-encoding", reason: "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded)." };
-  if (c === 0) return { column, code: "lexicon/nul", reason: "A NUL character (U+0000) is not allowed in a lexicon line." };
-  if (c === 0xfeff) return { column, code: "lexicon/bom", reason: "A byte-order mark (U+FEFF) is allowed only at the very start of the file, not inside a line." };
-  if (c === 13) return { column, code: "lexicon/control-character", reason: "A carriage return (CR) inside a quoted field: it does not end the line there (RFC 4180), but no field may hold one." };
-  if (c === 10) return { column, code: "lexicon/control-character", reason: "A line feed (LF) inside a field." };
-  if (c < 0x20 || (c >= 0x7f && c <= 0x9f)) return { column, code: "lexicon/control-character", reason: `The control character ${hex} is not allowed in a lexicon line.` };
-  return { column, code: "lexicon/not-a-character", reason: `${hex} is not a character (a lone surrogate or a noncharacter) and is not allowed in a lexicon line.` };
+  const code = (name: string): string => `${room}/${name}`;
+  if (c === 0xfffd) return { column, code: code("bad-encoding"), reason: "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded)." };
+  if (c === 0) return { column, code: code("nul"), reason: "A NUL character (U+0000) is not allowed here." };
+  if (c === 0xfeff) return { column, code: code("bom"), reason: "A byte-order mark (U+FEFF) is allowed only at the very start of the file, not inside a line." };
+  if (c === 13) return { column, code: code("control-character"), reason: "A carriage return (CR) inside a quoted field: it does not end the line there (RFC 4180), but no field may hold one." };
+  if (c === 10) return { column, code: code("control-character"), reason: "A line feed (LF) is not allowed here." };
+  if (c < 0x20 || (c >= 0x7f && c <= 0x9f)) return { column, code: code("control-character"), reason: `The control character ${hex} is not allowed here.` };
+  return { column, code: code("not-a-character"), reason: `${hex} is not a character (a lone surrogate or a noncharacter) and is not allowed here.` };
 }
