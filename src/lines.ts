@@ -44,11 +44,17 @@ export function codePointsBetween(s: string, from: number, to: number): number {
 
 /**
  * Line and column (1-based) of the UTF-16 offset `offset` of `text` (a leading BOM is not counted;
- * an offset inside a CR LF pair is on the line the pair ends). Linear in `offset`.
+ * an offset inside a CR LF pair is on the line the pair ends; the very end of a text that ends in
+ * a line break is the end of its last line, not a line of its own). Linear in `offset`.
  */
 export function positionAt(text: string, offset: number): { line: number; column: number } {
   const start = text.charCodeAt(0) === 0xfeff ? 1 : 0;
-  const end = Math.max(start, Math.min(offset, text.length));
+  let end = Math.max(start, Math.min(offset, text.length));
+  if (end === text.length && end > start) {
+    const last = text.charCodeAt(end - 1);
+    if (last === 10) end -= end - 2 >= start && text.charCodeAt(end - 2) === 13 ? 2 : 1;
+    else if (last === 13) end -= 1;
+  }
   let line = 1;
   let lineStart = start;
   for (let i = start; i < end; i++) {

@@ -43,3 +43,14 @@ describe("capPerFile", () => {
     expect(capPerFile(ds.slice(0, 51), 50).at(-1)!.message).toContain("1 more problem in");
   });
 });
+
+describe("every reader counts lines the same way", () => {
+  it("an inventory with CR-only line ends gets its errors on the lines rendering shows", async () => {
+    const { parseInventory } = await import("../src/inventory/load.js");
+    const text = "# c\rsymbol,syllabic\rp,-\rb,x\r";
+    const r = parseInventory(text, "segments.csv");
+    const d = r.diagnostics.find((x) => x.severity === "error")!;
+    expect([d.line, d.column]).toEqual([4, 3]);
+    expect(renderDiagnostic(d, text).split("\n")[1]).toBe("    4 | b,x");
+  });
+});

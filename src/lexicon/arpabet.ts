@@ -4,11 +4,11 @@
 import { existsSync, readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { parse } from "csv-parse/sync";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { splitLines } from "../lines.js";
-import { findForbidden } from "./fields.js";
+import { checkQuoting, findForbidden } from "./fields.js";
+import { splitRecords } from "./records.js";
 import type { RejectedRow } from "./read.js";
 
 /** One ARPAbet phone of the mapping table. */
@@ -45,12 +45,17 @@ export function defaultArpabetTablePath(): string | undefined {
  */
 export function parseArpabetTable(text: string, file: string): { table?: ArpabetTable; diagnostics: Diagnostic[] } {
   const out: Diagnostic[] = [];
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(text, { bom: true, comment: "#", comment_no_infix: true, skip_empty_lines: true, relax_column_count: true, info: true }) as unknown as typeof records;
-  } catch (e) {
-    const line = typeof (e as { lines?: unknown }).lines === "number" ? ((e as { lines: number }).lines) : 1;
-    return { diagnostics: [diagnostic("error", "arpabet/csv", `The mapping table cannot be read as CSV: ${(e as Error).message}`, { file, line, column: 1 })] };
+  // The lexicon file's own CSV grammar (records.ts, fields.ts), so lines are counted as everywhere else.
+  const records: { record: string[]; info: { lines: number } }[] = [];
+  for (const rec of splitRecords(text)) {
+    if (rec.kind !== "data") continue;
+    const bad = findForbidden(rec.raw, "arpabet");
+    const q = bad === undefined ? checkQuoting(rec.raw) : undefined;
+    if (bad !== undefined || q === undefined || !q.ok) {
+      const why = bad ?? (q !== undefined && !q.ok ? q : undefined)!;
+      return { diagnostics: [diagnostic("error", "arpabet/csv", `The mapping table cannot be read as CSV: ${why.reason}`, { file, line: rec.line, column: why.column })] };
+    }
+    records.push({ record: q.fields.map((f) => f.value), info: { lines: rec.line } });
   }
   const head = records[0];
   if (head === undefined) return { diagnostics: [diagnostic("error", "arpabet/empty", "The mapping table is empty.", { file, line: 1, column: 1 })] };
