@@ -34,7 +34,7 @@ describe("build.json", () => {
     expect(rec.varieties.map((v: { name: string }) => v.name)).toEqual(["general", "careful"]);
     const general = rec.varieties[0];
     expect(general.grammar.files.map((f: { path: string }) => f.path)).toEqual([
-      "../en-us/grammar.strata", "../en-us/common.strata", "../en-us/reductions.strata", "../en-us/coarticulation.strata",
+      "../en-us/grammar.strata", "../en-us/common.strata", "../en-us/reductions.strata", "../en-us/coarticulation.strata", "../en-us/nasal-flap.strata",
     ]);
     for (const f of general.grammar.files) expect(f.sha256).toBe(sha(join(demo, f.path)));
     expect(general.inventory.files.map((f: { path: string }) => f.path)).toEqual(["../en-us/segments.csv", "../en-us/diacritics.csv"]);
