@@ -13,7 +13,7 @@ import { checkQuoting, columnInField, findForbidden } from "./fields.js";
 import type { Field } from "./fields.js";
 import { RecordSplitter } from "./records.js";
 import type { SourceRecord } from "./records.js";
-import { applyStress } from "./stress.js";
+import { applyStress, unstressAll } from "./stress.js";
 
 export { checkQuoting, columnInField, findForbidden } from "./fields.js";
 export type { Field, FieldSpan, QuoteCheck } from "./fields.js";
@@ -44,6 +44,9 @@ export type { SourceRecord, RecordKind } from "./records.js";
  * Every data record ends up as exactly one row or one reject, in file order.
  */
 
+/** The tag (in the `tags` column) of a weak form: every vowel unstressed, no default stress. */
+export const WEAK_TAG = "weak";
+
 /** The columns the reader knows. */
 export const LEXICON_COLUMNS = ["word", "pron", "id", "pos", "tags", "note"] as const;
 export type LexiconColumn = (typeof LEXICON_COLUMNS)[number];
@@ -73,7 +76,10 @@ export interface LexiconRow {
   readonly symbols: Word;
   /** The whole record as read (no line end), for rejects made later (e.g. by the runner). */
   readonly raw: string;
-  /** Whether the pronunciation had any stress mark (if not, every nucleus is [0stress 0primary]). */
+  /**
+   * Whether the pronunciation had any stress mark, or the row is tagged `weak` (if neither, every
+   * nucleus is [0stress 0primary]; tagged `weak`, every nucleus is [-stress -primary]).
+   */
   readonly stressMarked: boolean;
 }
 
@@ -340,6 +346,12 @@ function readRow(
   }
   const s = applyStress(inv, t.tokens);
   if (!s.ok) return reject(columnInField(info.raw, pronField, s.column - pronField.column), s.code, s.reason);
+  const tags = (get("tags") ?? "").split(/[\s,;]+/u).filter((x) => x !== "");
+  // The tag `weak`: a weak form, every vowel unstressed rather than given default stress.
+  const weak = tags.includes(WEAK_TAG);
+  if (weak && s.marked) {
+    return reject(colOf("tags"), "lexicon/weak-with-stress", `'${word}' is tagged ${WEAK_TAG} (every vowel unstressed) but its pronunciation has stress marks.`);
+  }
 
   const opt = (c: LexiconColumn): string | undefined => {
     const v = get(c)?.trim();
@@ -353,9 +365,9 @@ function readRow(
     word,
     pron,
     pronColumn: pronField.column,
-    tags: (get("tags") ?? "").split(/[\s,;]+/u).filter((x) => x !== ""),
-    symbols: s.symbols,
-    stressMarked: s.marked,
+    tags,
+    symbols: weak ? unstressAll(inv, s.symbols) : s.symbols,
+    stressMarked: s.marked || weak,
     ...optional("id", opt("id")),
     ...optional("pos", opt("pos")),
     ...optional("note", opt("note")),
