@@ -229,6 +229,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     try {
       for await (const chunk of textChunks(stream)) {
         const recs = splitter.push(chunk);
+        stats.lines = splitter.lines;
         if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
         for (const rec of recs) {
           const item = take(rec);
@@ -242,7 +243,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
         if (item !== undefined) yield count(item);
       }
     } catch (e) {
-      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed: ${(e as Error).message}.`, { file, line: splitter.lines + 1, column: 1 }));
+      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${splitter.lines}: ${(e as Error).message}.`, { file, line: Math.max(1, splitter.lines), column: 1 }));
       return;
     } finally {
       stats.lines = splitter.lines;
