@@ -48,6 +48,17 @@ export function formatDiagnostic(d: Diagnostic): string {
   return `${d.file}:${d.line}:${d.column}: ${d.severity}: ${d.message} [${d.code}]`;
 }
 
+let lastText: string | undefined;
+let lastLines: readonly string[] = [];
+/** The lines of a source text; the last split is kept, so rendering many diagnostics of one file splits it once. */
+function linesOf(text: string): readonly string[] {
+  if (text !== lastText) {
+    lastText = text;
+    lastLines = splitLines(text);
+  }
+  return lastLines;
+}
+
 /**
  * The one-line form followed by the offending source line and a caret under the span.
  * `sourceText` is the whole file the diagnostic points into, when the caller has it.
@@ -56,7 +67,7 @@ export function renderDiagnostic(d: Diagnostic, sourceText?: string): string {
   const head = formatDiagnostic(d);
   if (sourceText === undefined) return head;
   // The same lines every position is computed on (src/lines.ts): CR LF, LF or a lone CR ends a line.
-  const text = splitLines(sourceText)[d.line - 1];
+  const text = linesOf(sourceText)[d.line - 1];
   if (text === undefined) return head;
   const shown = [...text].map((ch) => (ch === "\t" ? " " : ch)).join("");
   const pad = " ".repeat(Math.max(0, d.column - 1));
