@@ -150,19 +150,3 @@ describe("lexicon reader: quote checking is linear", () => {
     expect(brief(items).map((s) => s.slice(0, 30))).toEqual(["reject 2:90001 lexicon/unclose", "row 3 Last"]);
   }, 20_000);
 });
-
-describe("countRecords: the independent record counter", () => {
-  it("counts a file's data records as the reader reads them, CR cases included", async () => {
-    const { countRecords } = await import("../../src/lexicon/count.js");
-    const { mkdtempSync, writeFileSync } = await import("node:fs");
-    const { tmpdir } = await import("node:os");
-    const { join } = await import("node:path");
-    const text = '\ufeff# c\r\nword,pron,note\nKest,kɛst,"a\rb"\r\n\r\nFenna,ˈfɛ.nə\rDovrenny,dQ\r\r\n"open,x\nLast,læst';
-    const path = join(mkdtempSync(join(tmpdir(), "strata-count-")), "lex.csv");
-    writeFileSync(path, text);
-    const { items, reader } = await readText(text);
-    expect(await countRecords(path)).toEqual({ lines: 10, dataRecords: items.length, headerLine: 2 });
-    expect(items.length).toBe(5);
-    expect(reader.stats.lines).toBe(10);
-  });
-});
