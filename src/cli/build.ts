@@ -124,9 +124,10 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     summaries.push(summary);
     held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
     if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;
-    const fileErrors = summary.diagnostics.filter((d) => d.code.startsWith("lexicon/") && d.line <= 1);
+    // The lexicon file's own problems (all of them, capped per file): the same for every variety, so printed once.
+    const fileErrors = summary.fileDiagnostics.filter((d) => d.severity === "error");
     if (!summary.reconciled || fileErrors.length > 0 || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...fileErrors, ...summary.outputErrors]);
+    printDiagnostics([...(summaries.length === 1 ? summary.fileDiagnostics.filter((d) => d.severity === "error" || !o.quiet) : []), ...summary.outputErrors]);
     if (summary.rowsRejected > 0) rejected = true;
     if (!o.quiet) printSummary(summary, compileMs, outDir, o.samples);
     if (o.check !== undefined) {

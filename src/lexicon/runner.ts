@@ -2,7 +2,7 @@
 // TSV, JSON Lines and PLS written whole, a rejects file, and a summary that reconciles every row.
 
 import { dirname, join } from "node:path";
-import { formatDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { capPerFile, formatDiagnostic, type Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { formatJsonLine } from "../emit/jsonl.js";
 import { writePls, type PlsEntry } from "../emit/pls.js";
@@ -49,6 +49,8 @@ export interface RunSummary {
   readonly changedBy: readonly { readonly step: string; readonly entries: number }[];
   readonly files: Readonly<Record<string, string>>;
   readonly diagnostics: readonly Diagnostic[];
+  /** The lexicon file's own problems (unreadable, header): every one, capped per file with a count of the rest. */
+  readonly fileDiagnostics: readonly Diagnostic[];
   /** Why the variety's outputs were not replaced (a path that cannot be written, rows that do not reconcile); empty on success. */
   readonly outputErrors: readonly Diagnostic[];
   readonly seconds: number;
@@ -60,7 +62,7 @@ export interface RunSummary {
 function outsideAlphabet(row: LexiconRow): RejectedRow {
   return {
     kind: "reject", file: row.file, line: row.line, column: row.pronColumn, code: "run/outside-alphabet",
-    reason: "the compiled grammar does not accept this pronunciation (a symbol outside its alphabet)", raw: `${row.word},${row.pron}`,
+    reason: "the compiled grammar does not accept this pronunciation (a symbol outside its alphabet)", raw: row.raw,
   };
 }
 
@@ -160,15 +162,15 @@ export async function runLexicon(
       }
     } else {
       // Batches in flight on the workers, emitted strictly in submission order.
-      const queue: { items: (LexiconRow | RejectedRow)[]; done: Promise<(Transcription | null)[]> }[] = [];
-      let items: (LexiconRow | RejectedRow)[] = [];
+      const queue: { items: (LexiconRow | RejectedRow | EntryResult)[]; done: Promise<(Transcription | null)[]> }[] = [];
+      let items: (LexiconRow | RejectedRow | EntryResult)[] = [];
       let words: { ids: number[]; bids: number[] }[] = [];
       const drainOne = async (): Promise<void> => {
         const head = queue.shift()!;
         const results = await head.done;
         let k = 0;
         for (const item of head.items) {
-          if (item.kind === "reject") {
+          if (item.kind !== "row") {
             await emit(item);
             continue;
           }
@@ -188,7 +190,8 @@ export async function runLexicon(
         if (item.kind === "row") {
           const e = engine.encode(item.symbols);
           if (e === undefined) {
-            items.push(outsideAlphabet(item));
+            // Segments the workers' machines lack: this thread's engine widens its alphabet.
+            items.push(transcribeRow(engine, item));
             continue;
           }
           words.push(e);
@@ -266,6 +269,7 @@ export async function runLexicon(
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
     outputErrors,
+    fileDiagnostics: capPerFile(reader.diagnostics),
     diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
     reconciled: true,
@@ -283,6 +287,6 @@ export async function runLexicon(
 function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {
   return {
     variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0,
-    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
+    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }

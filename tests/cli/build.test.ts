@@ -155,7 +155,7 @@ describe("rejects", () => {
     expect(await runBuild(dir, { ...quietOpts(out), allowRejects: true })).toBe(0);
   });
 
-  it("an entry PLS cannot hold (a character XML 1.0 forbids) is a reject in every output, and the PLS is written", async () => {
+  it("a word with a character XML 1.0 forbids is a reject in every output, and every output (PLS included) is written whole", async () => {
     const dir = lexiconFolder(["word,pron", "ok,ˈoʊ", "bad\u0001word,ˈbæd", ""].join("\n"));
     const out = join(dir, "out");
     expect(await runBuild(dir, quietOpts(out))).toBe(3);
@@ -163,7 +163,7 @@ describe("rejects", () => {
     expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
     for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls"]) expect(readFileSync(join(base, f), "utf8")).not.toContain("bad");
     const rejects = readFileSync(join(base, "rejects.csv"), "utf8").trimEnd().split("\n");
-    expect(rejects.slice(1).map((l) => l.split(",").slice(0, 4).join(","))).toEqual(["lexicon.csv,3,1,pls/invalid-xml-char"]);
+    expect(rejects.slice(1).map((l) => l.split(",").slice(0, 4).join(","))).toEqual(["lexicon.csv,3,4,lexicon/control-character"]);
     expect(JSON.parse(readFileSync(join(base, "summary.json"), "utf8"))).toMatchObject({ rowsRead: 2, entriesWritten: 1, rowsRejected: 1, reconciled: true });
   });
 
