@@ -72,6 +72,8 @@ export interface InteractionReport {
   readonly pairs: readonly PairResult[];
   readonly swaps: readonly SwapResult[];
   readonly environments: readonly EnvironmentResult[];
+  /** Each step's change domain D_k as a DFA (null where it could not be built). */
+  readonly domainDfas: readonly (Dfa | null)[];
   /** The largest machine any analysis built (states), and what it was. */
   readonly largest: { readonly states: number; readonly what: string };
   readonly seconds: number;
@@ -182,7 +184,8 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
         const x = shortestString(inF, { machine: first.variants, output: [{ dfa: D, member: creates }] }, size, limit, `the ${kind} search for '${A.name}' and '${B.name}'`);
         if (x === null) return null;
         const y = outputOf(first.variants, x, (o) => accepts(D, o) === creates);
-        return { input: x, source: source(a, x), first: y, directly: outputOf(other.variants, x, () => true), after: outputOf(other.variants, y, () => true) };
+        const changes = (from: readonly number[]) => (o: number[]): boolean => o.join(",") !== from.join(",");
+        return { input: x, source: source(a, x), first: y, directly: outputOf(other.variants, x, changes(x)), after: outputOf(other.variants, y, changes(y)) };
       }));
       pairs.push({ a, b, relations: { feeds: rel("feeds"), bleeds: rel("bleeds"), counterfeeds: rel("counterfeeds"), counterbleeds: rel("counterbleeds") } });
     }
@@ -224,5 +227,5 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
   });
 
   phase("environments");
-  return { report: { machines, steps: stepResults, pairs, swaps, environments, largest, seconds: (performance.now() - t0) / 1000, phases }, diagnostics };
+  return { report: { machines, steps: stepResults, pairs, swaps, environments, domainDfas: domains.map((d) => (d.decided ? d.value : null)), largest, seconds: (performance.now() - t0) / 1000, phases }, diagnostics };
 }
