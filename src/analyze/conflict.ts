@@ -35,6 +35,45 @@ function classes(size: number, lang: Dfa, ms: readonly StrMachine[]): number[] {
 }
 
 /**
+ * Pairs (p, q) of states from which some common input is accepted by both machines: paths that
+ * guessed differently (a rewrite against a copy whose context the input will decide) are left out,
+ * so the delays of the pairs kept stay bounded for functional machines.
+ */
+function usefulPairs(a: StrMachine, b: StrMachine, arcsA: Map<number, StrArc[]>[], arcsB: Map<number, StrArc[]>[], reps: readonly number[], limit: number, what: string): Set<number> {
+  const nb = b.arcs.length;
+  const start = a.start * nb + b.start;
+  const seen = new Set<number>([start]);
+  const order = [start];
+  const preds = new Map<number, number[]>();
+  for (let k = 0; k < order.length; k++) {
+    const pq = order[k]!;
+    const p = Math.floor(pq / nb), q = pq % nb;
+    for (const x of reps) {
+      const la = arcsA[p]!.get(x), lb = arcsB[q]!.get(x);
+      if (la === undefined || lb === undefined) continue;
+      for (const e of la) for (const f of lb) {
+        const t = e.target * nb + f.target;
+        const list = preds.get(t);
+        if (list === undefined) preds.set(t, [pq]);
+        else list.push(pq);
+        if (!seen.has(t)) {
+          if (seen.size >= limit) throw new AnalysisLimitError(what, limit);
+          seen.add(t);
+          order.push(t);
+        }
+      }
+    }
+  }
+  const useful = new Set<number>();
+  const stack: number[] = [];
+  for (const pq of order) if (a.finals[Math.floor(pq / nb)]!.length > 0 && b.finals[pq % nb]!.length > 0) { useful.add(pq); stack.push(pq); }
+  while (stack.length > 0) {
+    for (const r of preds.get(stack.pop()!) ?? []) if (!useful.has(r)) { useful.add(r); stack.push(r); }
+  }
+  return useful;
+}
+
+/**
  * The shortest x in `lang` (then the first found, symbols ascending) such that some output of
  * `m1` on x differs from some output of `m2` on x, or exactly one of them accepts x; null when none.
  * For functional machines this is the shortest distinguishing input (Béal, Carton, Prieur &
@@ -59,6 +98,7 @@ export function shortestConflict(lang: Dfa, m1: Fst, m2: Fst, limit: number, wha
     return map;
   });
   const arcsA = byInput(a), arcsB = byInput(b);
+  const useful = usefulPairs(a, b, arcsA, arcsB, reps, limit, what);
   const nodes: { r: number; p: number; q: number; d: Delay; parent: number; x: number }[] = [];
   const seen = new Set<string>();
   const push = (r: number, p: number, q: number, d: Delay, parent: number, x: number): void => {
@@ -74,12 +114,12 @@ export function shortestConflict(lang: Dfa, m1: Fst, m2: Fst, limit: number, wha
     for (let i = k; nodes[i]!.parent >= 0; i = nodes[i]!.parent) w.push(nodes[i]!.x);
     return w.reverse();
   };
+  if (!useful.has(a.start * b.arcs.length + b.start)) return null;
   push(lang.start, a.start, b.start, EVEN, -1, 0);
   for (let k = 0; k < nodes.length; k++) {
     const { r, p, q, d } = nodes[k]!;
     if (lang.finals[r] === 1) {
       const fa = a.finals[p]!, fb = b.finals[q]!;
-      if ((fa.length > 0) !== (fb.length > 0)) return path(k);
       for (const f1 of fa) for (const f2 of fb) if (advance(d, f1, f2) !== EVEN) return path(k);
     }
     const ma = arcsA[p]!, mb = arcsB[q]!;
@@ -89,7 +129,7 @@ export function shortestConflict(lang: Dfa, m1: Fst, m2: Fst, limit: number, wha
       const la = ma.get(x), lb = mb.get(x);
       // A path of one machine that cannot read x ends here; the other paths carry on.
       if (la === undefined || lb === undefined) continue;
-      for (const e of la) for (const f of lb) push(r2, e.target, f.target, advance(d, e.output, f.output), k, x);
+      for (const e of la) for (const f of lb) if (useful.has(e.target * b.arcs.length + f.target)) push(r2, e.target, f.target, advance(d, e.output, f.output), k, x);
     }
   }
   return null;

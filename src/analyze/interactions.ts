@@ -9,7 +9,7 @@ import type { Inventory } from "../inventory/types.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { AnalysisLimitError, accepts, guarded, inputWords, type Dfa } from "./dfa.js";
 import { shortestConflict } from "./conflict.js";
-import { changeDomain, imageOf } from "./domain.js";
+import { boundaryRuns, changeDomainOf, imageOf, type ChangeDomain } from "./domain.js";
 import { shortestString, type Filter } from "./search.js";
 import { analysisMachines, type AnalysisMachines, type StepMachines } from "./steps.js";
 import { sourceOf } from "./source.js";
@@ -130,8 +130,11 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
     reachFail.push(img.decided ? "" : img.reason);
     cur = img.decided ? img.value : null;
   }
-  const domains: Decided<Dfa>[] = steps.map((s) => decide(() => changeDomain(s.variants, size, limit)));
-  domains.forEach((d, k) => { if (d.decided) note(d.value.states, `change domain of '${steps[k]!.name}'`); });
+  const domains: Decided<ChangeDomain>[] = steps.map((s) => decide(() => changeDomainOf(s.variants, size, limit)));
+  domains.forEach((d, k) => { if (d.decided) note(d.value.dfa.states, `change domain of '${steps[k]!.name}'`); });
+  // Searches that use a domain exact only on strings with few '.' in a row are kept to those strings.
+  const runs: Filter = { dfa: boundaryRuns(size), member: true };
+  const within = (...ks: number[]): Filter[] => (ks.some((k) => domains[k]?.decided === true && domains[k].value.restricted) ? [runs] : []);
 
   phase("languages");
   const source = (k: number, x: readonly number[]): number[] | null => {
@@ -155,17 +158,17 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
   const dom = (k: number): Dfa => {
     const d = domains[k]!;
     if (!d.decided) throw new AnalysisLimitError(`the change domain of '${steps[k]!.name}' (${d.reason})`, limit);
-    return d.value;
+    return d.value.dfa;
   };
 
   const stepResults: StepResult[] = steps.map((s, k) => ({
     index: k, name: s.name,
     applies: decide(() => need(k, (R) => {
-      const x = shortestString([{ dfa: R, member: true }, { dfa: dom(k), member: true }], null, size, limit, `the search for where '${s.name}' applies`);
+      const x = shortestString([{ dfa: R, member: true }, { dfa: dom(k), member: true }, ...within(k)], null, size, limit, `the search for where '${s.name}' applies`);
       return x === null ? null : { input: x, source: source(k, x) };
     })),
     reachingStates: reaching[k]?.states ?? 0,
-    domainStates: domains[k]!.decided ? (domains[k] as { value: Dfa }).value.states : 0,
+    domainStates: domains[k]!.decided ? (domains[k] as { value: ChangeDomain }).value.dfa.states : 0,
   }));
 
   phase("dead");
@@ -180,8 +183,8 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
         const other: StepMachines = counter ? A : B;
         const D = dom(other.index);
         const creates = kind === "feeds" || kind === "counterfeeds";
-        const inF: Filter[] = [{ dfa: R, member: true }, { dfa: D, member: !creates }];
-        const x = shortestString(inF, { machine: first.variants, output: [{ dfa: D, member: creates }] }, size, limit, `the ${kind} search for '${A.name}' and '${B.name}'`);
+        const inF: Filter[] = [{ dfa: R, member: true }, { dfa: D, member: !creates }, ...within(other.index)];
+        const x = shortestString(inF, { machine: first.variants, output: [{ dfa: D, member: creates }, ...within(other.index)] }, size, limit, `the ${kind} search for '${A.name}' and '${B.name}'`);
         if (x === null) return null;
         const y = outputOf(first.variants, x, (o) => accepts(D, o) === creates);
         const changes = (from: readonly number[]) => (o: number[]): boolean => o.join(",") !== from.join(",");
@@ -227,5 +230,5 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
   });
 
   phase("environments");
-  return { report: { machines, steps: stepResults, pairs, swaps, environments, domainDfas: domains.map((d) => (d.decided ? d.value : null)), largest, seconds: (performance.now() - t0) / 1000, phases }, diagnostics };
+  return { report: { machines, steps: stepResults, pairs, swaps, environments, domainDfas: domains.map((d) => (d.decided ? d.value.dfa : null)), largest, seconds: (performance.now() - t0) / 1000, phases }, diagnostics };
 }
