@@ -4,8 +4,7 @@
 
 import { FstError, removeInputEpsilons, type Fst, type StrArc, type StrMachine } from "../fst/index.js";
 import { AnalysisLimitError, type Dfa } from "./dfa.js";
-import { EVEN, advance, delayKey, delayLength, type Delay } from "./delay.js";
-import { MAX_DELAY } from "./domain.js";
+import { EVEN, MAX_DELAY, advance, delayKey, delayLength, type Delay } from "./delay.js";
 
 function strMachine(f: Fst, which: string): StrMachine {
   const r = removeInputEpsilons(f);

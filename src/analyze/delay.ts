@@ -4,6 +4,9 @@
 
 import type { Label } from "../fst/index.js";
 
+/** Longest stretch by which one output may run ahead of its input or of another output in a search. */
+export const MAX_DELAY = 12;
+
 export type Delay = { readonly side: "first" | "second" | "even"; readonly rest: readonly Label[] } | "mismatch";
 
 export const EVEN: Delay = { side: "even", rest: [] };

@@ -130,7 +130,7 @@ export function analyseInteractions(grammar: Grammar, inv: Inventory, opts: Inte
     reachFail.push(img.decided ? "" : img.reason);
     cur = img.decided ? img.value : null;
   }
-  const domains: Decided<ChangeDomain>[] = steps.map((s) => decide(() => changeDomainOf(s.variants, size, limit)));
+  const domains: Decided<ChangeDomain>[] = steps.map((s) => decide(() => changeDomainOf(s.variants, size, limit, s.kind === "syllabify")));
   domains.forEach((d, k) => { if (d.decided) note(d.value.dfa.states, `change domain of '${steps[k]!.name}'`); });
   // Searches that use a domain exact only on strings with few '.' in a row are kept to those strings.
   const runs: Filter = { dfa: boundaryRuns(size), member: true };
