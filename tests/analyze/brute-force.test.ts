@@ -144,7 +144,7 @@ describe("exact interactions against brute-force enumeration (words up to three 
           }
         }
       }),
-      { numRuns: process.env["CI"] ? 15 : 25 },
+      { numRuns: process.env["CI"] ? 8 : 12 },
     );
   }, 600_000);
 });

@@ -84,13 +84,22 @@ describe("the en-us grammar's own interactions (lexicons/en-us/README.md and the
     const s = r.swaps.find((x) => r.steps[x.a]!.name === "aspiration")!;
     expect(s.difference.decided && s.difference.value !== null).toBe(true);
   });
-  it("dental place bleeds aspiration (t̪ is no longer p t k) and does not interact with flapping or the glottal stop (common.strata)", () => {
-    expect(relations(r, "dental-place", "aspiration")).toContain("bleeds");
+  it("dental place bleeds syllabic n, counterbleeds dark l (\"wealth\" ɫ̪), and does not interact with flapping or the glottal stop (common.strata)", () => {
+    expect(relations(r, "dental-place", "syllabic-n")).toContain("bleeds");
+    expect(relations(r, "dental-place", "dark-l")).toEqual(["counterbleeds"]);
     expect(relations(r, "dental-place", "flapping")).toEqual([]);
     expect(relations(r, "dental-place", "glottal-stop")).toEqual([]);
   });
-  it("pre-voiced lengthening and flapping do not interact: with maximal onsets a /d/ before a vowel is never in the vowel's syllable (common.strata)", () => {
-    expect(relations(r, "pre-voiced-lengthening", "flapping")).toEqual([]);
+  it("pre-voiced lengthening before flapping is counterbleeding: \"rider\" keeps its length (Joos 1942; Chomsky 1964 — from memory; common.strata)", () => {
+    expect(relations(r, "pre-voiced-lengthening", "flapping")).toEqual(["counterbleeds"]);
+  });
+  it("syllabic n does not bleed flapping itself: schwa deletion does; flapping first would bleed syllabic n (common.strata, reductions.strata)", () => {
+    expect(relations(r, "syllabic-n", "flapping")).toEqual(["counterbleeds"]);
+  });
+  it("nasal flap: no interaction with aspiration; nasalisation bleeds it (nasal-flap.strata)", () => {
+    expect(relations(r, "aspiration", "nasal-flap")).toEqual([]);
+    expect(relations(r, "nasalisation", "nasal-flap")).toContain("bleeds");
+    expect(relations(r, "nasal-flap", "nasal-flap-merger")).toEqual(["feeds"]);
   });
   it("flapping and the glottal stop do not interact with aspiration: the order among them is free (coarticulation.strata)", () => {
     expect(relations(r, "flapping", "aspiration")).toEqual([]);
