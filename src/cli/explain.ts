@@ -17,6 +17,20 @@ export function argColumns(argv: readonly string[], words: readonly string[]): A
   });
 }
 
+/**
+ * Runs a command's library side; an internal error (a bug in Strata) prints one line asking for a
+ * report (the stack only with STRATA_DEBUG=1) and exits 70 (DEVELOPERS.md, exit codes).
+ */
+export async function internal<T>(f: () => Promise<T>): Promise<T> {
+  try {
+    return await f();
+  } catch (e) {
+    process.stderr.write(`strata: internal error: ${e instanceof Error ? e.message : String(e)}. Please report it with the command you ran.\n`);
+    if (process.env["STRATA_DEBUG"] === "1" && e instanceof Error && e.stack !== undefined) process.stderr.write(e.stack + "\n");
+    process.exit(70);
+  }
+}
+
 /** Writes a whole file (temp file, then rename) or standard output. */
 export function emit(text: string, out: string | undefined): void {
   if (out === undefined) { process.stdout.write(text); return; }
@@ -45,8 +59,9 @@ export function registerExplain(program: Command): void {
 Examples:
   strata explain -g lexicons/en-us "ˈbʌtən" "ˈwɔtɚ"
   strata explain -g lexicons/en-us -d careful "ˈbɑtəl"
-  strata explain -g lexicons/en-us --from lexicons/demo/lexicon.csv Fernhollow
-  strata explain -g lexicons/en-us --json "ˈkæn"`)
+  strata explain -g lexicons/en-us --from lexicons/demo/lexicon.csv Tasperton
+  strata explain -g lexicons/en-us --json "ˈkæn"
+`)
     .action(async (words: string[], o: ExplainOpts) => {
       const color = o.color ?? (o.out === undefined && process.stdout.isTTY === true && process.env["NO_COLOR"] === undefined);
       if (!["table", "json"].includes(o.format) || !Number.isInteger(o.maxVariants) || o.maxVariants < 1) {
@@ -55,10 +70,10 @@ Examples:
         process.exitCode = 1;
         return;
       }
-      const r = await runExplainCommand({
+      const r = await internal(() => runExplainCommand({
         grammar: grammarPath(o.grammar, o.variety), words: argColumns(process.argv.slice(2), words),
         ...(o.from !== undefined ? { from: o.from } : {}), json: o.json || o.format === "json", color, maxVariants: o.maxVariants,
-      });
+      }));
       printDiagnostics(r.diagnostics);
       if (r.stdout !== "") emit(r.stdout, o.out);
       process.exitCode = r.exitCode;

@@ -5,7 +5,7 @@
 import type { Command } from "commander";
 import { runInteractionsCommand } from "../analyze/commands.js";
 import { grammarPath, printDiagnostics } from "./common.js";
-import { emit } from "./explain.js";
+import { emit, internal } from "./explain.js";
 
 interface InteractionsOpts { grammar: string; variety?: string; lexicon?: string; examples: number; format: string; json: boolean; out?: string; maxStates: number; quiet: boolean }
 
@@ -36,7 +36,8 @@ Examples:
   strata interactions -g lexicons/en-us
   strata interactions -g lexicons/en-us -d careful --json
   strata interactions -g lexicons/en-us --lexicon lexicons/demo/lexicon.csv --examples 5
-  strata interactions -g lexicons/en-us --format dot -o interactions.dot && dot -Tsvg interactions.dot > interactions.svg`)
+  strata interactions -g lexicons/en-us --format dot -o interactions.dot && dot -Tsvg interactions.dot > interactions.svg
+`)
     .action(async (o: InteractionsOpts) => {
       const format = o.json ? "json" : o.format;
       if (format !== "table" && format !== "json" && format !== "dot") {
@@ -44,10 +45,10 @@ Examples:
         process.exitCode = 1;
         return;
       }
-      const r = await runInteractionsCommand({
+      const r = await internal(() => runInteractionsCommand({
         grammar: grammarPath(o.grammar, o.variety), grammarName: o.variety !== undefined ? `${o.grammar} (${o.variety})` : o.grammar,
         ...(o.lexicon !== undefined ? { lexicon: o.lexicon } : {}), examples: o.examples, format, maxStates: o.maxStates,
-      });
+      }));
       printDiagnostics(o.quiet ? r.diagnostics.filter((d) => d.severity === "error") : r.diagnostics);
       if (r.stdout !== "") emit(r.stdout, o.out);
       if (!o.quiet && r.seconds !== undefined) process.stderr.write(`strata: interactions analysed in ${r.seconds.toFixed(1)} s\n`);
