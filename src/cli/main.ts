@@ -12,6 +12,8 @@ import { registerLint } from "./lint.js";
 import { registerClusters } from "./clusters.js";
 import { registerCompare } from "./compare.js";
 import { registerAccept } from "./accept.js";
+import { registerExplain } from "./explain.js";
+import { registerInteractions } from "./interactions.js";
 
 const program = new Command();
 program
@@ -28,5 +30,7 @@ registerLint(program);
 registerClusters(program);
 registerCompare(program);
 registerAccept(program);
+registerExplain(program);
+registerInteractions(program);
 
 await program.parseAsync(process.argv);
