@@ -13,6 +13,7 @@ import { SYLLABLE_EDGE, WORD_EDGE, segment } from "../interp/types.js";
 import type { Sym, Word } from "../interp/types.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { csvLine } from "../emit/csv.js";
+import { pronReader } from "./pron.js";
 
 /*
  * The file format:
@@ -574,12 +575,17 @@ function readRow(
   const pronField = info.fields[pronIndex] ?? { column: colOf("pron"), quoted: false };
   if (pron.trim() === "") return reject(pronField.column, "lexicon/empty-pron", `The pronunciation of '${word}' is empty.`);
 
-  const t = tokenise(inv, pron, { file, line: info.line, column: pronField.column });
-  if (!t.ok) {
-    return reject(columnInField(info.raw, pronField, t.error.column - pronField.column), t.error.code, t.error.message);
+  // The memoising fast path (lexicon/pron.ts) for the common case; every other case, errors included, below.
+  let s: { readonly symbols: Word; readonly marked: boolean } | undefined = pronReader(inv).read(pron);
+  if (s === undefined) {
+    const t = tokenise(inv, pron, { file, line: info.line, column: pronField.column });
+    if (!t.ok) {
+      return reject(columnInField(info.raw, pronField, t.error.column - pronField.column), t.error.code, t.error.message);
+    }
+    const r = applyStress(inv, t.tokens);
+    if (!r.ok) return reject(columnInField(info.raw, pronField, r.column - pronField.column), r.code, r.reason);
+    s = r;
   }
-  const s = applyStress(inv, t.tokens);
-  if (!s.ok) return reject(columnInField(info.raw, pronField, s.column - pronField.column), s.code, s.reason);
 
   const opt = (c: LexiconColumn): string | undefined => {
     const v = get(c)?.trim();

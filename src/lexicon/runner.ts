@@ -9,7 +9,7 @@ import { writePls, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import type { Inventory } from "../inventory/types.js";
 import { Channel } from "./channel.js";
-import type { Engine, EntryResult, Transcription } from "./engine.js";
+import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
@@ -68,8 +68,8 @@ export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.varia
 /** Words per batch sent to a worker thread. */
 const BATCH = 1024;
 
-export function transcribeRow(engine: Engine, row: LexiconRow): EntryResult | RejectedRow {
-  const t = engine.transcribeWord(row.symbols);
+export function transcribeRow(engine: Engine, row: LexiconRow, needs?: Needs): EntryResult | RejectedRow {
+  const t = engine.transcribeWord(row.symbols, needs);
   if (t === undefined) return outsideAlphabet(row);
   return { kind: "entry", file: row.file, line: row.line, word: row.word, ...(row.id !== undefined ? { id: row.id } : {}), ...t };
 }
