@@ -61,7 +61,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   const needs: Needs = o.format === "tsv" ? NARROW_ONLY : o.format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
   if (o.format === "tsv") await write(tsvHeader());
   try {
-    for await (const item of reader) {
+    for await (const batch of reader.batches()) for (const item of batch) {
       const r = item.kind === "row" ? transcribeRow(loaded.engine, item, needs) : item;
       if (r.kind === "reject") {
         rejects++;

@@ -2,9 +2,9 @@
 // tags, note) into symbol strings for the runner, and every row it cannot read into a positioned reject.
 
 import { createReadStream } from "node:fs";
-import { Readable } from "node:stream";
+import type { Readable } from "node:stream";
 import { StringDecoder } from "node:string_decoder";
-import { parse } from "csv-parse";
+import { parse as parseSync } from "csv-parse/sync";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { tokenise } from "../inventory/index.js";
@@ -100,6 +100,8 @@ export interface ReadOptions {
 
 /** An async iterable of rows and rejects, in line order, with file-level diagnostics and counts. */
 export interface LexiconReader extends AsyncIterable<LexiconItem> {
+  /** The same items, a batch per input chunk (one asynchronous step per batch: the fast way to consume a large file). */
+  batches(): AsyncIterable<LexiconItem[]>;
   /** File-level problems: unreadable file, header errors (reading stops), unknown columns (warnings). */
   readonly diagnostics: readonly Diagnostic[];
   readonly stats: Readonly<ReadStats>;
@@ -196,7 +198,7 @@ async function* textChunks(source: NodeJS.ReadableStream): AsyncGenerator<string
   if (rest !== "") yield rest;
 }
 
-/** Lines forwarded to csv-parse in one write at most (bounds the lines in flight; fewer, larger writes are faster). */
+/** Lines handed on in one batch at most (bounds the lines in flight; larger batches mean fewer asynchronous steps). */
 const BATCH_LINES = 256;
 
 /**
@@ -319,7 +321,7 @@ const noVowel = (p: { level: string; column: number }): StressResult => ({
 // The reader
 
 /**
- * Reads a lexicon CSV file (or stream) row by row. Streams with csv-parse; memory does not grow with
+ * Reads a lexicon CSV file (or stream) row by row. Streams in batches of lines; memory does not grow with
  * the number of rows. Every data line ends up as exactly one LexiconRow or RejectedRow, in line order.
  * A file-level error (unreadable file, no header, missing `word`/`pron` column) is put in
  * `diagnostics` and ends the iteration.
@@ -330,10 +332,15 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
   const stats: ReadStats = { lines: 0, blankLines: 0, commentLines: 0, headerLine: 0, dataLines: 0, rows: 0, rejects: 0, maxInFlight: 0 };
   const inv = opts.inventory;
 
-  async function* iterate(): AsyncGenerator<LexiconItem> {
+  /**
+   * The items of each input chunk's complete lines, in line order. Every line is handled in one
+   * synchronous pass (comment, blank, header, encoding and quoting checks, fields, row), so the
+   * consumer pays one asynchronous step per batch, not per row.
+   */
+  async function* batches(): AsyncGenerator<LexiconItem[]> {
     let stream: NodeJS.ReadableStream;
     if (typeof source === "string") {
-      const s = createReadStream(source);
+      const s = createReadStream(source, { highWaterMark: 1 << 16 });
       const opened = await new Promise<Error | undefined>((resolve) => {
         s.once("open", () => resolve(undefined));
         s.once("error", (e) => resolve(e));
@@ -349,173 +356,149 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
       stream = source;
     }
 
-    // Lines forwarded to csv-parse and not yet consumed, by line number (insertion = line order).
-    const inFlight = new Map<number, LineInfo>();
-    // Rejects found before csv-parse (quoting, encoding), in line order; drained by line number.
-    const early: RejectedRow[] = [];
     let headerPending = true;
+    let header: Map<LexiconColumn, number> | undefined;
+    let headerFields = 0;
     let fatal: Diagnostic | undefined;
     let readError: Error | undefined;
-
-    // Blank, comment and early-rejected lines are forwarded as empty lines so that csv-parse's own line
-    // count stays equal to the physical line number (it skips empty lines).
-    async function* forward(): AsyncGenerator<string> {
-      try {
-        for await (const batch of physicalLines(textChunks(stream))) {
-          let out = "";
-          for (const raw of batch) {
-            const line = ++stats.lines;
-            if (raw.startsWith("#")) {
-              stats.commentLines++;
-              out += "\n";
-              continue;
-            }
-            if (raw.trim() === "") {
-              stats.blankLines++;
-              out += "\n";
-              continue;
-            }
-            const q = checkQuoting(raw);
-            if (headerPending) {
-              headerPending = false;
-              stats.headerLine = line;
-              const cr = raw.indexOf("\r");
-              if (cr >= 0) {
-                fatal = diagnostic("error", "lexicon/cr-line-ends", "The lines of this file end in a bare carriage return (CR); Strata reads lines that end in LF or CRLF.", { file, line, column: Array.from(raw.slice(0, cr)).length + 1 });
-                if (out !== "") yield out;
-                return;
-              }
-              if (!q.ok) {
-                fatal = diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line, column: q.column });
-                if (out !== "") yield out;
-                return;
-              }
-            } else {
-              stats.dataLines++;
-              const bad = raw.indexOf("\ufffd");
-              if (bad >= 0) {
-                early.push(reject(line, Array.from(raw.slice(0, bad)).length + 1, "lexicon/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).", raw));
-                out += "\n";
-                continue;
-              }
-              if (!q.ok) {
-                early.push(reject(line, q.column, q.code, q.reason, raw));
-                out += "\n";
-                continue;
-              }
-            }
-            inFlight.set(line, { line, raw, fields: q.ok ? q.fields : [] });
-            if (inFlight.size > stats.maxInFlight) stats.maxInFlight = inFlight.size;
-            out += raw + "\n";
-          }
-          yield out;
-        }
-      } catch (e) {
-        readError = e as Error;
-      }
-    }
+    let stop = false;
 
     const reject = (line: number, column: number, code: string, reason: string, raw: string): RejectedRow => ({
       kind: "reject", file, line, column, code, reason, raw,
     });
-
-    // With `info: true` csv-parse gives each record with a snapshot of its counters; `info.lines` is the
-    // line the record ends on, which is its physical line since a record never spans lines here.
-    interface Parsed {
-      readonly info: { readonly lines: number };
-      readonly record: readonly string[];
-    }
-    const parser = parse({
-      info: true,
-      record_delimiter: "\n",
-      relax_quotes: true,
-      relax_column_count: true,
-      skip_empty_lines: true,
-      skip_records_with_error: true,
-      on_skip: (err) => {
-        // Cannot happen for lines that passed checkQuoting; kept so that no line is ever lost silently.
-        const line = typeof err?.["lines"] === "number" ? (err["lines"] as number) : stats.lines;
-        const info = inFlight.get(line);
-        inFlight.delete(line);
-        early.push(reject(line, 1, "lexicon/csv", `This line cannot be read as CSV: ${err?.message ?? "unknown error"}.`, info?.raw ?? ""));
-        early.sort((a, b) => a.line - b.line);
-      },
-    });
-    const input = Readable.from(forward(), { highWaterMark: 2 });
-    input.pipe(parser);
-
-    let header: Map<LexiconColumn, number> | undefined;
-    let headerFields = 0;
-
-    // Everything (early rejects, lost lines) that belongs before line `upTo`, in line order.
-    function* drain(upTo: number): Generator<RejectedRow> {
-      for (;;) {
-        const e = early[0];
-        const lost = inFlight.keys().next();
-        const lostLine = lost.done ? Infinity : lost.value;
-        const earlyLine = e?.line ?? Infinity;
-        const next = Math.min(earlyLine, lostLine);
-        if (next >= upTo) return;
-        if (earlyLine <= lostLine) {
-          early.shift();
-          yield e!;
-        } else {
-          const info = inFlight.get(lostLine)!;
-          inFlight.delete(lostLine);
-          yield reject(lostLine, 1, "lexicon/csv", "This line could not be read as a CSV record.", info.raw);
-        }
-      }
-    }
-
     const count = (item: LexiconItem): LexiconItem => {
       if (item.kind === "row") stats.rows++;
       else stats.rejects++;
       return item;
     };
 
+    const lines = physicalLines(textChunks(stream));
     try {
-      for await (const parsed of parser as AsyncIterable<Parsed>) {
-        const rec = { line: parsed.info.lines, fields: parsed.record };
-        const info = inFlight.get(rec.line);
-        if (info === undefined) continue; // defensive: a record for a line we never forwarded
-        if (header === undefined) {
-          inFlight.delete(rec.line);
-          const h = readHeader(rec.fields, info, file, diagnostics);
-          if (h === undefined) return;
-          header = h;
-          headerFields = rec.fields.length;
-          continue;
+      for (;;) {
+        let batch: string[];
+        try {
+          const r = await lines.next();
+          if (r.done) break;
+          batch = r.value;
+        } catch (e) {
+          readError = e as Error;
+          break;
         }
-        for (const r of drain(rec.line)) yield count(r);
-        inFlight.delete(rec.line);
-        yield count(readRow(inv, file, info, rec.fields, header, headerFields));
+        if (batch.length > stats.maxInFlight) stats.maxInFlight = batch.length;
+        const items: LexiconItem[] = [];
+        for (const raw of batch) {
+          const line = ++stats.lines;
+          if (raw.startsWith("#")) {
+            stats.commentLines++;
+            continue;
+          }
+          if (raw.trim() === "") {
+            stats.blankLines++;
+            continue;
+          }
+          const q = checkQuoting(raw);
+          if (headerPending) {
+            headerPending = false;
+            stats.headerLine = line;
+            const cr = raw.indexOf("\r");
+            if (cr >= 0) {
+              fatal = diagnostic("error", "lexicon/cr-line-ends", "The lines of this file end in a bare carriage return (CR); Strata reads lines that end in LF or CRLF.", { file, line, column: Array.from(raw.slice(0, cr)).length + 1 });
+              stop = true;
+              break;
+            }
+            if (!q.ok) {
+              fatal = diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line, column: q.column });
+              stop = true;
+              break;
+            }
+          } else {
+            stats.dataLines++;
+            const bad = raw.indexOf("\ufffd");
+            if (bad >= 0) {
+              items.push(count(reject(line, Array.from(raw.slice(0, bad)).length + 1, "lexicon/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).", raw)));
+              continue;
+            }
+            if (!q.ok) {
+              items.push(count(reject(line, q.column, q.code, q.reason, raw)));
+              continue;
+            }
+          }
+          const info: LineInfo = { line, raw, fields: q.ok ? q.fields : [] };
+          const parsed = lineFields(raw);
+          if (!parsed.ok) {
+            if (header === undefined) continue; // cannot happen: the header passed the quoting check
+            items.push(count(reject(line, 1, "lexicon/csv", parsed.reason, raw)));
+            continue;
+          }
+          if (header === undefined) {
+            const h = readHeader(parsed.fields, info, file, diagnostics);
+            if (h === undefined) {
+              stop = true;
+              break;
+            }
+            header = h;
+            headerFields = parsed.fields.length;
+            continue;
+          }
+          items.push(count(readRow(inv, file, info, parsed.fields, header, headerFields)));
+        }
+        if (items.length > 0) yield items;
+        if (stop) break;
       }
       if (fatal !== undefined) {
         diagnostics.push(fatal);
         return;
       }
+      if (stop) return;
       if (readError !== undefined) {
         diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed: ${readError.message}.`, { file, line: stats.lines + 1, column: 1 }));
         return;
       }
       if (header === undefined) {
         diagnostics.push(diagnostic("error", "lexicon/no-header", "The lexicon has no header line (expected at least the columns word and pron).", { file, line: 1, column: 1 }));
-        return;
       }
-      for (const r of drain(Infinity)) yield count(r);
     } finally {
-      input.unpipe(parser);
-      input.destroy();
-      parser.destroy();
+      await lines.return(undefined);
       if (typeof source === "string") (stream as unknown as Readable).destroy();
     }
+  }
+
+  async function* iterate(): AsyncGenerator<LexiconItem> {
+    for await (const items of batches()) yield* items;
   }
 
   return {
     diagnostics,
     stats,
+    batches,
     [Symbol.asyncIterator]: () => iterate(),
   };
+}
+
+/** csv-parse's reading of one line, the way the reader has always called it (one record per line). */
+const CSV_OPTIONS = {
+  record_delimiter: "\n",
+  relax_quotes: true,
+  relax_column_count: true,
+  skip_empty_lines: true,
+} as const;
+
+/**
+ * The fields of one physical line, exactly as csv-parse reads it (RFC 4180 with relaxed quotes).
+ * A line with no quote and no carriage return is split at its commas (what csv-parse does with such
+ * a line; tests/lexicon/read-fields.test.ts checks it against csv-parse); any other line is given to
+ * csv-parse itself.
+ */
+export function lineFields(raw: string): { readonly ok: true; readonly fields: readonly string[] } | { readonly ok: false; readonly reason: string } {
+  if (raw.indexOf('"') < 0 && raw.indexOf("\r") < 0) return { ok: true, fields: raw.split(",") };
+  let records: string[][];
+  try {
+    records = parseSync(raw + "\n", CSV_OPTIONS) as string[][];
+  } catch (e) {
+    return { ok: false, reason: `This line cannot be read as CSV: ${(e as Error).message}.` };
+  }
+  if (records.length !== 1) return { ok: false, reason: "This line could not be read as a CSV record." };
+  return { ok: true, fields: records[0]! };
 }
 
 /** Reads the header record; returns the column map, or undefined after adding an error. */
