@@ -41,7 +41,7 @@ export class MachineEngine implements Engine {
   constructor(
     readonly compiled: Compiled,
     private readonly stepwise: Compiled | null,
-    private readonly broad: Compiled,
+    readonly broad: Compiled,
     inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
