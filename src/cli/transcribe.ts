@@ -61,27 +61,32 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   const needs: Needs = o.format === "tsv" ? NARROW_ONLY : o.format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
   if (o.format === "tsv") await write(tsvHeader());
   try {
-    for await (const batch of reader.batches()) for (const item of batch) {
-      const r = item.kind === "row" ? transcribeRow(loaded.engine, item, needs) : item;
-      if (r.kind === "reject") {
-        rejects++;
-        process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
-        continue;
-      }
-      entries++;
-      if (o.format === "tsv" || o.format === "jsonl") {
-        const w = write(o.format === "tsv" ? formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
-        if (w !== undefined) await w;
-      }
-      else {
-        const mine = entryPhonemes(r);
-        if (pending !== undefined && pending.word === r.word) {
-          for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
-        } else {
-          flush();
-          pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+    for await (const batch of reader.batches()) {
+      for (const item of batch) {
+        const r = item.kind === "row" ? transcribeRow(loaded.engine, item, needs) : item;
+        if (r.kind === "reject") {
+          rejects++;
+          process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
+          continue;
+        }
+        entries++;
+        if (o.format === "tsv" || o.format === "jsonl") {
+          const w = write(o.format === "tsv" ? formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
+          if (w !== undefined) await w;
+        }
+        else {
+          const mine = entryPhonemes(r);
+          if (pending !== undefined && pending.word === r.word) {
+            for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
+          } else {
+            flush();
+            pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+          }
         }
       }
+      // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.
+      const w = stdout.flush();
+      if (w !== undefined) await w;
     }
     flush();
     pls?.close();
