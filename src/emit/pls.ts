@@ -199,12 +199,24 @@ export async function* plsChunks(
   yield head;
   let ordinal = 0;
   let batch = "";
-  for await (const e of entries) {
-    ordinal++;
-    batch += lexemeXml(checkEntry(e, ordinal, file), pretty);
-    if (batch.length >= 1 << 16) {
-      yield batch;
-      batch = "";
+  // A plain iterable is read without an asynchronous step per lexeme (one per chunk instead).
+  if (Symbol.iterator in entries) {
+    for (const e of entries as Iterable<PlsEntry>) {
+      ordinal++;
+      batch += lexemeXml(checkEntry(e, ordinal, file), pretty);
+      if (batch.length >= 1 << 16) {
+        yield batch;
+        batch = "";
+      }
+    }
+  } else {
+    for await (const e of entries) {
+      ordinal++;
+      batch += lexemeXml(checkEntry(e, ordinal, file), pretty);
+      if (batch.length >= 1 << 16) {
+        yield batch;
+        batch = "";
+      }
     }
   }
   yield batch + tail;
