@@ -33,6 +33,8 @@ export class MachineEngine implements Engine {
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
   private readonly bout: number[] = [];
+  private readonly stepA: number[] = [];
+  private readonly stepB: number[] = [];
   private readonly enc: SymbolEncoder;
   private readonly benc: SymbolEncoder;
   /** Decides from the per-step runs whether an entry can have more than one variant (null: no blame machines). */
@@ -117,7 +119,9 @@ export class MachineEngine implements Engine {
         single = check!.identity(unchecked, b.from + 1, cur) && !check!.branchingIn(b.from + 1, b.to);
         unchecked = b.to;
       }
-      const next: number[] = [];
+      // Two buffers taken in turn: no array per step and entry.
+      const next = cur === this.stepA ? this.stepB : this.stepA;
+      next.length = 0;
       if (!sw.preferred.runBlock(k, cur, next)) break;
       if (!sameIds(cur, next)) changed.push(this.steps[b.from]!);
       cur = next;
