@@ -2,7 +2,6 @@
 // streamed one lexeme at a time so a large lexicon is never held as one document; xmlbuilder2
 // serialises the document frame, and is the reference the lexeme writer is tested against.
 
-import { create } from "xmlbuilder2";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, SourcePos } from "../diagnostics.js";
 import { writeFileAtomic } from "./atomic.js";
@@ -195,7 +194,7 @@ export async function* plsChunks(
     );
   }
   const pretty = opts.prettyPrint ?? true;
-  const { head, tail } = frame(opts.lang, pretty);
+  const { head, tail } = await frame(opts.lang, pretty);
   yield head;
   let ordinal = 0;
   let batch = "";
@@ -227,7 +226,9 @@ export async function* plsChunks(
  * The document frame — XML declaration, the root `lexicon` start tag with its namespace and
  * attributes (§4.1), and the end tag — serialised by xmlbuilder2 around a marker comment.
  */
-function frame(lang: string, pretty: boolean): { head: string; tail: string } {
+async function frame(lang: string, pretty: boolean): Promise<{ head: string; tail: string }> {
+  // Loaded on first use: the library is large, and most commands never write PLS.
+  const { create } = await import("xmlbuilder2");
   const MARK = "strata-lexemes";
   const doc = create({ version: "1.0", encoding: "UTF-8" })
     .ele(PLS_NAMESPACE, "lexicon")
