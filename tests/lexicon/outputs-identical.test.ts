@@ -1,7 +1,7 @@
 // The outputs do not depend on how fast they were made: on CMU slices (npm
 // `cmu-pronouncing-dictionary`, ISC) the machine engine writes the same bytes as the reference
 // interpreter's engine, the compiled CLI the same bytes with 0, 1 and 2 worker threads, and the
-// machine engine the bytes of the fixture written before the speed work (tests/fixtures/speed/).
+// machine engine the bytes of the fixture written by main without the speed work (tests/fixtures/speed/).
 // Every file of the output folder is compared, so a format change others make is covered as it lands.
 
 import { execFileSync } from "node:child_process";
@@ -109,7 +109,7 @@ describe("outputs are the same however they are made", () => {
     expect(fa["lexicon.tsv"]).toBe(folderBytes(b)["lexicon.tsv"]);
   }, 300_000);
 
-  it("machine engine = the fixture written before the speed work (STRATA_UPDATE_FIXTURES=1 rewrites it after a format change)", async () => {
+  it("machine engine = the fixture written without the speed work (STRATA_UPDATE_FIXTURES=1 rewrites it after a format change)", async () => {
     const machine = machineEngine(grammar, inv, { cacheDir: CACHE }).engine!;
     const out = mkdtempSync(join(tmpdir(), "strata-f-"));
     const cwd = process.cwd();
