@@ -14,7 +14,8 @@ import { formatTsvEntry, tsvHeader } from "../src/emit/tsv.js";
 import { ALL_NEEDS, NARROW_ONLY, type EntryResult } from "../src/lexicon/engine.js";
 import { machineEngine } from "../src/lexicon/engine-machine.js";
 import { PronReader } from "../src/lexicon/pron.js";
-import { readLexicon, type LexiconRow } from "../src/lexicon/read.js";
+import { readLexicon, writeRejects, type LexiconRow } from "../src/lexicon/read.js";
+import { countInputRecords, countWritten, reconcile } from "../src/lexicon/reconcile.js";
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
 import { entryJsonLine, entryPhonemes } from "../src/lexicon/runner.js";
 import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
@@ -107,8 +108,8 @@ export async function benchEndToEnd(o: {
 /**
  * Times each stage of a build on its own, in the order a build runs them: read and parse (the
  * reader less its tokenising), tokenise (a fresh memo), encode, the machines (narrow and broad),
- * render, per-step blame, variants (both by difference of whole engine runs), and each writer
- * (formatting and writing its file whole).
+ * render, per-step blame, variants (both by difference of whole engine runs), each writer
+ * (formatting and writing its file whole), and the reconciliation that reads the files back.
  */
 async function buildStages(o: { csv: string; grammar: Grammar; inventory: Inventory; cacheDir: string }, outDir: string, failures: string[]): Promise<{ name: string; ms: number }[]> {
   const inv = o.inventory;
@@ -160,6 +161,13 @@ async function buildStages(o: { csv: string; grammar: Grammar; inventory: Invent
     }
     return writePls(join(outDir, "lexicon.pls"), lexemes.values(), { lang: "en-US" });
   });
+  await writeRejects(join(outDir, "rejects.csv"), []);
+  const reconciling = await time(async () => {
+    const input = await countInputRecords(o.csv);
+    const written = await countWritten({ tsv: join(outDir, "lexicon.tsv"), jsonl: join(outDir, "lexicon.jsonl"), pls: join(outDir, "lexicon.pls"), rejects: join(outDir, "rejects.csv") });
+    return reconcile(o.csv, input, written);
+  });
+  if (reconciling.value.length > 0) failures.push(`the stage outputs do not reconcile: ${reconciling.value[0]!.message}`);
   rmSync(outDir, { recursive: true, force: true });
   return [
     { name: "read and parse (reader less tokenising)", ms: Math.max(0, reading.ms - tok.ms) },
@@ -172,5 +180,6 @@ async function buildStages(o: { csv: string; grammar: Grammar; inventory: Invent
     { name: "TSV writer", ms: tsv.ms },
     { name: "JSON Lines writer", ms: jsonl.ms },
     { name: "PLS writer", ms: pls.ms },
+    { name: "reconciliation (input counted, outputs read back)", ms: reconciling.ms },
   ];
 }

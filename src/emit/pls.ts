@@ -159,6 +159,7 @@ function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedEntry {
  * a reject in every output, not only in the PLS.
  */
 export function plsTextProblem(raw: string): { readonly code: string; readonly reason: string; readonly offset: number } | undefined {
+  if (plainXmlText(raw)) return undefined;
   const bad = findNonXmlChar(raw);
   if (bad !== undefined) {
     return {
@@ -178,6 +179,21 @@ export function plsTextProblem(raw: string): { readonly code: string; readonly r
   }
   if (nfc.trim() === "") return { code: "pls/empty-text", reason: "is empty", offset: 0 };
   return undefined;
+}
+
+/**
+ * The common case, decided in one pass: every UTF-16 unit is in U+0021–U+D7FF (XML 1.0 Char, no
+ * control character, no CR, no surrogate) and the first is printable ASCII or the text is not all
+ * white space — so `plsTextProblem` has nothing to report.
+ */
+function plainXmlText(raw: string): boolean {
+  const n = raw.length;
+  if (n === 0) return false;
+  for (let i = 0; i < n; i++) {
+    const c = raw.charCodeAt(i);
+    if (c <= 0x20 || c >= 0xd800) return false;
+  }
+  return raw.charCodeAt(0) < 0x7f || raw.trim() !== "";
 }
 
 /** A word shown in a message: control characters made visible. */

@@ -345,7 +345,9 @@ function readRow(
     if (first !== undefined) return reject(colOf("id"), "lexicon/duplicate-id", `The id '${id}' is already used on line ${first}; ids must be unique in the file.`);
     ids.set(id, info.line);
   }
-  const word = (get("word") ?? "").trim().normalize("NFC");
+  const trimmed = (get("word") ?? "").trim();
+  // ASCII is already NFC (Unicode normalisation leaves it unchanged): skip the normaliser for it.
+  const word = ASCII.test(trimmed) ? trimmed : trimmed.normalize("NFC");
   if (word === "") return reject(colOf("word"), "lexicon/empty-word", "The word is empty.");
   const pron = get("pron") ?? "";
   const pronIndex = header.get("pron")!;
@@ -376,7 +378,7 @@ function readRow(
     word,
     pron,
     pronColumn: pronField.column,
-    tags: (get("tags") ?? "").split(/[\s,;]+/u).filter((x) => x !== ""),
+    tags: splitTags(get("tags")),
     symbols: s.symbols,
     stressMarked: s.marked,
     ...optional("id", opt("id")),
@@ -385,6 +387,12 @@ function readRow(
   };
   return row;
 }
+
+const ASCII = /^[\x00-\x7f]*$/;
+
+/** The `tags` field split at white space, commas and semicolons (no field, or an empty one: no tags). */
+const splitTags = (text: string | undefined): string[] =>
+  text === undefined || text === "" ? [] : text.split(/[\s,;]+/u).filter((x) => x !== "");
 
 const optional = <K extends string>(k: K, v: string | undefined): { [P in K]?: string } =>
   (v === undefined ? {} : { [k]: v }) as { [P in K]?: string };

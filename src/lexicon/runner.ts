@@ -151,6 +151,13 @@ export async function runLexicon(
   const tsvOut = tsv !== undefined ? new ChunkedPush(tsv) : undefined;
   const jsonlOut = jsonl !== undefined ? new ChunkedPush(jsonl) : undefined;
   const wantPls = formats.has("pls");
+  // Every entry of a run names the same file or few: its relative path is worked out once per file.
+  const relFiles = new Map<string, string>();
+  const relFile = (f: string): string => {
+    let r = relFiles.get(f);
+    if (r === undefined) relFiles.set(f, (r = relativeTo(root, f)));
+    return r;
+  };
   const emitOne = (r: EntryResult | RejectedRow): void => {
     if (r.kind === "reject") {
       rejects.push(r);
@@ -161,7 +168,7 @@ export async function runLexicon(
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
     tsvOut?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-    jsonlOut?.push(entryJsonLine({ ...r, file: relativeTo(root, r.file) }));
+    jsonlOut?.push(entryJsonLine({ ...r, file: relFile(r.file) }));
     if (wantPls) {
       const lx = lexemes.get(r.word);
       const mine = entryPhonemes(r);
