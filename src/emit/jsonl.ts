@@ -47,5 +47,7 @@ export function formatJsonLine(e: JsonlEntry): string {
   if (e.derivation !== undefined) o["derivation"] = e.derivation.map((d) => ({ step: d.step, form: d.form }));
   if (e.variantSteps !== undefined) o["variantSteps"] = e.variantSteps.map((s) => [...s]);
   if (e.input !== undefined) o["input"] = { pron: e.input.pron, ...(e.input.pos !== undefined ? { pos: e.input.pos } : {}), tags: [...e.input.tags] };
-  return JSON.stringify(o).replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";
+  const json = JSON.stringify(o);
+  if (json.indexOf("\u2028") < 0 && json.indexOf("\u2029") < 0) return json + "\n";
+  return json.replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";
 }
