@@ -13,7 +13,7 @@ import { checkQuoting, columnInField, findForbidden } from "./fields.js";
 import type { Field } from "./fields.js";
 import { RecordSplitter } from "./records.js";
 import type { SourceRecord } from "./records.js";
-import { applyStress } from "./stress.js";
+import { applyStress, unstressAll } from "./stress.js";
 import { pronReader } from "./pron.js";
 
 export { checkQuoting, columnInField, findForbidden } from "./fields.js";
@@ -45,6 +45,9 @@ export type { SourceRecord, RecordKind } from "./records.js";
  * Every data record ends up as exactly one row or one reject, in file order.
  */
 
+/** The tag (in the `tags` column) of a weak form: every vowel unstressed, no default stress. */
+export const WEAK_TAG = "weak";
+
 /** The columns the reader knows. */
 export const LEXICON_COLUMNS = ["word", "pron", "id", "pos", "tags", "note"] as const;
 export type LexiconColumn = (typeof LEXICON_COLUMNS)[number];
@@ -74,7 +77,10 @@ export interface LexiconRow {
   readonly symbols: Word;
   /** The whole record as read (no line end), for rejects made later (e.g. by the runner). */
   readonly raw: string;
-  /** Whether the pronunciation had any stress mark (if not, every nucleus is [0stress 0primary]). */
+  /**
+   * Whether the pronunciation had any stress mark, or the row is tagged `weak` (if neither, every
+   * nucleus is [0stress 0primary]; tagged `weak`, every nucleus is [-stress -primary]).
+   */
   readonly stressMarked: boolean;
 }
 
@@ -230,6 +236,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     try {
       for await (const chunk of textChunks(stream)) {
         const recs = splitter.push(chunk);
+        stats.lines = splitter.lines;
         if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
         const items: LexiconItem[] = [];
         for (const rec of recs) {
@@ -249,7 +256,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
       if (items.length > 0) yield items;
       if (headerFailed) return;
     } catch (e) {
-      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed: ${(e as Error).message}.`, { file, line: splitter.lines + 1, column: 1 }));
+      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${splitter.lines}: ${(e as Error).message}.`, { file, line: Math.max(1, splitter.lines), column: 1 }));
       return;
     } finally {
       stats.lines = splitter.lines;
@@ -365,6 +372,12 @@ function readRow(
     if (!r.ok) return reject(columnInField(info.raw, pronField, r.column - pronField.column), r.code, r.reason);
     s = r;
   }
+  const tags = splitTags(get("tags"));
+  // The tag `weak`: a weak form, every vowel unstressed rather than given default stress.
+  const weak = tags.includes(WEAK_TAG);
+  if (weak && s.marked) {
+    return reject(colOf("tags"), "lexicon/weak-with-stress", `'${word}' is tagged ${WEAK_TAG} (every vowel unstressed) but its pronunciation has stress marks.`);
+  }
 
   const opt = (c: LexiconColumn): string | undefined => {
     const v = get(c)?.trim();
@@ -378,9 +391,9 @@ function readRow(
     word,
     pron,
     pronColumn: pronField.column,
-    tags: splitTags(get("tags")),
-    symbols: s.symbols,
-    stressMarked: s.marked,
+    tags,
+    symbols: weak ? unstressAll(inv, s.symbols) : s.symbols,
+    stressMarked: s.marked || weak,
     ...optional("id", opt("id")),
     ...optional("pos", opt("pos")),
     ...optional("note", opt("note")),
