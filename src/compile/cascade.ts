@@ -84,7 +84,7 @@ function runnerFromBytes(kind: string, bytes: Uint8Array): BlockRunner | null {
   return null;
 }
 
-function blockRunner(m: Fst, tryTable: boolean, budget: Budget): BlockRunner {
+function blockRunner(m: Fst, tryTable: boolean, budget: Budget, onAmbiguous: () => void): BlockRunner {
   // A subsequential block becomes a dense table; when determinisation does not terminate within a
   // few times the block's size (no bounded delay: right contexts of unbounded length), search.
   let d: ReturnType<typeof determiniseTransducer> | null = null;
@@ -109,13 +109,17 @@ function blockRunner(m: Fst, tryTable: boolean, budget: Budget): BlockRunner {
     const runner = fr.runner;
     return { kind: "functional", run: (input, out) => runner.run(input, out), batch: runner.runBatch.bind(runner), bytes: () => serialiseFunctional(runner) };
   }
+  // The last resort: a search for the outputs. Each step's preferred machine is checked functional
+  // at compile time, so there is one; should there ever be two, the first in symbol order is taken
+  // and the entry is marked ambiguous (never a silent pick).
   const f: FrozenFst = freeze(m);
   return {
     kind: "search",
     run: (input, out) => {
-      const res = f.applyAll(input, 1);
+      const res = f.applyAll(input, 2);
       const first = res.outputs[0];
       if (first === undefined) return false;
+      if (res.outputs.length > 1) onAmbiguous();
       for (const x of first) out.push(x);
       return true;
     },
@@ -125,6 +129,8 @@ function blockRunner(m: Fst, tryTable: boolean, budget: Budget): BlockRunner {
 /** The preferred cascade: each block functional; runs them in sequence. */
 export class PreferredRunner {
   private readonly runners: BlockRunner[];
+  /** How many runs met a block with more than one output (a search block; see blockRunner). Callers compare it before and after a run. */
+  ambiguities = 0;
   /**
    * `kinds`: how each block ran before (from the cache), so a known non-sequential block skips the
    * determinisation attempt; `frozen`: the runners' tables from the cache (rebuilt when missing or bad).
@@ -138,7 +144,7 @@ export class PreferredRunner {
       // The two-pass functional runner is built first: attempting transducer determinisation on
       // every block cost seconds per grammar (13 s for the one-step blocks of en-us) for a runner
       // that is at most twice as fast; a table is only tried again where the cache says it worked.
-      return cached ?? blockRunner(b.machine, kinds !== undefined && kinds[i] === "sequential", budget);
+      return cached ?? blockRunner(b.machine, kinds !== undefined && kinds[i] === "sequential", budget, () => { this.ambiguities++; });
     });
   }
   /** Each block's frozen tables as bytes (null for a search block). */

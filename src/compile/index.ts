@@ -8,16 +8,16 @@ import { bundleKey } from "../inventory/types.js";
 import type { Sym } from "../interp/index.js";
 import { SYLLABLE_EDGE, WORD_EDGE } from "../interp/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import { FstLimitError, type Fst } from "../fst/index.js";
+import { FstLimitError, isFunctional, type Fst } from "../fst/index.js";
 import { type Alphabet, computeAlphabet, FIRST_SEGMENT, SYLL, WORD, symbolText } from "./alphabet.js";
 import { Budget, CompileLimitError, describe as describeLimit, type CompileLimits } from "./budget.js";
 import { SymbolLowering, lowerRule } from "./cases.js";
-import { Lowering, LowerError } from "./lower.js";
+import { Lowering, LowerError, lowerError } from "./lower.js";
 import { buildRule, type PairNfa } from "./rule.js";
 import { buildStress, buildSyllabifier } from "./prosody.js";
 import { finishMachine, pairNfaToFst } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
-import { dropCache, readCache, sha256, writeCache } from "./cache.js";
+import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from "./alphabet.js";
 export type { Block } from "./cascade.js";
@@ -35,6 +35,12 @@ export interface CompileOptions {
   readonly desugar?: (rule: Rule) => Rule;
   /** Limits on states, cases, time and memory (DEFAULT_LIMITS for what is not given); see budget.ts. */
   readonly limits?: Partial<CompileLimits>;
+  /**
+   * Segments that input words carry beyond the inventory's (written with its diacritics, e.g. a
+   * long vowel no rule makes): the alphabet starts from them too, so the machines accept them
+   * (DEVELOPERS.md, "Segments the rules never make"). Part of the cache key.
+   */
+  readonly extraSegments?: readonly Bundle[];
 }
 
 /** Size of one step's machine (the variants machine; `preferred*` when the preferred one differs). */
@@ -140,6 +146,17 @@ export function compileStep(
       // An obligatory rule without variables has one output per word: its preferred machine is the same.
       if (!step.optional && low.variables(step).size === 0) return { variants, preferred: variants };
       const preferred = fin(rule(step, "preferred"));
+      // The preferred cascade is run by machines that take one path (the functional runner, or a
+      // search for the first output): that is exact only if every preferred step has one output
+      // per input. Checked here, so a second output can never be dropped silently at run time.
+      const single = budget.within("checking its preferred variant has one output", () => isFunctional(preferred, budget.limits.machineStates));
+      if (!single.functional) {
+        throw lowerError(
+          "compile/ambiguous-preferred",
+          `Rule '${step.name}': its preferred variant has two outputs for '${single.input.map((x) => symbolText(alphabet, x)).join("")}'; this is a fault of the compiler, please report it with the grammar.`,
+          step.span,
+        );
+      }
       return { variants, preferred };
     }
     default: {
@@ -159,7 +176,7 @@ export function compileSteps(
   low.maxAssignments = budget.limits.ruleCases;
   let alphabet: Alphabet;
   try {
-    alphabet = computeAlphabet(inv, low, steps);
+    alphabet = computeAlphabet(inv, low, steps, opts.extraSegments ?? []);
   } catch (e) {
     if (e instanceof LowerError) return { result: null, diagnostics: [e.diagnostic] };
     throw e;
@@ -178,6 +195,26 @@ export function compileSteps(
   return { result: { alphabet, steps: out }, diagnostics };
 }
 
+/**
+ * The segments of `words` an alphabet lacks, with prosody cleared and each once (key order): what
+ * `extraSegments` needs so that the machines accept the words.
+ */
+export function segmentsOutside(alphabet: Alphabet, inv: Inventory, words: readonly (readonly Sym[])[]): Bundle[] {
+  const si = inv.featureIndex.get("stress");
+  const pi = inv.featureIndex.get("primary");
+  const found = new Map<string, Bundle>();
+  for (const w of words) {
+    for (const s of w) {
+      if (s.kind !== "segment" || alphabet.byKey.has(bundleKey(s.bundle))) continue;
+      const b = [...s.bundle];
+      if (si !== undefined) b[si] = "0";
+      if (pi !== undefined) b[pi] = "0";
+      found.set(bundleKey(b), b);
+    }
+  }
+  return [...found.keys()].sort().map((k) => found.get(k)!);
+}
+
 function cascadeSize(blocks: readonly Block[]): CascadeSize {
   return {
     blocks: blocks.map((b) => ({ from: b.from, to: b.to, states: b.states, arcs: b.arcs })),
@@ -187,7 +224,7 @@ function cascadeSize(blocks: readonly Block[]): CascadeSize {
 }
 
 /** The cache key: compiler version, options that change the result, the grammar (as parsed) and the inventory (features, segments, diacritics). */
-export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number): string {
+export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number, extraSegments: readonly Bundle[] = []): string {
   const invData = {
     features: inv.features,
     segments: inv.segments.map((s) => [s.symbol, bundleKey(s.bundle)]),
@@ -196,7 +233,8 @@ export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number):
   // Where the files lie does not change the machines: paths and source positions are left out,
   // so a moved checkout keeps its cache.
   const placeless = (k: string, v: unknown): unknown => (k === "span" || k === "file" || k === "files" || k === "inventory" || k === "diacritics" ? undefined : v);
-  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(grammar, placeless), JSON.stringify(invData)]);
+  const extra = extraSegments.length === 0 ? [] : [[...new Set(extraSegments.map(bundleKey))].sort().join(" ")];
+  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(grammar, placeless), JSON.stringify(invData), ...extra]);
 }
 
 interface CacheMeta {
@@ -234,8 +272,9 @@ function isCacheMeta(m: unknown): m is CacheMeta {
 export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOptions = {}): CompileResult {
   const t0 = performance.now();
   const maxStates = opts.maxStates ?? 50_000;
-  const key = cacheKeyOf(grammar, inv, maxStates);
+  const key = cacheKeyOf(grammar, inv, maxStates, opts.extraSegments);
   let cacheState: Compiled["cache"] = opts.cacheDir === undefined ? "off" : "miss";
+  const cacheWarnings: Diagnostic[] = [];
   if (opts.cacheDir !== undefined) {
     const read = readCache(opts.cacheDir, key, (m) => (isCacheMeta(m) ? m.preferred.length + m.variants.length : 0));
     if (read.state === "ok" && isCacheMeta(read.meta)) {
@@ -252,11 +291,14 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
     }
     if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
       cacheState = "rebuilt";
+      const why = read.state === "corrupt" ? read.reason : "written by another compiler version";
+      cacheWarnings.push(cacheWarning(cachePath(opts.cacheDir, key), `The cached machine ${cachePath(opts.cacheDir, key)} was not used (${why}); it is compiled again.`));
       dropCache(opts.cacheDir, key);
     }
   }
   const budget = new Budget(opts.limits);
-  const { result, diagnostics } = compileSteps(grammar, inv, opts, budget);
+  const { result, diagnostics: stepDiagnostics } = compileSteps(grammar, inv, opts, budget);
+  const diagnostics = [...stepDiagnostics, ...cacheWarnings];
   if (result === null) return { compiled: null, diagnostics };
   try {
     return composeAndFreeze(result, opts, budget, key, cacheState, diagnostics, t0, maxStates);
@@ -272,8 +314,9 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
 /** Composition of both cascades, the runners, and the cache write: the part of `compileGrammar` after the steps. */
 function composeAndFreeze(
   result: CompiledSteps, opts: CompileOptions, budget: Budget, key: string, cacheState: Compiled["cache"],
-  diagnostics: readonly Diagnostic[], t0: number, maxStates: number,
+  stepDiagnostics: readonly Diagnostic[], t0: number, maxStates: number,
 ): CompileResult {
+  const diagnostics = [...stepDiagnostics];
   const t1 = performance.now();
   const steps: StepSize[] = result.steps.map(({ step, variants, preferred }) => ({
     name: step.name, kind: step.kind, optional: step.kind === "rule" && step.optional,
@@ -301,7 +344,8 @@ function composeAndFreeze(
       hasVariants,
       runners: compiled.preferred.kinds,
     };
-    writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
+    const unwritten = writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
+    if (unwritten !== undefined) diagnostics.push(cacheWarning(opts.cacheDir, `The compiled machine could not be cached in ${opts.cacheDir} (${unwritten}); the next run compiles it again.`));
   }
   return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
 }

@@ -4,7 +4,7 @@
 import { bundleKey, describeBundle, realise, type Bundle, type FeatureValue } from "../inventory/index.js";
 import type { ChangeElement, Element, FeatureSpec, Pattern, Rule } from "./ast.js";
 import { flip, type CheckContext } from "./check-context.js";
-import { elementText } from "./parser.js";
+import { elementText } from "./parse-patterns.js";
 
 /** Most bundles the reachability estimate keeps (it over-approximates; the cap keeps it cheap). */
 const MAX_REACHABLE = 20_000;

@@ -5,7 +5,7 @@ import type { Environment, Rule, Span } from "./ast.js";
 import type { CheckContext, VariableUses } from "./check-context.js";
 import { checkElement, checkPattern, kindText } from "./check-names.js";
 import { conditionsSatisfiable } from "./desugar.js";
-import { elementText } from "./parser.js";
+import { elementText } from "./parse-patterns.js";
 
 /** Every rule: duplicate names, then its shape; a rule with errors is marked broken. */
 export function checkRules(c: CheckContext): void {

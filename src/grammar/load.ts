@@ -9,7 +9,8 @@ import { FILE_LIMITS, isInside, readTextFile, realPath } from "../files.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
 import { checkGrammar } from "./check.js";
-import { assembleGrammar, parseFile, type TopItem } from "./parser.js";
+import { assembleGrammar, type TopItem } from "./assemble.js";
+import { parseFile } from "./parser.js";
 
 /** The file a grammar folder is read from. */
 export const GRAMMAR_FILE = "grammar.strata";
