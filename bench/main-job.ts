@@ -20,6 +20,7 @@ import { SUBSET_RULES, prosodyGrammar, subsetGrammar } from "./subset.js";
 import { randomDfa, walk } from "./table-walk.js";
 import { fmt, fmtMB, fmtMs, fmtRate, median, runChild, sampleIndices, textTable, timeRepeated, type ChildRun } from "./util.js";
 import { writePerformanceSection } from "./readme.js";
+import { benchEndToEnd } from "./e2e.js";
 
 export interface MainJobOptions {
   /** The package root (default: found from this file). */
@@ -341,6 +342,15 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   ]));
   Object.assign(figures, { buildColdMs: coldBuild?.wallMs ?? null, buildMs, buildPeakRssBytes: buildRss, ioFloorMs: floorMs, ioFloorPeakRssBytes: floorRss });
 
+  // --- End to end against the in-house script, and the stages of one build ---------------------
+  const e2e = await benchEndToEnd({ root, csv: folder.csv, lexiconDir: folder.dir, grammarPath, grammar, inventory: inv, cacheDir, work, reps: childReps, entries: words.length });
+  failures.push(...e2e.failures);
+  Object.assign(figures, {
+    inhouseMs: e2e.inhouseMs, inhousePeakRssBytes: e2e.inhouseRss, transcribeMs: e2e.transcribeMs, transcribePeakRssBytes: e2e.transcribeRss,
+    build3Ms: e2e.buildMs, build3PeakRssBytes: e2e.buildRss,
+    ...Object.fromEntries(e2e.stages.map((st) => [`stage: ${st.name}`, st.ms])),
+  });
+
   // --- Ratios against the targets (figures of this run only) -----------------------------------
   const ratios: { name: string; value: number | null; target: string; met: boolean | null; shown: string; info?: true }[] = [];
   const metText = (r: (typeof ratios)[number], no: string): string => (r.info ? "—" : r.met === null ? "n/a" : r.met ? "yes" : no);
@@ -352,6 +362,8 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   ratio("composed machine ÷ interpreter (entries/s, sample)", machineSampleEps / interpEps, "≥ 20×", (v) => v >= 20, x);
   ratio("composed machine ÷ regex cascade (entries/s)", machineEps / regexEps, "≥ 10×", (v) => v >= 10, x);
   ratios.push({ name: `  same ${SUBSET_RULES.length} rules: subset machine ÷ regex cascade`, value: subsetEps / regexEps, target: "(for information)", met: null, shown: x(subsetEps / regexEps), info: true });
+  ratio("strata transcribe (TSV, cached) ÷ in-house script (wall, pairs)", e2e.transcribeRatio, "≤ 1.0×", (v) => v <= 1.0, x);
+  ratio("strata build, TSV + JSON Lines + PLS (cached) ÷ in-house script (wall, pairs)", e2e.buildRatio, "≤ 1.5×", (v) => v <= 1.5, x);
   ratio("strata build ÷ I/O floor (wall)", buildMs !== null ? buildMs / floorMs : null, "≤ 3×", (v) => v <= 3, x);
   ratio("strata build peak RSS", buildRss, "≤ 400 MB", (v) => v <= 400e6, (v) => fmtMB(v));
   ratio("cached compile ÷ cold compile", cachedMs / coldMs, "≤ 5%", (v) => v <= 0.05, (v) => `${fmt(v * 100, 1)}%`);
@@ -376,7 +388,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
     const body = [
       `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}.`,
       `Data: the whole CMU Pronouncing Dictionary (${fmt(words.length)} entries, npm \`cmu-pronouncing-dictionary\`) through \`lexicons/en-us/grammar.strata\` (all rules, syllabification and stress).`,
-      `In-process figures are medians of ${reps} runs, child-process figures (compile, build, I/O floor) medians of ${childReps}; every ratio is taken from figures of the same run.`,
+      `In-process figures are medians of ${reps} runs, child-process figures (compile, build, I/O floor, in-house script, transcribe) medians of ${childReps}; every ratio is taken from figures of the same run (against the in-house script: the median of the ratios of runs made in turn).`,
       ...(failures.length > 0 ? ["", "**The output checks failed in this run; the comparisons below are void.**"] : []),
       "",
       "| measure | figure |",
@@ -391,6 +403,15 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
       `| \`strata build\` → TSV + PLS, empty cache (once) | ${coldBuild ? fmtMs(coldBuild.wallMs) : "n/a"}, peak RSS ${fmtMB(coldBuild?.maxRssBytes ?? null)} |`,
       `| \`strata build\` → TSV + PLS, cached machines | ${buildMs !== null ? fmtMs(buildMs) : "n/a"}, peak RSS ${fmtMB(buildRss)} |`,
       `| I/O floor (read CSV, write TSV, no rules) | ${fmtMs(floorMs)} |`,
+      `| in-house script (csv-parse, 5 regular expressions, TSV to stdout) | ${fmtMs(e2e.inhouseMs)}, peak RSS ${fmtMB(e2e.inhouseRss)} |`,
+      `| \`strata transcribe\` → TSV on stdout, cached machines | ${fmtMs(e2e.transcribeMs)}, peak RSS ${fmtMB(e2e.transcribeRss)} |`,
+      `| \`strata build\` → TSV + JSON Lines + PLS, cached machines | ${fmtMs(e2e.buildMs)}, peak RSS ${fmtMB(e2e.buildRss)} |`,
+      "",
+      "Stages of one build, each timed alone in process (the bench prints this table; a slower stage shows here):",
+      "",
+      "| stage | time |",
+      "|---|---|",
+      ...e2e.stages.map((st) => `| ${st.name} | ${fmtMs(st.ms)} |`),
       "",
       "| ratio | measured | target | met |",
       "|---|---|---|---|",

@@ -9,6 +9,8 @@ import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
 import { entryJsonLine, entryPhonemes, transcribeRow } from "../lexicon/runner.js";
 import { grammarPath, loadEngine, positiveInt, printDiagnostics, type EngineKind } from "./common.js";
 import { Channel } from "../lexicon/channel.js";
+import { BufferedWriter } from "../emit/buffered.js";
+import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 
 interface TranscribeOptions {
   grammar: string;
@@ -22,10 +24,9 @@ interface TranscribeOptions {
   syllableBreaks: boolean;
 }
 
-/** Writes to stdout respecting back-pressure. */
-function write(text: string): Promise<void> | void {
-  if (!process.stdout.write(text)) return new Promise((res) => process.stdout.once("drain", () => res()));
-}
+/** Stdout in large chunks (back-pressure respected); flushed before the command returns. */
+const stdout = new BufferedWriter(process.stdout);
+const write = (text: string): Promise<void> | undefined => stdout.write(text);
 
 export async function runTranscribe(file: string | undefined, o: TranscribeOptions): Promise<number> {
   if (!["tsv", "jsonl", "pls"].includes(o.format)) {
@@ -36,7 +37,8 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     kind: o.engine,
     ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
     ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
-    blame: o.format === "jsonl",
+    // The per-step machines give JSON Lines its rules and let PLS skip enumerating most variants.
+    blame: o.format !== "tsv",
     syllables: o.syllableBreaks,
   });
   printDiagnostics(loaded.diagnostics);
@@ -55,31 +57,41 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     if (pending !== undefined && pls !== undefined) pls.push({ word: pending.word, phonemes: pending.phonemes, preferred: 0, source: { file: pending.file, line: pending.line, column: 1 } });
     pending = undefined;
   };
+  // Only what the format prints: TSV neither variants nor blame, PLS the variants, JSON Lines both.
+  const needs: Needs = o.format === "tsv" ? NARROW_ONLY : o.format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
   if (o.format === "tsv") await write(tsvHeader());
   try {
-    for await (const item of reader) {
-      const r = item.kind === "row" ? transcribeRow(loaded.engine, item) : item;
-      if (r.kind === "reject") {
-        rejects++;
-        process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
-        continue;
-      }
-      entries++;
-      if (o.format === "tsv") await write(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-      else if (o.format === "jsonl") await write(entryJsonLine(r));
-      else {
-        const mine = entryPhonemes(r);
-        if (pending !== undefined && pending.word === r.word) {
-          for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
-        } else {
-          flush();
-          pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+    for await (const batch of reader.batches()) {
+      for (const item of batch) {
+        const r = item.kind === "row" ? transcribeRow(loaded.engine, item, needs) : item;
+        if (r.kind === "reject") {
+          rejects++;
+          process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
+          continue;
+        }
+        entries++;
+        if (o.format === "tsv" || o.format === "jsonl") {
+          const w = write(o.format === "tsv" ? formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
+          if (w !== undefined) await w;
+        }
+        else {
+          const mine = entryPhonemes(r);
+          if (pending !== undefined && pending.word === r.word) {
+            for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
+          } else {
+            flush();
+            pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+          }
         }
       }
+      // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.
+      const w = stdout.flush();
+      if (w !== undefined) await w;
     }
     flush();
     pls?.close();
     await plsWriter;
+    await stdout.flush();
   } catch (err) {
     pls?.fail(err);
     await plsWriter?.catch(() => undefined);

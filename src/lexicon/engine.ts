@@ -34,9 +34,22 @@ export interface Transcription {
   readonly ambiguous?: true;
 }
 
+/**
+ * What the caller's outputs print beyond the narrow and broad forms: every variant (JSON Lines,
+ * PLS, the summary's counts) and the steps that changed the entry (JSON Lines, the summary). An
+ * engine may skip what is not asked for: `variants` is then just the narrow form, `rules` empty.
+ */
+export interface Needs {
+  readonly variants?: boolean;
+  readonly rules?: boolean;
+}
+
+export const ALL_NEEDS: Needs = { variants: true, rules: true };
+export const NARROW_ONLY: Needs = { variants: false, rules: false };
+
 export interface Engine {
   /** Step names in grammar order (rules, syllabify and stress steps). */
   readonly steps: readonly string[];
   /** Undefined when a symbol of the word is outside the compiled alphabet. */
-  transcribeWord(symbols: Word): Transcription | undefined;
+  transcribeWord(symbols: Word, needs?: Needs): Transcription | undefined;
 }

@@ -2,14 +2,15 @@
 // TSV, JSON Lines and PLS written whole, a rejects file, and a summary that reconciles every row.
 
 import { dirname, join } from "node:path";
-import { capPerFile, formatDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { formatDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { capPerFile } from "../diagnostic-cap.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { formatJsonLine } from "../emit/jsonl.js";
 import { writePls, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import type { Inventory } from "../inventory/types.js";
 import { Channel } from "./channel.js";
-import type { Engine, EntryResult, Transcription } from "./engine.js";
+import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
@@ -80,11 +81,25 @@ export const entryJsonLine = (r: EntryResult): string =>
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
 export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
 
+/** Lines gathered into one chunk before it is handed to a file writer. */
+class ChunkedPush {
+  private buf = "";
+  constructor(private readonly ch: Channel<string>) {}
+  push(line: string): void {
+    this.buf += line;
+    if (this.buf.length >= 1 << 16) this.flush();
+  }
+  flush(): void {
+    if (this.buf !== "") this.ch.push(this.buf);
+    this.buf = "";
+  }
+}
+
 /** Words per batch sent to a worker thread. */
 const BATCH = 1024;
 
-export function transcribeRow(engine: Engine, row: LexiconRow): EntryResult | RejectedRow {
-  const t = engine.transcribeWord(row.symbols);
+export function transcribeRow(engine: Engine, row: LexiconRow, needs?: Needs): EntryResult | RejectedRow {
+  const t = engine.transcribeWord(row.symbols, needs);
   if (t === undefined) return outsideAlphabet(row);
   const bad = unwritableEntry(row, t);
   if (bad !== undefined) return bad;
@@ -141,7 +156,19 @@ export async function runLexicon(
   const reader = readLexicon(lexiconPath, { inventory });
   let seen = 0;
   const every = opts.progressEvery ?? 1000;
-  const emit = async (r: EntryResult | RejectedRow): Promise<void> => {
+  // Lines are gathered into chunks of about 64 KiB before they go to a file writer (one hand-over
+  // per chunk, not per line).
+  const tsvOut = tsv !== undefined ? new ChunkedPush(tsv) : undefined;
+  const jsonlOut = jsonl !== undefined ? new ChunkedPush(jsonl) : undefined;
+  const wantPls = formats.has("pls");
+  // Every entry of a run names the same file or few: its relative path is worked out once per file.
+  const relFiles = new Map<string, string>();
+  const relFile = (f: string): string => {
+    let r = relFiles.get(f);
+    if (r === undefined) relFiles.set(f, (r = relativeTo(root, f)));
+    return r;
+  };
+  const emitOne = (r: EntryResult | RejectedRow): void => {
     if (r.kind === "reject") {
       rejects.push(r);
       return;
@@ -152,24 +179,29 @@ export async function runLexicon(
     if (r.ambiguous === true) entriesAmbiguous++;
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
-    tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-    jsonl?.push(entryJsonLine({ ...r, file: relativeTo(root, r.file) }));
-    if (formats.has("pls")) {
+    tsvOut?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
+    jsonlOut?.push(entryJsonLine({ ...r, file: relFile(r.file) }));
+    if (wantPls) {
       const lx = lexemes.get(r.word);
       const mine = entryPhonemes(r);
       if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
       else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
     }
-    // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
-    if ((tsv?.backlog ?? 0) > 4096 || (jsonl?.backlog ?? 0) > 4096) await new Promise((res) => setImmediate(res));
+  };
+  // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
+  const drain = async (): Promise<void> => {
+    if ((tsv?.backlog ?? 0) > 16 || (jsonl?.backlog ?? 0) > 16) await new Promise((res) => setImmediate(res));
   };
   const pool = opts.pool;
   try {
     if (pool === undefined || !(engine instanceof MachineEngine)) {
-      for await (const item of reader) {
-        seen++;
-        if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
-        await emit(item.kind === "row" ? transcribeRow(engine, item) : item);
+      for await (const batch of reader.batches()) {
+        for (const item of batch) {
+          seen++;
+          if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
+          emitOne(item.kind === "row" ? transcribeRow(engine, item) : item);
+        }
+        await drain();
       }
     } else {
       // Batches in flight on the workers, emitted strictly in submission order.
@@ -182,20 +214,21 @@ export async function runLexicon(
         let k = 0;
         for (const item of head.items) {
           if (item.kind !== "row") {
-            await emit(item);
+            emitOne(item);
             continue;
           }
           const t = results[k++];
           const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-          await emit(bad ?? { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t! });
+          emitOne(bad ?? { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t! });
         }
+        await drain();
       };
       const submit = (): void => {
         queue.push({ items, done: pool.submit(words) });
         items = [];
         words = [];
       };
-      for await (const item of reader) {
+      for await (const batch of reader.batches()) for (const item of batch) {
         seen++;
         if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
         if (item.kind === "row") {
@@ -228,6 +261,8 @@ export async function runLexicon(
     await stage.abort();
     return failedSummary(variety.name, lexiconPath, diagnostics, t0);
   }
+  tsvOut?.flush();
+  jsonlOut?.flush();
   for (const ch of channels) ch.close();
   // Every file of the variety, or none: a failed write (or PLS, or reconciliation) leaves outDir as it was.
   const failWith = async (errors: Diagnostic[]): Promise<RunSummary> => {
@@ -282,7 +317,7 @@ export async function runLexicon(
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
     outputErrors,
-    fileDiagnostics: capPerFile(reader.diagnostics),
+    fileDiagnostics: capPerFile(reader.diagnostics, "lexicon/too-many-problems"),
     diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
     reconciled: true,
@@ -300,6 +335,6 @@ export async function runLexicon(
 function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {
   return {
     variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0, entriesCapped: 0, entriesAmbiguous: 0,
-    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
+    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics, "lexicon/too-many-problems"), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }
