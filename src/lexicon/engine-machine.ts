@@ -108,7 +108,9 @@ export class MachineEngine implements Engine {
   transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS): Transcription | undefined {
     const out = this.out;
     out.length = 0;
+    const ambiguousBefore = this.compiled.preferred.ambiguities;
     if (!this.compiled.preferred.run(ids, out)) return undefined;
+    const ambiguous = this.compiled.preferred.ambiguities !== ambiguousBefore;
     const narrow = renderIpa(out, this.view, this.render);
     const bout = this.bout;
     bout.length = 0;
@@ -119,11 +121,17 @@ export class MachineEngine implements Engine {
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
     const rules = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants) : NO_BLAME;
     let variants: string[] = [narrow];
+    let capped = false;
     if (wantVariants && !rules.single) {
-      const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view, this.render));
-      variants = [narrow, ...[...new Set(all)].filter((v) => v !== narrow)];
+      const v = this.compiled.variants(ids, this.maxVariants);
+      capped = v.capped;
+      const all = v.outputs.map((o) => renderIpa(o, this.view, this.render));
+      variants = [narrow, ...[...new Set(all)].filter((x) => x !== narrow)];
     }
-    return { narrow, broad: broadText, variants, rules: wantRules ? rules.changed : [] };
+    return {
+      narrow, broad: broadText, variants, rules: wantRules ? rules.changed : [],
+      ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}),
+    };
   }
 
   /**

@@ -17,6 +17,10 @@ export interface EntryResult {
   readonly variants: readonly string[];
   /** Names of the steps that changed the preferred variant, in grammar order. */
   readonly rules: readonly string[];
+  /** Some variants were left out: the entry had more than the cap (16 by default). */
+  readonly capped?: true;
+  /** The preferred machine gave more than one output; the first by symbol order was taken. */
+  readonly ambiguous?: true;
 }
 
 export interface Transcription {
@@ -24,6 +28,10 @@ export interface Transcription {
   readonly broad: string;
   readonly variants: readonly string[];
   readonly rules: readonly string[];
+  /** Some variants were left out (more than the cap); absent when none were. */
+  readonly capped?: true;
+  /** The preferred machine gave more than one output and the first by symbol order was taken; absent otherwise. */
+  readonly ambiguous?: true;
 }
 
 /**
