@@ -4,7 +4,7 @@
 // with every ratio taken from figures of that run (medians of repetitions) and the output checks
 // that make the comparisons valid. Exits non-zero only on a failed output check, never on a timing.
 
-import { availableParallelism, totalmem } from "node:os";
+import { availableParallelism, loadavg, totalmem } from "node:os";
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join, relative } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -134,6 +134,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
 
   say("== Main job: the en-us grammar over the CMU Pronouncing Dictionary ==");
   const info = machineInfo();
+  const loadStart = fmt(loadavg()[0]!, 1);
   say(`machine: ${info.cpus} CPUs (${info.cpu}), ${info.memory}, Node ${info.node}`);
 
   // --- Data --------------------------------------------------------------------------------
@@ -386,7 +387,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
 
   if (opts.writeReadme ?? true) {
     const body = [
-      `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}.`,
+      `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}; load average ${loadStart} at the start of the section, ${loadavg().map((l) => fmt(l, 1)).join(" / ")} (1 / 5 / 15 min) at its end (a shared machine is slower for every figure; the ratios compare runs made in turn).`,
       `Data: the whole CMU Pronouncing Dictionary (${fmt(words.length)} entries, npm \`cmu-pronouncing-dictionary\`) through \`lexicons/en-us/grammar.strata\` (all rules, syllabification and stress).`,
       `In-process figures are medians of ${reps} runs, child-process figures (compile, build, I/O floor, in-house script, transcribe) medians of ${childReps}; every ratio is taken from figures of the same run (against the in-house script: the median of the ratios of runs made in turn).`,
       ...(failures.length > 0 ? ["", "**The output checks failed in this run; the comparisons below are void.**"] : []),

@@ -24,6 +24,10 @@ export interface JsonlEntry {
   readonly variantSteps?: readonly (readonly string[])[];
   /** The input row as read: pronunciation as written, part of speech (when given), tags. */
   readonly input?: { readonly pron: string; readonly pos?: string; readonly tags: readonly string[] };
+  /** Some variants were left out (more than the cap). */
+  readonly capped?: boolean;
+  /** The preferred machine gave several outputs; the first by symbol order was taken. */
+  readonly ambiguous?: boolean;
 }
 
 /**
@@ -47,6 +51,8 @@ export function formatJsonLine(e: JsonlEntry): string {
   if (e.derivation !== undefined) o["derivation"] = e.derivation.map((d) => ({ step: d.step, form: d.form }));
   if (e.variantSteps !== undefined) o["variantSteps"] = e.variantSteps.map((s) => [...s]);
   if (e.input !== undefined) o["input"] = { pron: e.input.pron, ...(e.input.pos !== undefined ? { pos: e.input.pos } : {}), tags: [...e.input.tags] };
+  if (e.capped === true) o["capped"] = true;
+  if (e.ambiguous === true) o["ambiguous"] = true;
   const json = JSON.stringify(o);
   if (json.indexOf("\u2028") < 0 && json.indexOf("\u2029") < 0) return json + "\n";
   return json.replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";

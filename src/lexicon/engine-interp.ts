@@ -34,7 +34,7 @@ export class InterpreterEngine implements Engine {
     const others = run.variants.filter((v) => wordKey(v.word) !== prefKey);
     const variants = [narrow, ...others.map((v) => ipa(v.word))];
     const rules = preferred?.changedBy ?? [];
-    return { narrow, broad: ipa(broadRun.preferred), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)] };
+    return { narrow, broad: ipa(broadRun.preferred), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
   }
 
   /** The preferred word step by step: each step of the prepared grammar alone, on the previous step's preferred output. */

@@ -111,7 +111,9 @@ export class MachineEngine implements Engine {
   transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS): Transcription | undefined {
     const out = this.out;
     out.length = 0;
+    const ambiguousBefore = this.compiled.preferred.ambiguities;
     if (!this.compiled.preferred.run(ids, out)) return undefined;
+    const ambiguous = this.compiled.preferred.ambiguities !== ambiguousBefore;
     const narrow = renderIpa(out, this.view, this.render);
     const bout = this.bout;
     bout.length = 0;
@@ -122,13 +124,16 @@ export class MachineEngine implements Engine {
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
     const rules = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants) : NO_BLAME;
     let variants: string[] = [narrow];
+    let capped = false;
     if (wantVariants && !rules.single) {
-      const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view, this.render));
-      variants = [narrow, ...[...new Set(all)].filter((v) => v !== narrow)];
+      const v = this.compiled.variants(ids, this.maxVariants);
+      capped = v.capped;
+      const all = v.outputs.map((o) => renderIpa(o, this.view, this.render));
+      variants = [narrow, ...[...new Set(all)].filter((x) => x !== narrow)];
     }
     const ruleList = wantRules ? rules.changed : [];
     if (!wantRules || !(this.render.derivations ?? true)) {
-      return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])) };
+      return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])), ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}) };
     }
     // The derivation (form after each step) and each variant's steps, for the JSON Lines output.
     const sw = this.stepwise!;
@@ -145,7 +150,7 @@ export class MachineEngine implements Engine {
       // A variant the traced run dropped at its cap (more than maxVariants on the way) gets no steps.
       variantSteps = variants.map((v, i) => (i === 0 ? ruleList : byText.get(v) ?? []));
     }
-    return { narrow, broad: broadText, variants, rules: ruleList, derivation, variantSteps };
+    return { narrow, broad: broadText, variants, rules: ruleList, derivation, variantSteps, ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}) };
   }
 
   /**

@@ -26,6 +26,10 @@ export interface EntryResult {
   readonly variantSteps: readonly (readonly string[])[];
   /** The input row as read (pronunciation as written, part of speech, tags): what a comparison calls the input. */
   readonly input: EntryInput;
+  /** Some variants were left out: the entry had more than the cap (16 by default). */
+  readonly capped?: true;
+  /** The preferred machine gave more than one output; the first by symbol order was taken. */
+  readonly ambiguous?: true;
 }
 
 export interface EntryInput {
@@ -41,6 +45,10 @@ export interface Transcription {
   readonly rules: readonly string[];
   readonly derivation: readonly DerivationStep[];
   readonly variantSteps: readonly (readonly string[])[];
+  /** Some variants were left out (more than the cap); absent when none were. */
+  readonly capped?: true;
+  /** The preferred machine gave more than one output and the first by symbol order was taken; absent otherwise. */
+  readonly ambiguous?: true;
 }
 
 /**

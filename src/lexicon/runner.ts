@@ -47,6 +47,10 @@ export interface RunSummary {
   /** Entries with more than one narrow variant. */
   readonly entriesWithVariants: number;
   readonly variantsTotal: number;
+  /** Entries whose variants were more than the cap (some left out; marked `capped` in JSON Lines). */
+  readonly entriesCapped: number;
+  /** Entries whose preferred machine had more than one output (marked `ambiguous` in JSON Lines). */
+  readonly entriesAmbiguous: number;
   /** How many entries each rule (and syllabify/stress step) changed, in grammar order. */
   readonly changedBy: readonly { readonly step: string; readonly entries: number }[];
   readonly files: Readonly<Record<string, string>>;
@@ -70,7 +74,8 @@ function outsideAlphabet(row: LexiconRow): RejectedRow {
 
 /** One entry as a JSON Lines record. */
 export const entryJsonLine = (r: EntryResult): string =>
-  formatJsonLine({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line }, derivation: r.derivation, variantSteps: r.variantSteps, input: r.input });
+  formatJsonLine({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line }, derivation: r.derivation, variantSteps: r.variantSteps, input: r.input,
+  ...(r.capped === true ? { capped: true } : {}), ...(r.ambiguous === true ? { ambiguous: true } : {}) });
 
 /** A read row and its transcription as one entry. */
 const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult => ({
@@ -152,6 +157,8 @@ export async function runLexicon(
   let entries = 0;
   let withVariants = 0;
   let variantsTotal = 0;
+  let entriesCapped = 0;
+  let entriesAmbiguous = 0;
   const reader = readLexicon(lexiconPath, { inventory });
   let seen = 0;
   const every = opts.progressEvery ?? 1000;
@@ -174,6 +181,8 @@ export async function runLexicon(
     }
     entries++;
     if (r.variants.length > 1) withVariants++;
+    if (r.capped === true) entriesCapped++;
+    if (r.ambiguous === true) entriesAmbiguous++;
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
     tsvOut?.push(formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }));
@@ -315,6 +324,8 @@ export async function runLexicon(
     words: lexemes.size,
     entriesWithVariants: withVariants,
     variantsTotal,
+    entriesCapped,
+    entriesAmbiguous,
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
     outputErrors,
@@ -335,7 +346,7 @@ export async function runLexicon(
 
 function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {
   return {
-    variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0,
+    variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0, entriesCapped: 0, entriesAmbiguous: 0,
     changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics, "lexicon/too-many-problems"), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }
