@@ -6,6 +6,7 @@ import { bundleKey, PROSODIC_FEATURES, realise, bundleOf, describeBundle, type B
 import type { ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, Rule, Span } from "./ast.js";
 import { conditionsSatisfiable } from "./desugar.js";
 import { elementText } from "./parse-patterns.js";
+import { checkNotation } from "./check-notation.js";
 
 /** Most bundles the reachability estimate keeps (it over-approximates; the cap keeps it cheap). */
 const MAX_REACHABLE = 20_000;
@@ -200,20 +201,22 @@ class Checker {
       this.pattern(env.left, bound);
       this.pattern(env.right, bound);
     }
+    for (const env of r.unless ?? []) {
+      this.pattern(env.left, new Map(bound));
+      this.pattern(env.right, new Map(bound));
+    }
     const used = new Map<string, { kind: "feature" | string; span: Span }>();
     for (const c of r.change) this.element(c, used);
     for (const [v, u] of used) {
       const b = bound.get(v);
-      if (b === undefined)
-        this.error("grammar/unbound-variable", `variable ${v} in the change of rule '${r.name}' is not set by the target or an environment`, u.span);
-      else if (b.kind !== u.kind)
+      // A variable only the change uses takes every value: check-notation.ts warns (grammar/free-variable).
+      if (b !== undefined && b.kind !== u.kind)
         this.error("grammar/variable-kind", `variable ${v} stands for ${b.kind === "feature" ? "a feature value" : `node '${b.kind}'`} in the target or environment, but not in the change`, u.span);
     }
     if (r.target.length === 0 && r.change.length === 0) this.error("grammar/empty-rule", `rule '${r.name}' has ∅ on both sides of the arrow`, r.span);
+    this.out.push(...checkNotation(r, this.inv, this)); // inserted bundles, free variables, expansions
     if (r.target.length === 0) {
-      for (const c of r.change)
-        if (c.kind === "bundle")
-          this.error("grammar/insert-bundle", "an insertion writes whole segments; write the inserted segment in IPA, not a bundle", c.span);
+      // An inserted bundle must denote one segment: checked in check-notation.ts.
     } else if (r.change.some((c) => c.kind === "bundle") && r.change.length !== r.target.length) {
       this.error(
         "grammar/change-length",
@@ -221,7 +224,7 @@ class Checker {
         r.change[0]!.span,
       );
     }
-    for (const env of r.environments) this.conditions(r, env);
+    for (const env of [...r.environments, ...(r.unless ?? [])]) this.conditions(r, env);
   }
 
   /** Preconditions that make `desugar` exact (see desugar.ts), and conditions that contradict. */

@@ -105,10 +105,13 @@ const desugared = new WeakMap<Rule, { inv: Inventory; rule: Rule }>();
  * The front end's `desugar`, given the inventory and classes (so literal segments and classes
  * are intersected with the condition material exactly), memoised per rule object and inventory.
  */
-export function desugarOnce(rule: Rule, ctx: Pick<RuleContext, "inv" | "classes">): Rule {
+export function desugarOnce(rule: Rule, ctx: Pick<RuleContext, "inv" | "classes"> & Partial<Pick<RuleContext, "nodes">>): Rule {
   const hit = desugared.get(rule);
   if (hit !== undefined && hit.inv === ctx.inv) return hit.rule;
-  const d = rule.environments.some((e) => e.conditions.length > 0) || hasEnvironmentNotation(rule) ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()] }) : rule;
+  const insertsBundle = rule.target.length === 0 && rule.change.some((c) => c.kind === "bundle");
+  const d = rule.environments.some((e) => e.conditions.length > 0) || hasEnvironmentNotation(rule) || insertsBundle
+    ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()], nodes: [...(ctx.nodes?.values() ?? [])] })
+    : rule;
   desugared.set(rule, { inv: ctx.inv, rule: d });
   return d;
 }

@@ -23,8 +23,8 @@ fc.configureGlobal({ seed: SEED });
 process.stderr.write(`compile/differential: fast-check seed ${SEED}\n`);
 
 const extra = { classes: [classDef("V", [bun("+syllabic")])], nodes: [nodeDef("place", ["labial", "coronal"])] };
-const interpOptsOf = (g: Grammar) => ({ desugar: (r: Rule) => desugar(r, { inventory: inv, classes: g.classes }), isBoundaryBlind: (r: Rule) => isBoundaryBlind(r), maxVariants: 2000 });
-const desugarIn = (g: Grammar) => (r: Rule) => desugar(r, { inventory: inv, classes: g.classes });
+const interpOptsOf = (g: Grammar) => ({ desugar: (r: Rule) => desugar(r, { inventory: inv, classes: g.classes, nodes: g.nodes }), isBoundaryBlind: (r: Rule) => isBoundaryBlind(r), maxVariants: 2000 });
+const desugarIn = (g: Grammar) => (r: Rule) => desugar(r, { inventory: inv, classes: g.classes, nodes: g.nodes });
 
 /** Does the interpreter accept this rule (prepare without errors)? */
 function interpretable(r0: Rule, g: Grammar, w: Sym[]): boolean {
