@@ -420,7 +420,7 @@ export function desugar(rule: Rule, ctx?: DesugarContext): Rule {
  * An insertion written as a feature bundle that denotes exactly one inventory segment becomes that
  * segment (DEVELOPERS.md, "Inserting a bundle"); any other bundle is left for the checker to report.
  */
-function insertedBundlesAsSegments(rule: Rule, ctx: DesugarContext | undefined): Rule {
+export function insertedBundlesAsSegments(rule: Rule, ctx: DesugarContext | undefined): Rule {
   if (ctx === undefined || rule.target.length > 0 || !rule.change.some((c) => c.kind === "bundle")) return rule;
   const nodes = new Map((ctx.nodes ?? []).map((n) => [n.name, n] as const));
   const change = rule.change.map((c): ChangeElement => {

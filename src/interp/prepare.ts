@@ -7,7 +7,7 @@ import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
 import type {
   ApplicationMode, ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, ProsodicCondition, Rule, Span,
 } from "../grammar/ast.js";
-import { desugar, expandEnvironments, hasEnvironmentNotation, isBoundaryBlind } from "../grammar/index.js";
+import { desugar, expandEnvironments, hasEnvironmentNotation, insertedBundlesAsSegments, isBoundaryBlind } from "../grammar/index.js";
 import { resolveSymbol } from "./segments.js";
 
 /** What a rule needs from its grammar to be applied. */
@@ -133,7 +133,9 @@ export type PrepareResult = { readonly rule: PreparedRule; readonly diagnostics:
 export function prepareRule(rule: Rule, ctx: RuleContext): PrepareResult {
   const hit = cache.get(rule);
   if (hit !== undefined && hit.ctx === ctx) return hit.result;
-  const written = ctx.conditions === "direct" ? expandEnvironments(rule) : desugarOnce(rule, ctx);
+  const written = ctx.conditions === "direct"
+    ? expandEnvironments(insertedBundlesAsSegments(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()], nodes: [...ctx.nodes.values()] }))
+    : desugarOnce(rule, ctx);
   const result = new Preparer(written, ctx).run();
   cache.set(rule, { ctx, result });
   return result;

@@ -133,7 +133,7 @@ describe("compiled rules agree with the interpreter", () => {
       fc.property(arbGrammar(), fc.array(fc.oneof(arbWord(inv, { dots: true }), arbWord(inv), arbWord(inv, { unseen: true })), { minLength: 1, maxLength: 5 }), ({ grammar: g }, words) => {
         checkGrammar(g, words);
       }),
-      { numRuns: 80 },
+      { numRuns: 50 },
     );
   });
 });
