@@ -86,7 +86,7 @@ describe("compiled rules agree with the interpreter", () => {
           expect(wordKey(dec.decode(pref[0]!))).toBe(wordKey(exp.preferred));
         }
       }),
-      { numRuns: 300 },
+      { numRuns: 250 },
     );
   });
 
@@ -124,7 +124,7 @@ describe("compiled rules agree with the interpreter", () => {
           checkGrammar(grammar(steps, { ...extra, onsets, codas, heavy }), words);
         },
       ),
-      { numRuns: 100 },
+      { numRuns: 70 },
     );
   });
 
