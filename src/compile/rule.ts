@@ -322,7 +322,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
           for (const y of c.insert) ins.push(EPSILON, y);
           const m = c.insert.length;
           for (const x of domain) {
-            if (!(x === WORD || x >= 3)) continue;
+            if (!(x === WORD || x >= 3 || (x === SYLL && !blind))) continue;
             nextS = 0;
             go([...ins, x, x], (k, p, v) => {
               if (rtl ? k === m : k === 0) return spawn(v, eff(c, p), true);

@@ -142,3 +142,30 @@ describe("variables only the change uses, and variables some environments leave 
     ]);
   });
 });
+
+describe("insertion at a syllable's end inside a word", () => {
+  it("'_ $' inserts before every '.' and at the word's end (interpreter)", () => {
+    const g = grammarOf("rule r:\n  ∅ -> i / a _ $\n");
+    expect(outputs(g, "#pa.ta#")).toEqual(["pai.tai"]);
+    expect(outputs(g, "#pat.ta#")).toEqual(["pat.tai"]);
+  });
+  it("compiled = interpreted on every word up to 4 segments with '.' between any two", () => {
+    const words: Sym[][] = [];
+    for (const w of allWords(["p", "a", "n"], 4)) {
+      const body = w.slice(1, -1);
+      for (let mask = 0; mask < 1 << Math.max(0, body.length - 1); mask++) {
+        const out: Sym[] = [w[0]!];
+        body.forEach((s, i) => {
+          if (i > 0 && (mask >> (i - 1)) & 1) out.push({ kind: "boundary", which: "syllable" });
+          out.push(s);
+        });
+        out.push(w[w.length - 1]!);
+        words.push(out);
+      }
+    }
+    for (const head of ["", " right-to-left", " optional"]) {
+      agreeOnAll(grammarOf(`rule r${head}:\n  ∅ -> i / a _ $\n`), words);
+      agreeOnAll(grammarOf(`rule r${head}:\n  ∅ -> i / $ _ n\n`), words);
+    }
+  });
+});
