@@ -2,7 +2,7 @@
 // through each, write TSV, JSON Lines, PLS, rejects and a summary under build/<lexicon>/<variety>/.
 
 import { createReadStream, readFileSync } from "node:fs";
-import { join, relative, resolve } from "node:path";
+import { dirname, join, relative, resolve } from "node:path";
 import type { Command } from "commander";
 import cliProgress from "cli-progress";
 import pc from "picocolors";
@@ -13,6 +13,8 @@ import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
 import { availableParallelism } from "node:os";
+import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
+import { probeCacheDir } from "../compile/cache.js";
 
 interface BuildOptions {
   out: string;
@@ -43,6 +45,16 @@ async function countLines(path: string): Promise<number> {
 }
 
 export async function runBuild(dirArg: string | undefined, o: BuildOptions): Promise<number> {
+  // The output folder's lock and run record are released and written however the build ends.
+  const held: { output?: BuildOutput; workers: number } = { workers: 0 };
+  try {
+    return await buildLocked(dirArg, o, held);
+  } finally {
+    if (held.output !== undefined) printDiagnostics(await held.output.close(held.workers));
+  }
+}
+
+async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { output?: BuildOutput; workers: number }): Promise<number> {
   const dir = dirArg ?? join(packageRoot(), "lexicons", "demo");
   const { manifest, diagnostics } = loadManifest(dir);
   printDiagnostics(diagnostics);
@@ -55,7 +67,15 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     }
   }
   const outRoot = resolve(o.out);
-  const cacheDir = o.cache ? resolve(o.cacheDir ?? join(outRoot, "cache")) : undefined;
+  const opened = await openBuildOutput(join(outRoot, manifest.name), dirname(manifest.file));
+  if (!opened.ok) {
+    printDiagnostics(opened.diagnostics);
+    return 1;
+  }
+  held.output = opened.output;
+  const cache = o.cache ? probeCacheDir(resolve(o.cacheDir ?? join(outRoot, "cache"))) : undefined;
+  if (cache !== undefined) printDiagnostics(cache.diagnostics.filter(() => !o.quiet));
+  const cacheDir = cache?.dir;
   const tty = process.stderr.isTTY === true && !o.quiet;
   const lines = await countLines(manifest.lexicon);
   const total = tty ? lines : 0;
@@ -67,7 +87,9 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     return 2;
   }
   const threads = o.engine === "machine" && WorkerPool.script() !== undefined ? wanted : 0;
+  held.workers = threads;
   let failed = false;
+  let internal = false;
   let rejected = false;
   const summaries: RunSummary[] = [];
   for (const variety of manifest.varieties) {
@@ -76,6 +98,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     printDiagnostics(loaded.diagnostics.filter((d) => d.severity === "error" || !o.quiet));
     if (!("engine" in loaded)) {
       failed = true;
+      held.output.record({ name: variety.name, status: "failed", compileMs: performance.now() - t0, runMs: 0 });
       continue;
     }
     const compileMs = performance.now() - t0;
@@ -90,6 +113,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
+        sourceRoot: dirname(manifest.file),
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
@@ -98,9 +122,12 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       await pool?.close();
     }
     summaries.push(summary);
-    const fileErrors = summary.diagnostics.filter((d) => d.code.startsWith("lexicon/") && d.line <= 1);
+    held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
+    if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;
+    // The lexicon file's own problems (all of them, capped per file): the same for every variety, so printed once.
+    const fileErrors = summary.fileDiagnostics.filter((d) => d.severity === "error");
     if (!summary.reconciled || fileErrors.length > 0 || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...fileErrors, ...summary.outputErrors]);
+    printDiagnostics([...(summaries.length === 1 ? summary.fileDiagnostics.filter((d) => d.severity === "error" || !o.quiet) : []), ...summary.outputErrors]);
     if (summary.rowsRejected > 0) rejected = true;
     if (!o.quiet) printSummary(summary, compileMs, outDir, o.samples);
     if (o.check !== undefined) {
@@ -117,11 +144,11 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     const msg = `${n} row(s) rejected (see rejects.csv in each variety's folder)`;
     if (!o.allowRejects) {
       process.stderr.write(pc.red(`strata: ${msg}; rerun with --allow-rejects to accept them`) + "\n");
-      return failed ? 1 : 3;
+      return internal ? 70 : failed ? 1 : 3;
     }
     if (!o.quiet) process.stderr.write(`strata: ${msg}, allowed by --allow-rejects\n`);
   }
-  return failed ? 1 : 0;
+  return internal ? 70 : failed ? 1 : 0;
 }
 
 function printSummary(s: RunSummary, compileMs: number, outDir: string, samples: number): void {

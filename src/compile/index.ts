@@ -17,7 +17,7 @@ import { buildRule, RuleTooLargeError, type PairNfa } from "./rule.js";
 import { buildStress, buildSyllabifier } from "./prosody.js";
 import { finishMachine, pairNfaToFst } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
-import { dropCache, readCache, sha256, writeCache } from "./cache.js";
+import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from "./alphabet.js";
 export type { Block } from "./cascade.js";
@@ -242,6 +242,7 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
   const maxStates = opts.maxStates ?? 50_000;
   const key = cacheKeyOf(grammar, inv, maxStates, opts.extraSegments);
   let cacheState: Compiled["cache"] = opts.cacheDir === undefined ? "off" : "miss";
+  const cacheWarnings: Diagnostic[] = [];
   if (opts.cacheDir !== undefined) {
     const read = readCache(opts.cacheDir, key, (m) => (isCacheMeta(m) ? m.preferred.length + m.variants.length : 0));
     if (read.state === "ok" && isCacheMeta(read.meta)) {
@@ -258,10 +259,13 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
     }
     if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
       cacheState = "rebuilt";
+      const why = read.state === "corrupt" ? read.reason : "written by another compiler version";
+      cacheWarnings.push(cacheWarning(cachePath(opts.cacheDir, key), `The cached machine ${cachePath(opts.cacheDir, key)} was not used (${why}); it is compiled again.`));
       dropCache(opts.cacheDir, key);
     }
   }
-  const { result, diagnostics } = compileSteps(grammar, inv, opts);
+  const { result, diagnostics: stepDiagnostics } = compileSteps(grammar, inv, opts);
+  const diagnostics = [...stepDiagnostics, ...cacheWarnings];
   if (result === null) return { compiled: null, diagnostics };
   const t1 = performance.now();
   const steps: StepSize[] = result.steps.map(({ step, variants, preferred }) => ({
@@ -290,7 +294,8 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
       hasVariants,
       runners: compiled.preferred.kinds,
     };
-    writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
+    const unwritten = writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
+    if (unwritten !== undefined) diagnostics.push(cacheWarning(opts.cacheDir, `The compiled machine could not be cached in ${opts.cacheDir} (${unwritten}); the next run compiles it again.`));
   }
   return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
 }
