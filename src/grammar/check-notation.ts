@@ -16,6 +16,9 @@ export interface NotationScope {
 
 /**
  * Every problem of one rule's notation:
+ * - `grammar/ambiguous-variable` (warning): a variable of the change not set by the target is set
+ *   by several environments, or, in one environment, by a segment whose place depends on how an
+ *   optional part, choice or repetition matches (`_ C₀ [α voice]`): one site, several outputs.
  * - `grammar/free-variable` (warning): a variable of the change that the target does not set and
  *   this environment does not set on every way it can match — there the variable takes every value,
  *   so the site gets several outputs (an obligatory rule too). Named per environment and variable.
@@ -50,6 +53,17 @@ export function checkNotation(rule: Rule, inv: Inventory, scope: NotationScope):
       out.push(diagnostic("warning", "grammar/free-variable", `rule '${rule.name}': variable ${v} of the change is set by no target or environment, so it takes every value (several outputs)`, changeVars.get(v)!));
     return out;
   }
+  // Alpha-ambiguous sites: the same site can set the variable from different segments.
+  for (const v of free) {
+    const setting = envs.filter((e) => mentions(e.left, v) || mentions(e.right, v));
+    if (setting.length > 1)
+      out.push(diagnostic("warning", "grammar/ambiguous-variable", `rule '${rule.name}': ${setting.length} environments set variable ${v} of the change; where more than one holds with different values, the site gets one output per value`, setting[1]!.span));
+    for (const e of setting) {
+      const setsAlways = boundBy(e.left, scope, 0).has(v) || boundBy(e.right, scope, 0).has(v);
+      if (setsAlways && (variableReach(outward(e.left, true), v) === "varies" || variableReach(outward(e.right, false), v) === "varies"))
+        out.push(diagnostic("warning", "grammar/ambiguous-variable", `rule '${rule.name}': in this environment the segment that sets variable ${v} depends on how an optional part, choice or repetition matches; different matches give different outputs`, e.span));
+    }
+  }
   for (const env of envs) {
     const bound = new Set([...boundBy(env.left, scope, 0), ...boundBy(env.right, scope, 0)]);
     for (const v of free) {
@@ -64,6 +78,37 @@ export function checkNotation(rule: Rule, inv: Inventory, scope: NotationScope):
     }
   }
   return out;
+}
+
+/** A side's items read outward from the target (the left side backwards). */
+function outward(p: Pattern, left: boolean): Pattern[] {
+  const items = p.kind === "sequence" ? [...p.items] : [p];
+  return left ? items.reverse() : items;
+}
+
+/** Does the pattern use variable v anywhere? */
+function mentions(p: Pattern, v: string): boolean {
+  switch (p.kind) {
+    case "element": return p.element.kind === "bundle" && p.element.specs.some((s) => s.kind === "variable" && s.variable === v);
+    case "sequence": return p.items.some((q) => mentions(q, v));
+    case "optional":
+    case "repeat": return mentions(p.body, v);
+    case "choice": return p.options.some((q) => mentions(q, v));
+  }
+}
+
+/**
+ * Reading outward, is the first element that sets v always the same distance from the target
+ * ("fixed"), or can optional parts, choices or repetitions before or around it move it ("varies")?
+ */
+function variableReach(items: readonly Pattern[], v: string): "fixed" | "varies" | "none" {
+  let flexible = false;
+  for (const it of items) {
+    const plain = it.kind === "element" || (it.kind === "repeat" && it.min === it.max);
+    if (mentions(it, v)) return flexible || !plain ? "varies" : "fixed";
+    if (!plain) flexible = true;
+  }
+  return "none";
 }
 
 /** The variables a pattern sets on every way it can match. */

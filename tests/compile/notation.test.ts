@@ -125,6 +125,12 @@ describe("an inserted feature bundle that denotes one segment", () => {
 });
 
 describe("variables only the change uses, and variables some environments leave free", () => {
+  it("a variable set behind a repetition is alpha-ambiguous: a warning, and several outputs", () => {
+    const text = "rule r:\n  a -> [αnasal] / _ [-syllabic]₀ [-syllabic αnasal]\n";
+    const d = checkGrammar(splitLiterals(parseGrammarText(text, "t.strata").grammar, inv).grammar, inv);
+    expect(d.map((x) => `${x.line}:${x.column} ${x.code}`)).toEqual(["2:19 grammar/ambiguous-variable"]);
+    expect(outputs(grammarOf(text), "#atn#")).toEqual(["atn", "ãtn"]);
+  });
   it("a change-only variable takes every value: several outputs, and a warning", () => {
     const text = "rule r:\n  t -> [αvoice] / _ a\n";
     const g = grammarOf(text);
@@ -137,6 +143,7 @@ describe("variables only the change uses, and variables some environments leave 
     const text = "node place = labial coronal\nrule r:\n  n -> [α place] / _ [-syllabic α place]\n    / _ #\n    / _ ([α place])\n";
     const d = checkGrammar(splitLiterals(parseGrammarText(text, "t.strata").grammar, inv).grammar, inv);
     expect(d.map((x) => `${x.line}:${x.column} ${x.code} ${x.message}`)).toEqual([
+      "5:7 grammar/ambiguous-variable rule 'r': 2 environments set variable α of the change; where more than one holds with different values, the site gets one output per value",
       "4:7 grammar/free-variable rule 'r': in this environment variable α of the change is not set on every match (it is missing or optional), so a site there takes every value of α (several outputs)",
       "5:7 grammar/free-variable rule 'r': in this environment variable α of the change is not set on every match (it is missing or optional), so a site there takes every value of α (several outputs)",
     ]);
