@@ -2,13 +2,13 @@
 // lexicon CSV (word, pron, note) through the mapping table, with every unreadable entry reported.
 
 import { readFile } from "node:fs/promises";
-import type { Command } from "commander";
+import { Option, type Command } from "commander";
 import { diagnostic, formatDiagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { csvLine } from "../emit/csv.js";
-import { importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
-import type { ImportedRow } from "../lexicon/arpabet.js";
+import { STRESS_POLICIES, importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
+import type { ImportedRow, StressPolicy } from "../lexicon/arpabet.js";
 import { rejectDiagnostic, writeRejects } from "../lexicon/read.js";
 
 export interface ImportOptions {
@@ -22,6 +22,10 @@ export interface ImportOptions {
   readonly rejects?: string;
   /** Exit 0 even when some entries were rejected. */
   readonly allowRejects?: boolean;
+  /** The spelling's case: keep (default) or lower. */
+  readonly case?: "keep" | "lower";
+  /** Stress policies (lexicon/arpabet.ts STRESS_POLICIES). */
+  readonly stressPolicy?: readonly StressPolicy[];
 }
 
 export interface ImportOutcome {
@@ -35,9 +39,11 @@ export interface ImportOutcome {
 const SHOWN_REJECTS = 20;
 
 /** The lexicon CSV for imported rows: header `word,pron,note`, one row per pronunciation. */
-export function* importedCsv(rows: Iterable<ImportedRow>): Generator<string> {
-  yield csvLine(["word", "pron", "note"]);
-  for (const r of rows) yield csvLine([r.word, r.pron, r.note ?? ""]);
+export function* importedCsv(rows: readonly ImportedRow[]): Generator<string> {
+  // A `tags` column only when some row has tags (the weak-forms policy).
+  const tags = rows.some((r) => r.tags !== undefined);
+  yield csvLine(tags ? ["word", "pron", "tags", "note"] : ["word", "pron", "note"]);
+  for (const r of rows) yield csvLine(tags ? [r.word, r.pron, (r.tags ?? []).join(" "), r.note ?? ""] : [r.word, r.pron, r.note ?? ""]);
 }
 
 /** Runs the import without touching the process (the command prints the outcome and sets the exit code). */
@@ -54,7 +60,7 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
     const why = code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : (e as Error).message;
     return fail(diagnostic("error", "import/unreadable", `Cannot read the dictionary: ${why}.`, { file: opts.arpabet, line: 1, column: 1 }));
   }
-  const result = importArpabetText(text, loaded.table, { file: opts.arpabet });
+  const result = importArpabetText(text, loaded.table, { file: opts.arpabet, ...(opts.case !== undefined ? { case: opts.case } : {}), policies: opts.stressPolicy ?? [] });
 
   let stdout = "";
   if (opts.output !== undefined) {
@@ -77,6 +83,8 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
   stderr +=
     `import: ${result.lines} lines read = ${result.rows.length} entries written + ${result.rejects.length} rejected` +
     ` + ${result.comments} comment + ${result.blanks} blank\n`;
+  // Every mapping rule and stress policy that can change entries, with its count (never silent).
+  for (const [name, n] of Object.entries(result.changed)) stderr += `import: ${name}: ${n} ${n === 1 ? "entry" : "entries"} changed\n`;
   const exitCode = result.rejects.length > 0 && opts.allowRejects !== true ? 1 : 0;
   if (exitCode === 1) stderr += "import: some entries were rejected; pass --allow-rejects to accept the rest anyway\n";
   return { stdout, stderr, exitCode };
@@ -92,7 +100,9 @@ export function registerImport(program: Command): void {
     .option("--table <file>", "ARPAbet → IPA mapping table (default: the shipped lexicons/en-us/arpabet.csv)")
     .option("--rejects <file>", "where to write rejected entries as CSV (default: <output>.rejects.csv)")
     .option("--allow-rejects", "exit 0 even if some entries were rejected")
-    .action(async (o: { arpabet: string; output?: string; table?: string; rejects?: string; allowRejects?: boolean }) => {
+    .addOption(new Option("--case <case>", "the spelling's letter case").choices(["keep", "lower"]).default("keep"))
+    .addOption(new Option("--stress-policy <names...>", "stress policies for CMU-style dictionaries (see lexicons/en-us/README.md)").choices([...STRESS_POLICIES]))
+    .action(async (o: { arpabet: string; output?: string; table?: string; rejects?: string; allowRejects?: boolean; case?: "keep" | "lower"; stressPolicy?: StressPolicy[] }) => {
       const outcome = await runImport(o);
       if (outcome.stdout !== "") process.stdout.write(outcome.stdout);
       if (outcome.stderr !== "") process.stderr.write(outcome.stderr);

@@ -10,6 +10,8 @@ import { registerCompile } from "./compile.js";
 import { registerGraph } from "./graph.js";
 import { registerLint } from "./lint.js";
 import { registerClusters } from "./clusters.js";
+import { registerExplain } from "./explain.js";
+import { registerInteractions } from "./interactions.js";
 
 const program = new Command();
 program
@@ -24,5 +26,7 @@ registerCompile(program);
 registerGraph(program);
 registerLint(program);
 registerClusters(program);
+registerExplain(program);
+registerInteractions(program);
 
 await program.parseAsync(process.argv);
