@@ -183,6 +183,8 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
   const rights = new DfaPool(size);
   const segSet = new Uint8Array(size);
   for (let i = FIRST_SEGMENT; i < size; i++) segSet[i] = 1;
+  // Before a segment, before a '.' (rules that see boundaries: a syllable's end), or the final '#'.
+  if (!opts.blind) segSet[SYLL] = 1;
   const siteRx: Rx = { k: "alt", options: [{ k: "seq", items: [{ k: "set", set: segSet }, any] }, { k: "set", set: symbolSet(size, [WORD]) }] };
   const siteDfa = n === 0 ? contextDfa("the insertion sites", siteRx) : null;
 

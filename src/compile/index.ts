@@ -113,7 +113,7 @@ function tooLarge(step: Step, message: string): Diagnostic {
  * intersected exactly with the condition material).
  */
 export function desugaredSteps(grammar: Grammar, inv: Inventory, desugar?: (r: Rule) => Rule): Step[] {
-  const d = desugar ?? ((r: Rule) => grammarDesugar(r, { inventory: inv, classes: grammar.classes }));
+  const d = desugar ?? ((r: Rule) => grammarDesugar(r, { inventory: inv, classes: grammar.classes, nodes: grammar.nodes }));
   return grammar.steps.map((s) => (s.kind === "rule" ? d(s) : s));
 }
 

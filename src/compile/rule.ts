@@ -15,7 +15,9 @@
 // (left-to-right, as Mohri & Sproat's l1/l2 placed after the replacement); right-to-left is the
 // mirror image (left context Σ*·λ·τ on the input at the chunk's end, right context ρ·Σ* on the
 // output after it). Boundary-blind rules project '.' to ε in every context and target check and
-// copy it through without a decision (the paper's "ignore" operation). Each decision token then
+// copy it through without a decision (the paper's "ignore" operation). Exceptions (`unless`,
+// `longest-first`) need no new filter: where a case's left context holds, the right check it
+// spawns is its right context minus those of the exceptions whose left context holds too. Each decision token then
 // maps to its input:output pairs, giving an acceptor over pair-symbols that the cascade
 // determinises and minimises (pairs.ts).
 
@@ -358,7 +360,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
           for (const y of c.insert) ins.push(EPSILON, y);
           const m = c.insert.length;
           for (const x of domain) {
-            if (!(x === WORD || x >= 3)) continue;
+            if (!(x === WORD || x >= 3 || (x === SYLL && !blind))) continue;
             nextS = 0;
             go([...ins, x, x], (k, p, v) => {
               if (rtl ? k === m : k === 0) return spawn(v, eff(c, p), true);
