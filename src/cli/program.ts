@@ -36,7 +36,7 @@ export function createProgram(): Command {
 }
 
 /** Commander's message (`error: unknown option '--x'`) as a sentence and the argument it is about. */
-export function commanderProblem(err: CommanderError): { message: string; value?: string; code: string } {
+export function commanderProblem(err: CommanderError): { message: string; value?: string; flags?: string[]; code: string } {
   let text = err.message.replace(/^error:\s*/, "").trim();
   const suggestion = /\n\(Did you mean (.*)\?\)$/.exec(text);
   if (suggestion) text = text.slice(0, suggestion.index).trim();
@@ -45,7 +45,8 @@ export function commanderProblem(err: CommanderError): { message: string; value?
   if (invalid) {
     const flag = invalid[1]!.split(/[ ,]+/).find((f) => f.startsWith("--")) ?? invalid[1]!.split(" ")[0]!;
     const why = invalid[3]!.trim().replace(/^Allowed choices are (.*)\.$/, "It must be one of $1.");
-    return { message: `Option ${flag} does not take '${invalid[2]}'. ${why}`.trim(), value: invalid[2]!, code: "cli/bad-option-value" };
+    const flags = invalid[1]!.split(/[ ,]+/).filter((f) => f.startsWith("-"));
+    return { message: `Option ${flag} does not take '${invalid[2]}'. ${why}`.trim(), value: invalid[2]!, flags, code: "cli/bad-option-value" };
   }
   const argInvalid = /^command-argument value '([\s\S]*)' is invalid for argument '([^']+)'\.\s*([\s\S]*)$/.exec(text);
   if (argInvalid) return { message: `The argument ${argInvalid[2]} does not take '${argInvalid[1]}'. ${argInvalid[3]!.trim()}`.trim(), value: argInvalid[1]!, code: "cli/bad-argument" };
@@ -62,7 +63,7 @@ export function describeFailure(err: unknown): { text: string; exitCode: number 
   if (err instanceof CommanderError) {
     if (err.code === "commander.helpDisplayed" || err.code === "commander.version" || err.code === "commander.help") return { text: "", exitCode: err.exitCode };
     const p = commanderProblem(err);
-    return { text: renderDiagnostics([commandLineError(p.code, p.message, p.value)], colour), exitCode: EXIT.badInput };
+    return { text: renderDiagnostics([commandLineError(p.code, p.message, p.value, p.flags)], colour), exitCode: EXIT.badInput };
   }
   if (err instanceof StrataError) return { text: renderDiagnostics(err.diagnostics, colour), exitCode: EXIT.badInput };
   if (err instanceof PlsError) return { text: renderDiagnostics([err.diagnostic], colour), exitCode: EXIT.badInput };

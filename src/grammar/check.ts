@@ -6,6 +6,7 @@ import { bundleKey, PROSODIC_FEATURES, realise, bundleOf, describeBundle, type B
 import type { ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, Rule, Span } from "./ast.js";
 import { conditionsSatisfiable } from "./desugar.js";
 import { elementText } from "./parser.js";
+import { distance } from "fastest-levenshtein";
 
 /** Most bundles the reachability estimate keeps (it over-approximates; the cap keeps it cheap). */
 const MAX_REACHABLE = 20_000;
@@ -564,17 +565,3 @@ class Checker {
 
 const flip = (v: FeatureValue, negated: boolean): FeatureValue => (!negated || v === "0" ? v : v === "+" ? "-" : "+");
 
-/** Levenshtein distance, for "did you mean" on feature names. */
-function distance(a: string, b: string): number {
-  const d = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let prev = d[0]!;
-    d[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const cur = d[j]!;
-      d[j] = Math.min(d[j]! + 1, d[j - 1]! + 1, prev + (a[i - 1] === b[j - 1] ? 0 : 1));
-      prev = cur;
-    }
-  }
-  return d[b.length]!;
-}
