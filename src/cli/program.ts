@@ -76,9 +76,19 @@ export function describeFailure(err: unknown): { text: string; exitCode: number 
   return { text: line + stack, exitCode: EXIT.internal };
 }
 
+/**
+ * `--color` / `--no-color` apply to messages about the command line too, which commander reports
+ * before any command runs (the last of the two wins, as in option parsing).
+ */
+export function colourFromArgs(args: readonly string[]): void {
+  const at = Math.max(args.lastIndexOf("--color"), args.lastIndexOf("--no-color"));
+  setColour(at < 0 ? undefined : args[at] === "--color");
+}
+
 /** Parses and runs; never lets a stack trace reach the user unless STRATA_DEBUG=1. */
 export async function runProgram(program: Command, argv: readonly string[]): Promise<void> {
   setCommandLine(argv.slice(2));
+  colourFromArgs(argv.slice(2));
   guardPipes();
   const fatal = (err: unknown): void => {
     const f = describeFailure(err);

@@ -11,6 +11,7 @@ import { describeFailure, packageVersion } from "../../src/cli/program.js";
 import { argPosition, setCommandLine } from "../../src/cli/cmdline.js";
 import { resolveGrammar } from "../../src/cli/variety.js";
 import { plural } from "../../src/cli/exit.js";
+import { useColour } from "../../src/cli/output.js";
 
 const ROOT = resolve(__dirname, "../..");
 const EN_US = join(ROOT, "lexicons", "en-us");
@@ -248,6 +249,23 @@ describe("paths on the command line", () => {
 });
 
 describe("messages", () => {
+  it("colour: --color and --no-color, else a terminal without NO_COLOR", async () => {
+    const ESC = "\u001b[";
+    expect((await cli(["transcribe", "--format", "xml", "--color"])).stderr).toContain(ESC);
+    expect((await cli(["transcribe", "--format", "xml", "--color", "--no-color"])).stderr).not.toContain(ESC);
+    const saved = process.env["NO_COLOR"];
+    try {
+      process.env["NO_COLOR"] = "1";
+      expect(useColour({ isTTY: true })).toBe(false);
+      delete process.env["NO_COLOR"];
+      expect(useColour({ isTTY: true })).toBe(true);
+      expect(useColour({ isTTY: false })).toBe(false);
+    } finally {
+      if (saved === undefined) delete process.env["NO_COLOR"];
+      else process.env["NO_COLOR"] = saved;
+    }
+  });
+
   it("counts agree in number", () => {
     expect(plural(1, "row")).toBe("1 row");
     expect(plural(2, "row")).toBe("2 rows");

@@ -4,7 +4,7 @@
 
 import { vi } from "vitest";
 import type { Command } from "commander";
-import { createProgram, describeFailure } from "../../src/cli/program.js";
+import { colourFromArgs, createProgram, describeFailure } from "../../src/cli/program.js";
 import { setCommandLine } from "../../src/cli/cmdline.js";
 import { setColour } from "../../src/cli/output.js";
 import { registerBuild } from "../../src/cli/build.js";
@@ -39,6 +39,7 @@ export async function cli(args: readonly string[]): Promise<CliRun> {
   const before = process.exitCode;
   process.exitCode = undefined;
   setCommandLine(args);
+  colourFromArgs(args);
   let exitCode = 0;
   try {
     await program().parseAsync(["node", "strata", ...args]);
