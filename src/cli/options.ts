@@ -2,7 +2,8 @@
 // Values are checked by the argument parser (choices, number parsers), so a bad value is reported
 // at its place on the command line before the command runs.
 
-import { resolve } from "node:path";
+import { existsSync, statSync } from "node:fs";
+import { dirname, resolve } from "node:path";
 import { InvalidArgumentError, Option, type Command } from "commander";
 
 /** A whole number ≥ 1 (`--max-states`, `--check`, `--limit`, `--min-count`). */
@@ -30,6 +31,15 @@ export function listOf<T extends string>(choices: readonly T[]): (value: string,
   };
 }
 
+/** A folder the command may create or write into (`--cache-dir`): not a file, not under a file. */
+export function folderPath(value: string): string {
+  let p = resolve(value);
+  if (existsSync(p) && !statSync(p).isDirectory()) throw new InvalidArgumentError("It is a file; give a folder.");
+  while (!existsSync(p) && dirname(p) !== p) p = dirname(p);
+  if (!statSync(p).isDirectory()) throw new InvalidArgumentError(`'${p}' is a file, not a folder.`);
+  return value;
+}
+
 /** `-g, --grammar` and `-d, --variety` (resolved by `resolveGrammar` in variety.ts). */
 export function grammarOptions(cmd: Command, grammarHelp = "a grammar folder, a .strata file, or a lexicon folder holding varieties.json (default: the current folder)"): Command {
   return cmd
@@ -39,7 +49,7 @@ export function grammarOptions(cmd: Command, grammarHelp = "a grammar folder, a 
 
 /** `--cache-dir`, `--no-cache` and `--max-states` for commands that compile. */
 export function cacheOptions(cmd: Command, compiles = true): Command {
-  cmd.option("--cache-dir <dir>", "where compiled grammars are cached (default: $STRATA_CACHE_DIR, else build/cache)").option("--no-cache", "neither read nor write the cache");
+  cmd.option("--cache-dir <dir>", "where compiled grammars are cached (default: $STRATA_CACHE_DIR, else build/cache)", folderPath).option("--no-cache", "neither read nor write the cache");
   if (compiles) cmd.option("--max-states <n>", "largest composed block before the cascade splits", positiveInt);
   return cmd;
 }

@@ -57,6 +57,8 @@ describe("option values are checked by the argument parser, reported at their co
     [["transcribe", "--format", "pls", "--lang", "en_US"], 32, "cli/bad-option-value"],
     [["graph", "--limit", "-3"], 15, "cli/bad-option-value"],
     [["init", "x", "--lang", "english language"], 15, "cli/bad-option-value"],
+    [["compile", "--cache-dir", "package.json/cache"], 21, "cli/bad-option-value"],
+    [["transcribe", "--cache-dir", "package.json"], 24, "cli/bad-option-value"],
     [["transcribe", "--formt", "tsv"], 12, "cli/unknown-option"],
     [["transcirbe"], 1, "cli/unknown-command"],
     [["classes", "-g", "lexicons/en-us"], 27, "cli/missing-argument"],
@@ -237,6 +239,19 @@ describe("paths on the command line", () => {
     const t = await cli(["transcribe", "-g", EN_US, csv, "-o", csv]);
     expect(t.exitCode).toBe(1);
     expect(readFileSync(csv, "utf8")).toBe("word,pron\nkettle,ˈkɛtəl\n");
+  });
+
+  it("-o FILE: the same bytes as standard output, written whole; nothing on standard output", async () => {
+    const csv = lexicon("word,pron\nkettle,ˈkɛtəl\npin,ˈpɪn\n");
+    const toStdout = await cli(["transcribe", "-g", EN_US, csv, "--format", "pls", "--lang", "en-US"]);
+    const out = join(WORK, "t.pls");
+    const toFile = await cli(["transcribe", "-g", EN_US, csv, "--format", "pls", "--lang", "en-US", "-o", out]);
+    expect(toFile.exitCode).toBe(0);
+    expect(toFile.stdout).toBe("");
+    expect(readFileSync(out, "utf8")).toBe(toStdout.stdout);
+    const dot = join(WORK, "g.dot");
+    expect((await cli(["graph", "-g", EN_US, "dark-l", "--out", dot])).exitCode).toBe(0);
+    expect(readFileSync(dot, "utf8")).toMatch(/^digraph /);
   });
 
   it("import reads standard input for --arpabet -", async () => {
