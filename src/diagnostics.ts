@@ -1,6 +1,8 @@
 // Positioned problems with input (inventory, grammar, lexicon, options): errors are values, never stack traces.
 // Only the CLI renders them (with the source line and a caret); the library collects and returns them.
 
+import { splitLines } from "./lines.js";
+
 export type Severity = "error" | "warning";
 
 /** A place in a source file. Lines and columns count from 1; columns count Unicode code points. */
@@ -46,6 +48,17 @@ export function formatDiagnostic(d: Diagnostic): string {
   return `${d.file}:${d.line}:${d.column}: ${d.severity}: ${d.message} [${d.code}]`;
 }
 
+let lastText: string | undefined;
+let lastLines: readonly string[] = [];
+/** The lines of a source text; the last split is kept, so rendering many diagnostics of one file splits it once. */
+function linesOf(text: string): readonly string[] {
+  if (text !== lastText) {
+    lastText = text;
+    lastLines = splitLines(text);
+  }
+  return lastLines;
+}
+
 /**
  * The one-line form followed by the offending source line and a caret under the span.
  * `sourceText` is the whole file the diagnostic points into, when the caller has it.
@@ -53,12 +66,43 @@ export function formatDiagnostic(d: Diagnostic): string {
 export function renderDiagnostic(d: Diagnostic, sourceText?: string): string {
   const head = formatDiagnostic(d);
   if (sourceText === undefined) return head;
-  const lines = sourceText.split(/\r?\n/);
-  const text = lines[d.line - 1];
+  // The same lines every position is computed on (src/lines.ts): CR LF, LF or a lone CR ends a line.
+  const text = linesOf(sourceText)[d.line - 1];
   if (text === undefined) return head;
   const shown = [...text].map((ch) => (ch === "\t" ? " " : ch)).join("");
   const pad = " ".repeat(Math.max(0, d.column - 1));
   const caret = "^".repeat(Math.max(1, d.length ?? 1));
   const gutter = String(d.line).padStart(5);
   return `${head}\n${gutter} | ${shown}\n${" ".repeat(gutter.length)} | ${pad}${caret}`;
+}
+
+/** How many diagnostics of one file are kept by `capPerFile` by default. */
+export const DIAGNOSTICS_PER_FILE = 50;
+
+/**
+ * The first `limit` diagnostics of each file (in their order), and for a file with more, one
+ * further diagnostic of the same severity as the first one dropped, at that one's position, counting
+ * the rest: "… and 1,234 more problems in this file." (code `diagnostics/more`). Keeps printing
+ * and memory bounded when a file has thousands of problems; nothing is dropped without a count.
+ */
+export function capPerFile(ds: readonly Diagnostic[], limit = DIAGNOSTICS_PER_FILE): Diagnostic[] {
+  const kept = new Map<string, number>();
+  const dropped = new Map<string, { first: Diagnostic; count: number }>();
+  const out: Diagnostic[] = [];
+  for (const d of ds) {
+    const n = kept.get(d.file) ?? 0;
+    if (n < limit) {
+      kept.set(d.file, n + 1);
+      out.push(d);
+      continue;
+    }
+    const x = dropped.get(d.file);
+    if (x === undefined) dropped.set(d.file, { first: d, count: 1 });
+    else x.count++;
+  }
+  for (const { first, count } of dropped.values()) {
+    const noun = count === 1 ? "problem" : "problems";
+    out.push(diagnostic(first.severity, "diagnostics/more", `… and ${count.toLocaleString("en-US")} more ${noun} in this file (the first ${limit} are shown).`, first));
+  }
+  return out;
 }

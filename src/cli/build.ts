@@ -2,7 +2,7 @@
 // through each, write TSV, JSON Lines, PLS, rejects and a summary under build/<lexicon>/<variety>/.
 
 import { createReadStream, readFileSync } from "node:fs";
-import { join, relative, resolve } from "node:path";
+import { dirname, join, relative, resolve } from "node:path";
 import { availableParallelism } from "node:os";
 import { InvalidArgumentError, Option, type Command } from "commander";
 import cliProgress from "cli-progress";
@@ -12,9 +12,9 @@ import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
-import type { Diagnostic } from "../diagnostics.js";
+import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
 import {
-  cacheDirOf, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
+  openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
   listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
 } from "./common.js";
 
@@ -62,15 +62,17 @@ function workersArg(value: string): string {
   }
 }
 
-/**
- * The reader's own problems with the lexicon file (header, line ends, unreadable file): every one,
- * not only the first. The summary lists them first, then output errors, then one per rejected row.
- */
-function fileDiagnostics(s: RunSummary): readonly Diagnostic[] {
-  return s.diagnostics.slice(0, Math.max(0, s.diagnostics.length - s.outputErrors.length - s.rowsRejected));
+export async function runBuild(dirArg: string | undefined, o: BuildOptions): Promise<number> {
+  // The output folder's lock and run record are released and written however the build ends.
+  const held: { output?: BuildOutput; workers: number } = { workers: 0 };
+  try {
+    return await buildLocked(dirArg, o, held);
+  } finally {
+    if (held.output !== undefined) printDiagnostics(await held.output.close(held.workers));
+  }
 }
 
-export async function runBuild(dirArg: string | undefined, o: BuildOptions): Promise<number> {
+async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { output?: BuildOutput; workers: number }): Promise<number> {
   const quiet = o.quiet === true;
   const dir = dirArg ?? join(packageRoot(), "lexicons", "demo");
   const outArg = o.out ?? "build";
@@ -91,7 +93,15 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const engine = o.engine ?? "machine";
   const syllables = o.syllableBreaks ?? true;
   const outRoot = resolve(outArg);
-  const cacheDir = cacheDirOf(o, join(outRoot, "cache"));
+  const opened = await openBuildOutput(join(outRoot, manifest.name), dirname(manifest.file));
+  if (!opened.ok) {
+    printDiagnostics(opened.diagnostics);
+    return EXIT.badInput;
+  }
+  held.output = opened.output;
+  const cache = openCache(o, join(outRoot, "cache"));
+  printDiagnostics(cache.diagnostics, { quiet });
+  const cacheDir = cache.dir;
   const tty = process.stderr.isTTY === true && !quiet && o.json !== true;
   const c = colours(process.stdout);
   const lines = await countLines(manifest.lexicon);
@@ -101,7 +111,9 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
   const workers = String(o.workers ?? "auto");
   const wanted = workers === "auto" ? (lines >= WORKERS_FROM_ROWS ? Math.max(1, Math.min(8, availableParallelism() - 1)) : 0) : Number(workers);
   const threads = engine === "machine" && WorkerPool.script() !== undefined ? wanted : 0;
+  held.workers = threads;
   let failed = false;
+  let internal = false;
   let checksFailed = false;
   const summaries: RunSummary[] = [];
   const report: unknown[] = [];
@@ -111,6 +123,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
+      held.output.record({ name: variety.name, status: "failed", compileMs: performance.now() - t0, runMs: 0 });
       continue;
     }
     const compileMs = performance.now() - t0;
@@ -125,6 +138,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
+        sourceRoot: dirname(manifest.file),
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
@@ -133,11 +147,14 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
       await pool?.close();
     }
     summaries.push(summary);
-    // Problems with the lexicon file itself and outputs that could not be written are errors:
-    // printed every one, even with --quiet. Rejected rows are in rejects.csv.
-    const fileProblems = fileDiagnostics(summary);
+    held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
+    if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;
+    // Problems with the lexicon file itself (every one, capped per file; the same for every variety,
+    // so printed once) and outputs that could not be written are errors: printed even with --quiet.
+    // Rejected rows are in rejects.csv.
+    const fileProblems = summary.fileDiagnostics;
     if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...fileProblems, ...summary.outputErrors], { quiet });
+    printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...summary.outputErrors], { quiet });
     let check: { compared: number; mismatches: { line: number; word: string; machine: string; interpreter: string }[] } | undefined;
     if (o.check !== undefined) {
       const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
@@ -163,6 +180,7 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
     if (o.allowRejects !== true) process.stderr.write(colours().red(`strata: ${msg}; rerun with --allow-rejects to accept them.`) + "\n");
     else if (!quiet) process.stderr.write(`strata: ${msg}, allowed by --allow-rejects.\n`);
   }
+  if (internal) return EXIT.internal;
   if (failed) return EXIT.badInput;
   if (checksFailed) return EXIT.checksFailed;
   if (rejected > 0 && o.allowRejects !== true) return EXIT.rejects;

@@ -2,6 +2,7 @@
 // feature bundles; or, if not, the smallest natural class containing it and what else that lets in.
 
 import { existsSync, readFileSync, statSync } from "node:fs";
+import { FILE_LIMITS, readTextFile } from "../files.js";
 import { dirname, join, resolve } from "node:path";
 import type { Command } from "commander";
 import { diagnostic, hasErrors, type Diagnostic } from "../diagnostics.js";
@@ -31,7 +32,9 @@ function locate(given: string | undefined, variety: string | undefined): { csv: 
   if ("diagnostics" in r) return r.diagnostics[0]!;
   const path = r.path;
   if (path.endsWith(".strata")) {
-    const text = readFileSync(path, "utf8");
+    const read = readTextFile(path, { what: "grammar file", limit: FILE_LIMITS.grammar, code: "cli/unreadable" });
+    if (!read.ok) return read.diagnostic;
+    const text = read.text;
     const dir = dirname(resolve(path));
     const named = (key: string): string | undefined => new RegExp(`^\\s*${key}\\s+"([^"]+)"`, "m").exec(text)?.[1];
     const inv = named("inventory");

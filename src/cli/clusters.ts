@@ -5,7 +5,7 @@ import { basename } from "node:path";
 import type { Command } from "commander";
 import { atLeast, countsComment, deriveClusters, grammarLine, type ClusterCount } from "../lexicon/clusters.js";
 import {
-  cacheDirOf, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked,
+  openCache, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked,
   outOption, plural, positiveInt, printOutcome, renderDiagnostics, resolveGrammar, shippedGrammar, useColour, type CommandOutcome,
 } from "./common.js";
 
@@ -37,7 +37,8 @@ export async function runClusters(file: string, opts: ClustersOptions = {}): Pro
   const resolved = resolveGrammar(opts.grammar, opts.variety, shippedGrammar());
   if ("diagnostics" in resolved) return { stdout: "", stderr: render(resolved.diagnostics), exitCode: EXIT.badInput };
   const gpath = resolved.path;
-  const g = loadChecked(gpath, cacheDirOf(opts));
+  const cache = openCache(opts);
+  const g = loadChecked(gpath, cache.dir);
   if (g.grammar === undefined || g.inventory === undefined || g.diagnostics.some((d) => d.severity === "error")) {
     return { stdout: "", stderr: render(g.diagnostics) + "clusters: the grammar does not load.\n", exitCode: EXIT.badInput };
   }
@@ -79,7 +80,7 @@ export async function runClusters(file: string, opts: ClustersOptions = {}): Pro
     stderr += `clusters: ${plural(d.rows + d.rejects, "row")} read, ${d.rejects} rejected (see 'strata lint'); ${plural(onsets.length, "onset")}, ${plural(codas.length, "coda")}`;
     stderr += dropped > 0 ? `, ${dropped} rarer than ${min} left out\n` : "\n";
   }
-  stderr += render(opts.quiet === true ? d.diagnostics.filter((x) => x.severity === "error") : d.diagnostics);
+  stderr += render(opts.quiet === true ? d.diagnostics.filter((x) => x.severity === "error") : [...cache.diagnostics, ...d.diagnostics]);
   const exitCode = d.rejects > 0 && opts.allowRejects !== true ? EXIT.rejects : EXIT.ok;
   if (opts.json === true) {
     const json = (cs: readonly ClusterCount[]) => cs.map((c) => ({ cluster: c.text, segments: c.segments, count: c.count, writable: c.writable }));

@@ -9,7 +9,7 @@ import { compileGrammar, type Compiled } from "../compile/index.js";
 import { resolve } from "node:path";
 import stringWidth from "string-width";
 import {
-  cacheDirOf, cacheOptions, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, printOutcome, renderDiagnostics,
+  openCache, cacheOptions, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, printOutcome, renderDiagnostics,
   resolveGrammar, useColour, type CommandOutcome,
 } from "./common.js";
 
@@ -83,9 +83,10 @@ export function compileReport(path: string, c: Compiled, cacheDir: string | unde
 
 /** Runs `strata compile`; pure apart from reading the grammar and the cache folder. */
 export function runCompile(g: string | undefined, opts: CompileCommandOptions = {}): CommandOutcome {
-  const cacheDir = cacheDirOf(opts);
+  const cache = openCache(opts);
+  const cacheDir = cache.dir;
   const loaded = loadForCompile(g, opts.variety, cacheDir);
-  const warnings = opts.quiet === true ? [] : loaded.diagnostics.filter((d) => d.severity === "warning");
+  const warnings = opts.quiet === true ? [] : [...cache.diagnostics, ...loaded.diagnostics.filter((d) => d.severity === "warning")];
   if (!("grammar" in loaded)) return { stdout: "", stderr: renderAll(loaded.diagnostics.filter((d) => d.severity === "error" || opts.quiet !== true)), exitCode: EXIT.badInput };
   const r = compileGrammar(loaded.grammar, loaded.inventory, {
     ...(cacheDir !== undefined ? { cacheDir } : {}),

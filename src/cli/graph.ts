@@ -8,7 +8,7 @@ import { machineToDot, type DotOptions } from "../compile/dot.js";
 import type { Inventory } from "../inventory/types.js";
 import { loadForCompile, renderAll } from "./compile.js";
 import {
-  cacheDirOf, checkOutputPath, commandLineError, commonOptions, examples, EXIT, grammarOptions, outOption, positiveInt, printOutcome, cacheOptions,
+  openCache, checkOutputPath, commandLineError, commonOptions, examples, EXIT, grammarOptions, outOption, positiveInt, printOutcome, cacheOptions,
   type CommandOutcome,
 } from "./common.js";
 
@@ -34,7 +34,7 @@ function prosodyOf(inv: Inventory): DotOptions["prosody"] {
 
 /** Runs `strata graph`; the DOT text is the outcome's stdout. */
 export function runGraph(g: string | undefined, step: string | undefined, opts: GraphCommandOptions = {}): CommandOutcome {
-  const loaded = loadForCompile(g, opts.variety, cacheDirOf(opts));
+  const loaded = loadForCompile(g, opts.variety, openCache(opts).dir);
   if (!("grammar" in loaded)) return { stdout: "", stderr: renderAll(loaded.diagnostics), exitCode: EXIT.badInput };
   const { grammar, inventory } = loaded;
   const which = opts.preferred === true ? "preferred" : "variants";

@@ -8,7 +8,7 @@ import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { csvLine } from "../emit/csv.js";
-import { importArpabet, loadArpabetTable } from "../lexicon/arpabet.js";
+import { importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
 import type { ImportedRow } from "../lexicon/arpabet.js";
 import { rejectDiagnostic, writeRejects } from "../lexicon/read.js";
 import {
@@ -70,9 +70,7 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
     const why = code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : (e as Error).message;
     return fail(diagnostic("error", "import/unreadable", `Cannot read the dictionary: ${why}.`, { file, line: 1, column: 1 }));
   }
-  const lines = text.split("\n");
-  if (lines.length > 0 && lines[lines.length - 1] === "") lines.pop();
-  const result = importArpabet(lines, loaded.table, { file });
+  const result = importArpabetText(text, loaded.table, { file });
 
   let stdout = "";
   if (opts.out !== undefined && opts.out !== "-") {

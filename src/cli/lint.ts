@@ -5,7 +5,7 @@ import type { Command } from "commander";
 import { formatDiagnostic } from "../diagnostics.js";
 import { lintContext, lintLexicon, type LintFinding, type LintReport } from "../lexicon/lint.js";
 import {
-  cacheDirOf, cacheOptions, checkInputFile, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, plural, printOutcome, renderDiagnostics,
+  openCache, cacheOptions, checkInputFile, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, plural, printOutcome, renderDiagnostics,
   resolveGrammar, useColour,
 } from "./common.js";
 
@@ -80,7 +80,8 @@ export async function runLint(file: string | undefined, opts: LintOptions): Prom
   const resolved = resolveGrammar(opts.grammar, opts.variety);
   if ("diagnostics" in resolved) return { stdout: "", stderr: render(resolved.diagnostics), exitCode: EXIT.badInput };
   const gpath = resolved.path;
-  const g = loadChecked(gpath, cacheDirOf(opts));
+  const cache = openCache(opts);
+  const g = loadChecked(gpath, cache.dir);
   const gErrors = g.diagnostics.filter((d) => d.severity === "error");
   if (g.grammar === undefined || g.inventory === undefined || gErrors.length > 0) {
     return { stdout: "", stderr: render(g.diagnostics) + "lint: the grammar does not load; nothing was linted.\n", exitCode: EXIT.badInput };
@@ -111,11 +112,11 @@ export async function runLint(file: string | undefined, opts: LintOptions): Prom
       counts: report.counts,
       findings: report.findings.map(jsonFinding),
     };
-    return { stdout: JSON.stringify(doc, null, 2) + "\n", stderr: "", exitCode };
+    return { stdout: JSON.stringify(doc, null, 2) + "\n", stderr: opts.quiet === true ? "" : render(cache.diagnostics), exitCode };
   }
   const shown = opts.quiet === true ? report.findings.filter((f) => f.severity === "error") : report.findings;
   const stdout = shown.map((f) => formatDiagnostic(f) + "\n").join("") + (opts.quiet === true ? "" : lintSummary(report));
-  return { stdout, stderr: "", exitCode };
+  return { stdout, stderr: opts.quiet === true ? "" : render(cache.diagnostics), exitCode };
 }
 
 /** Adds `strata lint` to the program. */

@@ -2,9 +2,10 @@
 // Values are checked by the argument parser (choices, number parsers), so a bad value is reported
 // at its place on the command line before the command runs.
 
-import { existsSync, statSync } from "node:fs";
-import { dirname, resolve } from "node:path";
+import { resolve } from "node:path";
 import { InvalidArgumentError, Option, type Command } from "commander";
+import type { Diagnostic } from "../diagnostics.js";
+import { probeCacheDir } from "../compile/cache.js";
 
 /** A whole number ≥ 1 (`--max-states`, `--check`, `--limit`, `--min-count`). */
 export function positiveInt(value: string): number {
@@ -31,15 +32,6 @@ export function listOf<T extends string>(choices: readonly T[]): (value: string,
   };
 }
 
-/** A folder the command may create or write into (`--cache-dir`): not a file, not under a file. */
-export function folderPath(value: string): string {
-  let p = resolve(value);
-  if (existsSync(p) && !statSync(p).isDirectory()) throw new InvalidArgumentError("It is a file; give a folder.");
-  while (!existsSync(p) && dirname(p) !== p) p = dirname(p);
-  if (!statSync(p).isDirectory()) throw new InvalidArgumentError(`'${p}' is a file, not a folder.`);
-  return value;
-}
-
 /** `-g, --grammar` and `-d, --variety` (resolved by `resolveGrammar` in variety.ts). */
 export function grammarOptions(cmd: Command, grammarHelp = "a grammar folder, a .strata file, or a lexicon folder holding varieties.json (default: the current folder)"): Command {
   return cmd
@@ -49,7 +41,7 @@ export function grammarOptions(cmd: Command, grammarHelp = "a grammar folder, a 
 
 /** `--cache-dir`, `--no-cache` and `--max-states` for commands that compile. */
 export function cacheOptions(cmd: Command, compiles = true): Command {
-  cmd.option("--cache-dir <dir>", "where compiled grammars are cached (default: $STRATA_CACHE_DIR, else build/cache)", folderPath).option("--no-cache", "neither read nor write the cache");
+  cmd.option("--cache-dir <dir>", "where compiled grammars are cached (default: $STRATA_CACHE_DIR, else build/cache)").option("--no-cache", "neither read nor write the cache");
   if (compiles) cmd.option("--max-states <n>", "largest composed block before the cascade splits", positiveInt);
   return cmd;
 }
@@ -59,6 +51,15 @@ export function cacheDirOf(o: { cache?: boolean; cacheDir?: string }, fallback =
   if (o.cache === false) return undefined;
   const env = process.env["STRATA_CACHE_DIR"];
   return resolve(o.cacheDir ?? (env !== undefined && env !== "" ? env : fallback));
+}
+
+/**
+ * The cache folder, checked: one that cannot be created or written is a warning and the command
+ * runs without a cache (a cache problem is never fatal).
+ */
+export function openCache(o: { cache?: boolean; cacheDir?: string }, fallback = "build/cache"): { readonly dir?: string; readonly diagnostics: readonly Diagnostic[] } {
+  const dir = cacheDirOf(o, fallback);
+  return dir === undefined ? { diagnostics: [] } : probeCacheDir(dir);
 }
 
 /** `-q, --quiet`, `--color` and `--no-color` (every command). */

@@ -11,7 +11,7 @@ import { entryJsonLine, entryPhonemes, transcribeRow } from "../lexicon/runner.j
 import { Channel } from "../lexicon/channel.js";
 import { InvalidArgumentError } from "commander";
 import {
-  cacheDirOf, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples,
+  openCache, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples,
   grammarOptions, loadEngine, outOption, plural, printDiagnostics, resolveGrammar, writeOut, type EngineKind,
 } from "./common.js";
 
@@ -58,7 +58,9 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     printDiagnostics([paths]);
     return EXIT.badInput;
   }
-  const cacheDir = cacheDirOf(o);
+  const cache = openCache(o);
+  printDiagnostics(cache.diagnostics, { quiet: o.quiet === true });
+  const cacheDir = cache.dir;
   const loaded = loadEngine(resolved.path, {
     kind: o.engine ?? "machine",
     ...(cacheDir !== undefined ? { cacheDir } : {}),

@@ -84,7 +84,7 @@ export function liveAssignments(low: Lowering, rule: Rule, bundles: readonly Bun
  * every symbol any word can carry. Throws LowerError (with the rule's position) for an
  * unwritable produced bundle or when the alphabet exceeds MAX_ALPHABET.
  */
-export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][]): Alphabet {
+export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][], extra: readonly Bundle[] = []): Alphabet {
   const bundles: Bundle[] = [];
   const keys = new Set<string>();
   const add = (b: Bundle): boolean => {
@@ -100,11 +100,25 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
     if (low.primaryIdx >= 0) out[low.primaryIdx] = p;
     return out;
   };
-  for (const seg of inv.segments) {
-    if (low.isNucleus(seg.bundle)) for (const [s, p] of NUCLEUS_PROSODY) add(withProsody(seg.bundle, s, p));
-    else add(withProsody(seg.bundle, "0", "0"));
-  }
+  const addSegment = (b: Bundle): void => {
+    if (low.isNucleus(b)) for (const [s, p] of NUCLEUS_PROSODY) add(withProsody(b, s, p));
+    else add(withProsody(b, "0", "0"));
+  };
+  for (const seg of inv.segments) addSegment(seg.bundle);
+  // Segments input words carry that the inventory does not list (written with diacritics), in key
+  // order; they and everything made from them alone are "input-made": when no symbol can write
+  // one, it is shown as '?' (as the interpreter shows it) instead of failing the grammar.
+  const inventoryCount = bundles.length;
+  const extraSorted = [...extra].sort((a, b) => { const ka = bundleKey(a), kb = bundleKey(b); return ka < kb ? -1 : ka > kb ? 1 : 0; });
+  for (const b of extraSorted) addSegment(b);
+  const inputMade = new Set<string>(bundles.slice(inventoryCount).map(bundleKey));
   const base = bundles.length;
+  /** Keeps `inputMade` exact: a bundle is input-made while every way found to make it starts from an input-made one. */
+  const track = (from: Bundle | null, nb: Bundle, isNew = false): void => {
+    const k = bundleKey(nb);
+    if (from !== null && inputMade.has(bundleKey(from))) { if (isNew) inputMade.add(k); }
+    else inputMade.delete(k);
+  };
   const derived: Bundle[] = [];
   const origin = new Map<string, Rule | Grammar["steps"][number]>();
   const reachCounts: number[] = [];
@@ -117,7 +131,9 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
         if (!low.isNucleus(b)) continue;
         for (const [s, p] of NUCLEUS_PROSODY) {
           const nb = withProsody(b, s, p);
-          if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), step); }
+          const isNew = add(nb);
+          if (isNew) { derived.push(nb); origin.set(bundleKey(nb), step); }
+          track(b, nb, isNew);
         }
       }
       continue;
@@ -128,23 +144,26 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
         for (const c of rule.change) {
           const nb = low.inserted(c);
           if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
+          track(null, nb);
         }
         continue;
       }
       if (rule.change.length === 0) continue;
-      const produce = (nb: Bundle): void => {
-        if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
+      const produce = (nb: Bundle, from: Bundle | null): void => {
+        const isNew = add(nb);
+        if (isNew) { derived.push(nb); origin.set(bundleKey(nb), rule); }
+        track(from, nb, isNew);
       };
       rule.target.forEach((e, j) => {
         const m = low.element(e, asg);
         const c = rule.change[j];
         if (!c) return;
         // A literal written over a boundary is an inserted segment (the interpreter's convention).
-        if ((m.word || m.syll) && c.kind === "segment") produce(low.inserted(c));
-        for (const b of before) if (m.seg(b)) produce(low.applyChange(c, asg, b));
+        if ((m.word || m.syll) && c.kind === "segment") produce(low.inserted(c), null);
+        for (const b of before) if (m.seg(b)) produce(low.applyChange(c, asg, b), b);
       });
       // A literal change longer than its target writes the rest as inserted segments.
-      for (const c of rule.change.slice(rule.target.length)) produce(low.inserted(c));
+      for (const c of rule.change.slice(rule.target.length)) produce(low.inserted(c), null);
     }
     if (bundles.length > MAX_ALPHABET) {
       throw lowerError("compile/alphabet-too-large", `The rules produce more than ${MAX_ALPHABET} distinct segments (rule '${rule.name}' reached ${bundles.length}); check for a change that multiplies segments.`, rule.span);
@@ -158,6 +177,10 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
   const segments: AlphabetSymbol[] = ordered.map((b, i) => {
     const key = bundleKey(b);
     const r = realise(inv, b);
+    if (!r.ok && inputMade.has(key)) {
+      byKey.set(key, i + 3);
+      return { id: i + 3, bundle: b, key, text: "?" };
+    }
     if (!r.ok) {
       const o = origin.get(key);
       const span = o ? o.span : { file: inv.file, line: 1, column: 1, length: 1 };

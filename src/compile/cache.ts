@@ -8,9 +8,11 @@
 // the fst/serialise format; length 0 for none).
 
 import { createHash } from "node:crypto";
-import { mkdirSync, readFileSync, renameSync, writeFileSync, existsSync, unlinkSync } from "node:fs";
+import { mkdirSync, readFileSync, writeFileSync, unlinkSync } from "node:fs";
 import { join } from "node:path";
+import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { Fst } from "../fst/index.js";
+import { fsReason, removeStaleTemps, tempPath, writeFileAtomicSync } from "../tempfile.js";
 
 const MAGIC = Buffer.from("STRATA-CACHE\n", "utf8");
 const FORMAT = 2;
@@ -58,9 +60,12 @@ function decodeMachine(w: Int32Array, at: { i: number }): Fst {
   return f;
 }
 
-/** Writes metadata and machines whole: temp file in the same folder, then rename. */
-export function writeCache(dir: string, key: string, meta: unknown, machines: readonly Fst[], blobs: readonly (Uint8Array | null)[] = []): void {
-  mkdirSync(dir, { recursive: true });
+/**
+ * Writes metadata and machines whole: temp file in the same folder (named after this process, so
+ * a later run removes it if this one is killed), fsync, rename. Never throws for the file system:
+ * a cache that cannot be written only costs speed, so the reason comes back for a warning.
+ */
+export function writeCache(dir: string, key: string, meta: unknown, machines: readonly Fst[], blobs: readonly (Uint8Array | null)[] = []): string | undefined {
   const json = Buffer.from(JSON.stringify(meta), "utf8");
   const words: number[] = [];
   for (const m of machines) encodeMachine(m, words);
@@ -75,10 +80,13 @@ export function writeCache(dir: string, key: string, meta: unknown, machines: re
   const digest = createHash("sha256").update(payload).digest();
   const fmt = Buffer.alloc(4);
   fmt.writeUInt32LE(FORMAT, 0);
-  const file = cachePath(dir, key);
-  const tmp = `${file}.${process.pid}.tmp`;
-  writeFileSync(tmp, Buffer.concat([MAGIC, fmt, digest, payload]));
-  renameSync(tmp, file);
+  try {
+    mkdirSync(dir, { recursive: true });
+    writeFileAtomicSync(cachePath(dir, key), Buffer.concat([MAGIC, fmt, digest, payload]));
+    return undefined;
+  } catch (e) {
+    return fsReason(e);
+  }
 }
 
 export type CacheRead =
@@ -89,12 +97,13 @@ export type CacheRead =
 /** Reads a cache file; a wrong magic, format, checksum or a truncated body is "corrupt". */
 export function readCache(dir: string, key: string, machineCount: (meta: unknown) => number): CacheRead {
   const file = cachePath(dir, key);
-  if (!existsSync(file)) return { state: "missing" };
   let buf: Buffer;
   try {
     buf = readFileSync(file);
   } catch (e) {
-    return { state: "corrupt", reason: `cannot read: ${(e as Error).message}` };
+    const code = (e as NodeJS.ErrnoException).code;
+    if (code === "ENOENT" || code === "ENOTDIR") return { state: "missing" };
+    return { state: "corrupt", reason: `it cannot be read (${fsReason(e)})` };
   }
   const min = MAGIC.length + 4 + 32 + 4;
   if (buf.length < min || !buf.subarray(0, MAGIC.length).equals(MAGIC)) return { state: "corrupt", reason: "not a Strata cache file" };
@@ -133,8 +142,34 @@ export function readCache(dir: string, key: string, machineCount: (meta: unknown
   }
 }
 
-/** Removes a cache file (used before rebuilding a corrupt one). */
+/** Removes a cache file (used before rebuilding a corrupt one); a file that cannot be removed stays. */
 export function dropCache(dir: string, key: string): void {
-  const file = cachePath(dir, key);
-  if (existsSync(file)) unlinkSync(file);
+  try {
+    unlinkSync(cachePath(dir, key));
+  } catch {
+    // Missing, a folder, or no permission: the rebuilt machine's write reports it if it matters.
+  }
+}
+
+/** A warning about the cache (positioned at the cache file or folder); never an error. */
+export function cacheWarning(path: string, message: string): Diagnostic {
+  return diagnostic("warning", "cache/unusable", message, { file: path, line: 1, column: 1 });
+}
+
+/**
+ * Checks once, before a command uses it, that `dir` can hold cache files (creating it), and
+ * removes temporaries that killed runs left there. A folder that cannot be used (a file in the
+ * way, no permission, a read-only file system) means "no cache", with one warning.
+ */
+export function probeCacheDir(dir: string): { readonly dir?: string; readonly diagnostics: readonly Diagnostic[] } {
+  try {
+    mkdirSync(dir, { recursive: true });
+    const probe = tempPath(join(dir, "probe"));
+    writeFileSync(probe, "");
+    unlinkSync(probe);
+  } catch (e) {
+    return { diagnostics: [cacheWarning(dir, `The cache folder ${dir} cannot be used (${fsReason(e)}); continuing without a cache.`)] };
+  }
+  removeStaleTemps(dir);
+  return { dir, diagnostics: [] };
 }

@@ -1,7 +1,7 @@
 // A desugared rule lowered onto the alphabet: one case per (alpha assignment × environment), each
 // with its target symbol sets, its change as a symbol map, and its context recognisers (context.ts).
 
-import type { Element, Pattern, Rule } from "../grammar/ast.js";
+import type { Element, Environment, Pattern, Rule } from "../grammar/ast.js";
 import { bundleKey, type Bundle } from "../inventory/types.js";
 import { type Alphabet, EPSILON, FIRST_SEGMENT, SYLL, WORD } from "./alphabet.js";
 import { liveAssignments } from "./alphabet.js";
@@ -190,6 +190,37 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
     if (!v.node || targetVars.has(name) || !changeVars.has(name)) continue;
     invTuples.set(name, new Set(low.inventory.segments.map((sg) => v.idx.map((i) => sg.bundle[i]).join(""))));
   }
+  /**
+   * An environment's exceptions for one case, over the alphabet. They share the case's values of
+   * the target's variables; each other variable they use takes every value (one exception per
+   * assignment: "for some value").
+   */
+  const exceptsOf = (env: Environment | null, asg: Assignment, targetRx: Rx[]): { left: number; right: number; rightAfter?: number }[] => {
+    if (env === null || env.except === undefined || env.except.length === 0) return [];
+    const out: { left: number; right: number; rightAfter?: number }[] = [];
+    const seen = new Set<string>();
+    for (const x of env.except) {
+      const plain: Environment = { left: x.left, right: x.right, conditions: [], span: x.span };
+      const assignments = low.assignments({ ...rule, change: [], environments: [plain] }, domainBundles)
+        .filter((a) => [...targetVars].every((t) => a.get(t)?.join("") === asg.get(t)?.join("")));
+      for (const a of assignments) {
+        const L = sl.pattern(x.left, a);
+        const R = sl.pattern(x.right, a);
+        if (rxIsEmpty(L) || rxIsEmpty(R)) continue;
+        const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
+        const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };
+        const afterRx: Rx = { k: "seq", items: [R, any] };
+        const left = lefts.add(rxKey(leftRx), () => dfaFromRx(leftRx, size));
+        const right = rights.add(rxKey(rightRx), () => dfaFromRx(rightRx, size));
+        const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => dfaFromRx(afterRx, size)) : undefined;
+        const key = `${left}|${right}|${rightAfter ?? ""}`;
+        if (seen.has(key)) continue;
+        seen.add(key);
+        out.push({ left, right, ...(rightAfter !== undefined ? { rightAfter } : {}) });
+      }
+    }
+    return out;
+  };
   for (const asg of liveAssignments(low, rule, domainBundles)) {
     const need = [...invTuples.entries()].filter(([name, tuples]) => !tuples.has(asg.get(name)!.join(""))).map(([name]) => name);
     const target = rule.target.map((e) => sl.elementSet(e, asg));
@@ -220,10 +251,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
     const tail = n > 0 && m > n ? rule.change.slice(n).map((c) => sl.idOf(low.inserted(c))) : [];
     if (tail.some((t) => t < 0)) throw lowerError("compile/internal", `Rule '${rule.name}': a written segment is missing from the alphabet.`, rule.span);
     const targetRx: Rx[] = target.map((set) => ({ k: "set", set }));
-    const sides: { L: Rx; R: Rx }[] = [];
+    const sides: { L: Rx; R: Rx; env: Environment | null }[] = [];
     for (const env of envs) {
       if (need.length === 0) {
-        sides.push({ L: env ? sl.pattern(env.left, asg) : EPS_RX, R: env ? sl.pattern(env.right, asg) : EPS_RX });
+        sides.push({ L: env ? sl.pattern(env.left, asg) : EPS_RX, R: env ? sl.pattern(env.right, asg) : EPS_RX, env });
         continue;
       }
       if (env === null) continue;
@@ -233,10 +264,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
         const onRight = need.filter((_, i) => !((mask >> i) & 1));
         const L = sl.patternBinding(env.left, asg, onLeft);
         const R = sl.patternBinding(env.right, asg, onRight);
-        if (L !== null && R !== null) sides.push({ L, R });
+        if (L !== null && R !== null) sides.push({ L, R, env });
       }
     }
-    for (const { L, R } of sides) {
+    for (const { L, R, env } of sides) {
       if (rxIsEmpty(L) || rxIsEmpty(R)) continue;
       const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
       const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };
@@ -247,8 +278,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
       });
       const afterRx: Rx = { k: "seq", items: [R, any] };
       const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => dfaFromRx(afterRx, size)) : undefined;
+      const excepts = exceptsOf(env, asg, targetRx);
       cases.push({
         target, out, insert, left, right,
+        ...(excepts.length > 0 ? { excepts } : {}),
         ...(rightAfter !== undefined ? { rightAfter } : {}),
         ...(tail.length > 0 ? { tail } : {}),
         ...(n > 0 && m > 0 && m !== n && opts.blind ? { dotsAfter: true } : {}),

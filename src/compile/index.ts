@@ -17,7 +17,7 @@ import { buildRule, RuleTooLargeError, type PairNfa } from "./rule.js";
 import { buildStress, buildSyllabifier } from "./prosody.js";
 import { finishMachine, pairNfaToFst } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
-import { dropCache, readCache, sha256, writeCache } from "./cache.js";
+import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from "./alphabet.js";
 export type { Block } from "./cascade.js";
@@ -32,6 +32,12 @@ export interface CompileOptions {
   readonly maxStates?: number;
   /** Shorthand expansion (default: the grammar front end's `desugar`). */
   readonly desugar?: (rule: Rule) => Rule;
+  /**
+   * Segments that input words carry beyond the inventory's (written with its diacritics, e.g. a
+   * long vowel no rule makes): the alphabet starts from them too, so the machines accept them
+   * (DEVELOPERS.md, "Segments the rules never make"). Part of the cache key.
+   */
+  readonly extraSegments?: readonly Bundle[];
 }
 
 /** Size of one step's machine (the variants machine; `preferred*` when the preferred one differs). */
@@ -140,7 +146,7 @@ export function compileSteps(grammar: Grammar, inv: Inventory, opts: CompileOpti
   const low = new Lowering(grammar, inv);
   let alphabet: Alphabet;
   try {
-    alphabet = computeAlphabet(inv, low, steps);
+    alphabet = computeAlphabet(inv, low, steps, opts.extraSegments ?? []);
   } catch (e) {
     if (e instanceof LowerError) return { result: null, diagnostics: [e.diagnostic] };
     throw e;
@@ -157,6 +163,26 @@ export function compileSteps(grammar: Grammar, inv: Inventory, opts: CompileOpti
   return { result: { alphabet, steps: out }, diagnostics };
 }
 
+/**
+ * The segments of `words` an alphabet lacks, with prosody cleared and each once (key order): what
+ * `extraSegments` needs so that the machines accept the words.
+ */
+export function segmentsOutside(alphabet: Alphabet, inv: Inventory, words: readonly (readonly Sym[])[]): Bundle[] {
+  const si = inv.featureIndex.get("stress");
+  const pi = inv.featureIndex.get("primary");
+  const found = new Map<string, Bundle>();
+  for (const w of words) {
+    for (const s of w) {
+      if (s.kind !== "segment" || alphabet.byKey.has(bundleKey(s.bundle))) continue;
+      const b = [...s.bundle];
+      if (si !== undefined) b[si] = "0";
+      if (pi !== undefined) b[pi] = "0";
+      found.set(bundleKey(b), b);
+    }
+  }
+  return [...found.keys()].sort().map((k) => found.get(k)!);
+}
+
 function cascadeSize(blocks: readonly Block[]): CascadeSize {
   return {
     blocks: blocks.map((b) => ({ from: b.from, to: b.to, states: b.states, arcs: b.arcs })),
@@ -166,7 +192,7 @@ function cascadeSize(blocks: readonly Block[]): CascadeSize {
 }
 
 /** The cache key: compiler version, options that change the result, the grammar (as parsed) and the inventory (features, segments, diacritics). */
-export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number): string {
+export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number, extraSegments: readonly Bundle[] = []): string {
   const invData = {
     features: inv.features,
     segments: inv.segments.map((s) => [s.symbol, bundleKey(s.bundle)]),
@@ -175,7 +201,8 @@ export function cacheKeyOf(grammar: Grammar, inv: Inventory, maxStates: number):
   // Where the files lie does not change the machines: paths and source positions are left out,
   // so a moved checkout keeps its cache.
   const placeless = (k: string, v: unknown): unknown => (k === "span" || k === "file" || k === "files" || k === "inventory" || k === "diacritics" ? undefined : v);
-  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(grammar, placeless), JSON.stringify(invData)]);
+  const extra = extraSegments.length === 0 ? [] : [[...new Set(extraSegments.map(bundleKey))].sort().join(" ")];
+  return sha256([COMPILER_VERSION, String(maxStates), JSON.stringify(grammar, placeless), JSON.stringify(invData), ...extra]);
 }
 
 interface CacheMeta {
@@ -213,8 +240,9 @@ function isCacheMeta(m: unknown): m is CacheMeta {
 export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOptions = {}): CompileResult {
   const t0 = performance.now();
   const maxStates = opts.maxStates ?? 50_000;
-  const key = cacheKeyOf(grammar, inv, maxStates);
+  const key = cacheKeyOf(grammar, inv, maxStates, opts.extraSegments);
   let cacheState: Compiled["cache"] = opts.cacheDir === undefined ? "off" : "miss";
+  const cacheWarnings: Diagnostic[] = [];
   if (opts.cacheDir !== undefined) {
     const read = readCache(opts.cacheDir, key, (m) => (isCacheMeta(m) ? m.preferred.length + m.variants.length : 0));
     if (read.state === "ok" && isCacheMeta(read.meta)) {
@@ -231,10 +259,13 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
     }
     if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
       cacheState = "rebuilt";
+      const why = read.state === "corrupt" ? read.reason : "written by another compiler version";
+      cacheWarnings.push(cacheWarning(cachePath(opts.cacheDir, key), `The cached machine ${cachePath(opts.cacheDir, key)} was not used (${why}); it is compiled again.`));
       dropCache(opts.cacheDir, key);
     }
   }
-  const { result, diagnostics } = compileSteps(grammar, inv, opts);
+  const { result, diagnostics: stepDiagnostics } = compileSteps(grammar, inv, opts);
+  const diagnostics = [...stepDiagnostics, ...cacheWarnings];
   if (result === null) return { compiled: null, diagnostics };
   const t1 = performance.now();
   const steps: StepSize[] = result.steps.map(({ step, variants, preferred }) => ({
@@ -263,7 +294,8 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
       hasVariants,
       runners: compiled.preferred.kinds,
     };
-    writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
+    const unwritten = writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
+    if (unwritten !== undefined) diagnostics.push(cacheWarning(opts.cacheDir, `The compiled machine could not be cached in ${opts.cacheDir} (${unwritten}); the next run compiles it again.`));
   }
   return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
 }

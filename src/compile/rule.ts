@@ -20,7 +20,7 @@
 // determinises and minimises (pairs.ts).
 
 import type { ApplicationMode } from "../grammar/ast.js";
-import type { Dfa } from "./context.js";
+import { dfaProduct, type Dfa } from "./context.js";
 import { EPSILON, SYLL, WORD } from "./alphabet.js";
 
 /** One alpha-variable assignment × environment of a rule, over symbol ids. */
@@ -41,6 +41,11 @@ export interface RuleCase {
   readonly tail?: readonly number[];
   /** A literal change of another length in a boundary-blind rule: the '.' inside the target go after the change. */
   readonly dotsAfter?: boolean;
+  /**
+   * Exceptions (`unless`, longer `longest-first` expansions): the case's site does not hold where
+   * one of them holds. Indices into `lefts` / `rights`, built like the case's own (rightAfter: ρ·Σ*).
+   */
+  readonly excepts?: readonly { readonly left: number; readonly right: number; readonly rightAfter?: number }[];
 }
 
 export interface LoweredRule {
@@ -90,7 +95,9 @@ interface Pending { b: number; q: number; pos: boolean }
  * map to the same pairs (a rewrite that changes nothing), which determinising the pair acceptor removes.
  */
 export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
-  const { size, n, cases, lefts, rights, blind, mode } = r;
+  const { size, n, cases, lefts, blind, mode } = r;
+  /** The rule's right-context checkers, then the exception-reduced ones made on demand (see `eff`). */
+  const rights: Dfa[] = [...r.rights];
   const obligatory = !r.optional;
   const rtl = mode === "right-to-left";
   const leftOnOutput = mode === "left-to-right";
@@ -103,7 +110,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   const compareStep = (cmp: readonly number[], c: RuleCase, j: number, x: number): number[] => {
     const out: number[] = [];
     const mine = keys[c.out[j]![x]!]!;
-    for (let i = 0; i < cmp.length; i += 2) {
+    for (let i = 0; i < cmp.length; i += 3) {
       const d = cases[cmp[i]!]!;
       if (!d.target[j]![x]) continue;
       const o = d.out[j]![x]!;
@@ -114,7 +121,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         if (theirs > mine) continue;
         if (theirs < mine) st = 1;
       }
-      out.push(cmp[i]!, st);
+      out.push(cmp[i]!, st, cmp[i + 2]!);
     }
     return out;
   };
@@ -180,9 +187,32 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
 
   const leftHolds = (p: Int32Array, c: RuleCase): boolean => lefts[c.left]!.accept[p[c.left]!] === 1;
 
+  // Exceptions. Where a case's left context holds, its site holds iff its right context does and no
+  // exception whose left context also holds has its right context there: one right check, the
+  // case's right minus the union of those exceptions' rights (a DFA product, made once per set).
+  const effIndex = new Map<string, number>();
+  /** The right check of case c at left-context states p (`after`: the ρ·Σ* form). */
+  const eff = (c: RuleCase, p: Int32Array, after = false): number => {
+    const base = after ? c.rightAfter! : c.right;
+    const xs = c.excepts;
+    if (xs === undefined || xs.length === 0) return base;
+    const hold = [...new Set(xs.filter((x) => lefts[x.left]!.accept[p[x.left]!] === 1).map((x) => (after ? x.rightAfter! : x.right)))].sort((a, b) => a - b);
+    if (hold.length === 0) return base;
+    const key = `${base}|${hold.join(",")}`;
+    let i = effIndex.get(key);
+    if (i === undefined) {
+      let d = rights[base]!;
+      for (const h of hold) d = dfaProduct(d, rights[h]!, "and-not");
+      i = rights.length;
+      rights.push(d);
+      effIndex.set(key, i);
+    }
+    return i;
+  };
+
   /** Negative checks for a copy decision: no case's site may hold here. */
   const forbidSites = (p: Int32Array, v: Pending[]): boolean => {
-    for (const c of cases) if (leftHolds(p, c) && !spawn(v, c.right, false)) return false;
+    for (const c of cases) if (leftHolds(p, c) && !spawn(v, eff(c, p), false)) return false;
     return true;
   };
 
@@ -191,11 +221,11 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   // check inside a negative one can never be met. Dropping the redundant ones keeps the sets —
   // and so the states — few.
   const inclusion = new Map<number, Uint8Array>();
-  const nb = rights.length;
   /** L(b1 from q1) ⊆ L(b2 from q2)? */
   const sub = (b1: number, q1: number, b2: number, q2: number): boolean => {
-    let m = inclusion.get(b1 * nb + b2);
-    if (m === undefined) { m = languageInclusion(rights[b1]!, rights[b2]!); inclusion.set(b1 * nb + b2, m); }
+    const k = b1 * 1_000_003 + b2;
+    let m = inclusion.get(k);
+    if (m === undefined) { m = languageInclusion(rights[b1]!, rights[b2]!); inclusion.set(k, m); }
     return m[q1 * rights[b2]!.states + q2] === 1;
   };
   const normalise = (v: Pending[]): Pending[] | null => {
@@ -292,8 +322,8 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
           for (const x of domain) {
             if (!(x === WORD || x >= 3)) continue;
             nextS = 0;
-            go([...ins, x, x], (k, _p, v) => {
-              if (rtl ? k === m : k === 0) return spawn(v, c.right, true);
+            go([...ins, x, x], (k, p, v) => {
+              if (rtl ? k === m : k === 0) return spawn(v, eff(c, p), true);
               return true;
             });
           }
@@ -307,19 +337,19 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
           const y = o0[x]!;
           if (y < 0) continue;
           nextS = n === 1 ? 0 : 1 + cases.indexOf(c) * n + 1;
-          nextCmp = preferLong ? compareStep(cases.flatMap((d, di) => (d !== c && (rtl || leftHolds(st.p, d)) ? [di, 0] : [])), c, 0, x) : [];
+          nextCmp = preferLong ? compareStep(cases.flatMap((d, di) => (d !== c && (rtl || leftHolds(st.p, d)) ? [di, 0, rtl ? -1 : eff(d, st.p, true)] : [])), c, 0, x) : [];
           // Cases whose change on x sorts before this one must not hold here (preferred variant).
           const better = prefer ? cases.filter((d) => d !== c && d.target[0]![x] && d.out[0]![x]! >= 0 && keys[d.out[0]![x]!]! < keys[y]!) : [];
           const excludeBetter = (p: Int32Array, v: Pending[]): boolean => {
-            for (const d of better) if (leftHolds(p, d) && !spawn(v, d.right, false)) return false;
+            for (const d of better) if (leftHolds(p, d) && !spawn(v, eff(d, p), false)) return false;
             return true;
           };
           const pairs = n === 1 ? lastPairs(c, x, y, 0) : [x, y];
           const end = pairs.length / 2;
           nextD = 0;
           go(pairs, (k, p, v) => {
-            if (!rtl) return k === 0 ? spawn(v, c.right, true) && excludeBetter(p, v) : true;
-            if (n === 1 && k === end) return leftHolds(p, c) && spawn(v, c.right, true) && excludeBetter(p, v);
+            if (!rtl) return k === 0 ? spawn(v, eff(c, p), true) && excludeBetter(p, v) : true;
+            if (n === 1 && k === end) return leftHolds(p, c) && spawn(v, eff(c, p), true) && excludeBetter(p, v);
             return true;
           });
         }
@@ -349,12 +379,12 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
         const pairs = last ? lastPairs(c, x, y, st.d) : [x, y];
         const end = pairs.length / 2;
         go(pairs, (k, p, v) => {
-          if (rtl && last && k === end && !(leftHolds(p, c) && spawn(v, c.right, true))) return false;
+          if (rtl && last && k === end && !(leftHolds(p, c) && spawn(v, eff(c, p), true))) return false;
           if (preferLong && last && k === end) {
-            for (let i = 0; i < cmp.length; i += 2) {
+            for (let i = 0; i < cmp.length; i += 3) {
               if (cmp[i + 1] !== 1) continue;
               const d = cases[cmp[i]!]!;
-              if (rtl ? leftHolds(p, d) && !spawn(v, d.right, false) : !spawn(v, d.rightAfter!, false)) return false;
+              if (rtl ? leftHolds(p, d) && !spawn(v, eff(d, p), false) : !spawn(v, cmp[i + 2]!, false)) return false;
             }
           }
           return true;

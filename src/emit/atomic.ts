@@ -1,10 +1,10 @@
 // Writing an output file whole or not at all: the data goes to a temporary file in the same folder,
 // is flushed to disk (fsync) and then renamed over the target, so readers never see a half-written file.
 
-import { randomBytes } from "node:crypto";
 import { mkdir, open, rename, unlink } from "node:fs/promises";
 import type { FileHandle } from "node:fs/promises";
-import { basename, dirname, join } from "node:path";
+import { dirname } from "node:path";
+import { tempPath } from "../tempfile.js";
 
 /** What can be written: one string or buffer, or a (possibly asynchronous) sequence of string chunks. */
 export type AtomicData = string | Uint8Array | Iterable<string> | AsyncIterable<string>;
@@ -23,7 +23,8 @@ const FLUSH_BYTES = 1 << 16;
 export async function writeFileAtomic(path: string, data: AtomicData): Promise<number> {
   const dir = dirname(path);
   await mkdir(dir, { recursive: true });
-  const temp = join(dir, `.${basename(path)}.${process.pid}.${randomBytes(6).toString("hex")}.tmp`);
+  // Named after this process (src/tempfile.ts), so a later run removes it if this one is killed.
+  const temp = tempPath(path);
   let handle: FileHandle | undefined;
   let bytes = 0;
   try {
@@ -76,7 +77,7 @@ async function writeAll(h: FileHandle, buf: Uint8Array): Promise<void> {
 }
 
 /** Makes the rename itself durable where the platform allows fsync on a folder (best effort). */
-async function syncFolder(dir: string): Promise<void> {
+export async function syncFolder(dir: string): Promise<void> {
   let h: FileHandle | undefined;
   try {
     h = await open(dir, "r");

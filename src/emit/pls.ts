@@ -126,25 +126,9 @@ export function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedE
     throw new PlsError(diagnostic("error", code, message, pos));
   };
   const text = (what: string, raw: string): string => {
-    const bad = findNonXmlChar(raw);
-    if (bad !== undefined) {
-      fail(
-        "pls/invalid-xml-char",
-        `entry '${printable(e.word)}': the ${what} contains ${codePointLabel(bad.codePoint)} at character ${bad.offset + 1}, which XML 1.0 does not allow (XML 1.0 §2.2, production Char)`,
-        bad.offset,
-      );
-    }
-    const nfc = raw.normalize("NFC");
-    const cr = nfc.indexOf("\r");
-    if (cr >= 0) {
-      fail(
-        "pls/carriage-return",
-        `entry '${printable(e.word)}': the ${what} contains U+000D CARRIAGE RETURN, which every XML parser turns into a line feed (XML 1.0 §2.11) and which has no place in a lexicon`,
-        [...nfc.slice(0, cr)].length,
-      );
-    }
-    if (nfc.trim() === "") fail("pls/empty-text", `entry '${printable(e.word)}': the ${what} is empty`);
-    return nfc;
+    const bad = plsTextProblem(raw);
+    if (bad !== undefined) fail(bad.code, `entry '${printable(e.word)}': the ${what} ${bad.reason}`, bad.offset);
+    return raw.normalize("NFC");
   };
   const grapheme = text("grapheme", e.word);
   if (e.phonemes.length === 0) fail("pls/no-pronunciation", `entry '${printable(e.word)}' has no pronunciation (PLS 1.0 §4.4 needs at least one phoneme or alias)`);
@@ -166,6 +150,35 @@ export function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedE
   });
   const examples = (e.examples ?? []).map((x, i) => text(`example ${i + 1}`, x));
   return { grapheme, phonemes, preferred, examples };
+}
+
+/**
+ * Why `raw` cannot be the text of a PLS element (a grapheme or phoneme), or undefined when it can:
+ * a character outside XML 1.0's Char production, a carriage return, or nothing but white space.
+ * `reason` continues a sentence ("the grapheme …"); `offset` is a 0-based code-point offset.
+ * The runner asks this of every entry before any format writes it, so an entry PLS cannot hold is
+ * a reject in every output, not only in the PLS.
+ */
+export function plsTextProblem(raw: string): { readonly code: string; readonly reason: string; readonly offset: number } | undefined {
+  const bad = findNonXmlChar(raw);
+  if (bad !== undefined) {
+    return {
+      code: "pls/invalid-xml-char",
+      reason: `contains ${codePointLabel(bad.codePoint)} at character ${bad.offset + 1}, which XML 1.0 does not allow (XML 1.0 §2.2, production Char)`,
+      offset: bad.offset,
+    };
+  }
+  const nfc = raw.normalize("NFC");
+  const cr = nfc.indexOf("\r");
+  if (cr >= 0) {
+    return {
+      code: "pls/carriage-return",
+      reason: "contains U+000D CARRIAGE RETURN, which every XML parser turns into a line feed (XML 1.0 §2.11) and which has no place in a lexicon",
+      offset: [...nfc.slice(0, cr)].length,
+    };
+  }
+  if (nfc.trim() === "") return { code: "pls/empty-text", reason: "is empty", offset: 0 };
+  return undefined;
 }
 
 /** A word shown in a message: control characters made visible. */

@@ -52,7 +52,18 @@ export interface Environment {
   readonly right: Pattern;
   readonly conditions: readonly { readonly condition: ProsodicCondition; readonly span: Span }[];
   readonly span: Span;
+  /** `… mirrored`: the environment also holds read the other way round (left and right swapped and reversed). */
+  readonly mirrored?: boolean;
+  /**
+   * Made by `desugar` (never by the parser): environments that must not hold at the site for this
+   * one to hold — the rule's `unless` environments, and for `longest-first` the longer expansions.
+   * They share the target's variables; their other variables are read "for some value".
+   */
+  readonly except?: readonly Environment[];
 }
+
+/** How a rule's environments combine: a plain union (default) or SPE's disjunctive ordering of `( )` expansions. */
+export type Expansion = "union" | "longest-first";
 
 export type ApplicationMode = "simultaneous" | "left-to-right" | "right-to-left";
 
@@ -75,6 +86,10 @@ export interface Rule {
   readonly change: readonly ChangeElement[];
   /** Several environments: the rule applies where any of them holds. Empty list = everywhere. */
   readonly environments: readonly Environment[];
+  /** `unless` environments: the rule does not apply where any of them holds (absent: none). */
+  readonly unless?: readonly Environment[];
+  /** `longest-first`: parenthesis expansions disjunctively ordered (absent: "union"). */
+  readonly expansion?: Expansion;
   /**
    * Set by `desugar` (absent on parsed rules): whether the rule as written was boundary-blind
    * (DEVELOPERS.md, "Boundary transparency"). Read it through `isBoundaryBlind(rule)`, which

@@ -1,16 +1,18 @@
 // A cache of loaded, checked grammars beside the machine cache: a hit skips reading includes,
 // parsing, splitting literals and checking, when no file the grammar was built from has changed.
+// Each file carries the SHA-256 of its own payload: an edited or damaged file is never used.
 
 import { createHash } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, readdirSync, readFileSync } from "node:fs";
 import * as path from "node:path";
 import { fileURLToPath } from "node:url";
 import type { Grammar } from "./ast.js";
 import { loadGrammar, type LoadedGrammar } from "./load.js";
 import { loadInventory } from "../inventory/index.js";
-import type { Diagnostic } from "../diagnostics.js";
+import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import { fsReason, writeFileAtomicSync } from "../tempfile.js";
 
-const FORMAT = "strata-grammar-cache-1";
+const FORMAT = "strata-grammar-cache-2";
 
 interface Entry {
   readonly format: string;
@@ -48,22 +50,56 @@ function diacriticsOf(g: Grammar): string | null {
 }
 
 /**
+ * The file's layout: a first line `strata-grammar-cache-2 <SHA-256 of the rest, hex>`, then the
+ * entry as JSON. Returns the entry, "missing", or why the file cannot be trusted.
+ */
+function readEntry(index: string): Entry | "missing" | { readonly bad: string } {
+  let text: string;
+  try {
+    text = readFileSync(index, "utf8");
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    return code === "ENOENT" || code === "ENOTDIR" ? "missing" : { bad: `it cannot be read (${fsReason(e)})` };
+  }
+  const nl = text.indexOf("\n");
+  const head = nl < 0 ? text : text.slice(0, nl);
+  const m = /^(\S+) ([0-9a-f]{64})$/.exec(head);
+  if (m === null) return { bad: "not a Strata grammar cache file" };
+  if (m[1] !== FORMAT) return "missing"; // another cache format: rewritten below, no warning
+  const payload = text.slice(nl + 1);
+  if (sha(payload) !== m[2]) return { bad: "its checksum does not match its content" };
+  try {
+    return JSON.parse(payload) as Entry;
+  } catch {
+    return { bad: "its content is not valid JSON" };
+  }
+}
+
+const cacheWarning = (file: string, message: string): Diagnostic => diagnostic("warning", "cache/unusable", message, { file, line: 1, column: 1 });
+
+/**
  * `loadGrammar` with a cache under `cacheDir`. Only a grammar without errors is stored; an entry
- * is used only when every grammar, inventory and diacritics file still has the same text and the
- * front end's code is the same. Anything unreadable in the cache is ignored (the grammar is loaded afresh).
+ * is used only when its checksum holds, every grammar, inventory and diacritics file still has
+ * the same text and the front end's code is the same. A damaged entry is loaded afresh and
+ * rewritten, with a warning; a cache that cannot be written is a warning too, never an error.
  */
 export function loadGrammarCached(p: string, cacheDir: string): LoadedGrammar {
   let main = path.resolve(p);
   if (existsSync(main) && !main.endsWith(".strata")) main = path.join(main, "grammar.strata");
   const index = path.join(cacheDir, `grammar-${sha(main).slice(0, 32)}.json`);
-  try {
-    const e = JSON.parse(readFileSync(index, "utf8")) as Entry;
-    if (e.format === FORMAT && e.code === frontEndCode() && e.files.every((f) => fileSha(f.path) === f.sha) && e.grammar.inventory !== null) {
-      const inv = loadInventory(e.grammar.inventory, e.diacritics !== null && existsSync(e.diacritics) ? e.diacritics : undefined);
-      if (inv.inventory !== undefined) return { grammar: e.grammar, inventory: inv.inventory, diagnostics: [...e.diagnostics] };
+  const warnings: Diagnostic[] = [];
+  const e = readEntry(index);
+  if (e !== "missing" && "bad" in e) {
+    warnings.push(cacheWarning(index, `The cached grammar ${index} was not used (${e.bad}); the grammar is loaded again.`));
+  } else if (e !== "missing") {
+    try {
+      if (e.format === FORMAT && e.code === frontEndCode() && e.files.every((f) => fileSha(f.path) === f.sha) && e.grammar.inventory !== null) {
+        const inv = loadInventory(e.grammar.inventory, e.diacritics !== null && existsSync(e.diacritics) ? e.diacritics : undefined);
+        if (inv.inventory !== undefined) return { grammar: e.grammar, inventory: inv.inventory, diagnostics: [...e.diagnostics] };
+      }
+    } catch {
+      // A well-formed entry of an unexpected shape: load afresh below.
     }
-  } catch {
-    // No entry, or an unreadable one: load afresh below.
   }
   const loaded = loadGrammar(p);
   const g = loaded.grammar;
@@ -73,12 +109,12 @@ export function loadGrammarCached(p: string, cacheDir: string): LoadedGrammar {
     const entry: Entry = { format: FORMAT, code: frontEndCode(), files: deps.map((f) => ({ path: f, sha: fileSha(f) })), grammar: g, diacritics: dia, diagnostics: loaded.diagnostics };
     try {
       mkdirSync(cacheDir, { recursive: true });
-      const tmp = `${index}.${process.pid}.tmp`;
-      writeFileSync(tmp, JSON.stringify(entry));
-      renameSync(tmp, index);
-    } catch {
-      // A read-only cache folder only costs speed.
+      const payload = JSON.stringify(entry);
+      writeFileAtomicSync(index, `${FORMAT} ${sha(payload)}\n${payload}`);
+    } catch (err) {
+      // A cache that cannot be written only costs speed.
+      warnings.push(cacheWarning(index, `The checked grammar could not be cached in ${cacheDir} (${fsReason(err)}); the next run loads it again.`));
     }
   }
-  return loaded;
+  return warnings.length === 0 ? loaded : { ...loaded, diagnostics: [...loaded.diagnostics, ...warnings] };
 }

@@ -2,6 +2,7 @@
 // The result is what the interpreter and the compiler both read, so it is their shared meaning.
 
 import { bundleOf, PROSODIC_FEATURES, type Inventory } from "../inventory/index.js";
+import { expandEnvironments } from "./expand.js";
 import type { ClassDef, Element, Environment, FeatureSpec, Pattern, ProsodicCondition, Rule, Span } from "./ast.js";
 
 /*
@@ -399,23 +400,36 @@ export function conditionsSatisfiable(env: Environment): boolean {
  */
 export function desugar(rule: Rule, ctx?: DesugarContext): Rule {
   const boundaryBlind = isBoundaryBlind(rule);
+  const expanded = expandEnvironments(rule);
   const environments: Environment[] = [];
-  for (const env of rule.environments) {
-    if (env.conditions.length === 0) {
-      environments.push(env);
-      continue;
-    }
-    let any = false;
-    for (const v of sides(env)) {
-      const left = conjoinSide(env.left, v.left, ctx, true);
-      const right = conjoinSide(env.right, v.right, ctx, false);
-      if (left === null || right === null) continue;
-      environments.push({ left, right, conditions: [], span: env.span });
-      any = true;
-    }
-    if (!any) environments.push(neverEnvironment(env));
+  for (const env of expanded.environments) {
+    // Exceptions: each condition variant is one more exception; one that never holds is dropped.
+    const except = env.except === undefined ? undefined : env.except.flatMap((x) => desugarConditions(x, ctx) ?? []);
+    const scoped = (e: Environment): Environment => (except === undefined || except.length === 0 ? withoutExcept(e) : { ...e, except });
+    const variants = desugarConditions(env, ctx);
+    if (variants === null) environments.push(neverEnvironment(env));
+    else environments.push(...variants.map(scoped));
   }
-  return { ...rule, environments, boundaryBlind };
+  return { ...expanded, environments, boundaryBlind };
+}
+
+const withoutExcept = (e: Environment): Environment => {
+  if (e.except === undefined) return e;
+  const { except: _x, ...rest } = e;
+  return rest;
+};
+
+/** An environment's `where` conditions as ordinary patterns: its variants, or null when none can hold. */
+function desugarConditions(env: Environment, ctx: DesugarContext | undefined): Environment[] | null {
+  if (env.conditions.length === 0) return [env];
+  const out: Environment[] = [];
+  for (const v of sides(env)) {
+    const left = conjoinSide(env.left, v.left, ctx, true);
+    const right = conjoinSide(env.right, v.right, ctx, false);
+    if (left === null || right === null) continue;
+    out.push({ left, right, conditions: [], span: env.span });
+  }
+  return out.length > 0 ? out : null;
 }
 
 /**
@@ -426,11 +440,9 @@ export function desugar(rule: Rule, ctx?: DesugarContext): Rule {
 export function isBoundaryBlind(rule: Rule): boolean {
   if (rule.boundaryBlind !== undefined) return rule.boundaryBlind;
   if (rule.target.some(isSyllableBoundary)) return false;
-  for (const env of rule.environments) {
-    if (env.conditions.length > 0) return false;
-    if (mentionsSyllableBoundary(env.left) || mentionsSyllableBoundary(env.right)) return false;
-  }
-  return true;
+  const sees = (env: Environment): boolean =>
+    env.conditions.length > 0 || mentionsSyllableBoundary(env.left) || mentionsSyllableBoundary(env.right) || (env.except ?? []).some(sees);
+  return !rule.environments.some(sees) && !(rule.unless ?? []).some(sees);
 }
 
 const isSyllableBoundary = (e: Element): boolean => e.kind === "boundary" && e.which === "syllable";

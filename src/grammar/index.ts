@@ -6,4 +6,5 @@ export { parseGrammarText, STATEMENT_KEYWORDS, PROSODIC_CONDITIONS, elementText,
 export { loadGrammar, splitLiterals, GRAMMAR_FILE, type LoadedGrammar } from "./load.js";
 export { checkGrammar } from "./check.js";
 export { loadGrammarCached } from "./cache.js";
+export { expandEnvironments, hasEnvironmentNotation, mirrorImages, parenthesisExpansions, MAX_EXPANSIONS, TooManyExpansions } from "./expand.js";
 export { desugar, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";

@@ -49,7 +49,7 @@ export function splitStatements(text: string): { statements: Statement[]; orphan
       const prev: Char[] = current;
       const last = prev[prev.length - 1]!;
       prev.push({ ch: "\n", line: last.line, column: last.column + 1 });
-      prev.push(...chars);
+      for (const ch of chars) prev.push(ch); // not push(...chars): a very long line would overflow the stack
     } else {
       orphans.push({ chars, line: lineNo });
     }

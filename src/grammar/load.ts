@@ -4,13 +4,25 @@
 import * as fs from "node:fs";
 import * as path from "node:path";
 import { diagnostic, type Diagnostic, type SourcePos } from "../diagnostics.js";
+import { capPerFile, MAX_DIAGNOSTICS_PER_FILE } from "../diagnostic-cap.js";
+import { FILE_LIMITS, isInside, readTextFile, realPath } from "../files.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
 import { checkGrammar } from "./check.js";
-import { assembleGrammar, parseFile, type TopItem } from "./parser.js";
+import { assembleGrammar, type TopItem } from "./assemble.js";
+import { parseFile } from "./parser.js";
 
 /** The file a grammar folder is read from. */
 export const GRAMMAR_FILE = "grammar.strata";
+
+export interface LoadOptions {
+  /** Most bytes of one grammar or included file (default FILE_LIMITS.grammar). */
+  readonly maxGrammarBytes?: number;
+  /** Most bytes of the inventory or diacritics file (default FILE_LIMITS.inventory). */
+  readonly maxInventoryBytes?: number;
+  /** Most diagnostics kept per file; the rest are counted in one more (default MAX_DIAGNOSTICS_PER_FILE). */
+  readonly maxDiagnosticsPerFile?: number;
+}
 
 export interface LoadedGrammar {
   readonly grammar?: Grammar;
@@ -27,17 +39,24 @@ const startOf = (file: string): SourcePos => ({ file, line: 1, column: 1 });
  * is a positioned diagnostic. `grammar` is present whenever the main file could be read (possibly
  * partial when there are errors); `inventory` whenever it loaded.
  */
-export function loadGrammar(p: string): LoadedGrammar {
+export function loadGrammar(p: string, opts: LoadOptions = {}): LoadedGrammar {
+  const r = loadUncapped(p, opts);
+  return { ...r, diagnostics: capPerFile(r.diagnostics, "grammar/too-many-problems", opts.maxDiagnosticsPerFile ?? MAX_DIAGNOSTICS_PER_FILE) };
+}
+
+function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
   const diagnostics: Diagnostic[] = [];
+  const grammarLimit = opts.maxGrammarBytes ?? FILE_LIMITS.grammar;
   try {
     let main = path.resolve(p);
     if (isDirectory(main)) main = path.join(main, GRAMMAR_FILE);
-    const mainText = readText(main);
-    if (mainText === null) {
-      diagnostics.push(diagnostic("error", "grammar/unreadable", "cannot read this grammar file (no such file?)", startOf(main)));
+    const mainRead = readTextFile(main, { what: "grammar file", limit: grammarLimit, code: "grammar/unreadable" });
+    if (!mainRead.ok) {
+      diagnostics.push(mainRead.diagnostic);
       return { diagnostics };
     }
-    const root = realDir(path.dirname(main));
+    const mainText = mainRead.text;
+    const root = realPath(path.dirname(main));
     const files: string[] = [];
     const items: TopItem[] = [];
     const done = new Set<string>();
@@ -52,8 +71,7 @@ export function loadGrammar(p: string): LoadedGrammar {
           continue;
         }
         const target = it.path;
-        const rel = path.relative(root, real(target));
-        if (rel.startsWith("..") || path.isAbsolute(rel)) {
+        if (!isInside(root, target)) {
           diagnostics.push(
             diagnostic("error", "grammar/include-outside", `'${it.written}' is outside the grammar's folder (${root}); includes must stay inside it`, it.span),
           );
@@ -66,12 +84,12 @@ export function loadGrammar(p: string): LoadedGrammar {
           continue;
         }
         if (done.has(real(target))) continue; // included already (each file is read once)
-        const sub = readText(target);
-        if (sub === null) {
-          diagnostics.push(diagnostic("error", "grammar/include-missing", `cannot read the included file '${it.written}' (no such file?)`, it.span));
+        const sub = readTextFile(target, { what: "included file", limit: grammarLimit, code: "grammar/include-missing", at: it.span });
+        if (!sub.ok) {
+          diagnostics.push(sub.diagnostic);
           continue;
         }
-        expand(target, sub, [...stack, real(target)]);
+        expand(target, sub.text, [...stack, real(target)]);
       }
     };
     expand(main, mainText, [real(main)]);
@@ -88,6 +106,18 @@ export function loadGrammar(p: string): LoadedGrammar {
     };
     const invItem = { span: declared("inventory") };
     const diaItem = { span: declared("diacritics") };
+    // Every file the grammar names stays inside its folder, as includes do (symbolic links resolved).
+    const defaultDiacritics = path.join(path.dirname(grammar.inventory), "diacritics.csv");
+    const named: [string, Span | undefined, string][] = [[grammar.inventory, invItem.span, "inventory"]];
+    if (grammar.diacritics !== null) named.push([grammar.diacritics, diaItem.span, "diacritics file"]);
+    else if (fs.existsSync(defaultDiacritics)) named.push([defaultDiacritics, invItem.span, "diacritics file beside the inventory"]);
+    for (const [file, span, what] of named)
+      if (!isInside(root, file)) {
+        diagnostics.push(
+          diagnostic("error", "grammar/file-outside", `The ${what} '${path.basename(file)}' is outside the grammar's folder (${root}); files a grammar names must stay inside it.`, span ?? startOf(main)),
+        );
+        return { grammar, diagnostics };
+      }
     if (!fs.existsSync(grammar.inventory)) {
       diagnostics.push(diagnostic("error", "grammar/inventory-missing", `the inventory file ${grammar.inventory} does not exist`, invItem?.span ?? startOf(main)));
       return { grammar, diagnostics };
@@ -96,7 +126,11 @@ export function loadGrammar(p: string): LoadedGrammar {
       diagnostics.push(diagnostic("error", "grammar/inventory-missing", `the diacritics file ${grammar.diacritics} does not exist`, diaItem?.span ?? startOf(main)));
       return { grammar, diagnostics };
     }
-    const inv = loadInventory(grammar.inventory, grammar.diacritics ?? undefined);
+    const inv = loadInventory(grammar.inventory, grammar.diacritics ?? undefined, {
+      ...(opts.maxInventoryBytes !== undefined ? { limit: opts.maxInventoryBytes } : {}),
+      ...(invItem.span !== undefined ? { inventoryAt: invItem.span } : {}),
+      ...(diaItem.span !== undefined ? { diacriticsAt: diaItem.span } : {}),
+    });
     diagnostics.push(...inv.diagnostics);
     if (inv.inventory === undefined) return { grammar, diagnostics };
     const split = splitLiterals(grammar, inv.inventory);
@@ -122,26 +156,7 @@ function isDirectory(p: string): boolean {
   }
 }
 
-function readText(p: string): string | null {
-  try {
-    if (isDirectory(p)) return null;
-    return fs.readFileSync(p, "utf8");
-  } catch {
-    return null;
-  }
-}
-
-/** The real path of a file when it exists (symbolic links resolved), else its resolved path. */
-function real(p: string): string {
-  try {
-    return fs.realpathSync(p);
-  } catch {
-    const dir = path.dirname(p);
-    return dir === p ? p : path.join(real(dir), path.basename(p));
-  }
-}
-
-const realDir = real;
+const real = realPath;
 
 /**
  * Splits every IPA literal (segments in patterns, targets, changes, class members, clusters) into

@@ -213,6 +213,8 @@ export function siteChanges(p: PreparedRule, target: readonly Sym[], left: Side,
   for (const env of p.envs) {
     if (!conditionsHold(p, env, target, left, right)) continue;
     for (const b of inTarget) {
+      // An exception that holds under the target's bindings (any values for its own variables) blocks this environment.
+      if (env.except.some((x) => envHolds(p, x, b, target, left, right))) continue;
       for (const bl of matchSuffix(p.inv, env.left, left.arr, left.end, b)) {
         for (const br of matchPrefix(p.inv, env.right, right.arr, right.start, bl)) full.set(bindingsKey(br), br);
       }
@@ -226,6 +228,16 @@ export function siteChanges(p: PreparedRule, target: readonly Sym[], left: Side,
     }
   }
   return [...changes.keys()].sort().map((k) => changes.get(k) as Sym[]);
+}
+
+/** Does an environment hold at the site under bindings `b` (for some values of its other variables)? */
+function envHolds(p: PreparedRule, env: PreparedEnv, b: Bindings, target: readonly Sym[], left: Side, right: RightSide): boolean {
+  if (!conditionsHold(p, env, target, left, right)) return false;
+  if (env.except.some((x) => envHolds(p, x, b, target, left, right))) return false;
+  for (const bl of matchSuffix(p.inv, env.left, left.arr, left.end, b)) {
+    if (matchPrefix(p.inv, env.right, right.arr, right.start, bl).length > 0) return true;
+  }
+  return false;
 }
 
 function conditionsHold(p: PreparedRule, env: PreparedEnv, target: readonly Sym[], left: Side, right: RightSide): boolean {

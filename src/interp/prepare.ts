@@ -5,9 +5,9 @@ import type { Diagnostic } from "../diagnostics.js";
 import { diagnostic } from "../diagnostics.js";
 import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
 import type {
-  ApplicationMode, ChangeElement, ClassDef, Element, FeatureSpec, Grammar, NodeDef, Pattern, ProsodicCondition, Rule, Span,
+  ApplicationMode, ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, ProsodicCondition, Rule, Span,
 } from "../grammar/ast.js";
-import { desugar, isBoundaryBlind } from "../grammar/index.js";
+import { desugar, expandEnvironments, hasEnvironmentNotation, isBoundaryBlind } from "../grammar/index.js";
 import { resolveSymbol } from "./segments.js";
 
 /** What a rule needs from its grammar to be applied. */
@@ -62,6 +62,8 @@ export interface PreparedEnv {
   readonly right: Pat;
   /** Conjunction of conditions, each a disjunction of alternatives. */
   readonly conditions: readonly (readonly CondAlt[])[];
+  /** Environments that must not hold for this one to hold (`unless`, longer expansions); they share the target's variables only. */
+  readonly except: readonly PreparedEnv[];
 }
 
 export type Change =
@@ -106,7 +108,7 @@ const desugared = new WeakMap<Rule, { inv: Inventory; rule: Rule }>();
 export function desugarOnce(rule: Rule, ctx: Pick<RuleContext, "inv" | "classes">): Rule {
   const hit = desugared.get(rule);
   if (hit !== undefined && hit.inv === ctx.inv) return hit.rule;
-  const d = rule.environments.some((e) => e.conditions.length > 0) ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()] }) : rule;
+  const d = rule.environments.some((e) => e.conditions.length > 0) || hasEnvironmentNotation(rule) ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()] }) : rule;
   desugared.set(rule, { inv: ctx.inv, rule: d });
   return d;
 }
@@ -128,7 +130,7 @@ export type PrepareResult = { readonly rule: PreparedRule; readonly diagnostics:
 export function prepareRule(rule: Rule, ctx: RuleContext): PrepareResult {
   const hit = cache.get(rule);
   if (hit !== undefined && hit.ctx === ctx) return hit.result;
-  const written = ctx.conditions === "direct" ? rule : desugarOnce(rule, ctx);
+  const written = ctx.conditions === "direct" ? expandEnvironments(rule) : desugarOnce(rule, ctx);
   const result = new Preparer(written, ctx).run();
   cache.set(rule, { ctx, result });
   return result;
@@ -186,15 +188,15 @@ class Preparer {
     const envs: PreparedEnv[] = [];
     const rawEnvs = r.environments.length > 0 ? r.environments : null;
     if (rawEnvs === null) {
-      envs.push({ left: { kind: "seq", items: [] }, right: { kind: "seq", items: [] }, conditions: [] });
+      envs.push({ left: { kind: "seq", items: [] }, right: { kind: "seq", items: [] }, conditions: [], except: [] });
     } else {
-      for (const env of rawEnvs) {
-        envs.push({
-          left: this.pattern(env.left),
-          right: this.pattern(env.right),
-          conditions: env.conditions.map((c) => this.condition(c.condition, c.span, syllabic, stress, primary)),
-        });
-      }
+      const prepareEnv = (env: Environment): PreparedEnv => ({
+        left: this.pattern(env.left),
+        right: this.pattern(env.right),
+        conditions: env.conditions.map((c) => this.condition(c.condition, c.span, syllabic, stress, primary)),
+        except: (env.except ?? []).map(prepareEnv),
+      });
+      for (const env of rawEnvs) envs.push(prepareEnv(env));
     }
     if (this.diags.some((d) => d.severity === "error")) return { rule: null, diagnostics: this.diags };
     const prepared: PreparedRule = {

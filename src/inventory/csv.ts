@@ -48,6 +48,9 @@ function fieldColumns(lineText: string): number[] {
  */
 export function readCsv(text: string, file: string, codePrefix: string): { rows: CsvRow[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
+  // One line break per line end (CR LF, LF or a lone CR: src/lines.ts), so that the lines counted
+  // here are the lines diagnostics show.
+  text = text.replace(/\r\n?/g, "\n");
   const lines = text.split(/\r?\n/);
   let records: ParsedRecord[] = [];
   try {

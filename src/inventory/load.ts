@@ -1,9 +1,11 @@
 // Loading a segment inventory (segments.csv) and its declared diacritics (diacritics.csv) into an
 // Inventory, collecting every problem as a positioned Diagnostic (several at once, never a throw).
 
-import { existsSync, readFileSync } from "node:fs";
+import { existsSync } from "node:fs";
 import { dirname, join } from "node:path";
-import { diagnostic, hasErrors, type Diagnostic } from "../diagnostics.js";
+import { diagnostic, hasErrors, type Diagnostic, type SourcePos } from "../diagnostics.js";
+import { capPerFile, MAX_DIAGNOSTICS_PER_FILE } from "../diagnostic-cap.js";
+import { FILE_LIMITS, readTextFile } from "../files.js";
 import { PROSODIC_FEATURES, type Diacritic, type FeatureValue, type Inventory, type Segment } from "./types.js";
 import { readCsv } from "./csv.js";
 import { canonicalSymbol, codePointName, cpLength, decodeMark, editDistance, isCombining, matchKey, RESERVED } from "./ipa.js";
@@ -296,24 +298,35 @@ export function parseInventory(text: string, file: string, diacriticsText?: stri
   return { inventory, diagnostics: out };
 }
 
+export interface InventoryReadOptions {
+  /** Most bytes of either file (default FILE_LIMITS.inventory). */
+  readonly limit?: number;
+  /** Where a failure to read each file is reported (e.g. the grammar statement naming it); default its 1:1. */
+  readonly inventoryAt?: SourcePos;
+  readonly diacriticsAt?: SourcePos;
+}
+
 /**
  * Reads `csvPath` and the diacritics file (by default `diacritics.csv` beside it, when present).
- * A file that cannot be read is an error diagnostic on line 1.
+ * Only regular files within the size limit are read (see files.ts); a file that cannot be read is
+ * an error diagnostic at `inventoryAt`/`diacriticsAt`, else on its line 1.
  */
-export function loadInventory(csvPath: string, diacriticsPath?: string): LoadResult {
-  const read = (path: string, code: string): string | Diagnostic => {
-    try {
-      return readFileSync(path, "utf8");
-    } catch (e) {
-      const reason = (e as NodeJS.ErrnoException).code === "ENOENT" ? "there is no such file" : String((e as Error).message);
-      return diagnostic("error", code, `Cannot read this file: ${reason}.`, { file: path, line: 1, column: 1 });
-    }
+export function loadInventory(csvPath: string, diacriticsPath?: string, opts: InventoryReadOptions = {}): LoadResult {
+  const r = loadUncapped(csvPath, diacriticsPath, opts);
+  return r.diagnostics.length <= MAX_DIAGNOSTICS_PER_FILE ? r : { ...r, diagnostics: capPerFile(r.diagnostics, "inventory/too-many-problems") };
+}
+
+function loadUncapped(csvPath: string, diacriticsPath: string | undefined, opts: InventoryReadOptions): LoadResult {
+  const limit = opts.limit ?? FILE_LIMITS.inventory;
+  const read = (path: string, what: string, code: string, at: SourcePos | undefined): string | Diagnostic => {
+    const r = readTextFile(path, { what, limit, code, ...(at !== undefined ? { at } : {}) });
+    return r.ok ? r.text : r.diagnostic;
   };
-  const text = read(csvPath, "inventory/unreadable");
+  const text = read(csvPath, "inventory", "inventory/unreadable", opts.inventoryAt);
   if (typeof text !== "string") return { diagnostics: [text] };
   const diaPath = diacriticsPath ?? join(dirname(csvPath), "diacritics.csv");
   if (diacriticsPath === undefined && !existsSync(diaPath)) return parseInventory(text, csvPath);
-  const diaText = read(diaPath, "diacritics/unreadable");
+  const diaText = read(diaPath, "diacritics file", "diacritics/unreadable", opts.diacriticsAt ?? (diacriticsPath === undefined ? opts.inventoryAt : undefined));
   if (typeof diaText !== "string") return { diagnostics: [diaText] };
   return parseInventory(text, csvPath, diaText, diaPath);
 }

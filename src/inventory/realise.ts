@@ -7,6 +7,29 @@ import { describeBundle } from "./bundles.js";
 import { tokenise } from "./tokenise.js";
 import { isCombining } from "./ipa.js";
 
+/**
+ * Letters with a descender. Handbook of the IPA (1999), notes to the diacritics chart (from
+ * memory): a diacritic normally written below may be written above a symbol with a descender,
+ * e.g. ŋ̊ rather than ŋ̥, so the mark stays legible.
+ */
+const DESCENDERS = new Set(Array.from("gɡjpqyŋɟʝɣɰɥɲɳɖʈʂʐɭɻɽʒβɸçʎ"));
+
+/** Combining marks written below, and their counterpart above (Unicode Combining Diacritical Marks). */
+const ABOVE_FORM: ReadonlyMap<string, string> = new Map([
+  ["\u0325", "\u030A"], // ring below → ring above (voiceless)
+  ["\u0329", "\u030D"], // vertical line below → vertical line above (syllabic)
+  ["\u032F", "\u0311"], // inverted breve below → inverted breve above (non-syllabic)
+  ["\u032C", "\u030C"], // caron below → caron above (voiced)
+]);
+
+/** The mark to write on `base`: its above form when the base ends in a descender and the inventory reads that form back. */
+function placedMark(base: string, d: Diacritic): string {
+  const above = ABOVE_FORM.get(d.mark);
+  const last = Array.from(base.normalize("NFD")).filter((ch) => !isCombining(ch)).pop();
+  if (above !== undefined && last !== undefined && DESCENDERS.has(last) && d.aliases.includes(above)) return above;
+  return d.mark;
+}
+
 export type RealiseResult = { ok: true; text: string } | { ok: false; error: string };
 
 /**
@@ -93,8 +116,9 @@ function compute(inv: Inventory, bundle: Bundle, key: string): RealiseResult {
   }
   // Combining marks first (one written after a modifier letter would sit on that letter), then by declared order.
   const rank = (d: Diacritic): number => (isCombining(Array.from(d.mark)[0]!) ? 0 : 1);
-  const marks = [...best.marks].sort((a, b) => rank(a) - rank(b) || a.order - b.order).map((d) => d.mark);
-  const text = (inv.segments[best.seg]!.symbol + marks.join("")).normalize("NFC");
+  const base = inv.segments[best.seg]!.symbol;
+  const marks = [...best.marks].sort((a, b) => rank(a) - rank(b) || a.order - b.order).map((d) => placedMark(base, d));
+  const text = (base + marks.join("")).normalize("NFC");
   const back = tokenise(inv, text);
   const t = back.ok && back.tokens.length === 1 ? back.tokens[0]! : undefined;
   if (!t || t.kind !== "segment" || baseKey(t.bundle, lk.nBase) !== key) {

@@ -4,9 +4,11 @@
 import { existsSync, readFileSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { parse } from "csv-parse/sync";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
+import { splitLines } from "../lines.js";
+import { checkQuoting, findForbidden } from "./fields.js";
+import { splitRecords } from "./records.js";
 import type { RejectedRow } from "./read.js";
 
 /** One ARPAbet phone of the mapping table. */
@@ -43,12 +45,17 @@ export function defaultArpabetTablePath(): string | undefined {
  */
 export function parseArpabetTable(text: string, file: string): { table?: ArpabetTable; diagnostics: Diagnostic[] } {
   const out: Diagnostic[] = [];
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(text, { bom: true, comment: "#", comment_no_infix: true, skip_empty_lines: true, relax_column_count: true, info: true }) as unknown as typeof records;
-  } catch (e) {
-    const line = typeof (e as { lines?: unknown }).lines === "number" ? ((e as { lines: number }).lines) : 1;
-    return { diagnostics: [diagnostic("error", "arpabet/csv", `The mapping table cannot be read as CSV: ${(e as Error).message}`, { file, line, column: 1 })] };
+  // The lexicon file's own CSV grammar (records.ts, fields.ts), so lines are counted as everywhere else.
+  const records: { record: string[]; info: { lines: number } }[] = [];
+  for (const rec of splitRecords(text)) {
+    if (rec.kind !== "data") continue;
+    const bad = findForbidden(rec.raw, "arpabet");
+    const q = bad === undefined ? checkQuoting(rec.raw) : undefined;
+    if (bad !== undefined || q === undefined || !q.ok) {
+      const why = bad ?? (q !== undefined && !q.ok ? q : undefined)!;
+      return { diagnostics: [diagnostic("error", "arpabet/csv", `The mapping table cannot be read as CSV: ${why.reason}`, { file, line: rec.line, column: why.column })] };
+    }
+    records.push({ record: q.fields.map((f) => f.value), info: { lines: rec.line } });
   }
   const head = records[0];
   if (head === undefined) return { diagnostics: [diagnostic("error", "arpabet/empty", "The mapping table is empty.", { file, line: 1, column: 1 })] };
@@ -214,11 +221,17 @@ export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts
     n++;
     if (raw.endsWith("\r")) raw = raw.slice(0, -1);
     if (n === 1 && raw.charCodeAt(0) === 0xfeff) raw = raw.slice(1);
-    const trimmed = raw.trim();
-    if (trimmed === "") {
+    if (/^[ \t]*$/.test(raw)) {
       acc.blanks++;
       continue;
     }
+    // NUL, a BOM inside the text, control characters, U+FFFD: positioned rejects, before anything reads the line.
+    const bad = findForbidden(raw, "arpabet");
+    if (bad !== undefined) {
+      acc.rejectAt(n, raw, bad.column, bad.code, bad.reason);
+      continue;
+    }
+    const trimmed = raw.trim();
     // Comment lines, and the lines that open or close a JSON (or JavaScript module) object.
     if (trimmed.startsWith(";;;") || trimmed.startsWith("//") || trimmed.startsWith("/*") || trimmed.endsWith("{") || trimmed === "}" || trimmed === "};") {
       acc.comments++;
@@ -235,6 +248,12 @@ export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts
         acc.reject(n, raw, json[1]!.length, "arpabet/bad-json", "This line is not a valid JSON string pair.");
         continue;
       }
+      // An escape can spell what the line itself may not hold.
+      const badWord = findForbidden(word, "arpabet") ?? findForbidden(phones, "arpabet");
+      if (badWord !== undefined) {
+        acc.reject(n, raw, json[1]!.length, badWord.code, `${badWord.reason.replace(/\.$/, "")} (written as an escape in this JSON string).`);
+        continue;
+      }
       acc.entry(n, raw, word, phones, raw.lastIndexOf(json[3]!) + 1);
       continue;
     }
@@ -246,6 +265,11 @@ export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts
     acc.entry(n, raw, m[2]!, m[4]!, m[1]!.length + m[2]!.length + m[3]!.length);
   }
   return acc.result(n);
+}
+
+/** Imports an ARPAbet dictionary given as one text: lines end at CR LF, LF or a lone CR (src/lines.ts). */
+export function importArpabetText(text: string, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
+  return importArpabet(splitLines(text), table, opts);
 }
 
 /** Collects rows and rejects; one entry is a word and its phone string, with where the phones start on the line. */
@@ -261,7 +285,11 @@ class Accumulator {
 
   /** `offset` is in UTF-16 units of `raw`; the reject's column counts code points from 1. */
   reject(line: number, raw: string, offset: number, code: string, reason: string): void {
-    this.rejects.push({ kind: "reject", file: this.file, line, column: Array.from(raw.slice(0, offset)).length + 1, code, reason, raw });
+    this.rejectAt(line, raw, Array.from(raw.slice(0, offset)).length + 1, code, reason);
+  }
+
+  rejectAt(line: number, raw: string, column: number, code: string, reason: string): void {
+    this.rejects.push({ kind: "reject", file: this.file, line, column, code, reason, raw });
   }
 
   entry(line: number, raw: string, word: string, phones: string, phonesAt: number): void {
@@ -273,9 +301,15 @@ class Accumulator {
       if (c !== "") note = c;
       phones = phones.slice(0, hash);
     }
-    const bad = raw.indexOf("\ufffd");
-    if (bad >= 0) {
-      this.reject(line, raw, bad, "arpabet/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).");
+    const bad = findForbidden(raw, "arpabet");
+    if (bad !== undefined) {
+      this.rejectAt(line, raw, bad.column, bad.code, bad.reason);
+      return;
+    }
+    // A word given as a value (a dictionary object) need not appear as itself in `raw`.
+    const badWord = findForbidden(word, "arpabet");
+    if (badWord !== undefined) {
+      this.rejectAt(line, raw, 1, badWord.code, `The word: ${badWord.reason}`);
       return;
     }
     const [base, variant] = splitVariant(word);

@@ -6,7 +6,8 @@ import type { Diagnostic } from "../diagnostics.js";
 import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import { WORD_EDGE, type Word } from "../interp/index.js";
-import { compileGrammar, type Compiled } from "../compile/index.js";
+import { compileGrammar, segmentsOutside, type Compiled } from "../compile/index.js";
+import type { Bundle } from "../inventory/types.js";
 import type { Engine, Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type SymbolView } from "./render.js";
@@ -29,12 +30,20 @@ export class MachineEngine implements Engine {
   private readonly view: SymbolView;
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
+  /**
+   * For words with segments the alphabet lacks (the inventory writes them, no rule makes them):
+   * an engine compiled with those segments added (`extraSegments`), rebuilt when a word brings
+   * another one. Absent when the engine cannot recompile.
+   */
+  private extended: MachineEngine | undefined;
+  extend: ((extra: readonly Bundle[]) => MachineEngine | undefined) | undefined;
+  extras: readonly Bundle[] = [];
 
   constructor(
     readonly compiled: Compiled,
     private readonly stepwise: Compiled | null,
     private readonly broad: Compiled,
-    inventory: Inventory,
+    private readonly inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
     private readonly render: { readonly syllables: boolean } = { syllables: true },
@@ -60,7 +69,26 @@ export class MachineEngine implements Engine {
 
   transcribeWord(symbols: Word): Transcription | undefined {
     const e = this.encode(symbols);
-    return e === undefined ? undefined : this.transcribeIds(e.ids, e.bids);
+    if (e !== undefined) return this.transcribeIds(e.ids, e.bids);
+    return this.widened(symbols)?.transcribeWord(symbols);
+  }
+
+  /** The extended engine that accepts `symbols` (recompiled with their unseen segments), if any. */
+  private widened(symbols: Word): MachineEngine | undefined {
+    if (this.extend === undefined) return undefined;
+    const word = [WORD_EDGE, ...symbols, WORD_EDGE];
+    const current = this.extended;
+    if (current !== undefined && current.encode(symbols) !== undefined) return current;
+    const base = current ?? this;
+    const seen = new Set<string>();
+    const missing = [base.compiled.alphabet, base.broad.alphabet]
+      .flatMap((a) => segmentsOutside(a, this.inventory, [word]))
+      .filter((b) => { const k = b.join(""); return !seen.has(k) && seen.add(k) !== undefined; });
+    if (missing.length === 0) return undefined;
+    const next = this.extend([...(current?.extras ?? []), ...missing]);
+    if (next === undefined) return undefined;
+    this.extended = next;
+    return next.encode(symbols) !== undefined ? next : undefined;
   }
 
   /** The work a worker thread does: machines over encoded ids, IPA out. */
@@ -108,8 +136,9 @@ export function machineEngine(
   grammar: Grammar,
   inventory: Inventory,
   opts: MachineEngineOptions = {},
+  extraSegments: readonly Bundle[] = [],
 ): { engine?: MachineEngine; diagnostics: Diagnostic[] } {
-  const common = { ...(opts.cacheDir !== undefined ? { cacheDir: opts.cacheDir } : {}) };
+  const common = { ...(opts.cacheDir !== undefined ? { cacheDir: opts.cacheDir } : {}), ...(extraSegments.length > 0 ? { extraSegments } : {}) };
   const main = compileGrammar(grammar, inventory, { ...common, ...(opts.maxStates !== undefined ? { maxStates: opts.maxStates } : {}) });
   const diagnostics = [...main.diagnostics];
   if (main.compiled === null) return { diagnostics };
@@ -122,5 +151,7 @@ export function machineEngine(
   const broad = compileGrammar(prosodyOnly(grammar), inventory, common);
   if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
   const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true });
+  engine.extras = extraSegments;
+  engine.extend = (extra) => machineEngine(grammar, inventory, opts, extra).engine;
   return { engine, diagnostics };
 }

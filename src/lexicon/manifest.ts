@@ -1,9 +1,12 @@
 // The lexicon folder's manifest (varieties.json): which lexicon file to run and through which
-// grammars, one output folder per variety. Problems come back as positioned diagnostics.
+// grammars, one output folder per variety. Problems come back as positioned diagnostics: syntax
+// errors at the line and column of the error, value errors at the value.
 
 import { existsSync, readFileSync, statSync } from "node:fs";
 import { basename, dirname, join, resolve } from "node:path";
+import { findNodeAtLocation, getNodeValue, parseTree, type Node, type ParseError } from "jsonc-parser";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import { positionAt } from "../lines.js";
 
 export const MANIFEST_NAME = "varieties.json";
 
@@ -26,72 +29,125 @@ export interface Manifest {
   readonly varieties: readonly Variety[];
 }
 
-/** Line and column (1-based) of the first occurrence of `needle` in `text`, for messages about JSON values. */
-function locate(text: string, needle: string): { line: number; column: number } {
-  const at = text.indexOf(needle);
-  if (at < 0) return { line: 1, column: 1 };
-  const before = text.slice(0, at).split("\n");
-  return { line: before.length, column: [...before[before.length - 1]!].length + 1 };
-}
+/** What each syntax error of the JSON parser means (jsonc-parser's ParseErrorCode numbers). */
+const SYNTAX: Readonly<Record<number, string>> = {
+  1: "Unexpected character(s) here",
+  2: "This is not a valid JSON number",
+  3: "A property name in double quotes is expected here",
+  4: "A value is expected here",
+  5: "A colon ':' is expected here",
+  6: "A comma ',' is expected here",
+  7: "A closing brace '}' is expected here",
+  8: "A closing bracket ']' is expected here",
+  9: "Nothing may follow the end of the JSON value",
+  10: "Comments are not allowed in JSON",
+  11: "Comments are not allowed in JSON",
+  12: "The string is not closed",
+  13: "The number is not complete",
+  14: "This is not a valid \\u escape",
+  15: "This is not a valid escape in a JSON string",
+  16: "This character is not allowed in a JSON string (write it as an escape)",
+};
+
+/** Syntax errors shown per manifest (the rest are counted). */
+const MAX_SYNTAX_ERRORS = 20;
 
 const NAME = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
-/** Reads `DIR/varieties.json` (or the manifest file itself). */
+/** Whether a string is a well-formed BCP 47 language tag (the built-in Intl check). */
+function isLanguageTag(tag: string): boolean {
+  try {
+    return Intl.getCanonicalLocales(tag).length === 1;
+  } catch {
+    return false;
+  }
+}
+
+/** Reads `DIR/varieties.json` (or the manifest file itself). A BOM at its start is allowed. */
 export function loadManifest(dirOrFile: string): { manifest?: Manifest; diagnostics: Diagnostic[] } {
   const path = existsSync(dirOrFile) && statSync(dirOrFile).isDirectory() ? join(dirOrFile, MANIFEST_NAME) : dirOrFile;
   const file = resolve(path);
-  const at = (line = 1, column = 1, length = 1) => ({ file, line, column, length });
+  const at1 = { file, line: 1, column: 1 };
   if (!existsSync(file)) {
-    return { diagnostics: [diagnostic("error", "manifest/missing", `no ${MANIFEST_NAME} here: a lexicon folder declares its lexicon and varieties in ${MANIFEST_NAME}`, at())] };
+    return { diagnostics: [diagnostic("error", "manifest/missing", `There is no ${MANIFEST_NAME} here: a lexicon folder declares its lexicon and varieties in ${MANIFEST_NAME}.`, at1)] };
   }
-  const text = readFileSync(file, "utf8");
-  let raw: unknown;
+  let text: string;
   try {
-    raw = JSON.parse(text);
+    if (!statSync(file).isFile()) throw Object.assign(new Error("not a file"), { code: "EISDIR" });
+    text = readFileSync(file, "utf8");
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    const why = code === "EISDIR" ? "it is not a regular file" : code === "EACCES" ? "permission denied" : (e as Error).message;
+    return { diagnostics: [diagnostic("error", "manifest/unreadable", `Cannot read the manifest: ${why}.`, at1)] };
+  }
+  // Offsets below are into `json` (the text without its BOM); positions are computed on `text`.
+  const bom = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  const json = text.slice(bom);
+  const where = (offset: number, length = 1) => ({ file, ...positionAt(text, offset + bom), length: Math.max(1, length) });
+
+  const found: ParseError[] = [];
+  const tree = parseTree(json, found, { disallowComments: true, allowTrailingComma: false, allowEmptyContent: false });
+  // The parser may report a consequence of one error at the same place: one error per place.
+  const errors = found.filter((e, i) => i === 0 || e.offset !== found[i - 1]!.offset);
+  if (errors.length > 0 || tree === undefined) {
+    const ds = errors.slice(0, MAX_SYNTAX_ERRORS).map((e) => diagnostic("error", "manifest/json", `Not valid JSON: ${SYNTAX[e.error] ?? "a syntax error"}.`, where(e.offset, e.length)));
+    if (errors.length > MAX_SYNTAX_ERRORS) ds.push(diagnostic("error", "manifest/json", `… and ${errors.length - MAX_SYNTAX_ERRORS} more JSON syntax errors.`, where(errors[MAX_SYNTAX_ERRORS]!.offset)));
+    if (ds.length === 0) ds.push(diagnostic("error", "manifest/json", "Not valid JSON: the file is empty.", where(0)));
+    return { diagnostics: ds };
+  }
+  // What this parser accepts and JSON.parse does not would be a difference between two JSON readers: refuse it too.
+  try {
+    JSON.parse(json);
   } catch (err) {
     const m = /position (\d+)/.exec(String(err));
-    const pos = m ? locate(text, text.slice(Number(m[1]), Number(m[1]) + 1)) : { line: 1, column: 1 };
-    return { diagnostics: [diagnostic("error", "manifest/json", `not valid JSON: ${(err as Error).message}`, at(pos.line, pos.column))] };
+    return { diagnostics: [diagnostic("error", "manifest/json", `Not valid JSON: ${(err as Error).message}.`, where(m ? Number(m[1]) : 0))] };
   }
+
   const ds: Diagnostic[] = [];
   const dir = dirname(file);
-  const obj = (raw ?? {}) as Record<string, unknown>;
+  const node = (...p: (string | number)[]): Node | undefined => findNodeAtLocation(tree, p);
+  const at = (n: Node | undefined) => (n === undefined ? where(tree.offset) : where(n.offset, n.length));
+  if (tree.type !== "object") {
+    return { diagnostics: [diagnostic("error", "manifest/shape", `The manifest must be a JSON object with "lexicon" and "varieties".`, at(tree))] };
+  }
+  const obj = getNodeValue(tree) as Record<string, unknown>;
+  const lexiconNode = node("lexicon");
   if (typeof obj["lexicon"] !== "string" || obj["lexicon"] === "") {
-    ds.push(diagnostic("error", "manifest/lexicon", `"lexicon" must name the lexicon CSV file (relative to this folder)`, at()));
+    ds.push(diagnostic("error", "manifest/lexicon", `"lexicon" must name the lexicon CSV file (relative to this folder).`, at(lexiconNode)));
   }
   const lexicon = typeof obj["lexicon"] === "string" ? resolve(dir, obj["lexicon"]) : "";
   if (lexicon !== "" && !existsSync(lexicon)) {
-    const p = locate(text, JSON.stringify(obj["lexicon"]));
-    ds.push(diagnostic("error", "manifest/lexicon-missing", `lexicon file ${lexicon} does not exist`, at(p.line, p.column, String(obj["lexicon"]).length + 2)));
+    ds.push(diagnostic("error", "manifest/lexicon-missing", `The lexicon file ${lexicon} does not exist.`, at(lexiconNode)));
   }
   const varieties: Variety[] = [];
   const list = obj["varieties"];
   if (!Array.isArray(list) || list.length === 0) {
-    ds.push(diagnostic("error", "manifest/varieties", `"varieties" must be a non-empty list of { "name", "lang", "grammar" }`, at()));
+    ds.push(diagnostic("error", "manifest/varieties", `"varieties" must be a non-empty list of { "name", "lang", "grammar" }.`, at(node("varieties"))));
   } else {
-    const seen = new Set<string>();
+    const seen = new Map<string, number>();
     list.forEach((v: unknown, i: number) => {
-      const o = (v ?? {}) as Record<string, unknown>;
+      const o = (v !== null && typeof v === "object" ? v : {}) as Record<string, unknown>;
       const name = o["name"];
       const lang = o["lang"];
       const grammar = o["grammar"];
-      const where = typeof name === "string" ? locate(text, JSON.stringify(name)) : { line: 1, column: 1 };
-      const pos = at(where.line, where.column);
+      const pos = at(node("varieties", i, "name") ?? node("varieties", i));
       if (typeof name !== "string" || !NAME.test(name)) {
-        ds.push(diagnostic("error", "manifest/variety-name", `variety ${i + 1}: "name" must be a simple folder name (letters, digits, . _ -)`, pos));
+        ds.push(diagnostic("error", "manifest/variety-name", `Variety ${i + 1}: "name" must be a simple folder name (letters, digits, . _ -).`, pos));
         return;
       }
-      if (seen.has(name)) ds.push(diagnostic("error", "manifest/duplicate-variety", `variety '${name}' is declared twice`, pos));
-      seen.add(name);
-      if (typeof lang !== "string" || lang === "") ds.push(diagnostic("error", "manifest/lang", `variety '${name}': "lang" must be a BCP 47 tag such as "en-US"`, pos));
+      const before = seen.get(name);
+      if (before !== undefined) ds.push(diagnostic("error", "manifest/duplicate-variety", `The variety '${name}' is declared twice (first as variety ${before}).`, pos));
+      seen.set(name, i + 1);
+      if (typeof lang !== "string" || lang === "" || !isLanguageTag(lang)) {
+        ds.push(diagnostic("error", "manifest/lang", `Variety '${name}': "lang" must be a BCP 47 tag such as "en-US".`, at(node("varieties", i, "lang") ?? node("varieties", i))));
+      }
       if (typeof grammar !== "string" || grammar === "") {
-        ds.push(diagnostic("error", "manifest/grammar", `variety '${name}': "grammar" must name a .strata file (relative to this folder)`, pos));
+        ds.push(diagnostic("error", "manifest/grammar", `Variety '${name}': "grammar" must name a .strata file (relative to this folder).`, at(node("varieties", i, "grammar") ?? node("varieties", i))));
         return;
       }
       const g = resolve(dir, grammar);
       if (!existsSync(g)) {
-        const gp = locate(text, JSON.stringify(grammar));
-        ds.push(diagnostic("error", "manifest/grammar-missing", `variety '${name}': grammar ${g} does not exist`, at(gp.line, gp.column, grammar.length + 2)));
+        ds.push(diagnostic("error", "manifest/grammar-missing", `Variety '${name}': the grammar ${g} does not exist.`, at(node("varieties", i, "grammar"))));
       }
       varieties.push({ name, lang: typeof lang === "string" ? lang : "", grammar: g });
     });

@@ -2,30 +2,46 @@
 // tags, note) into symbol strings for the runner, and every row it cannot read into a positioned reject.
 
 import { createReadStream } from "node:fs";
-import { Readable } from "node:stream";
+import type { Readable } from "node:stream";
 import { StringDecoder } from "node:string_decoder";
-import { parse } from "csv-parse";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { tokenise } from "../inventory/index.js";
-import type { Bundle, FeatureValue, Inventory, PronToken } from "../inventory/types.js";
-import { SYLLABLE_EDGE, WORD_EDGE, segment } from "../interp/types.js";
-import type { Sym, Word } from "../interp/types.js";
-import { writeFileAtomic } from "../emit/atomic.js";
-import { csvLine } from "../emit/csv.js";
+import type { Inventory } from "../inventory/types.js";
+import type { Word } from "../interp/types.js";
+import { checkQuoting, columnInField, findForbidden } from "./fields.js";
+import type { Field } from "./fields.js";
+import { RecordSplitter } from "./records.js";
+import type { SourceRecord } from "./records.js";
+import { applyStress } from "./stress.js";
+
+export { checkQuoting, columnInField, findForbidden } from "./fields.js";
+export type { Field, FieldSpan, QuoteCheck } from "./fields.js";
+export { applyStress } from "./stress.js";
+export type { StressResult } from "./stress.js";
+export { REJECT_COLUMNS, formatRejectLine, writeRejects } from "./rejects.js";
+export { splitRecords, RecordSplitter } from "./records.js";
+export type { SourceRecord, RecordKind } from "./records.js";
 
 /*
- * The file format:
- * - UTF-8, with or without a byte-order mark; lines end in LF or CRLF.
- * - A line whose very first character is `#` is a comment; a line of only white space is blank.
+ * The file format (README, "The lexicon file"):
+ * - UTF-8, with or without a byte-order mark; lines end in CR LF, LF or a lone CR (src/lines.ts).
+ * - Records: one per line, except that a lone CR inside a quoted field does not end the record
+ *   (RFC 4180); an LF always does, so a broken quote costs one row, never the rest of the file
+ *   (records.ts has the exact grammar).
+ * - A line whose very first character is `#` is a comment; a line of only spaces and tabs is blank.
  *   Both are skipped. `#` anywhere else is data (in a pronunciation it is the word break of a
  *   phrase), so a word that itself starts with `#` must be quoted.
- * - The first other line is the header. `word` and `pron` are required; `id`, `pos`, `tags` and
+ * - The first other record is the header. `word` and `pron` are required; `id`, `pos`, `tags` and
  *   `note` are optional; any other column is kept out of the rows with a warning.
- * - Every other line is one row (RFC 4180 fields: comma-separated, `"`-quoted with `""` for a quote;
- *   a `"` inside an unquoted field is an ordinary character). A record is one physical line: a
- *   quoted field cannot span lines, so a broken quote costs one row, never the rest of the file.
+ * - Every other record is one row (RFC 4180 fields: comma-separated, `"`-quoted with `""` for a
+ *   quote; a `"` inside an unquoted field is an ordinary character).
+ * - No field holds a control character (tab excepted), a NUL, a byte-order mark, U+FFFD or a
+ *   non-character (fields.ts): such a row is rejected at the character.
  * - Several rows with the same word are that word's alternative pronunciations, in file order.
+ * - An `id`, when given, is unique in the file: a second row with the same id is rejected
+ *   (`lexicon/duplicate-id`, naming the line of the first).
+ * Every data record ends up as exactly one row or one reject, in file order.
  */
 
 /** The columns the reader knows. */
@@ -36,7 +52,7 @@ export type LexiconColumn = (typeof LEXICON_COLUMNS)[number];
 export interface LexiconRow {
   readonly kind: "row";
   readonly file: string;
-  /** 1-based physical line of the row. */
+  /** 1-based physical line the row starts on. */
   readonly line: number;
   /** The spelling, trimmed, NFC. */
   readonly word: string;
@@ -55,6 +71,8 @@ export interface LexiconRow {
    * prosodic features (DEVELOPERS.md, "The string every stage sees").
    */
   readonly symbols: Word;
+  /** The whole record as read (no line end), for rejects made later (e.g. by the runner). */
+  readonly raw: string;
   /** Whether the pronunciation had any stress mark (if not, every nucleus is [0stress 0primary]). */
   readonly stressMarked: boolean;
 }
@@ -63,12 +81,13 @@ export interface LexiconRow {
 export interface RejectedRow {
   readonly kind: "reject";
   readonly file: string;
+  /** Line and column (1-based; columns count code points) of the problem. */
   readonly line: number;
   readonly column: number;
   /** Stable code, e.g. "lexicon/empty-pron", "ipa/unknown-symbol". */
   readonly code: string;
   readonly reason: string;
-  /** The whole physical line as read (no line break; the BOM removed on line 1). */
+  /** The whole record as read (no line end; the BOM removed on line 1); it holds a CR only when one was inside a quoted field. */
   readonly raw: string;
 }
 
@@ -76,17 +95,20 @@ export type LexiconItem = LexiconRow | RejectedRow;
 
 /** Counts of one read; final once iteration has finished. */
 export interface ReadStats {
-  /** Physical lines in the file. */
+  /** Physical lines in the file (src/lines.ts: CR LF, LF and a lone CR each end one). */
   lines: number;
   blankLines: number;
   commentLines: number;
   /** Line of the header, 0 if none was found. */
   headerLine: number;
-  /** Lines after the header that hold data: always rows + rejects once reading has finished. */
+  /**
+   * Data records after the header (one per line, but a record with a CR inside a quoted field spans
+   * two lines): always rows + rejects once reading has finished.
+   */
   dataLines: number;
   rows: number;
   rejects: number;
-  /** Most physical lines held in memory at once (bounded by stream buffers, not by file size). */
+  /** Most records held in memory at once (bounded by stream buffers, not by file size). */
   maxInFlight: number;
 }
 
@@ -108,82 +130,6 @@ export interface LexiconReader extends AsyncIterable<LexiconItem> {
 export const rejectDiagnostic = (r: RejectedRow): Diagnostic =>
   diagnostic("error", r.code, r.reason, { file: r.file, line: r.line, column: r.column });
 
-// ---------------------------------------------------------------------------------------------
-// Physical lines and quoting
-
-interface LineInfo {
-  readonly line: number;
-  readonly raw: string;
-  /** Per field: 1-based column of the first character of its value, and whether it was quoted. */
-  readonly fields: readonly { readonly column: number; readonly quoted: boolean }[];
-}
-
-type QuoteCheck =
-  | { readonly ok: true; readonly fields: LineInfo["fields"] }
-  | { readonly ok: false; readonly column: number; readonly code: string; readonly reason: string };
-
-/**
- * Checks one line against RFC 4180 §2 quoting (as csv-parse reads it with `relax_quotes`), and finds
- * where each field's value starts. Columns count code points from 1.
- */
-export function checkQuoting(raw: string): QuoteCheck {
-  // Scan UTF-16 units; columns are code points, so count surrogate pairs once (only when there are any).
-  const col = /[\ud800-\udfff]/.test(raw) ? (i: number): number => Array.from(raw.slice(0, i)).length + 1 : (i: number): number => i + 1;
-  const QUOTE = 34;
-  const COMMA = 44;
-  const n = raw.length;
-  const fields: { column: number; quoted: boolean }[] = [];
-  let i = 0;
-  for (;;) {
-    if (raw.charCodeAt(i) === QUOTE) {
-      const open = i;
-      fields.push({ column: col(i) + 1, quoted: true });
-      i++;
-      for (;;) {
-        if (i >= n) {
-          const c = col(open);
-          return { ok: false, column: c, code: "lexicon/unclosed-quote", reason: `The quoted field that starts at column ${c} is not closed on this line (a field cannot span lines).` };
-        }
-        if (raw.charCodeAt(i) === QUOTE) {
-          if (raw.charCodeAt(i + 1) === QUOTE) {
-            i += 2;
-            continue;
-          }
-          i++;
-          break;
-        }
-        i++;
-      }
-      if (i < n && raw.charCodeAt(i) !== COMMA) {
-        const ch = String.fromCodePoint(raw.codePointAt(i)!);
-        return { ok: false, column: col(i), code: "lexicon/text-after-quote", reason: `Unexpected '${ch}' after the closing quote of a field; write a quote inside a quoted field as "".` };
-      }
-    } else {
-      fields.push({ column: col(i), quoted: false });
-      const comma = raw.indexOf(",", i);
-      i = comma < 0 ? n : comma;
-    }
-    if (i >= n) return { ok: true, fields };
-    i++; // the comma
-    if (i === n) {
-      fields.push({ column: col(i), quoted: false });
-      return { ok: true, fields };
-    }
-  }
-}
-
-/**
- * The column (1-based) on the physical line of the character at code-point `offset` of a field's
- * value: inside a quoted field every `""` before it counts two columns.
- */
-function columnInField(raw: string, field: { column: number; quoted: boolean }, offset: number): number {
-  if (!field.quoted) return field.column + offset;
-  const cps = Array.from(raw);
-  let col = field.column;
-  for (let k = 0; k < offset; k++) col += cps[col - 1] === '"' ? 2 : 1;
-  return col;
-}
-
 /** Text chunks of the source, decoded as UTF-8 (a multi-byte character split across chunks is kept whole). */
 async function* textChunks(source: NodeJS.ReadableStream): AsyncGenerator<string> {
   const decoder = new StringDecoder("utf8");
@@ -195,133 +141,30 @@ async function* textChunks(source: NodeJS.ReadableStream): AsyncGenerator<string
   if (rest !== "") yield rest;
 }
 
-/** Lines forwarded to csv-parse in one write at most (bounds the lines in flight; fewer, larger writes are faster). */
-const BATCH_LINES = 256;
-
-/**
- * Physical lines, in batches (the complete lines of one input chunk, at most BATCH_LINES each):
- * split at LF, a CR before the LF dropped, the BOM removed from line 1.
- */
-async function* physicalLines(chunks: AsyncIterable<string>): AsyncGenerator<string[]> {
-  let carry = "";
-  let first = true;
-  for await (const chunk of chunks) {
-    let text = carry + chunk;
-    if (first && text.length > 0) {
-      if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
-      first = false;
-    }
-    let start = 0;
-    let batch: string[] = [];
-    for (;;) {
-      const nl = text.indexOf("\n", start);
-      if (nl < 0) break;
-      const end = nl > start && text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
-      batch.push(text.slice(start, end));
-      if (batch.length === BATCH_LINES) {
-        yield batch;
-        batch = [];
-      }
-      start = nl + 1;
-    }
-    if (batch.length > 0) yield batch;
-    carry = text.slice(start);
-  }
-  if (carry !== "") yield [carry.endsWith("\r") ? carry.slice(0, -1) : carry];
+/** One record with its fields, as the row reader sees it. */
+interface LineInfo {
+  readonly line: number;
+  readonly raw: string;
+  readonly fields: readonly Field[];
 }
 
-// ---------------------------------------------------------------------------------------------
-// Stress marks → prosodic features
-
-type StressResult =
-  | { readonly ok: true; readonly symbols: Word; readonly marked: boolean }
-  | { readonly ok: false; readonly column: number; readonly code: string; readonly reason: string };
-
-/**
- * Turns tokens into symbols. A stress mark sets [+stress +primary] (ˈ) or [+stress -primary] (ˌ) on
- * the next nucleus ([+syllabic] segment) of the same word; if the pronunciation has any mark, every
- * other nucleus is [-stress -primary]; with no mark every nucleus keeps [0stress 0primary]
- * (DEVELOPERS.md, "The string every stage sees"). `column` of a failure is an offset-free column.
- */
-export function applyStress(inv: Inventory, tokens: readonly PronToken[]): StressResult {
-  const syllabic = inv.featureIndex.get("syllabic");
-  const stressF = inv.featureIndex.get("stress");
-  const primaryF = inv.featureIndex.get("primary");
-  if (syllabic === undefined || stressF === undefined || primaryF === undefined) {
-    const missing = syllabic === undefined ? "syllabic" : stressF === undefined ? "stress" : "primary";
-    return { ok: false, column: tokens[0]?.column ?? 1, code: "lexicon/no-feature", reason: `The inventory has no feature '${missing}', needed to place stress.` };
-  }
-  const marked = tokens.some((t) => t.kind === "stress");
-  const out: Sym[] = [];
-  let pending: { level: "primary" | "secondary"; column: number } | undefined;
-  let wordHasSegment = false;
-  let lastWordBreak: number | undefined;
-  const withStress = (b: Bundle, s: FeatureValue, p: FeatureValue): Bundle => {
-    if (b[stressF] === s && b[primaryF] === p) return b;
-    const c = b.slice();
-    c[stressF] = s;
-    c[primaryF] = p;
-    return c;
-  };
-  for (const t of tokens) {
-    switch (t.kind) {
-      case "stress":
-        if (pending !== undefined) {
-          return { ok: false, column: t.column, code: "lexicon/double-stress", reason: `A second stress mark before the vowel that the mark at column ${pending.column} already stresses.` };
-        }
-        pending = { level: t.level, column: t.column };
-        break;
-      case "segment": {
-        wordHasSegment = true;
-        let b = t.bundle;
-        if (b[syllabic] === "+") {
-          if (pending !== undefined) b = withStress(b, "+", pending.level === "primary" ? "+" : "-");
-          else if (marked) b = withStress(b, "-", "-");
-          pending = undefined;
-        }
-        out.push(segment(b));
-        break;
-      }
-      case "syllable":
-        out.push(SYLLABLE_EDGE);
-        break;
-      case "word":
-        if (pending !== undefined) return noVowel(pending);
-        if (!wordHasSegment) {
-          return { ok: false, column: t.column, code: "lexicon/empty-phrase-word", reason: "A word break '#' must stand between two words of a phrase." };
-        }
-        wordHasSegment = false;
-        lastWordBreak = t.column;
-        out.push(WORD_EDGE);
-        break;
-      default: {
-        const never: never = t;
-        return never;
-      }
-    }
-  }
-  if (pending !== undefined) return noVowel(pending);
-  if (!wordHasSegment && lastWordBreak !== undefined) {
-    return { ok: false, column: lastWordBreak, code: "lexicon/empty-phrase-word", reason: "A word break '#' must stand between two words of a phrase." };
-  }
-  return { ok: true, symbols: out, marked };
+/** Opens a file for reading, or says why it cannot be read. */
+async function openFile(path: string): Promise<{ stream: NodeJS.ReadableStream } | { why: string }> {
+  const s = createReadStream(path);
+  const opened = await new Promise<Error | undefined>((resolve) => {
+    s.once("open", () => resolve(undefined));
+    s.once("error", (e) => resolve(e));
+  });
+  if (opened === undefined) return { stream: s };
+  const code = (opened as NodeJS.ErrnoException).code;
+  return { why: code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : opened.message };
 }
 
-const noVowel = (p: { level: string; column: number }): StressResult => ({
-  ok: false,
-  column: p.column,
-  code: "lexicon/stress-without-vowel",
-  reason: `The ${p.level} stress mark is not followed by a vowel (a [+syllabic] segment) in the same word.`,
-});
-
-// ---------------------------------------------------------------------------------------------
-// The reader
-
 /**
- * Reads a lexicon CSV file (or stream) row by row. Streams with csv-parse; memory does not grow with
- * the number of rows. Every data line ends up as exactly one LexiconRow or RejectedRow, in line order.
- * A file-level error (unreadable file, no header, missing `word`/`pron` column) is put in
- * `diagnostics` and ends the iteration.
+ * Reads a lexicon CSV file (or stream) row by row, streaming: memory does not grow with the number
+ * of rows (ids are remembered, to find duplicates). Every data record ends up as exactly one
+ * LexiconRow or RejectedRow, in file order. A file-level error (unreadable file, no header, a header
+ * that cannot be read or lacks `word`/`pron`) is put in `diagnostics` (all of them) and ends the iteration.
  */
 export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOptions): LexiconReader {
   const file = typeof source === "string" ? source : (opts.file ?? "<stdin>");
@@ -332,140 +175,45 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
   async function* iterate(): AsyncGenerator<LexiconItem> {
     let stream: NodeJS.ReadableStream;
     if (typeof source === "string") {
-      const s = createReadStream(source);
-      const opened = await new Promise<Error | undefined>((resolve) => {
-        s.once("open", () => resolve(undefined));
-        s.once("error", (e) => resolve(e));
-      });
-      if (opened !== undefined) {
-        const code = (opened as NodeJS.ErrnoException).code;
-        const why = code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : opened.message;
-        diagnostics.push(diagnostic("error", "lexicon/unreadable", `Cannot read the lexicon: ${why}.`, { file, line: 1, column: 1 }));
+      const o = await openFile(source);
+      if ("why" in o) {
+        diagnostics.push(diagnostic("error", "lexicon/unreadable", `Cannot read the lexicon: ${o.why}.`, { file, line: 1, column: 1 }));
         return;
       }
-      stream = s;
+      stream = o.stream;
     } else {
       stream = source;
     }
+    const splitter = new RecordSplitter();
+    let header: { map: Map<LexiconColumn, number>; fields: number } | undefined;
+    let headerFailed = false;
+    const ids = new Map<string, number>();
+    const reject = (line: number, column: number, code: string, reason: string, raw: string): RejectedRow => ({ kind: "reject", file, line, column, code, reason, raw });
 
-    // Lines forwarded to csv-parse and not yet consumed, by line number (insertion = line order).
-    const inFlight = new Map<number, LineInfo>();
-    // Rejects found before csv-parse (quoting, encoding), in line order; drained by line number.
-    const early: RejectedRow[] = [];
-    let headerPending = true;
-    let fatal: Diagnostic | undefined;
-    let readError: Error | undefined;
-
-    // Blank, comment and early-rejected lines are forwarded as empty lines so that csv-parse's own line
-    // count stays equal to the physical line number (it skips empty lines).
-    async function* forward(): AsyncGenerator<string> {
-      try {
-        for await (const batch of physicalLines(textChunks(stream))) {
-          let out = "";
-          for (const raw of batch) {
-            const line = ++stats.lines;
-            if (raw.startsWith("#")) {
-              stats.commentLines++;
-              out += "\n";
-              continue;
-            }
-            if (raw.trim() === "") {
-              stats.blankLines++;
-              out += "\n";
-              continue;
-            }
-            const q = checkQuoting(raw);
-            if (headerPending) {
-              headerPending = false;
-              stats.headerLine = line;
-              const cr = raw.indexOf("\r");
-              if (cr >= 0) {
-                fatal = diagnostic("error", "lexicon/cr-line-ends", "The lines of this file end in a bare carriage return (CR); Strata reads lines that end in LF or CRLF.", { file, line, column: Array.from(raw.slice(0, cr)).length + 1 });
-                if (out !== "") yield out;
-                return;
-              }
-              if (!q.ok) {
-                fatal = diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line, column: q.column });
-                if (out !== "") yield out;
-                return;
-              }
-            } else {
-              stats.dataLines++;
-              const bad = raw.indexOf("\ufffd");
-              if (bad >= 0) {
-                early.push(reject(line, Array.from(raw.slice(0, bad)).length + 1, "lexicon/bad-encoding", "This line is not valid UTF-8 (U+FFFD stands for bytes that could not be decoded).", raw));
-                out += "\n";
-                continue;
-              }
-              if (!q.ok) {
-                early.push(reject(line, q.column, q.code, q.reason, raw));
-                out += "\n";
-                continue;
-              }
-            }
-            inFlight.set(line, { line, raw, fields: q.ok ? q.fields : [] });
-            if (inFlight.size > stats.maxInFlight) stats.maxInFlight = inFlight.size;
-            out += raw + "\n";
-          }
-          yield out;
-        }
-      } catch (e) {
-        readError = e as Error;
+    /** One record: a row or a reject for a data record, nothing otherwise (header, comment, blank). */
+    const take = (rec: SourceRecord): LexiconItem | undefined => {
+      if (rec.kind === "comment") {
+        stats.commentLines++;
+        return undefined;
       }
-    }
-
-    const reject = (line: number, column: number, code: string, reason: string, raw: string): RejectedRow => ({
-      kind: "reject", file, line, column, code, reason, raw,
-    });
-
-    // With `info: true` csv-parse gives each record with a snapshot of its counters; `info.lines` is the
-    // line the record ends on, which is its physical line since a record never spans lines here.
-    interface Parsed {
-      readonly info: { readonly lines: number };
-      readonly record: readonly string[];
-    }
-    const parser = parse({
-      info: true,
-      record_delimiter: "\n",
-      relax_quotes: true,
-      relax_column_count: true,
-      skip_empty_lines: true,
-      skip_records_with_error: true,
-      on_skip: (err) => {
-        // Cannot happen for lines that passed checkQuoting; kept so that no line is ever lost silently.
-        const line = typeof err?.["lines"] === "number" ? (err["lines"] as number) : stats.lines;
-        const info = inFlight.get(line);
-        inFlight.delete(line);
-        early.push(reject(line, 1, "lexicon/csv", `This line cannot be read as CSV: ${err?.message ?? "unknown error"}.`, info?.raw ?? ""));
-        early.sort((a, b) => a.line - b.line);
-      },
-    });
-    const input = Readable.from(forward(), { highWaterMark: 2 });
-    input.pipe(parser);
-
-    let header: Map<LexiconColumn, number> | undefined;
-    let headerFields = 0;
-
-    // Everything (early rejects, lost lines) that belongs before line `upTo`, in line order.
-    function* drain(upTo: number): Generator<RejectedRow> {
-      for (;;) {
-        const e = early[0];
-        const lost = inFlight.keys().next();
-        const lostLine = lost.done ? Infinity : lost.value;
-        const earlyLine = e?.line ?? Infinity;
-        const next = Math.min(earlyLine, lostLine);
-        if (next >= upTo) return;
-        if (earlyLine <= lostLine) {
-          early.shift();
-          yield e!;
-        } else {
-          const info = inFlight.get(lostLine)!;
-          inFlight.delete(lostLine);
-          yield reject(lostLine, 1, "lexicon/csv", "This line could not be read as a CSV record.", info.raw);
-        }
+      if (rec.kind === "blank") {
+        stats.blankLines++;
+        return undefined;
       }
-    }
-
+      if (header === undefined) {
+        stats.headerLine = rec.line;
+        const h = readHeaderRecord(rec, file, diagnostics);
+        if (h === undefined) headerFailed = true;
+        else header = h;
+        return undefined;
+      }
+      stats.dataLines++;
+      const bad = findForbidden(rec.raw);
+      if (bad !== undefined) return reject(rec.line, bad.column, bad.code, bad.reason, rec.raw);
+      const q = checkQuoting(rec.raw);
+      if (!q.ok) return reject(rec.line, q.column, q.code, q.reason, rec.raw);
+      return readRow(inv, file, { line: rec.line, raw: rec.raw, fields: q.fields }, q.fields.map((f) => f.value), header.map, header.fields, ids);
+    };
     const count = (item: LexiconItem): LexiconItem => {
       if (item.kind === "row") stats.rows++;
       else stats.rejects++;
@@ -473,40 +221,29 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     };
 
     try {
-      for await (const parsed of parser as AsyncIterable<Parsed>) {
-        const rec = { line: parsed.info.lines, fields: parsed.record };
-        const info = inFlight.get(rec.line);
-        if (info === undefined) continue; // defensive: a record for a line we never forwarded
-        if (header === undefined) {
-          inFlight.delete(rec.line);
-          const h = readHeader(rec.fields, info, file, diagnostics);
-          if (h === undefined) return;
-          header = h;
-          headerFields = rec.fields.length;
-          continue;
+      for await (const chunk of textChunks(stream)) {
+        const recs = splitter.push(chunk);
+        if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
+        for (const rec of recs) {
+          const item = take(rec);
+          if (headerFailed) return;
+          if (item !== undefined) yield count(item);
         }
-        for (const r of drain(rec.line)) yield count(r);
-        inFlight.delete(rec.line);
-        yield count(readRow(inv, file, info, rec.fields, header, headerFields));
       }
-      if (fatal !== undefined) {
-        diagnostics.push(fatal);
-        return;
+      for (const rec of splitter.end()) {
+        const item = take(rec);
+        if (headerFailed) return;
+        if (item !== undefined) yield count(item);
       }
-      if (readError !== undefined) {
-        diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed: ${readError.message}.`, { file, line: stats.lines + 1, column: 1 }));
-        return;
-      }
-      if (header === undefined) {
-        diagnostics.push(diagnostic("error", "lexicon/no-header", "The lexicon has no header line (expected at least the columns word and pron).", { file, line: 1, column: 1 }));
-        return;
-      }
-      for (const r of drain(Infinity)) yield count(r);
+    } catch (e) {
+      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed: ${(e as Error).message}.`, { file, line: splitter.lines + 1, column: 1 }));
+      return;
     } finally {
-      input.unpipe(parser);
-      input.destroy();
-      parser.destroy();
+      stats.lines = splitter.lines;
       if (typeof source === "string") (stream as unknown as Readable).destroy();
+    }
+    if (header === undefined) {
+      diagnostics.push(diagnostic("error", "lexicon/no-header", "The lexicon has no header line (expected at least the columns word and pron).", { file, line: 1, column: 1 }));
     }
   }
 
@@ -515,6 +252,22 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     stats,
     [Symbol.asyncIterator]: () => iterate(),
   };
+}
+
+/** Reads the header record; returns the column map and field count, or undefined after adding every error found. */
+function readHeaderRecord(rec: SourceRecord, file: string, out: Diagnostic[]): { map: Map<LexiconColumn, number>; fields: number } | undefined {
+  const bad = findForbidden(rec.raw);
+  if (bad !== undefined) {
+    out.push(diagnostic("error", bad.code, `The header line cannot be read: ${bad.reason}`, { file, line: rec.line, column: bad.column }));
+    return undefined;
+  }
+  const q = checkQuoting(rec.raw);
+  if (!q.ok) {
+    out.push(diagnostic("error", q.code, `The header line cannot be read: ${q.reason}`, { file, line: rec.line, column: q.column }));
+    return undefined;
+  }
+  const map = readHeader(q.fields.map((f) => f.value), { line: rec.line, raw: rec.raw, fields: q.fields }, file, out);
+  return map === undefined ? undefined : { map, fields: q.fields.length };
 }
 
 /** Reads the header record; returns the column map, or undefined after adding an error. */
@@ -553,6 +306,7 @@ function readRow(
   fields: readonly string[],
   header: ReadonlyMap<LexiconColumn, number>,
   headerFields: number,
+  ids: Map<string, number>,
 ): LexiconItem {
   const reject = (column: number, code: string, reason: string): RejectedRow => ({ kind: "reject", file, line: info.line, column, code, reason, raw: info.raw });
   if (fields.length > headerFields) {
@@ -567,6 +321,12 @@ function readRow(
     const i = header.get(c);
     return (i !== undefined ? info.fields[i]?.column : undefined) ?? Array.from(info.raw).length + 1;
   };
+  const id = get("id")?.trim();
+  if (id !== undefined && id !== "") {
+    const first = ids.get(id);
+    if (first !== undefined) return reject(colOf("id"), "lexicon/duplicate-id", `The id '${id}' is already used on line ${first}; ids must be unique in the file.`);
+    ids.set(id, info.line);
+  }
   const word = (get("word") ?? "").trim().normalize("NFC");
   if (word === "") return reject(colOf("word"), "lexicon/empty-word", "The word is empty.");
   const pron = get("pron") ?? "";
@@ -589,6 +349,7 @@ function readRow(
     kind: "row",
     file,
     line: info.line,
+    raw: info.raw,
     word,
     pron,
     pronColumn: pronField.column,
@@ -604,31 +365,3 @@ function readRow(
 
 const optional = <K extends string>(k: K, v: string | undefined): { [P in K]?: string } =>
   (v === undefined ? {} : { [k]: v }) as { [P in K]?: string };
-
-// ---------------------------------------------------------------------------------------------
-// Rejects file
-
-/** The rejects file's columns. `raw` is the rejected line exactly as read. */
-export const REJECT_COLUMNS = ["file", "line", "column", "code", "reason", "raw"] as const;
-
-/** One reject as one CSV record (LF-terminated). */
-export function formatRejectLine(r: RejectedRow): string {
-  return csvLine([r.file, String(r.line), String(r.column), r.code, r.reason, r.raw]);
-}
-
-/**
- * Writes the rejects as CSV (header `file,line,column,code,reason,raw`), atomically.
- * Returns how many rejects were written.
- */
-export async function writeRejects(path: string, rejects: Iterable<RejectedRow> | AsyncIterable<RejectedRow>): Promise<number> {
-  let n = 0;
-  async function* lines(): AsyncGenerator<string> {
-    yield csvLine([...REJECT_COLUMNS]);
-    for await (const r of rejects) {
-      n++;
-      yield formatRejectLine(r);
-    }
-  }
-  await writeFileAtomic(path, lines());
-  return n;
-}

@@ -1,8 +1,8 @@
 // The batch runner: a lexicon through one variety's compiled grammar, rows in file order, into
 // TSV, JSON Lines and PLS written whole, a rejects file, and a summary that reconciles every row.
 
-import { join } from "node:path";
-import { formatDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { dirname, join } from "node:path";
+import { capPerFile, formatDiagnostic, type Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { formatJsonLine } from "../emit/jsonl.js";
 import { writePls, type PlsEntry } from "../emit/pls.js";
@@ -13,6 +13,10 @@ import type { Engine, EntryResult, Transcription } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
+import { stageFolder } from "./outdir.js";
+import { countInputRecords, countWritten, reconcile } from "./reconcile.js";
+import { outputError, relativeTo, summaryJson } from "./summary.js";
+import { unwritableEntry } from "./writable.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
@@ -24,6 +28,8 @@ export interface RunOptions {
   readonly progressEvery?: number;
   /** Worker threads to spread the machines' work over (output identical to one thread). */
   readonly pool?: WorkerPool;
+  /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
+  readonly sourceRoot?: string;
 }
 
 export interface RunSummary {
@@ -43,10 +49,12 @@ export interface RunSummary {
   readonly changedBy: readonly { readonly step: string; readonly entries: number }[];
   readonly files: Readonly<Record<string, string>>;
   readonly diagnostics: readonly Diagnostic[];
-  /** Outputs that could not be written (e.g. a character XML 1.0 does not allow, for PLS); that file is absent. */
+  /** The lexicon file's own problems (unreadable, header): every one, capped per file with a count of the rest. */
+  readonly fileDiagnostics: readonly Diagnostic[];
+  /** Why the variety's outputs were not replaced (a path that cannot be written, rows that do not reconcile); empty on success. */
   readonly outputErrors: readonly Diagnostic[];
   readonly seconds: number;
-  /** rowsRead === entriesWritten + rowsRejected. */
+  /** The written files account for every input record exactly once (lexicon/reconcile.ts). */
   readonly reconciled: boolean;
 }
 
@@ -54,7 +62,7 @@ export interface RunSummary {
 function outsideAlphabet(row: LexiconRow): RejectedRow {
   return {
     kind: "reject", file: row.file, line: row.line, column: row.pronColumn, code: "run/outside-alphabet",
-    reason: "the compiled grammar does not accept this pronunciation (a symbol outside its alphabet)", raw: `${row.word},${row.pron}`,
+    reason: "the compiled grammar does not accept this pronunciation (a symbol outside its alphabet)", raw: row.raw,
   };
 }
 
@@ -71,13 +79,17 @@ const BATCH = 1024;
 export function transcribeRow(engine: Engine, row: LexiconRow): EntryResult | RejectedRow {
   const t = engine.transcribeWord(row.symbols);
   if (t === undefined) return outsideAlphabet(row);
+  const bad = unwritableEntry(row, t);
+  if (bad !== undefined) return bad;
   return { kind: "entry", file: row.file, line: row.line, word: row.word, ...(row.id !== undefined ? { id: row.id } : {}), ...t };
 }
 
 /**
  * Runs a lexicon file through one variety and writes `<outDir>/lexicon.{tsv,jsonl,pls}`,
  * `<outDir>/rejects.csv` (always, possibly with only its header) and `<outDir>/summary.json`.
- * Every output is written whole; when the run fails midway, none of them is left half-written.
+ * The files are written into a staging folder beside `outDir`, read back and reconciled with an
+ * independent count of the input's records, and only then put in `outDir`'s place as a whole
+ * (lexicon/outdir.ts): when the run fails or does not reconcile, `outDir` keeps the previous run.
  */
 export async function runLexicon(
   engine: Engine,
@@ -90,14 +102,21 @@ export async function runLexicon(
   const t0 = performance.now();
   const formats = new Set(opts.formats ?? ALL_FORMATS);
   const files: Record<string, string> = {};
+  const root = opts.sourceRoot ?? dirname(lexiconPath);
+  let stage: Awaited<ReturnType<typeof stageFolder>>;
+  try {
+    stage = await stageFolder(outDir);
+  } catch (err) {
+    return failedSummary(variety.name, lexiconPath, [], t0, [outputError(outDir, err)]);
+  }
+  const staged = (name: string): string => join(stage.path, name);
   const channels: Channel<string>[] = [];
   const writers: Promise<number>[] = [];
   const open = (name: string): Channel<string> => {
     const ch = new Channel<string>();
-    const path = join(outDir, name);
-    files[name] = path;
+    files[name] = join(outDir, name);
     channels.push(ch);
-    writers.push(writeFileAtomic(path, ch));
+    writers.push(writeFileAtomic(staged(name), ch));
     return ch;
   };
   const tsv = formats.has("tsv") ? open("lexicon.tsv") : undefined;
@@ -123,7 +142,7 @@ export async function runLexicon(
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
     tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-    jsonl?.push(entryJsonLine(r));
+    jsonl?.push(entryJsonLine({ ...r, file: relativeTo(root, r.file) }));
     if (formats.has("pls")) {
       const lx = lexemes.get(r.word);
       const mine = entryPhonemes(r);
@@ -143,20 +162,21 @@ export async function runLexicon(
       }
     } else {
       // Batches in flight on the workers, emitted strictly in submission order.
-      const queue: { items: (LexiconRow | RejectedRow)[]; done: Promise<(Transcription | null)[]> }[] = [];
-      let items: (LexiconRow | RejectedRow)[] = [];
+      const queue: { items: (LexiconRow | RejectedRow | EntryResult)[]; done: Promise<(Transcription | null)[]> }[] = [];
+      let items: (LexiconRow | RejectedRow | EntryResult)[] = [];
       let words: { ids: number[]; bids: number[] }[] = [];
       const drainOne = async (): Promise<void> => {
         const head = queue.shift()!;
         const results = await head.done;
         let k = 0;
         for (const item of head.items) {
-          if (item.kind === "reject") {
+          if (item.kind !== "row") {
             await emit(item);
             continue;
           }
           const t = results[k++];
-          await emit(t === null || t === undefined ? outsideAlphabet(item) : { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t });
+          const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
+          await emit(bad ?? { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t! });
         }
       };
       const submit = (): void => {
@@ -170,7 +190,8 @@ export async function runLexicon(
         if (item.kind === "row") {
           const e = engine.encode(item.symbols);
           if (e === undefined) {
-            items.push(outsideAlphabet(item));
+            // Segments the workers' machines lack: this thread's engine widens its alphabet.
+            items.push(transcribeRow(engine, item));
             continue;
           }
           words.push(e);
@@ -185,33 +206,57 @@ export async function runLexicon(
   } catch (err) {
     for (const ch of channels) ch.fail(err);
     await Promise.allSettled(writers);
+    await stage.abort();
     throw err;
   }
   const diagnostics = [...reader.diagnostics];
-  const outputErrors: Diagnostic[] = [];
   if (diagnostics.some((d) => d.severity === "error")) {
     const err = new Error(diagnostics.map(formatDiagnostic).join("\n"));
     for (const ch of channels) ch.fail(err);
     await Promise.allSettled(writers);
+    await stage.abort();
     return failedSummary(variety.name, lexiconPath, diagnostics, t0);
   }
   for (const ch of channels) ch.close();
-  await Promise.all(writers);
+  // Every file of the variety, or none: a failed write (or PLS, or reconciliation) leaves outDir as it was.
+  const failWith = async (errors: Diagnostic[]): Promise<RunSummary> => {
+    await stage.abort();
+    return failedSummary(variety.name, lexiconPath, diagnostics, t0, errors);
+  };
+  // A path that cannot be written is one positioned error; anything else is re-thrown (a bug).
+  const failWrite = async (err: unknown): Promise<RunSummary> => {
+    await stage.abort();
+    return failedSummary(variety.name, lexiconPath, diagnostics, t0, [outputError(outDir, err)]);
+  };
+  const settled = await Promise.allSettled(writers);
+  const broken = settled.find((r): r is PromiseRejectedResult => r.status === "rejected");
+  if (broken !== undefined) return failWrite(broken.reason);
 
-  if (formats.has("pls")) {
-    const path = join(outDir, "lexicon.pls");
-    files["lexicon.pls"] = path;
-    const plsEntries: PlsEntry[] = [...lexemes].map(([word, lx]) => ({ word, phonemes: lx.phonemes, preferred: 0, source: lx.source }));
-    const res = await writePls(path, plsEntries, { lang: variety.lang });
-    if (!res.ok) {
-      outputErrors.push(res.error);
-      delete files["lexicon.pls"];
+  let rowsRead: number;
+  let reconcileErrors: Diagnostic[];
+  try {
+    if (formats.has("pls")) {
+      files["lexicon.pls"] = join(outDir, "lexicon.pls");
+      const plsEntries: PlsEntry[] = [...lexemes].map(([word, lx]) => ({ word, phonemes: lx.phonemes, preferred: 0, source: lx.source }));
+      const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
+      if (!res.ok) return failWith([res.error]);
     }
+    files["rejects.csv"] = join(outDir, "rejects.csv");
+    await writeRejects(staged("rejects.csv"), rejects.map((r) => ({ ...r, file: relativeTo(root, r.file) })));
+    const input = await countInputRecords(lexiconPath);
+    const written = await countWritten({
+      ...(formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
+      ...(formats.has("jsonl") ? { jsonl: staged("lexicon.jsonl") } : {}),
+      ...(formats.has("pls") ? { pls: staged("lexicon.pls") } : {}),
+      rejects: staged("rejects.csv"),
+    });
+    rowsRead = input.count;
+    reconcileErrors = reconcile(lexiconPath, input, written);
+  } catch (err) {
+    return failWrite(err);
   }
-  files["rejects.csv"] = join(outDir, "rejects.csv");
-  await writeRejects(files["rejects.csv"], rejects);
-
-  const rowsRead = reader.stats.dataLines;
+  if (reconcileErrors.length > 0) return failWith(reconcileErrors);
+  const outputErrors: Diagnostic[] = [];
   const summary: RunSummary = {
     variety: variety.name,
     lexicon: lexiconPath,
@@ -224,18 +269,24 @@ export async function runLexicon(
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
     outputErrors,
+    fileDiagnostics: capPerFile(reader.diagnostics),
     diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
-    reconciled: rowsRead === entries + rejects.length,
+    reconciled: true,
   };
   files["summary.json"] = join(outDir, "summary.json");
-  await writeFileAtomic(files["summary.json"], JSON.stringify({ ...summary, diagnostics: summary.diagnostics.map(formatDiagnostic) }, null, 2) + "\n");
+  try {
+    await writeFileAtomic(staged("summary.json"), summaryJson(summary, root));
+    await stage.commit();
+  } catch (err) {
+    return failWrite(err);
+  }
   return summary;
 }
 
-function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number): RunSummary {
+function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {
   return {
     variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0,
-    changedBy: [], files: {}, diagnostics, outputErrors: [], seconds: (performance.now() - t0) / 1000, reconciled: false,
+    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }

@@ -156,15 +156,16 @@ describe("rejects", () => {
     expect(await runBuild(dir, { ...quietOpts(out), allowRejects: true })).toBe(0);
   });
 
-  it("a PLS that cannot be written leaves no PLS file (and no temp file) and fails the build", async () => {
+  it("a word with a character XML 1.0 forbids is a reject in every output, and every output (PLS included) is written whole", async () => {
     const dir = lexiconFolder(["word,pron", "ok,ˈoʊ", "bad\u0001word,ˈbæd", ""].join("\n"));
     const out = join(dir, "out");
-    expect(await runBuild(dir, quietOpts(out))).toBe(1);
+    expect(await runBuild(dir, quietOpts(out))).toBe(3);
     const base = join(out, basenameOf(dir), "general");
-    const files = readdirSync(base).sort();
-    expect(files).not.toContain("lexicon.pls");
-    expect(files.some((f) => f.endsWith(".tmp"))).toBe(false);
-    expect(existsSync(join(base, "lexicon.tsv"))).toBe(true);
+    expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
+    for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls"]) expect(readFileSync(join(base, f), "utf8")).not.toContain("bad");
+    const rejects = readFileSync(join(base, "rejects.csv"), "utf8").trimEnd().split("\n");
+    expect(rejects.slice(1).map((l) => l.split(",").slice(0, 4).join(","))).toEqual(["lexicon.csv,3,4,lexicon/control-character"]);
+    expect(JSON.parse(readFileSync(join(base, "summary.json"), "utf8"))).toMatchObject({ rowsRead: 2, entriesWritten: 1, rowsRejected: 1, reconciled: true });
   });
 
   it("a missing manifest is a positioned error, not a crash", async () => {
@@ -184,7 +185,7 @@ describe("build's command line", () => {
     const out = mkdtempSync(join(tmpdir(), "strata-one-"));
     const r = await cliRun(["build", DEMO, "-d", "careful", "-o", out, "--cache-dir", SHARED_CACHE, "-q"]);
     expect(r.exitCode).toBe(0);
-    expect(readdirSync(join(out, "demo"))).toEqual(["careful"]);
+    expect(readdirSync(join(out, "demo")).filter((f) => !f.endsWith(".json"))).toEqual(["careful"]); // beside run.json
     const unknown = await cliRun(["build", DEMO, "--variety", "casual", "-o", out]);
     expect(unknown.exitCode).toBe(1);
     expect(unknown.stderr).toMatch(/^command line:1:\d+: error: There is no variety 'casual' in demo's varieties\.json; its varieties are general, careful\. \[cli\/unknown-variety\]/);

@@ -1,11 +1,13 @@
 // The compiled-machine cache: a miss writes, a hit reads the same machines back, a corrupt or
 // truncated file is detected and rebuilt, and a changed grammar or inventory gets another key.
 
-import { mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from "node:fs";
+import { spawnSync } from "node:child_process";
+import { mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterEach, describe, expect, it } from "vitest";
 import { compileGrammar, type Compiled } from "../../src/compile/index.js";
+import { probeCacheDir } from "../../src/compile/cache.js";
 import type { Grammar } from "../../src/grammar/ast.js";
 import { wordKey } from "../../src/interp/index.js";
 import { bun, chBun, classDef, env, grammar, rule, seg, syllabifyStep, stressStep, clusters } from "../support/ast.js";
@@ -49,6 +51,15 @@ function compiled(dir: string | undefined, gr: Grammar = g): Compiled {
   return r.compiled!;
 }
 
+/** A compilation that must rebuild a damaged cache file: one warning naming the file, never an error. */
+function rebuilt(dir: string): Compiled {
+  const r = compileGrammar(g, inv, { cacheDir: dir });
+  expect(r.diagnostics.map((d) => [d.severity, d.code])).toEqual([["warning", "cache/unusable"]]);
+  expect(r.diagnostics[0]!.file).toBe(join(dir, `${r.compiled!.cacheKey}.bin`));
+  expect(r.compiled!.cache).toBe("rebuilt");
+  return r.compiled!;
+}
+
 describe("compiled-machine cache", () => {
   it("misses, then hits with the same machines and results", () => {
     const dir = tmp();
@@ -75,8 +86,7 @@ describe("compiled-machine cache", () => {
     const bytes = readFileSync(file);
     bytes[bytes.length - 5] = bytes[bytes.length - 5]! ^ 0xff;
     writeFileSync(file, bytes);
-    const again = compiled(dir);
-    expect(again.cache).toBe("rebuilt");
+    const again = rebuilt(dir);
     expect(outputs(again)).toEqual(outputs(first));
     expect(compiled(dir).cache).toBe("hit");
   });
@@ -86,9 +96,9 @@ describe("compiled-machine cache", () => {
     const first = compiled(dir);
     const file = join(dir, `${first.cacheKey}.bin`);
     writeFileSync(file, readFileSync(file).subarray(0, 40));
-    expect(compiled(dir).cache).toBe("rebuilt");
+    rebuilt(dir);
     writeFileSync(file, "not a cache file at all");
-    expect(compiled(dir).cache).toBe("rebuilt");
+    rebuilt(dir);
     expect(compiled(dir).cache).toBe("hit");
   });
 
@@ -131,3 +141,48 @@ describe("cache keys", () => {
     expect(b.cacheKey).toBe(a.cacheKey);
   });
 });
+
+describe("a cache that cannot be used", () => {
+  it("a cache folder that is a file: compiles without caching, with a warning, never an error", () => {
+    const dir = tmp();
+    const blocker = join(dir, "file");
+    writeFileSync(blocker, "x");
+    const r = compileGrammar(g, inv, { cacheDir: blocker });
+    expect(r.compiled).not.toBeNull();
+    expect(r.diagnostics.map((d) => [d.severity, d.code])).toEqual([["warning", "cache/unusable"]]);
+    expect(outputs(r.compiled!)).toEqual(outputs(compiled(undefined)));
+  });
+
+  it("a cache file that is a folder: rebuilt with a warning, never an error", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const file = join(dir, `${first.cacheKey}.bin`);
+    rmSync(file);
+    mkdirSync(file);
+    const r = compileGrammar(g, inv, { cacheDir: dir });
+    expect(r.compiled!.cache).toBe("rebuilt");
+    expect(r.diagnostics.every((d) => d.severity === "warning" && d.code === "cache/unusable")).toBe(true);
+    expect(r.diagnostics.length).toBeGreaterThan(0);
+  });
+
+  it("probeCacheDir: one warning for an unusable folder; stale temporaries of dead processes removed", () => {
+    const dir = tmp();
+    const blocker = join(dir, "file");
+    writeFileSync(blocker, "x");
+    const bad = probeCacheDir(join(blocker, "cache"));
+    expect(bad.dir).toBeUndefined();
+    expect(bad.diagnostics.map((d) => [d.severity, d.code])).toEqual([["warning", "cache/unusable"]]);
+    const dead = deadPid();
+    writeFileSync(join(dir, `.abc.bin.${dead}.0123456789ab.tmp`), "half");
+    writeFileSync(join(dir, `.abc.bin.${process.pid}.0123456789ab.tmp`), "mine, still being written");
+    const ok = probeCacheDir(dir);
+    expect(ok).toEqual({ dir, diagnostics: [] });
+    expect(readdirSync(dir).sort()).toEqual([`.abc.bin.${process.pid}.0123456789ab.tmp`, "file"]);
+  });
+});
+
+/** The id of a process that has exited (a child run to completion). */
+function deadPid(): number {
+  const r = spawnSync(process.execPath, ["-e", "process.stdout.write(String(process.pid))"], { encoding: "utf8" });
+  return Number(r.stdout);
+}

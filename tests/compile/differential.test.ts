@@ -39,8 +39,14 @@ function interpretable(r0: Rule, g: Grammar, w: Sym[]): boolean {
   }
 }
 
+/** Every segment the words carry: the compiler's alphabet starts from them (segments no rule makes included). */
+const segmentsOf = (words: readonly Sym[][]) => words.flat().flatMap((s) => (s.kind === "segment" ? [s.bundle] : []));
+
+/** Random words, some with segments outside the inventory (a feature changed, as by a diacritic). */
+const anyWordArb = fc.oneof({ weight: 2, arbitrary: wordArb }, { weight: 1, arbitrary: arbWord(inv, { dots: true, unseen: true }) });
+
 function checkGrammar(g: Grammar, words: Sym[][]): void {
-  const res = compileGrammar(g, inv, { maxStates: 400 });
+  const res = compileGrammar(g, inv, { maxStates: 400, extraSegments: segmentsOf(words) });
   expect(res.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
   const c = res.compiled!;
   for (const w of words) {
@@ -60,15 +66,16 @@ function checkGrammar(g: Grammar, words: Sym[][]): void {
 describe("compiled rules agree with the interpreter", () => {
   it("one random rule: every output (sets) and the preferred output, per word", () => {
     fc.assert(
-      fc.property(ruleArb, fc.array(wordArb, { minLength: 1, maxLength: 6 }), (r, words) => {
+      fc.property(ruleArb, fc.array(anyWordArb, { minLength: 1, maxLength: 6 }), (r, words) => {
         const g = grammar([r], extra);
         if (!interpretable(r, g, words[0]!)) return;
-        const steps = compileSteps(g, inv);
+        const extraSegments = segmentsOf(words);
+        const steps = compileSteps(g, inv, { extraSegments });
         expect(steps.diagnostics).toEqual([]);
         const { alphabet, steps: [m] } = steps.result!;
         const rd = desugarIn(g)(r);
         const ctx = { ...ruleContext(g, inv, rd), boundaryBlind: isBoundaryBlind(rd) };
-        const dec = compileGrammar(g, inv).compiled!;
+        const dec = compileGrammar(g, inv, { extraSegments }).compiled!;
         void alphabet;
         for (const w of words) {
           const exp = applyRuleDetailed(rd, ctx, w);
@@ -107,7 +114,7 @@ describe("compiled rules agree with the interpreter", () => {
     fc.assert(
       fc.property(
         fc.array(ruleArb, { minLength: 1, maxLength: 3 }), stressArb, heavyArb, clusterListArb, clusterListArb,
-        fc.array(wordArb, { minLength: 1, maxLength: 5 }), fc.nat(),
+        fc.array(anyWordArb, { minLength: 1, maxLength: 5 }), fc.nat(),
         (rules, st, heavy, onsets, codas, words, seed) => {
           const named = rules.map((r, i) => ({ ...r, name: `r${i}` }));
           const g0 = grammar(named, extra);
@@ -124,7 +131,7 @@ describe("compiled rules agree with the interpreter", () => {
 
   it("the shared random grammars (tests/support) × random words, with and without '.'", () => {
     fc.assert(
-      fc.property(arbGrammar(), fc.array(fc.oneof(arbWord(inv, { dots: true }), arbWord(inv)), { minLength: 1, maxLength: 5 }), ({ grammar: g }, words) => {
+      fc.property(arbGrammar(), fc.array(fc.oneof(arbWord(inv, { dots: true }), arbWord(inv), arbWord(inv, { unseen: true })), { minLength: 1, maxLength: 5 }), ({ grammar: g }, words) => {
         checkGrammar(g, words);
       }),
       { numRuns: 80 },

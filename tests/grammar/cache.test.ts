@@ -2,7 +2,7 @@
 // grammar file, an included file or the inventory is seen; a broken entry or a grammar with
 // errors never comes from the cache.
 
-import { cpSync, existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync, appendFileSync } from "node:fs";
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, appendFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { describe, expect, it } from "vitest";
@@ -64,5 +64,45 @@ describe("loadGrammarCached", () => {
     const r2 = loadGrammarCached(join(bad.dir, "broken.strata"), bad.cache);
     expect(r2.diagnostics).toEqual(r1.diagnostics);
     expect(existsSync(bad.cache) ? indexFiles(bad.cache) : []).toEqual([]);
+  });
+});
+
+describe("loadGrammarCached: the cache file's own checksum", () => {
+  it("never uses an edited cache file: it warns, loads the grammar afresh and rewrites the entry", () => {
+    const { dir, cache } = copy();
+    const fresh = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(fresh.grammar!.steps.map((s) => s.name)).toContain("flapping");
+    const file = join(cache, indexFiles(cache)[0]!);
+    const text = readFileSync(file, "utf8");
+    expect(text).toContain('"name":"flapping"');
+    writeFileSync(file, text.replaceAll('"name":"flapping"', '"name":"flapxing"'));
+    const again = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(again.grammar!.steps.map((s) => s.name)).toContain("flapping");
+    expect(again.grammar!.steps.map((s) => s.name)).not.toContain("flapxing");
+    expect(again.diagnostics.filter((d) => d.code === "cache/unusable").map((d) => [d.severity, d.file])).toEqual([["warning", file]]);
+    // Rewritten whole: the next load is a clean hit.
+    const third = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(third.diagnostics).toEqual(fresh.diagnostics);
+    expect(third.grammar).toEqual(fresh.grammar);
+  });
+
+  it("a cache folder that is a file, or a cache file that is a folder, is a warning and never an error", () => {
+    const { dir } = copy();
+    const blocker = join(dir, "not-a-folder");
+    writeFileSync(blocker, "x");
+    const r = loadGrammarCached(join(dir, "grammar.strata"), blocker);
+    expect(r.grammar!.steps.length).toBeGreaterThan(5);
+    expect(r.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
+    expect(r.diagnostics.filter((d) => d.code === "cache/unusable").length).toBe(1);
+
+    const other = copy();
+    loadGrammarCached(join(other.dir, "grammar.strata"), other.cache);
+    const file = join(other.cache, indexFiles(other.cache)[0]!);
+    rmSync(file);
+    mkdirSync(file);
+    const r2 = loadGrammarCached(join(other.dir, "grammar.strata"), other.cache);
+    expect(r2.grammar!.steps.length).toBeGreaterThan(5);
+    expect(r2.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
+    expect(r2.diagnostics.some((d) => d.code === "cache/unusable" && d.severity === "warning")).toBe(true);
   });
 });

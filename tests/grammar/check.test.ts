@@ -116,3 +116,28 @@ describe("conditions", () => {
     expect(ds.map((d) => [d.code, at(d)])).toEqual([["grammar/no-syllabify", "2:20"]]);
   });
 });
+
+describe("resource limits (each of these once exhausted memory or aborted V8)", () => {
+  test("a subscript with an absurd bound is an error at the subscript, the number shown as written", () => {
+    expect(found("class C = [-syllabic]\nrule r:\n  a -> ə / _ C₀⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹ i")).toEqual([["error", "grammar/subscript-too-large", "4:14"]]);
+    expect(messages("class C = [-syllabic]\nrule r:\n  a -> ə / _ C₀⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹ i")[0]).toBe(
+      "A repetition bound of 9,999,999,999 is more than the limit of 32; write '₀' alone for any number of repetitions.",
+    );
+    expect(messages(`class C = [-syllabic]\nrule r:\n  a -> ə / _ C_${"9".repeat(400)} i`)[0]).toMatch(/^A repetition bound of a number that large is more than/);
+  });
+  test("bounds up to the limit are fine; nested repetitions are limited by their written-out width", () => {
+    expect(found("class C = [-syllabic]\nrule r:\n  a -> ə / _ C₀³² i")).toEqual([]);
+    expect(found("class C = [-syllabic]\nrule r:\n  a -> ə / _ (C₀³²)₀³² i")).toEqual([["error", "grammar/pattern-too-wide", "4:14"]]);
+    expect(found("class C = [-syllabic]\nrule r:\n  a -> ə / _ (C₀⁸)₀⁸ i")).toEqual([]);
+  });
+  test("a rule whose alpha variables combine in too many ways is an error at the rule", () => {
+    const greek = "αβγδεζηθικλμν";
+    // Thirteen feature variables over seven bundles: 2^13 = 8 192 combinations.
+    const bundles = (n: number) => Array.from({ length: Math.ceil(n / 2) }, (_, k) => `[${greek[2 * k]}voice${2 * k + 1 < n ? ` ${greek[2 * k + 1]}nasal` : ""}]`).join(" ");
+    const r = checkText(`${HEAD}rule many:\n  [-syllabic] -> [+voice] / _ ${bundles(13)}`).diagnostics.filter((d) => d.severity === "error");
+    expect(r.map((d) => [d.code, at(d)])).toEqual([["grammar/too-many-alpha-combinations", "2:6"]]);
+    expect(r[0]!.message).toMatch(/^Rule 'many' has 13 alpha variables \(α β .* ν\), whose values combine in 8,192 ways, more than the limit of 4,096;/);
+    const fewer = bundles(12);
+    expect(checkText(`${HEAD}rule ok:\n  [-syllabic] -> [+voice] / _ ${fewer}`).diagnostics.filter((d) => d.code === "grammar/too-many-alpha-combinations")).toEqual([]);
+  });
+});

@@ -55,7 +55,7 @@ describe("includes", () => {
 
   test("an absolute include path is confined too", () => {
     const root = tempTree({ ...inv, "outside.strata": "rule x:\n  a -> ə" });
-    const main = tempTree({ "g/grammar.strata": `inventory "${join(root, "g", "segments.csv")}"\ninclude "${join(root, "outside.strata")}"` });
+    const main = tempTree({ ...inv, "g/grammar.strata": `inventory "segments.csv"\ninclude "${join(root, "outside.strata")}"` });
     expect(errors(loadGrammar(join(main, "g")).diagnostics)).toEqual([["grammar/include-outside", "2:9"]]);
   });
 

@@ -100,7 +100,7 @@ describe("the casual grammar on a CMU sample", () => {
     expect(bad).toEqual([]);
   });
 
-  test("a nasalised vowel is always followed by a nasal consonant of its syllable (Ladefoged & Johnson ch. 4, from memory)", () => {
+  test("a nasalised vowel is always followed by a nasal consonant of its syllable, or by a nasal flap (Ladefoged & Johnson ch. 4, from memory)", () => {
     const bad: string[] = [];
     let seen = 0;
     for (const r of results)
@@ -109,7 +109,10 @@ describe("the casual grammar on a CMU sample", () => {
           if (has(v, s, "syllabic", "+") && has(v, s, "consonantal", "-") && has(v, s, "nasal", "+")) {
             seen++;
             const next = o[i + 1];
-            if (!(has(v, next, "nasal", "+") && has(v, next, "syllabic", "-"))) bad.push(`${r.word} ${ipaOf(v, o)}`);
+            const after = o[i + 2];
+            // the nasal flap of "winter" ˈwɪ̃.ɾ̃ɚ starts the next syllable (lexicons/en-us/nasal-flap.strata)
+            const nasalFlapNext = next !== undefined && isSyllableEdge(next) && has(v, after, "nasal", "+") && has(v, after, "tap", "+");
+            if (!(has(v, next, "nasal", "+") && has(v, next, "syllabic", "-")) && !nasalFlapNext) bad.push(`${r.word} ${ipaOf(v, o)}`);
           }
         });
     expect(seen).toBeGreaterThan(300);

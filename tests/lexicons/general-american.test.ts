@@ -30,6 +30,8 @@ describe("the grammar loads", () => {
       "aspiration",
       "approximant-devoicing",
       "nasalisation",
+      "nasal-flap",
+      "nasal-flap-merger",
     ]);
   });
 });
@@ -67,25 +69,32 @@ describe("flapping", () => {
     expect(narrow("water")).toBe("ˈwɔ.ɾɚ");
     expect(narrow("butter")).toBe("ˈbʌ.ɾɚ");
     expect(narrow("city")).toBe("ˈsɪ.ɾi");
-    // same sources: /d/ flaps too ("rider")
-    expect(narrow("rider")).toBe("ˈɹaɪ.ɾɚ");
+    // same sources: /d/ flaps too ("rider"; its vowel keeps the length the /d/ gave it, below)
+    expect(narrow("rider")).toBe("ˈɹaɪː.ɾɚ");
   });
   test("after an r-coloured vowel or ɹ", () => {
     // Ladefoged & Johnson, ch. 3 (from memory): "party" pʰɑɹɾi
     expect(narrow("party")).toBe("ˈpʰɑɹ.ɾi");
   });
-  test("neutralises t and d: writer = rider (with onset d, no pre-voiced length)", () => {
-    // Joos 1942, as discussed by Kiparsky 1968 (from memory): "writer" and "rider" both have a flap
-    expect(narrow("writer")).toBe(narrow("rider"));
+  test("rider keeps a longer vowel than writer: lengthening before flapping (counterbleeding)", () => {
+    // Joos 1942; Chomsky 1964; Kiparsky 1968 (from memory): "writer" and "rider" both have a flap, and
+    // differ in the length of the diphthong, which the /d/ conditioned before it became a flap
+    expect(narrow("writer")).toBe("ˈɹaɪ.ɾɚ");
+    expect(narrow("rider")).toBe("ˈɹaɪː.ɾɚ");
+    // same sources: the other classic pairs
+    expect(narrow("latter")).toBe("ˈlæ.ɾɚ");
+    expect(narrow("ladder")).toBe("ˈlæː.ɾɚ");
+    expect(narrow("petal")).toBe("ˈpʰɛ.ɾɫ̩");
+    expect(narrow("pedal")).toBe("ˈpʰɛː.ɾɫ̩");
   });
   test("not before a stressed vowel", () => {
     // Kahn 1976 (from memory): "attack", "atomic" keep an aspirated t before the stressed vowel
     expect(narrow("attack")).not.toContain("ɾ");
     expect(narrow("atomic")).toBe("əˈtʰɑ.mɪk");
   });
-  test("not after a nasal", () => {
-    // Common practice, no source: the grammar flaps only after a vowel or ɹ ("planted" keeps its t)
-    expect(narrow("planted")).toBe("ˈpʰl̥æ̃n.tɪd");
+  test("not after a nasal: there n + t become a nasal flap (optional), or stay", () => {
+    // Ladefoged & Johnson, ch. 3; Wells 1982 vol. 3 (from memory): "planted" with a nasal flap, or n + t
+    expect(variants("planted")).toEqual(["ˈpʰl̥æ̃.ɾ̃ɪd", "ˈpʰl̥æ̃n.tɪd"]);
   });
 });
 
@@ -118,11 +127,11 @@ describe("dark l", () => {
 
 describe("approximant devoicing", () => {
   test("after an aspirated stop in the same onset", () => {
-    // Ladefoged & Johnson, ch. 3 (from memory): "play" pʰl̥eɪ, "try" tʰɹ̥aɪ, "twin" tʰw̥ɪn, "cute" kʰj̥ut
+    // Ladefoged & Johnson, ch. 3 (from memory): "play" pʰl̥eɪ, "try" tʰɹ̥aɪ, "twin" tʰw̥ɪn, "cute" kʰj̊ut (ring above on j: Handbook of the IPA 1999, from memory)
     expect(narrow("play")).toBe("ˈpʰl̥eɪ");
     expect(narrow("try")).toBe("ˈtʰɹ̥aɪ");
     expect(narrow("twin")).toBe("ˈtʰw̥ɪ̃n");
-    expect(narrow("cute")).toBe("ˈkʰj̥ut");
+    expect(narrow("cute")).toBe("ˈkʰj̊ut");
     expect(narrow("apply")).toBe("əˈpʰl̥aɪ");
   });
   test("not after an unaspirated stop (s + stop)", () => {
@@ -160,7 +169,8 @@ describe("glottal stop and syllabic n", () => {
   });
   test("syllabic n after d and s, where no glottal stop is possible", () => {
     // Ladefoged & Johnson, ch. 3 (from memory): "sudden" sʌdn̩, "lesson" lɛsn̩
-    expect(variants("sudden")).toEqual(["ˈsʌ.dn̩"]);
+    // (the vowel before the /d/ of "sudden" is lengthened: Peterson & Lehiste 1960, from memory)
+    expect(variants("sudden")).toEqual(["ˈsʌː.dn̩"]);
     expect(variants("lesson")).toEqual(["ˈlɛ.sn̩"]);
   });
 });
@@ -173,7 +183,7 @@ describe("syllabic l", () => {
   });
   test("after d and t", () => {
     // same source: "pedal", "little", "metal"
-    expect(narrow("pedal")).toBe("ˈpʰɛ.ɾɫ̩");
+    expect(narrow("pedal")).toBe("ˈpʰɛː.ɾɫ̩");
     expect(narrow("little")).toBe("ˈlɪ.ɾɫ̩");
     expect(narrow("metal")).toBe("ˈmɛ.ɾɫ̩");
   });
@@ -223,5 +233,51 @@ describe("stress placement", () => {
   test("default stress does not touch marked entries", () => {
     // Common practice, no source: the lexicon's own stress wins ("cigarette" with final stress)
     expect(derive(general(), "ˌsɪɡəˈɹɛt").preferred).toBe("ˌsɪ.ɡəˈɹɛt");
+  });
+});
+
+describe("phonetician's review fixes (each with its source)", () => {
+  test("flapping needs a vowel before the stop: never after a syllabic consonant", () => {
+    // Kahn 1976 (from memory): the flapping site is after a vowel (or vowel + r); "penalty" has ɫ̩ then a plain t
+    expect(variants("penalty")).toEqual(["ˈpʰɛ.nəɫ.ti", "ˈpʰɛ.nɫ̩.ti"]);
+  });
+  test("aspiration only where a vowel or a sonorant follows the stop", () => {
+    // Common practice, no source: the aspiration of p t k is the voicing lag before a following voiced
+    // sound, so the t of "tsetse" and "tsar", and the p of "pshaw", are plain
+    expect(narrow("tsetse")).toBe("ˈtsit.si");
+    expect(derive(general(), cmu("tsar(2)")).preferred).toBe("ˈtsɑɹ");
+    expect(narrow("pshaw")).toBe("ˈpʃaʊ");
+    // and still before a vowel or approximant (Kahn 1976, from memory)
+    expect(narrow("twin")).toBe("ˈtʰw̥ɪ̃n");
+  });
+  test("t glottalised before a nasal that starts the next syllable (optional, glottal stop preferred)", () => {
+    // Wells 1982 vol. 3; Ladefoged & Johnson, ch. 3 (from memory): "fitness", "lightning", "partner"
+    expect(variants("fitness")).toEqual(["ˈfɪt.nəs", "ˈfɪʔ.nəs"]);
+    expect(narrow("fitness")).toBe("ˈfɪʔ.nəs");
+    expect(narrow("lightning")).toBe("ˈlaɪʔ.nɪ̃ŋ");
+    expect(narrow("partner")).toBe("ˈpʰɑɹʔ.nɚ");
+  });
+  test("n + t before an unstressed vowel: nasal flap (optional, preferred in casual speech)", () => {
+    // Ladefoged & Johnson, ch. 3; Wells 1982 vol. 3 (from memory): "winter" like "winner", "twenty", "center"
+    expect(variants("winter")).toEqual(["ˈwɪ̃.ɾ̃ɚ", "ˈwɪ̃n.tɚ"]);
+    expect(narrow("twenty")).toBe("ˈtʰw̥ɛ̃.ɾ̃i");
+    expect(narrow("center")).toBe("ˈsɛ̃.ɾ̃ɚ");
+    // not before a stressed vowel, where the t is aspirated ("entire"; Kahn 1976, from memory)
+    expect(narrow("entire")).toBe("ɪ̃nˈtʰaɪ.ɚ");
+  });
+  test("w and j devoiced after h", () => {
+    // Ladefoged & Johnson, ch. 3 (from memory): "which" for speakers with /hw/, "huge" with a voiceless j
+    expect(derive(general(), cmu("which(2)")).preferred).toBe("ˈhw̥ɪtʃ");
+    expect(narrow("huge")).toBe("ˈhj̊uːdʒ");
+  });
+  test("l takes dental place before θ ð, as t d n do (and stays dark in the coda)", () => {
+    // Ladefoged & Johnson, ch. 3; Giegerich 1992 ch. 9 (from memory): "wealth", "health"
+    expect(narrow("wealth")).toBe("ˈwɛɫ̪θ");
+    expect(narrow("health")).toBe("ˈhɛɫ̪θ");
+    expect(narrow("tenth")).toBe("ˈtʰɛ̃n̪θ");
+  });
+  test("no syllabic ɫ̩ right after another l", () => {
+    // Common practice, no source: /l ə l/ keeps its schwa ("Kallal"; a syllabic l needs a non-lateral before it)
+    expect(variants("kallal")).toEqual(["ˈkʰæ.ləɫ"]);
   });
 });

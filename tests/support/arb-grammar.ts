@@ -220,6 +220,11 @@ export interface ArbWordOptions {
   readonly dots?: boolean;
   /** Sometimes make a two-word phrase (default true). */
   readonly phrases?: boolean;
+  /**
+   * Change one segmental feature (not `syllabic`) of one segment, as a diacritic would: a
+   * segment the inventory does not list and no rule may make (default false).
+   */
+  readonly unseen?: boolean;
 }
 
 /**
@@ -240,8 +245,9 @@ export function arbWord(inv: Inventory = tinyInventory, opts: ArbWordOptions = {
       primaryPick: fc.nat(),
       secondaryPick: fc.option(fc.nat(), { nil: null }),
       dotSeed: opts.dots === true ? fc.array(fc.boolean(), { minLength: 2 * max + 2, maxLength: 2 * max + 2 }) : fc.constant([] as boolean[]),
+      flip: opts.unseen === true ? fc.tuple(fc.nat({ max: 2 * max }), fc.nat({ max: inv.features.length - 1 })) : fc.constant(null),
     })
-    .map(({ words, marked, primaryPick, secondaryPick, dotSeed }) => {
+    .map(({ words, marked, primaryPick, secondaryPick, dotSeed, flip }) => {
       const flat = words.flat();
       const nuclei = flat.map((s, i) => ((inv.segments[s]?.bundle[syl ?? -1] ?? "-") === "+" ? i : -1)).filter((i) => i >= 0);
       const primary = marked && nuclei.length > 0 ? nuclei[primaryPick % nuclei.length] : undefined;
@@ -260,6 +266,9 @@ export function arbWord(inv: Inventory = tinyInventory, opts: ArbWordOptions = {
             else if (k === secondary) [b[si], b[pi]] = ["+", "-"];
             else [b[si], b[pi]] = ["-", "-"];
           }
+          // The chosen segment gets the chosen feature flipped (+ ↔ -), unless it is syllabic or prosodic.
+          const f = flip !== null && flip[0] % Math.max(1, flat.length) === k ? flip[1] : -1;
+          if (f >= 0 && f !== syl && f !== si && f !== pi && (b[f] === "+" || b[f] === "-")) b[f] = b[f] === "+" ? "-" : "+";
           out.push({ kind: "segment", bundle: b });
           k++;
         });

@@ -3,7 +3,7 @@
 
 import { describe, expect, inject, it } from "vitest";
 import fc from "fast-check";
-import { chooseSeed, CI_SEED, fcParams, fcSeed } from "./fc-seed.js";
+import { chooseSeed, CI_SEED, fcParams, fcSeed, fileSeed } from "./fc-seed.js";
 
 describe("fast-check seed", () => {
   it("STRATA_FC_SEED replays a run, CI fixes the seed, otherwise it is random", () => {
@@ -14,6 +14,10 @@ describe("fast-check seed", () => {
     expect(local.size).toBeGreaterThan(1);
     for (const s of local) expect(Number.isSafeInteger(s) && s >= 0).toBe(true);
     expect(() => chooseSeed({ STRATA_FC_SEED: "abc" })).toThrow(/STRATA_FC_SEED/);
+    // A file with its own CI seed: that seed in CI, the run's seed locally, STRATA_FC_SEED always wins.
+    expect(fileSeed(7, { CI: "true" })).toBe(7);
+    expect(fileSeed(7, { CI: "true", STRATA_FC_SEED: "99" })).toBe(99);
+    expect(fileSeed(7, {})).toBe(fcSeed());
   });
 
   it("every test file starts with the run's seed as fast-check's global seed", () => {

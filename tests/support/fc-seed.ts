@@ -34,6 +34,16 @@ export function adoptSeed(s: number): void {
   seed = s;
 }
 
+/**
+ * The seed for a test file that keeps its own fixed CI seed (the fuzz suite): STRATA_FC_SEED when
+ * set, `ciSeed` under CI, else the run's seed (so the one seed printed first replays it too).
+ */
+export function fileSeed(ciSeed: number, env: NodeJS.ProcessEnv = process.env): number {
+  const given = env["STRATA_FC_SEED"];
+  if ((given === undefined || given === "") && env["CI"] !== undefined && env["CI"] !== "" && env["CI"] !== "false") return ciSeed;
+  return given !== undefined && given !== "" ? chooseSeed(env) : fcSeed();
+}
+
 /** fast-check parameters with the run's seed, for a test that passes its own parameters. */
 export function fcParams<T>(extra: fc.Parameters<T> = {}): fc.Parameters<T> {
   return { seed: fcSeed(), ...extra };

@@ -1,0 +1,22 @@
+// The up-front check that every output format can hold an entry: an entry one format cannot write
+// (a character XML 1.0 forbids, for PLS) becomes a reject before any format writes it, so the
+// TSV, the JSON Lines and the PLS of a run always hold the same entries.
+
+import { plsTextProblem } from "../emit/pls.js";
+import type { Transcription } from "./engine.js";
+import type { LexiconRow, RejectedRow } from "./read.js";
+
+/** The reject for a row whose word or narrow forms cannot be written in every format, or undefined. */
+export function unwritableEntry(row: LexiconRow, t: Transcription): RejectedRow | undefined {
+  const reject = (column: number, code: string, reason: string): RejectedRow => ({
+    kind: "reject", file: row.file, line: row.line, column, code, raw: `${row.word},${row.pron}`,
+    reason: `${reason}; the entry is left out of every output.`,
+  });
+  const w = plsTextProblem(row.word);
+  if (w !== undefined) return reject(1, w.code, `The word ${w.reason}`);
+  for (const form of [t.narrow, ...t.variants]) {
+    const p = plsTextProblem(form);
+    if (p !== undefined) return reject(row.pronColumn, p.code, `The narrow form '${form}' ${p.reason}`);
+  }
+  return undefined;
+}

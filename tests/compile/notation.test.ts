@@ -1,0 +1,108 @@
+// The environment notation `unless`, `mirrored` and `longest-first` (DEVELOPERS.md, "Exceptions,
+// mirror images, longest-first"): worked examples in the interpreter, and the compiled machine
+// equal to the interpreter on every word up to a length (an exhaustive check, not a sample).
+
+import { describe, expect, it } from "vitest";
+import { compileGrammar } from "../../src/compile/index.js";
+import { checkGrammar, desugar, isBoundaryBlind, parseGrammarText, splitLiterals, type Grammar } from "../../src/grammar/index.js";
+import { applyGrammar, wordKey, type Sym } from "../../src/interp/index.js";
+import { tinyInventory as inv } from "../support/tiny-inventory.js";
+import { ipaOf, symsOf } from "../support/words.js";
+
+/** A grammar over the tiny inventory from text (classes C and V and node place declared). */
+function grammarOf(body: string): Grammar {
+  const text = `node place = labial coronal\nclass C = [-syllabic]\nclass V = [+syllabic]\n${body}`;
+  const parsed = parseGrammarText(text, "t.strata");
+  expect(parsed.diagnostics).toEqual([]);
+  const split = splitLiterals(parsed.grammar, inv);
+  expect(split.diagnostics).toEqual([]);
+  expect(checkGrammar(split.grammar, inv).filter((d) => d.severity === "error")).toEqual([]);
+  return split.grammar;
+}
+
+const interp = (g: Grammar, word: Sym[]) =>
+  applyGrammar(g, inv, word, { desugar: (r) => desugar(r, { inventory: inv, classes: g.classes }), isBoundaryBlind, maxVariants: 2000 });
+
+function outputs(g: Grammar, text: string): string[] {
+  return interp(g, symsOf(text, inv)).outputs.map((w) => ipaOf(w, inv)).sort();
+}
+
+/** Every word of 1..max segments over `letters`, '#'-bracketed (no stress marks). */
+function allWords(letters: readonly string[], max: number): Sym[][] {
+  const out: Sym[][] = [];
+  let layer: string[] = [""];
+  for (let n = 1; n <= max; n++) {
+    layer = layer.flatMap((w) => letters.map((l) => w + l));
+    for (const w of layer) out.push(symsOf(`#${w}#`, inv));
+  }
+  return out;
+}
+
+/** The compiled grammar gives the interpreter's outputs and preferred output on every word. */
+function agreeOnAll(g: Grammar, words: Sym[][]): void {
+  const r = compileGrammar(g, inv);
+  expect(r.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
+  const c = r.compiled!;
+  for (const w of words) {
+    const ids = c.encode(w)!;
+    const run = interp(g, w);
+    expect(c.variants(ids, 2000).outputs.map((o) => wordKey(c.decode(o))).sort(), wordKey(w)).toEqual(run.outputs.map(wordKey).sort());
+    const out: number[] = [];
+    expect(c.preferred.run(ids, out)).toBe(true);
+    expect(wordKey(c.decode(out)), `preferred of ${wordKey(w)}`).toBe(wordKey(run.preferred));
+  }
+}
+
+const LETTERS = ["p", "t", "n", "a", "i"];
+
+describe("unless: environments where the rule does not apply", () => {
+  const g = grammarOf("rule devoice:\n  [-syllabic] -> [-voice] / _ #\n  unless n _\n");
+  it("the rule applies at the word's end except after n", () => {
+    expect(outputs(g, "#ad#")).toEqual(["at"]);
+    expect(outputs(g, "#and#")).toEqual(["and"]);
+  });
+  it("without a '/' environment it applies everywhere else", () => {
+    const h = grammarOf("rule nasalise:\n  a -> [+nasal] unless _ p\n");
+    expect(outputs(h, "#apat#")).toEqual(["apãt"]);
+  });
+  it("compiled = interpreted, every word up to 4 segments, three modes, optional too", () => {
+    for (const head of ["", " left-to-right", " right-to-left", " optional"]) {
+      agreeOnAll(grammarOf(`rule r${head}:\n  C -> [+voice] / V _ / _ V\n  unless _ [+voice]\n  unless p _\n`), allWords(LETTERS, 4));
+    }
+  });
+  it("exception variables: the target's are shared, the others are read 'for some value'", () => {
+    const h = grammarOf("rule r:\n  [-syllabic αvoice] -> [+nasal] / _ V\n  unless _ V [-syllabic αvoice]\n  unless [βlabial -syllabic] t _\n");
+    agreeOnAll(h, allWords(["p", "t", "d", "a"], 4));
+    expect(outputs(h, "#dat#")).toEqual(["nat"]);
+    // d a d: the first d is followed by V and a voiced consonant (α = + shared): blocked.
+    expect(outputs(h, "#dada#")).toEqual(["dana"]);
+  });
+});
+
+describe("mirrored: the environment read both ways", () => {
+  const g = grammarOf("rule r:\n  t -> d / a n _ mirrored\n");
+  it("'a n _ mirrored' is also '_ n a'", () => {
+    expect(outputs(g, "#ant#")).toEqual(["and"]);
+    expect(outputs(g, "#tna#")).toEqual(["dna"]);
+    expect(outputs(g, "#nat#")).toEqual(["nat"]);
+  });
+  it("compiled = interpreted, every word up to 4 segments, with where and unless", () => {
+    agreeOnAll(g, allWords(["t", "n", "a"], 4));
+    agreeOnAll(grammarOf("rule r right-to-left:\n  C -> [+voice] / V _ mirrored\n  unless i _ mirrored\n"), allWords(LETTERS, 4));
+  });
+});
+
+describe("longest-first: parenthesis expansions disjunctively ordered", () => {
+  // With the union, `_ ([α place] C)` also holds through its short expansion `_`, where α is
+  // free: every place. Longest-first lets the short expansion apply only where the long one does not.
+  const text = (opt: string) => `rule r${opt}:\n  n -> [α place] / _ ([-syllabic α place])\n`;
+  it("a variable bound in the longer expansion wins over the free short one", () => {
+    expect(outputs(grammarOf(text(" longest-first")), "#anpa#")).toEqual(["ab̃pa"]); // the tiny inventory writes labial n as b̃
+    expect(outputs(grammarOf(text("")), "#anpa#").length).toBeGreaterThan(1);
+  });
+  it("compiled = interpreted, every word up to 4 segments", () => {
+    agreeOnAll(grammarOf(text(" longest-first")), allWords(["n", "p", "t", "a"], 4));
+    agreeOnAll(grammarOf("rule r longest-first left-to-right:\n  a -> [αnasal] / (n) _ ([αnasal -syllabic] (i))\n"), allWords(["n", "p", "a", "i"], 4));
+  });
+});
+

@@ -1,0 +1,35 @@
+// DEVELOPERS.md's example grammar ("The grammar language") loads against the shipped en-us
+// inventory: the block is extracted from the guide itself, so the guide cannot drift from the parser.
+
+import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, test } from "vitest";
+import { loadGrammar } from "../../src/grammar/index.js";
+
+const root = join(import.meta.dirname, "..", "..");
+
+/** The fenced blocks of one section of DEVELOPERS.md (from its `## ` heading to the next). */
+function blocksOf(heading: string): string[] {
+  const md = readFileSync(join(root, "DEVELOPERS.md"), "utf8");
+  const start = md.indexOf(`\n## ${heading}\n`);
+  if (start < 0) throw new Error(`no section '${heading}' in DEVELOPERS.md`);
+  const end = md.indexOf("\n## ", start + 4);
+  const section = md.slice(start, end < 0 ? md.length : end);
+  return [...section.matchAll(/```[a-z]*\n([\s\S]*?)```/g)].map((m) => m[1]!);
+}
+
+describe("DEVELOPERS.md example grammar", () => {
+  test("loads against lexicons/en-us/segments.csv without errors or warnings", () => {
+    const [example] = blocksOf("The grammar language");
+    expect(example).toContain('inventory "segments.csv"');
+    const dir = mkdtempSync(join(tmpdir(), "strata-devguide-"));
+    for (const f of ["segments.csv", "diacritics.csv"]) copyFileSync(join(root, "lexicons", "en-us", f), join(dir, f));
+    // Files the example includes are written empty (the include itself is exercised).
+    for (const m of example!.matchAll(/^include "([^"]+)"/gm)) writeFileSync(join(dir, m[1]!), "-- included\n");
+    writeFileSync(join(dir, "grammar.strata"), example!);
+    const r = loadGrammar(dir);
+    expect(r.diagnostics.map((d) => `${d.line}:${d.column} ${d.severity} ${d.code} ${d.message}`)).toEqual([]);
+    expect(r.grammar?.steps.length).toBeGreaterThan(3);
+  });
+});
