@@ -4,10 +4,12 @@
 
 import { benchFst } from "./fst.js";
 import { benchMainJob } from "./main-job.js";
+import { benchAnalyze } from "./analyze.js";
 
 const sections: readonly { readonly name: string; readonly run: () => Promise<boolean> | boolean | void | Promise<void> }[] = [
   { name: "fst", run: () => { benchFst(); } },
   { name: "main job", run: async () => (await benchMainJob()).ok },
+  { name: "analyze", run: () => benchAnalyze() },
 ];
 
 let failed = false;

@@ -31,20 +31,27 @@ const FLAP = new RegExp(
   "g",
 );
 
+/** First character of every sonorant (the nuclei, m n ŋ, l ɫ ɹ w j ɾ). */
+const SONORANT_START = "[iɪeɛæɑɔoʊuʌəaɚɝmnŋlɫɹwjɾ]";
+
 /**
- * aspiration: `{p t k} -> [+spread_glottis] / _ where syllable-initial, stressed` and `/ # _` —
- * right after ˈ or ˌ (a stressed syllable's first segment), or first in the word.
+ * aspiration: `{p t k} -> [+spread_glottis] / _ [+sonorant] where syllable-initial, stressed`
+ * and `/ # _ [+sonorant]` — right after ˈ or ˌ (a stressed syllable's first segment), or first in
+ * the word, and followed by a sonorant.
  */
-const ASPIRATE = new RegExp(`(?<=^|[\u02C8\u02CC])(?:p|t(?!ʃ)|k)`, "g");
+const ASPIRATE = new RegExp(`(?<=^|[\u02C8\u02CC])(?:p|t(?!ʃ)|k)(?=${SONORANT_START})`, "g");
 
 /**
  * approximant devoicing: `[-syllabic +approximant] -> [-voice] / [-sonorant -continuant
- * +spread_glottis] _ where onset` — l ɹ w j (and ɫ ɾ, which never follow an aspirated stop)
- * right after pʰ tʰ kʰ with a nucleus later in the same syllable.
+ * +spread_glottis] _ where onset` and `/ h _ where onset` — l ɹ w j (and ɫ ɾ, which never follow
+ * an aspirated stop) right after pʰ tʰ kʰ or h with a nucleus later in the same syllable.
  */
-const DEVOICE = new RegExp(`(?<=[ptk]\u02B0)[lɫɹwjɾ](?=${NOT_B}*${V_START})`, "g");
-/** Unicode 15: U+0325 COMBINING RING BELOW marks voicelessness (IPA Handbook 1999); j takes it too in our writer. */
-const VOICELESS: Readonly<Record<string, string>> = { l: "l\u0325", ɫ: "ɫ\u0325", ɹ: "ɹ\u0325", w: "w\u0325", j: "j\u0325", ɾ: "ɾ\u0325" };
+const DEVOICE = new RegExp(`(?<=[ptk]\u02B0|h)[lɫɹwjɾ](?=${NOT_B}*${V_START})`, "g");
+/**
+ * Unicode 15: U+0325 COMBINING RING BELOW marks voicelessness (IPA Handbook 1999); on j, which has
+ * a descender, our writer puts U+030A COMBINING RING ABOVE instead (Handbook, from memory).
+ */
+const VOICELESS: Readonly<Record<string, string>> = { l: "l\u0325", ɫ: "ɫ\u0325", ɹ: "ɹ\u0325", w: "w\u0325", j: "j\u030A", ɾ: "ɾ\u0325" };
 
 /**
  * vowel nasalisation: `[+syllabic -consonantal] -> [+nasal] / _ [+nasal -syllabic] where nucleus`

@@ -75,34 +75,3 @@ export function renderDiagnostic(d: Diagnostic, sourceText?: string): string {
   const gutter = String(d.line).padStart(5);
   return `${head}\n${gutter} | ${shown}\n${" ".repeat(gutter.length)} | ${pad}${caret}`;
 }
-
-/** How many diagnostics of one file are kept by `capPerFile` by default. */
-export const DIAGNOSTICS_PER_FILE = 50;
-
-/**
- * The first `limit` diagnostics of each file (in their order), and for a file with more, one
- * further diagnostic of the same severity as the first one dropped, at that one's position, counting
- * the rest: "… and 1,234 more problems in this file." (code `diagnostics/more`). Keeps printing
- * and memory bounded when a file has thousands of problems; nothing is dropped without a count.
- */
-export function capPerFile(ds: readonly Diagnostic[], limit = DIAGNOSTICS_PER_FILE): Diagnostic[] {
-  const kept = new Map<string, number>();
-  const dropped = new Map<string, { first: Diagnostic; count: number }>();
-  const out: Diagnostic[] = [];
-  for (const d of ds) {
-    const n = kept.get(d.file) ?? 0;
-    if (n < limit) {
-      kept.set(d.file, n + 1);
-      out.push(d);
-      continue;
-    }
-    const x = dropped.get(d.file);
-    if (x === undefined) dropped.set(d.file, { first: d, count: 1 });
-    else x.count++;
-  }
-  for (const { first, count } of dropped.values()) {
-    const noun = count === 1 ? "problem" : "problems";
-    out.push(diagnostic(first.severity, "diagnostics/more", `… and ${count.toLocaleString("en-US")} more ${noun} in this file (the first ${limit} are shown).`, first));
-  }
-  return out;
-}

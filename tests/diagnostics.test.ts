@@ -1,8 +1,8 @@
 // Tests of diagnostic rendering and capping: a line is the same line for positions and for the
-// source line shown (CR LF, LF, lone CR), a leading BOM is not shown, per-file caps count the rest.
+// source line shown (CR LF, LF, lone CR), a leading BOM is not shown.
 
 import { describe, expect, it } from "vitest";
-import { capPerFile, diagnostic, renderDiagnostic } from "../src/diagnostics.js";
+import { diagnostic, renderDiagnostic } from "../src/diagnostics.js";
 import { lineCount, positionAt, splitLines } from "../src/lines.js";
 
 const d = (line: number, column: number, file = "g.strata") => diagnostic("error", "test/x", "Something.", { file, line, column });
@@ -28,19 +28,6 @@ describe("positions", () => {
     expect(positionAt(text, text.indexOf("e"))).toEqual({ line: 3, column: 3 });
     expect(positionAt(text, text.indexOf("f"))).toEqual({ line: 4, column: 1 });
     expect(positionAt(text, text.indexOf("c"))).toEqual({ line: 2, column: 2 });
-  });
-});
-
-describe("capPerFile", () => {
-  it("keeps the first N diagnostics of each file and counts the rest at the first one dropped", () => {
-    const ds = [...Array.from({ length: 60 }, (_, i) => d(i + 1, 1, "a.csv")), d(1, 1, "b.csv")];
-    const capped = capPerFile(ds, 50);
-    expect(capped).toHaveLength(52);
-    expect(capped.filter((x) => x.file === "a.csv")).toHaveLength(51);
-    const more = capped.find((x) => x.code === "diagnostics/more")!;
-    expect([more.file, more.line]).toEqual(["a.csv", 51]);
-    expect(more.message).toBe("… and 10 more problems in this file (the first 50 are shown).");
-    expect(capPerFile(ds.slice(0, 51), 50).at(-1)!.message).toContain("1 more problem in");
   });
 });
 

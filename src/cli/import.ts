@@ -3,13 +3,13 @@
 
 import { readFile } from "node:fs/promises";
 import { text as readStream } from "node:stream/consumers";
-import type { Command } from "commander";
+import { Option, type Command } from "commander";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { csvLine } from "../emit/csv.js";
-import { importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
-import type { ImportedRow } from "../lexicon/arpabet.js";
+import { STRESS_POLICIES, importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
+import type { ImportedRow, StressPolicy } from "../lexicon/arpabet.js";
 import { rejectDiagnostic, writeRejects } from "../lexicon/read.js";
 import {
   checkInputFile, checkNotAnInput, checkOutputPath, commonOptions, EXIT, examples, outOption, plural, printOutcome, renderDiagnostics, useColour,
@@ -31,6 +31,10 @@ export interface ImportOptions {
   readonly rejects?: string;
   /** Exit 0 even when some entries were rejected. */
   readonly allowRejects?: boolean;
+  /** The spelling's case: keep (default) or lower. */
+  readonly case?: "keep" | "lower";
+  /** Stress policies (lexicon/arpabet.ts STRESS_POLICIES). */
+  readonly stressPolicy?: readonly StressPolicy[];
 }
 
 /** Exit 0 success; 3 some entries rejected (and not allowed); 1 the import could not run. */
@@ -40,9 +44,11 @@ export type ImportOutcome = CommandOutcome;
 const SHOWN_REJECTS = 20;
 
 /** The lexicon CSV for imported rows: header `word,pron,note`, one row per pronunciation. */
-export function* importedCsv(rows: Iterable<ImportedRow>): Generator<string> {
-  yield csvLine(["word", "pron", "note"]);
-  for (const r of rows) yield csvLine([r.word, r.pron, r.note ?? ""]);
+export function* importedCsv(rows: readonly ImportedRow[]): Generator<string> {
+  // A `tags` column only when some row has tags (the weak-forms policy).
+  const tags = rows.some((r) => r.tags !== undefined);
+  yield csvLine(tags ? ["word", "pron", "tags", "note"] : ["word", "pron", "note"]);
+  for (const r of rows) yield csvLine(tags ? [r.word, r.pron, (r.tags ?? []).join(" "), r.note ?? ""] : [r.word, r.pron, r.note ?? ""]);
 }
 
 /** Runs the import without touching the process (the command prints the outcome and sets the exit code). */
@@ -70,7 +76,7 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
     const why = code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : (e as Error).message;
     return fail(diagnostic("error", "import/unreadable", `Cannot read the dictionary: ${why}.`, { file, line: 1, column: 1 }));
   }
-  const result = importArpabetText(text, loaded.table, { file });
+  const result = importArpabetText(text, loaded.table, { file, ...(opts.case !== undefined ? { case: opts.case } : {}), policies: opts.stressPolicy ?? [] });
 
   let stdout = "";
   if (opts.out !== undefined && opts.out !== "-") {
@@ -93,6 +99,8 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
     stderr +=
       `import: ${plural(result.lines, "line")} read = ${plural(result.rows.length, "entry", "entries")} written + ${result.rejects.length} rejected` +
       ` + ${result.comments} comment + ${result.blanks} blank\n`;
+    // Every mapping rule and stress policy that can change entries, with its count (never silent).
+    for (const [name, n] of Object.entries(result.changed)) stderr += `import: ${name}: ${plural(n, "entry", "entries")} changed\n`;
   }
   const exitCode = result.rejects.length > 0 && opts.allowRejects !== true ? EXIT.rejects : EXIT.ok;
   if (exitCode === EXIT.rejects) stderr += `import: ${plural(result.rejects.length, "entry was", "entries were")} rejected; pass --allow-rejects to accept the rest anyway.\n`;
@@ -109,13 +117,15 @@ export function registerImport(program: Command): void {
   cmd
     .option("--table <file>", "ARPAbet → IPA mapping table (default: the shipped lexicons/en-us/arpabet.csv)")
     .option("--rejects <file>", "where to write rejected entries as CSV (default: <out>.rejects.csv)")
-    .option("--allow-rejects", "exit 0 even if some entries were rejected");
+    .option("--allow-rejects", "exit 0 even if some entries were rejected")
+    .addOption(new Option("--case <case>", "the spelling's letter case").choices(["keep", "lower"]).default("keep"))
+    .addOption(new Option("--stress-policy <names...>", "stress policies for CMU-style dictionaries (see lexicons/en-us/README.md)").choices([...STRESS_POLICIES]));
   commonOptions(cmd);
   examples(cmd, [
     ["strata import --arpabet cmudict.dict -o lexicon.csv", "lexicon.csv and lexicon.csv.rejects.csv"],
-    ["zcat dict.gz | strata import --arpabet - > lexicon.csv", "from standard input to standard output"],
+    ["zcat dict.gz | strata import --arpabet - --case lower > lexicon.csv", "from standard input to standard output"],
   ]);
-  cmd.action(async (o: { arpabet: string; out?: string; table?: string; rejects?: string; allowRejects?: boolean; quiet?: boolean }) => {
+  cmd.action(async (o: { arpabet: string; out?: string; table?: string; rejects?: string; allowRejects?: boolean; quiet?: boolean; case?: "keep" | "lower"; stressPolicy?: StressPolicy[] }) => {
     await printOutcome(await runImport(o));
   });
 }

@@ -12,6 +12,8 @@ import { registerGraph } from "./graph.js";
 import { registerLint } from "./lint.js";
 import { registerClusters } from "./clusters.js";
 import { registerInit } from "./init.js";
+import { registerExplain } from "./explain.js";
+import { registerInteractions } from "./interactions.js";
 
 const program = createProgram();
 registerInit(program);
@@ -23,5 +25,7 @@ registerCompile(program);
 registerGraph(program);
 registerLint(program);
 registerClusters(program);
+registerExplain(program);
+registerInteractions(program);
 
 await runProgram(program, process.argv);

@@ -1,129 +1,13 @@
 // Importing ARPAbet-coded pronunciation dictionaries (one entry a line, stress digits on vowels,
 // `WORD(2)` alternates) into Strata's lexicon rows, through a mapping table such as lexicons/en-us/arpabet.csv.
 
-import { existsSync, readFileSync } from "node:fs";
-import { dirname, join } from "node:path";
-import { fileURLToPath } from "node:url";
-import { diagnostic } from "../diagnostics.js";
-import type { Diagnostic } from "../diagnostics.js";
 import { splitLines } from "../lines.js";
-import { checkQuoting, findForbidden } from "./fields.js";
-import { splitRecords } from "./records.js";
+import { findForbidden } from "./fields.js";
 import type { RejectedRow } from "./read.js";
+import type { ArpabetPhone, ArpabetTable } from "./arpabet-table.js";
 
-/** One ARPAbet phone of the mapping table. */
-export interface ArpabetPhone {
-  readonly arpabet: string;
-  /** Vowels carry a stress digit (0, 1, 2); consonants carry none. */
-  readonly vowel: boolean;
-  /** IPA by stress digit for vowels ("0", "1", "2"); the single value under "-" for consonants. */
-  readonly ipa: Readonly<Record<string, string>>;
-}
-
-export interface ArpabetTable {
-  readonly file: string;
-  readonly phones: ReadonlyMap<string, ArpabetPhone>;
-}
-
-/** The table shipped with Strata (lexicons/en-us/arpabet.csv), found from this module's location. */
-export function defaultArpabetTablePath(): string | undefined {
-  let dir = dirname(fileURLToPath(import.meta.url));
-  for (let i = 0; i < 6; i++) {
-    const candidate = join(dir, "lexicons", "en-us", "arpabet.csv");
-    if (existsSync(candidate)) return candidate;
-    const up = dirname(dir);
-    if (up === dir) break;
-    dir = up;
-  }
-  return undefined;
-}
-
-/**
- * Parses a mapping table: header `arpabet,stress,ipa` (other columns such as example and note are
- * ignored); comment lines start with `#`. `stress` is `-` for a consonant, `*` for a vowel whose IPA
- * is the same at every stress level, or `0`/`1`/`2` for one level (then all three must be given).
- */
-export function parseArpabetTable(text: string, file: string): { table?: ArpabetTable; diagnostics: Diagnostic[] } {
-  const out: Diagnostic[] = [];
-  // The lexicon file's own CSV grammar (records.ts, fields.ts), so lines are counted as everywhere else.
-  const records: { record: string[]; info: { lines: number } }[] = [];
-  for (const rec of splitRecords(text)) {
-    if (rec.kind !== "data") continue;
-    const bad = findForbidden(rec.raw, "arpabet");
-    const q = bad === undefined ? checkQuoting(rec.raw) : undefined;
-    if (bad !== undefined || q === undefined || !q.ok) {
-      const why = bad ?? (q !== undefined && !q.ok ? q : undefined)!;
-      return { diagnostics: [diagnostic("error", "arpabet/csv", `The mapping table cannot be read as CSV: ${why.reason}`, { file, line: rec.line, column: why.column })] };
-    }
-    records.push({ record: q.fields.map((f) => f.value), info: { lines: rec.line } });
-  }
-  const head = records[0];
-  if (head === undefined) return { diagnostics: [diagnostic("error", "arpabet/empty", "The mapping table is empty.", { file, line: 1, column: 1 })] };
-  const names = head.record.map((h) => h.trim().toLowerCase());
-  const col = (n: string): number => names.indexOf(n);
-  const [ca, cs, ci] = [col("arpabet"), col("stress"), col("ipa")];
-  if (ca < 0 || cs < 0 || ci < 0) {
-    return { diagnostics: [diagnostic("error", "arpabet/header", "The mapping table needs the columns arpabet, stress and ipa.", { file, line: head.info.lines, column: 1 })] };
-  }
-  const building = new Map<string, { vowel: boolean; ipa: Record<string, string>; line: number }>();
-  for (const { record, info } of records.slice(1)) {
-    const pos = { file, line: info.lines, column: 1 };
-    const arpabet = (record[ca] ?? "").trim().toUpperCase();
-    const stress = (record[cs] ?? "").trim();
-    const ipa = (record[ci] ?? "").trim().normalize("NFC");
-    if (!/^[A-Z]+$/.test(arpabet)) {
-      out.push(diagnostic("error", "arpabet/bad-phone", `'${arpabet}' is not an ARPAbet phone name (capital letters only).`, pos));
-      continue;
-    }
-    if (!["-", "*", "0", "1", "2"].includes(stress)) {
-      out.push(diagnostic("error", "arpabet/bad-stress", `The stress column must be -, *, 0, 1 or 2, not '${stress}'.`, pos));
-      continue;
-    }
-    if (ipa === "") {
-      out.push(diagnostic("error", "arpabet/empty-ipa", `No IPA given for ${arpabet}.`, pos));
-      continue;
-    }
-    const vowel = stress !== "-";
-    const entry = building.get(arpabet) ?? { vowel, ipa: {}, line: info.lines };
-    if (entry.vowel !== vowel) {
-      out.push(diagnostic("error", "arpabet/mixed", `${arpabet} is listed both as a consonant and as a vowel.`, pos));
-      continue;
-    }
-    const keys = stress === "*" ? ["0", "1", "2"] : [stress];
-    for (const k of keys) {
-      if (entry.ipa[k] !== undefined) {
-        out.push(diagnostic("error", "arpabet/duplicate", `${arpabet}${k === "-" ? "" : ` with stress ${k}`} is listed twice.`, pos));
-      }
-      entry.ipa[k] = ipa;
-    }
-    building.set(arpabet, entry);
-  }
-  for (const [arpabet, e] of building) {
-    if (e.vowel && !["0", "1", "2"].every((k) => e.ipa[k] !== undefined)) {
-      out.push(diagnostic("error", "arpabet/incomplete", `The vowel ${arpabet} needs IPA for stress 0, 1 and 2 (or one row with stress *).`, { file, line: e.line, column: 1 }));
-    }
-  }
-  if (out.some((d) => d.severity === "error")) return { diagnostics: out };
-  const phones = new Map<string, ArpabetPhone>();
-  for (const [arpabet, e] of building) phones.set(arpabet, { arpabet, vowel: e.vowel, ipa: e.ipa });
-  return { table: { file, phones }, diagnostics: out };
-}
-
-/** Reads a mapping table from a file (by default the shipped en-us table). */
-export function loadArpabetTable(path?: string): { table?: ArpabetTable; diagnostics: Diagnostic[] } {
-  const file = path ?? defaultArpabetTablePath();
-  if (file === undefined) {
-    return { diagnostics: [diagnostic("error", "arpabet/unreadable", "The shipped mapping table lexicons/en-us/arpabet.csv was not found.", { file: "arpabet.csv", line: 1, column: 1 })] };
-  }
-  let text: string;
-  try {
-    text = readFileSync(file, "utf8");
-  } catch (e) {
-    const why = (e as NodeJS.ErrnoException).code === "ENOENT" ? "there is no such file" : (e as Error).message;
-    return { diagnostics: [diagnostic("error", "arpabet/unreadable", `Cannot read the mapping table: ${why}.`, { file, line: 1, column: 1 })] };
-  }
-  return parseArpabetTable(text, file);
-}
+export { defaultArpabetTablePath, loadArpabetTable, parseArpabetTable } from "./arpabet-table.js";
+export type { ArpabetPhone, ArpabetTable } from "./arpabet-table.js";
 
 // ---------------------------------------------------------------------------------------------
 // Conversion
@@ -135,6 +19,8 @@ export interface ImportedRow {
   readonly pron: string;
   /** A trailing `# comment` of the entry, if any. */
   readonly note?: string;
+  /** Tags for the lexicon's `tags` column (`weak` from the weak-forms policy). */
+  readonly tags?: readonly string[];
   /** 1-based line of the entry in the source. */
   readonly line: number;
   /** 1 for the first pronunciation of the word, 2 for `WORD(2)`, … */
@@ -148,18 +34,46 @@ export interface ImportResult {
   readonly lines: number;
   readonly comments: number;
   readonly blanks: number;
+  /** How many entries each mapping rule and stress policy changed, by name (every name asked for, 0 included). */
+  readonly changed: Readonly<Record<string, number>>;
 }
 
-type Converted = { readonly ok: true; readonly pron: string } | { readonly ok: false; readonly offset: number; readonly code: string; readonly reason: string };
+/** Stress policies for dictionaries of the CMU kind; none applies unless asked for. */
+export const STRESS_POLICIES = ["weak-forms", "demote-second-primary"] as const;
+export type StressPolicy = (typeof STRESS_POLICIES)[number];
+
+/** The name under which the before-vowel rows of the table (`0V`, `1V`, `2V`) are counted. */
+export const BEFORE_VOWEL = "before-vowel";
+
+export interface ImportOptions {
+  readonly file: string;
+  /** The spelling's letter case: as written (default) or lower case. */
+  readonly case?: "keep" | "lower";
+  /**
+   * Stress policies, each counted in `changed`:
+   * - `weak-forms`: an entry whose vowels all carry 0 is tagged `weak`, so that the lexicon reader
+   *   leaves every vowel unstressed instead of letting the grammar's default stress stress one
+   *   (function words such as "the" DH AH0, "of" AH0 V);
+   * - `demote-second-primary`: in an entry with two or more primary stresses (compounds), every
+   *   primary after the first becomes secondary.
+   */
+  readonly policies?: readonly StressPolicy[];
+}
+
+type Converted =
+  | { readonly ok: true; readonly pron: string; readonly tags: readonly string[]; readonly changed: readonly string[] }
+  | { readonly ok: false; readonly offset: number; readonly code: string; readonly reason: string };
 
 /**
  * Converts a space-separated phone string (`K AE1 T`) to IPA. Stress digit 1 writes ˈ and 2 writes ˌ
  * immediately before the vowel (the reader puts a mark on the next nucleus, so this is exact; the
- * syllabifier places syllable boundaries later); 0 writes no mark. An entry whose vowels all lack a
- * digit is imported without marks (stress left to the grammar). `offset` of a failure is the
- * 0-based code-unit offset of the bad phone in `phones` (ARPAbet is ASCII).
+ * syllabifier places syllable boundaries later); 0 writes no mark. A vowel directly before another
+ * vowel takes the table's before-vowel value when it has one (en-us: ER0 → ə ɹ, so that the ɹ can
+ * start the next syllable). An entry whose vowels all lack a digit is imported without marks (stress
+ * left to the grammar). `changed` names the before-vowel rule and the policies that changed the
+ * entry. `offset` of a failure is the 0-based code-unit offset of the bad phone in `phones` (ARPAbet is ASCII).
  */
-export function convertArpabet(phones: string, table: ArpabetTable): Converted {
+export function convertArpabet(phones: string, table: ArpabetTable, policies: readonly StressPolicy[] = []): Converted {
   const parts: { text: string; offset: number }[] = [];
   for (const m of phones.matchAll(/\S+/g)) parts.push({ text: m[0], offset: m.index ?? 0 });
   if (parts.length === 0) return { ok: false, offset: 0, code: "arpabet/empty", reason: "The entry has no phones." };
@@ -185,13 +99,33 @@ export function convertArpabet(phones: string, table: ArpabetTable): Converted {
     const bare = vowels.find((p) => p.digit === undefined)!;
     return { ok: false, offset: bare.offset, code: "arpabet/missing-stress", reason: `The vowel ${bare.phone.arpabet} has no stress digit while other vowels of the entry have one.` };
   }
-  const out = parsed.map((p) => {
+  const changed: string[] = [];
+  const tags: string[] = [];
+  if (policies.includes("demote-second-primary") && vowels.filter((p) => p.digit === "1").length > 1) {
+    let first = true;
+    for (const p of vowels) {
+      if (p.digit !== "1") continue;
+      if (!first) p.digit = "2";
+      first = false;
+    }
+    changed.push("demote-second-primary");
+  }
+  if (policies.includes("weak-forms") && vowels.length > 0 && vowels.every((p) => p.digit === "0")) {
+    tags.push("weak");
+    changed.push("weak-forms");
+  }
+  let beforeVowel = false;
+  const out = parsed.map((p, k) => {
     if (!p.phone.vowel) return p.phone.ipa["-"]!;
     // Unmarked entries: the quality of the stressed form (ʌ, ɝ), as a bare ARPAbet vowel is a full vowel.
-    const ipa = p.phone.ipa[p.digit ?? "1"]!;
+    const level = p.digit ?? "1";
+    const special = p.digit !== undefined && parsed[k + 1]?.phone.vowel === true ? p.phone.ipa[`${p.digit}V`] : undefined;
+    if (special !== undefined) beforeVowel = true;
+    const ipa = special ?? p.phone.ipa[level]!;
     return (p.digit === "1" ? "ˈ" : p.digit === "2" ? "ˌ" : "") + ipa;
   });
-  return { ok: true, pron: out.join(" ") };
+  if (beforeVowel) changed.unshift(BEFORE_VOWEL);
+  return { ok: true, pron: out.join(" "), tags, changed };
 }
 
 const shortName = (file: string): string => file.split(/[\\/]/).pop() ?? file;
@@ -214,8 +148,8 @@ const JSON_PAIR = /^(\s*)("(?:[^"\\]|\\.)*")\s*:\s*("(?:[^"\\]|\\.)*")\s*,?\s*$/
  * - `;;;`, `//` and `/*` start a comment line; blank lines are skipped.
  * Every other line becomes a row or a positioned reject; nothing stops the import.
  */
-export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
-  const acc = new Accumulator(table, opts.file);
+export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts: ImportOptions): ImportResult {
+  const acc = new Accumulator(table, opts);
   let n = 0;
   for (let raw of lines) {
     n++;
@@ -268,7 +202,7 @@ export function importArpabet(lines: Iterable<string>, table: ArpabetTable, opts
 }
 
 /** Imports an ARPAbet dictionary given as one text: lines end at CR LF, LF or a lone CR (src/lines.ts). */
-export function importArpabetText(text: string, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
+export function importArpabetText(text: string, table: ArpabetTable, opts: ImportOptions): ImportResult {
   return importArpabet(splitLines(text), table, opts);
 }
 
@@ -278,10 +212,17 @@ class Accumulator {
   readonly rejects: RejectedRow[] = [];
   comments = 0;
   blanks = 0;
+  private readonly file: string;
+  private readonly changed: Record<string, number> = {};
   constructor(
     private readonly table: ArpabetTable,
-    private readonly file: string,
-  ) {}
+    private readonly opts: ImportOptions,
+  ) {
+    this.file = opts.file;
+    // Every rule and policy asked for is reported, with 0 when it changed nothing.
+    if ([...table.phones.values()].some((p) => Object.keys(p.ipa).some((k) => k.endsWith("V")))) this.changed[BEFORE_VOWEL] = 0;
+    for (const p of opts.policies ?? []) this.changed[p] = 0;
+  }
 
   /** `offset` is in UTF-16 units of `raw`; the reject's column counts code points from 1. */
   reject(line: number, raw: string, offset: number, code: string, reason: string): void {
@@ -313,16 +254,19 @@ class Accumulator {
       return;
     }
     const [base, variant] = splitVariant(word);
-    const c = convertArpabet(phones, this.table);
+    const c = convertArpabet(phones, this.table, this.opts.policies);
     if (!c.ok) {
       this.reject(line, raw, phonesAt + c.offset, c.code, c.reason);
       return;
     }
-    this.rows.push({ word: base.normalize("NFC"), pron: c.pron, line, variant, ...(note === undefined ? {} : { note }) });
+    for (const name of c.changed) this.changed[name] = (this.changed[name] ?? 0) + 1;
+    const spelled = base.normalize("NFC");
+    const w = this.opts.case === "lower" ? spelled.toLowerCase() : spelled;
+    this.rows.push({ word: w, pron: c.pron, line, variant, ...(note === undefined ? {} : { note }), ...(c.tags.length > 0 ? { tags: c.tags } : {}) });
   }
 
   result(lines: number): ImportResult {
-    return { rows: this.rows, rejects: this.rejects, lines, comments: this.comments, blanks: this.blanks };
+    return { rows: this.rows, rejects: this.rejects, lines, comments: this.comments, blanks: this.blanks, changed: this.changed };
   }
 }
 
@@ -331,8 +275,8 @@ class Accumulator {
  * `cmu-pronouncing-dictionary`'s `dictionary`). Entries are numbered from 1 in the object's order;
  * that number is the `line` of rows and rejects, whose `raw` is the entry as a `"word": "phones"` pair.
  */
-export function importArpabetDictionary(dict: Readonly<Record<string, string>>, table: ArpabetTable, opts: { readonly file: string }): ImportResult {
-  const acc = new Accumulator(table, opts.file);
+export function importArpabetDictionary(dict: Readonly<Record<string, string>>, table: ArpabetTable, opts: ImportOptions): ImportResult {
+  const acc = new Accumulator(table, opts);
   let n = 0;
   for (const word in dict) {
     n++;

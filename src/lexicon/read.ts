@@ -13,7 +13,7 @@ import { checkQuoting, columnInField, findForbidden } from "./fields.js";
 import type { Field } from "./fields.js";
 import { RecordSplitter } from "./records.js";
 import type { SourceRecord } from "./records.js";
-import { applyStress } from "./stress.js";
+import { applyStress, unstressAll } from "./stress.js";
 
 export { checkQuoting, columnInField, findForbidden } from "./fields.js";
 export type { Field, FieldSpan, QuoteCheck } from "./fields.js";
@@ -44,6 +44,9 @@ export type { SourceRecord, RecordKind } from "./records.js";
  * Every data record ends up as exactly one row or one reject, in file order.
  */
 
+/** The tag (in the `tags` column) of a weak form: every vowel unstressed, no default stress. */
+export const WEAK_TAG = "weak";
+
 /** The columns the reader knows. */
 export const LEXICON_COLUMNS = ["word", "pron", "id", "pos", "tags", "note"] as const;
 export type LexiconColumn = (typeof LEXICON_COLUMNS)[number];
@@ -73,7 +76,10 @@ export interface LexiconRow {
   readonly symbols: Word;
   /** The whole record as read (no line end), for rejects made later (e.g. by the runner). */
   readonly raw: string;
-  /** Whether the pronunciation had any stress mark (if not, every nucleus is [0stress 0primary]). */
+  /**
+   * Whether the pronunciation had any stress mark, or the row is tagged `weak` (if neither, every
+   * nucleus is [0stress 0primary]; tagged `weak`, every nucleus is [-stress -primary]).
+   */
   readonly stressMarked: boolean;
 }
 
@@ -223,6 +229,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     try {
       for await (const chunk of textChunks(stream)) {
         const recs = splitter.push(chunk);
+        stats.lines = splitter.lines;
         if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
         for (const rec of recs) {
           const item = take(rec);
@@ -236,7 +243,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
         if (item !== undefined) yield count(item);
       }
     } catch (e) {
-      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed: ${(e as Error).message}.`, { file, line: splitter.lines + 1, column: 1 }));
+      diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${splitter.lines}: ${(e as Error).message}.`, { file, line: Math.max(1, splitter.lines), column: 1 }));
       return;
     } finally {
       stats.lines = splitter.lines;
@@ -340,6 +347,12 @@ function readRow(
   }
   const s = applyStress(inv, t.tokens);
   if (!s.ok) return reject(columnInField(info.raw, pronField, s.column - pronField.column), s.code, s.reason);
+  const tags = (get("tags") ?? "").split(/[\s,;]+/u).filter((x) => x !== "");
+  // The tag `weak`: a weak form, every vowel unstressed rather than given default stress.
+  const weak = tags.includes(WEAK_TAG);
+  if (weak && s.marked) {
+    return reject(colOf("tags"), "lexicon/weak-with-stress", `'${word}' is tagged ${WEAK_TAG} (every vowel unstressed) but its pronunciation has stress marks.`);
+  }
 
   const opt = (c: LexiconColumn): string | undefined => {
     const v = get(c)?.trim();
@@ -353,9 +366,9 @@ function readRow(
     word,
     pron,
     pronColumn: pronField.column,
-    tags: (get("tags") ?? "").split(/[\s,;]+/u).filter((x) => x !== ""),
-    symbols: s.symbols,
-    stressMarked: s.marked,
+    tags,
+    symbols: weak ? unstressAll(inv, s.symbols) : s.symbols,
+    stressMarked: s.marked || weak,
     ...optional("id", opt("id")),
     ...optional("pos", opt("pos")),
     ...optional("note", opt("note")),

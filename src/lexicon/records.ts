@@ -109,7 +109,7 @@ export class RecordSplitter {
         const lf = this.lf.find(buf, this.pos);
         const cr = this.cr.find(buf, this.pos);
         if (lf >= 0 && (cr < 0 || cr >= lf - 1)) {
-          out.push(this.record(buf.slice(this.pos, cr === lf - 1 ? lf - 1 : lf), 1));
+          out.push(this.record(buf.slice(this.pos, cr >= 0 && cr === lf - 1 ? lf - 1 : lf), 1));
           this.pos = lf + 1;
           continue;
         }

@@ -2,7 +2,8 @@
 // TSV, JSON Lines and PLS written whole, a rejects file, and a summary that reconciles every row.
 
 import { dirname, join } from "node:path";
-import { capPerFile, formatDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { formatDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { capPerFile } from "../diagnostic-cap.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { formatJsonLine } from "../emit/jsonl.js";
 import { writePls, type PlsEntry } from "../emit/pls.js";
@@ -269,7 +270,7 @@ export async function runLexicon(
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
     outputErrors,
-    fileDiagnostics: capPerFile(reader.diagnostics),
+    fileDiagnostics: capPerFile(reader.diagnostics, "lexicon/too-many-problems"),
     diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
     reconciled: true,
@@ -287,6 +288,6 @@ export async function runLexicon(
 function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {
   return {
     variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0,
-    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
+    changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics, "lexicon/too-many-problems"), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }

@@ -85,3 +85,21 @@ const noVowel = (p: { level: string; column: number }): StressResult => ({
   code: "lexicon/stress-without-vowel",
   reason: `The ${p.level} stress mark is not followed by a vowel (a [+syllabic] segment) in the same word.`,
 });
+
+/**
+ * The symbols of an entry tagged `weak` (a weak form: every vowel unstressed, no default stress):
+ * every nucleus [-stress -primary]. Only for entries without stress marks.
+ */
+export function unstressAll(inv: Inventory, symbols: Word): Word {
+  const syllabic = inv.featureIndex.get("syllabic");
+  const stressF = inv.featureIndex.get("stress");
+  const primaryF = inv.featureIndex.get("primary");
+  if (syllabic === undefined || stressF === undefined || primaryF === undefined) return symbols;
+  return symbols.map((s) => {
+    if (s.kind !== "segment" || s.bundle[syllabic] !== "+") return s;
+    const b = s.bundle.slice();
+    b[stressF] = "-";
+    b[primaryF] = "-";
+    return segment(b);
+  });
+}

@@ -14,7 +14,10 @@ import { parseTempName } from "../../src/tempfile.js";
 import { arpabetToIpa, cmuEntries } from "../lexicons/harness.js";
 
 const ROOT = resolve(__dirname, "../..");
-const CLI = join(ROOT, "dist", "src", "cli", "main.js");
+// A private compilation (other test files compile dist/ at the same time; a half-rewritten file
+// there must not be mistaken for a crash). Inside the checkout, so node_modules resolves.
+const DIST = join(ROOT, "build", "test-dist", "crash");
+const CLI = join(DIST, "src", "cli", "main.js");
 const CACHE = join(tmpdir(), "strata-test-cache");
 const VARIETIES = ["general", "careful"];
 const OUTPUTS = ["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"];
@@ -63,9 +66,31 @@ let lexDir = "";
 let refOld = "";
 let refNew = "";
 let duration = 0;
+/** From the first staging folder's appearance to the end of the run: where the writing happens. */
+let writing = 0;
 
-beforeAll(() => {
-  execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", ROOT], { stdio: "inherit" });
+/** Resolves with the time (Date.now) a staging folder first shows in `dir`, or undefined if the child exits first. */
+function stagingSeen(dir: string, exited: Promise<unknown>): Promise<number | undefined> {
+  return new Promise((res) => {
+    let done = false;
+    void exited.then(() => {
+      done = true;
+      res(undefined);
+    });
+    const poll = (): void => {
+      if (done) return;
+      const names = existsSync(dir) ? readdirSync(dir) : [];
+      if (names.some((n) => parseTempName(n)?.kind === "staging")) {
+        done = true;
+        res(Date.now());
+      } else setTimeout(poll, 5);
+    };
+    poll();
+  });
+}
+
+beforeAll(async () => {
+  execFileSync(process.execPath, [join(ROOT, "node_modules", "typescript", "bin", "tsc"), "-p", ROOT, "--outDir", DIST], { stdio: "inherit" });
   const base = mkdtempSync(join(tmpdir(), "strata-crash-"));
   lexDir = join(base, "words");
   mkdirSync(lexDir);
@@ -80,8 +105,12 @@ beforeAll(() => {
   writeFileSync(join(lexDir, "lexicon.csv"), cmuLexicon(3000, 5));
   refNew = join(base, "ref-new");
   const t0 = Date.now();
-  expect(spawnSync(process.execPath, build(lexDir, refNew)).status).toBe(0);
+  const child = spawn(process.execPath, build(lexDir, refNew), { stdio: "ignore" });
+  const exited = new Promise<number | null>((res) => child.on("exit", (code) => res(code)));
+  const staged = await stagingSeen(join(refNew, "words"), exited);
+  expect(await exited).toBe(0);
   duration = Date.now() - t0;
+  writing = Date.now() - (staged ?? t0);
 }, 600_000);
 
 describe("strata build killed with SIGKILL at random moments", () => {
@@ -91,10 +120,13 @@ describe("strata build killed with SIGKILL at random moments", () => {
     for (let k = 0; k < KILLS; k++) {
       const out = mkdtempSync(join(tmpdir(), "strata-crash-out-"));
       cpSync(join(refOld, "words"), join(out, "words"), { recursive: true });
-      // Kill moments spread over the whole run (start-up, compile, reading, writing, swapping).
-      const delay = Math.round((0.1 + rnd()) * duration);
+      // Every other kill anywhere in the run (start-up, lock, compile); the others while the
+      // varieties are written and swapped in (counted from the first staging folder's appearance).
+      const fromStart = k % 2 === 1;
+      const delay = Math.round(rnd() * 1.1 * (fromStart ? duration : writing));
       const child = spawn(process.execPath, build(lexDir, out), { stdio: "ignore" });
       const exited = new Promise<number | null>((res) => child.on("exit", (code) => res(code)));
+      if (!fromStart) await stagingSeen(join(out, "words"), exited);
       await new Promise((res) => setTimeout(res, delay));
       child.kill("SIGKILL");
       const code = await exited;
@@ -117,7 +149,7 @@ describe("strata build killed with SIGKILL at random moments", () => {
           states.push(`${v}:aside`);
         }
       }
-      seen.push(`${delay} ms → ${code === null ? "killed" : `exit ${code}`}: ${states.join(" ")}`);
+      seen.push(`${delay} ms ${fromStart ? "from start" : "into writing"} → ${code === null ? "killed" : `exit ${code}`}: ${states.join(" ")}`);
       // The next run finishes the job and leaves no temporary of the killed one.
       expect(spawnSync(process.execPath, build(lexDir, out)).status).toBe(0);
       for (const v of VARIETIES) expect(same(folder(join(out, "words", v)), folder(join(refNew, "words", v)))).toBe(true);
@@ -125,6 +157,6 @@ describe("strata build killed with SIGKILL at random moments", () => {
       expect(temporaries(CACHE).filter((p) => parseTempName(p.split("/").pop()!)?.pid === child.pid)).toEqual([]);
       rmSync(out, { recursive: true, force: true });
     }
-    process.stderr.write(`cli/crash: reference build ${duration} ms; kills: ${seen.join("; ")}\n`);
+    process.stderr.write(`cli/crash: reference build ${duration} ms (writing ${writing} ms); kills: ${seen.join("; ")}\n`);
   }, 600_000);
 });

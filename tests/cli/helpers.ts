@@ -16,11 +16,13 @@ import { registerImport } from "../../src/cli/import.js";
 import { registerInit } from "../../src/cli/init.js";
 import { registerLint } from "../../src/cli/lint.js";
 import { registerTranscribe } from "../../src/cli/transcribe.js";
+import { registerExplain } from "../../src/cli/explain.js";
+import { registerInteractions } from "../../src/cli/interactions.js";
 
 /** The program with every command of main.ts. */
 export function program(): Command {
   const p = createProgram();
-  for (const register of [registerInit, registerClasses, registerImport, registerBuild, registerTranscribe, registerCompile, registerGraph, registerLint, registerClusters]) register(p);
+  for (const register of [registerInit, registerClasses, registerImport, registerBuild, registerTranscribe, registerCompile, registerGraph, registerLint, registerClusters, registerExplain, registerInteractions]) register(p);
   return p;
 }
 

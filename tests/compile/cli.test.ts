@@ -51,7 +51,7 @@ describe("strata compile", () => {
     expect(r.exitCode).toBe(0);
     const j = JSON.parse(r.stdout) as { steps: { name: string; states: number; arcs: number }[]; preferred: { blocks: unknown[]; states: number }; cache: string };
     expect(j.cache).toBe("off");
-    expect(j.steps.length).toBe(13);
+    expect(j.steps.length).toBe(15);
     expect(j.steps.every((s) => s.states > 0 && s.arcs > 0)).toBe(true);
     expect(j.preferred.blocks.length).toBeGreaterThan(1);
   });

@@ -65,11 +65,12 @@ describe("the shipped mapping table (lexicons/en-us/arpabet.csv)", () => {
     for (const [arpa, want] of cases) expect(ipa(arpa)).toBe(want);
   });
 
-  it("spells every IPA value as a segment of the en-us inventory", () => {
+  it("spells every IPA value as a segment of the en-us inventory (a before-vowel value as segments)", () => {
     for (const p of table.phones.values()) {
-      for (const v of Object.values(p.ipa)) {
+      for (const [k, v] of Object.entries(p.ipa)) {
         const t = tokenise(inv, v);
-        expect(t.ok && t.tokens.length === 1 && t.tokens[0]!.kind === "segment", `${p.arpabet} → ${v}`).toBe(true);
+        const n = k.endsWith("V") ? v.split(" ").length : 1;
+        expect(t.ok && t.tokens.length === n && t.tokens.every((x) => x.kind === "segment"), `${p.arpabet} → ${v}`).toBe(true);
       }
     }
   });

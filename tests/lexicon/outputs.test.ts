@@ -9,6 +9,9 @@ import { join, relative, resolve } from "node:path";
 import { spawnSync } from "node:child_process";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { runBuild } from "../../src/cli/build.js";
+import { loadGrammar } from "../../src/grammar/index.js";
+import type { Engine } from "../../src/lexicon/engine.js";
+import { runLexicon } from "../../src/lexicon/runner.js";
 
 const ROOT = resolve(__dirname, "../..");
 const GRAMMAR = join(ROOT, "lexicons", "en-us", "grammar.strata");
@@ -86,7 +89,7 @@ describe("a variety's outputs are replaced together", () => {
     const dir = lexiconFolder(GOOD);
     const out = join(dir, "..", "out");
     expect((await build(dir, opts(out))).code).toBe(0);
-    writeFileSync(join(dir, "lexicon.csv"), ["word,pron", "kettle,ˈkɛtəl", "bad\u0001word,ˈbæd", "zebra,ˈzibɹə", ""].join("\n"));
+    writeFileSync(join(dir, "lexicon.csv"), ["word,pron", "kettle,ˈkɛtəl", "bad\uFFFEword,ˈbæd", "zebra,ˈzibɹə", ""].join("\n"));
     expect((await build(dir, opts(out, { allowRejects: false }))).code).toBe(3);
     const base = join(out, "lex", "general");
     expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
@@ -96,9 +99,31 @@ describe("a variety's outputs are replaced together", () => {
       expect(read(join(base, f))).not.toContain("tundra");
       expect(read(join(base, f))).not.toContain("bad");
     }
-    expect(read(join(base, "rejects.csv"))).toMatch(/^lexicon\.csv,3,1,pls\/invalid-xml-char,/m);
+    // The reader refuses the character first (lexicon/not-a-character or lexicon/control-character);
+    // the runner's up-front check (pls/invalid-xml-char, tested below) stands behind it.
+    expect(read(join(base, "rejects.csv"))).toMatch(/^lexicon\.csv,3,\d+,(lexicon\/not-a-character|lexicon\/control-character|pls\/invalid-xml-char),/m);
     expect(JSON.parse(read(join(base, "summary.json")))).toMatchObject({ rowsRead: 3, entriesWritten: 2, rowsRejected: 1, reconciled: true });
     expect(readdirSync(join(out, "lex")).filter((f) => f.startsWith("."))).toEqual([]);
+  });
+
+  it("a narrow form PLS cannot hold (from the engine, not the input) is a reject in every format, checked before any is written", async () => {
+    const dir = lexiconFolder(GOOD);
+    const { inventory } = loadGrammar(GRAMMAR);
+    // An engine whose output for one word holds U+0001 (XML 1.0 §2.2, production Char, excludes it).
+    const engine: Engine = {
+      steps: ["step"],
+      // tundra is the only word of six segments (kettle has five, cat three).
+      transcribeWord: (symbols) => {
+        const narrow = symbols.length === 6 ? "tʌn\u0001dɹə" : `n${symbols.length}`;
+        return { narrow, broad: "b", variants: [narrow], rules: [] };
+      },
+    };
+    const out = join(dir, "..", "out", "general");
+    const s = await runLexicon(engine, inventory!, join(dir, "lexicon.csv"), out, { name: "general", lang: "en-US" }, { formats: ["tsv", "jsonl", "pls"] });
+    expect(s).toMatchObject({ rowsRead: 3, entriesWritten: 2, rowsRejected: 1, reconciled: true });
+    expect(read(join(out, "rejects.csv"))).toMatch(/^lexicon\.csv,3,\d+,pls\/invalid-xml-char,"The narrow form/m);
+    for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls"]) expect(read(join(out, f))).not.toContain("tundra");
+    expect(read(join(out, "lexicon.pls")).match(/<lexeme>/g)?.length).toBe(2);
   });
 
   it("a folder where rejects.csv should be, or a file where the variety's folder should be, is replaced with the rest", async () => {
@@ -174,7 +199,8 @@ describe("where a build writes", () => {
     writeFileSync(blocker, "not a folder\n");
     const { code, err } = await build(dir, opts(blocker));
     expect(code).toBe(1);
-    expect(err).toMatch(/^\S+:1:1: error: Cannot write this output: (a part of the path is a file, not a folder|something else already exists there)\. \[output\/unwritable\]$/m);
+    // Refused on the command line (cli/output-is-file) before the output folder is opened.
+    expect(err).toMatch(/^command line:1:\d+: error: The output '.*' is a file; give a folder\. \[cli\/output-is-file\]$/m);
     expect(err).not.toMatch(/\n\s+at /);
   });
 

@@ -10,7 +10,7 @@ import fc from "fast-check";
 import { renderDiagnostic } from "../../src/diagnostics.js";
 import { loadInventory } from "../../src/inventory/index.js";
 import type { Inventory } from "../../src/inventory/types.js";
-import { checkQuoting, readLexicon, rejectDiagnostic, splitRecords } from "../../src/lexicon/read.js";
+import { RecordSplitter, checkQuoting, readLexicon, rejectDiagnostic, splitRecords } from "../../src/lexicon/read.js";
 import type { LexiconItem, LexiconReader } from "../../src/lexicon/read.js";
 import { useSeed } from "../fuzz/seed.js";
 
@@ -77,6 +77,12 @@ describe("lexicon reader: carriage returns (RFC 4180)", () => {
       }),
       { numRuns: 100 },
     );
+  });
+
+  it("a chunk that starts with a line end is a blank line, not part of the next record", () => {
+    const s = new RecordSplitter();
+    const recs = [...s.push("w,p\n"), ...s.push("\none,x\n"), ...s.end()];
+    expect(recs.map((r) => [r.line, r.kind, r.raw])).toEqual([[1, "data", "w,p"], [2, "blank", ""], [3, "data", "one,x"]]);
   });
 
   it("splits records by the documented grammar", () => {
