@@ -4,7 +4,7 @@
 // with every ratio taken from figures of that run (medians of repetitions) and the output checks
 // that make the comparisons valid. Exits non-zero only on a failed output check, never on a timing.
 
-import { availableParallelism, totalmem } from "node:os";
+import { availableParallelism, loadavg, totalmem } from "node:os";
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join, relative } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -20,6 +20,7 @@ import { SUBSET_RULES, prosodyGrammar, subsetGrammar } from "./subset.js";
 import { randomDfa, walk } from "./table-walk.js";
 import { fmt, fmtMB, fmtMs, fmtRate, median, runChild, sampleIndices, textTable, timeRepeated, type ChildRun } from "./util.js";
 import { writePerformanceSection } from "./readme.js";
+import { benchEndToEnd } from "./e2e.js";
 
 export interface MainJobOptions {
   /** The package root (default: found from this file). */
@@ -133,6 +134,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
 
   say("== Main job: the en-us grammar over the CMU Pronouncing Dictionary ==");
   const info = machineInfo();
+  const loadStart = fmt(loadavg()[0]!, 1);
   say(`machine: ${info.cpus} CPUs (${info.cpu}), ${info.memory}, Node ${info.node}`);
 
   // --- Data --------------------------------------------------------------------------------
@@ -341,6 +343,15 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   ]));
   Object.assign(figures, { buildColdMs: coldBuild?.wallMs ?? null, buildMs, buildPeakRssBytes: buildRss, ioFloorMs: floorMs, ioFloorPeakRssBytes: floorRss });
 
+  // --- End to end against the in-house script, and the stages of one build ---------------------
+  const e2e = await benchEndToEnd({ root, csv: folder.csv, lexiconDir: folder.dir, grammarPath, grammar, inventory: inv, cacheDir, work, reps: childReps, entries: words.length });
+  failures.push(...e2e.failures);
+  Object.assign(figures, {
+    inhouseMs: e2e.inhouseMs, inhousePeakRssBytes: e2e.inhouseRss, transcribeMs: e2e.transcribeMs, transcribePeakRssBytes: e2e.transcribeRss,
+    build3Ms: e2e.buildMs, build3PeakRssBytes: e2e.buildRss,
+    ...Object.fromEntries(e2e.stages.map((st) => [`stage: ${st.name}`, st.ms])),
+  });
+
   // --- Ratios against the targets (figures of this run only) -----------------------------------
   const ratios: { name: string; value: number | null; target: string; met: boolean | null; shown: string; info?: true }[] = [];
   const metText = (r: (typeof ratios)[number], no: string): string => (r.info ? "—" : r.met === null ? "n/a" : r.met ? "yes" : no);
@@ -352,6 +363,8 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   ratio("composed machine ÷ interpreter (entries/s, sample)", machineSampleEps / interpEps, "≥ 20×", (v) => v >= 20, x);
   ratio("composed machine ÷ regex cascade (entries/s)", machineEps / regexEps, "≥ 10×", (v) => v >= 10, x);
   ratios.push({ name: `  same ${SUBSET_RULES.length} rules: subset machine ÷ regex cascade`, value: subsetEps / regexEps, target: "(for information)", met: null, shown: x(subsetEps / regexEps), info: true });
+  ratio("strata transcribe (TSV, cached) ÷ in-house script (wall, pairs)", e2e.transcribeRatio, "≤ 1.0×", (v) => v <= 1.0, x);
+  ratio("strata build, TSV + JSON Lines + PLS (cached) ÷ in-house script (wall, pairs)", e2e.buildRatio, "≤ 1.5×", (v) => v <= 1.5, x);
   ratio("strata build ÷ I/O floor (wall)", buildMs !== null ? buildMs / floorMs : null, "≤ 3×", (v) => v <= 3, x);
   ratio("strata build peak RSS", buildRss, "≤ 400 MB", (v) => v <= 400e6, (v) => fmtMB(v));
   ratio("cached compile ÷ cold compile", cachedMs / coldMs, "≤ 5%", (v) => v <= 0.05, (v) => `${fmt(v * 100, 1)}%`);
@@ -374,9 +387,9 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
 
   if (opts.writeReadme ?? true) {
     const body = [
-      `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}.`,
+      `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}; load average ${loadStart} at the start of the section, ${loadavg().map((l) => fmt(l, 1)).join(" / ")} (1 / 5 / 15 min) at its end (a shared machine is slower for every figure; the ratios compare runs made in turn).`,
       `Data: the whole CMU Pronouncing Dictionary (${fmt(words.length)} entries, npm \`cmu-pronouncing-dictionary\`) through \`lexicons/en-us/grammar.strata\` (all rules, syllabification and stress).`,
-      `In-process figures are medians of ${reps} runs, child-process figures (compile, build, I/O floor) medians of ${childReps}; every ratio is taken from figures of the same run.`,
+      `In-process figures are medians of ${reps} runs, child-process figures (compile, build, I/O floor, in-house script, transcribe) medians of ${childReps}; every ratio is taken from figures of the same run (against the in-house script: the median of the ratios of runs made in turn).`,
       ...(failures.length > 0 ? ["", "**The output checks failed in this run; the comparisons below are void.**"] : []),
       "",
       "| measure | figure |",
@@ -391,6 +404,15 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
       `| \`strata build\` → TSV + PLS, empty cache (once) | ${coldBuild ? fmtMs(coldBuild.wallMs) : "n/a"}, peak RSS ${fmtMB(coldBuild?.maxRssBytes ?? null)} |`,
       `| \`strata build\` → TSV + PLS, cached machines | ${buildMs !== null ? fmtMs(buildMs) : "n/a"}, peak RSS ${fmtMB(buildRss)} |`,
       `| I/O floor (read CSV, write TSV, no rules) | ${fmtMs(floorMs)} |`,
+      `| in-house script (csv-parse, 5 regular expressions, TSV to stdout) | ${fmtMs(e2e.inhouseMs)}, peak RSS ${fmtMB(e2e.inhouseRss)} |`,
+      `| \`strata transcribe\` → TSV on stdout, cached machines | ${fmtMs(e2e.transcribeMs)}, peak RSS ${fmtMB(e2e.transcribeRss)} |`,
+      `| \`strata build\` → TSV + JSON Lines + PLS, cached machines | ${fmtMs(e2e.buildMs)}, peak RSS ${fmtMB(e2e.buildRss)} |`,
+      "",
+      "Stages of one build, each timed alone in process (the bench prints this table; a slower stage shows here):",
+      "",
+      "| stage | time |",
+      "|---|---|",
+      ...e2e.stages.map((st) => `| ${st.name} | ${fmtMs(st.ms)} |`),
       "",
       "| ratio | measured | target | met |",
       "|---|---|---|---|",

@@ -2,7 +2,7 @@
 // processes whose peak resident memory is read back, and number formatting for the tables.
 
 import { spawn } from "node:child_process";
-import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import stringWidth from "string-width";
@@ -78,20 +78,24 @@ export interface ChildRun {
  * script in its own process and records `process.resourceUsage().maxRSS` when that process exits,
  * so the peak memory is the script's own, not the bench's.
  */
-export function runChild(rssWrapper: string, script: string, args: readonly string[], opts: { cwd?: string; env?: NodeJS.ProcessEnv } = {}): Promise<ChildRun> {
+export function runChild(rssWrapper: string, script: string, args: readonly string[], opts: { cwd?: string; env?: NodeJS.ProcessEnv; stdoutFile?: string } = {}): Promise<ChildRun> {
   const dir = mkdtempSync(join(tmpdir(), "strata-bench-"));
   const rssFile = join(dir, "maxrss");
+  // With `stdoutFile` the child writes its standard output straight into that file (as a shell
+  // redirection would), so a large output costs the child, not a pipe into this process.
+  const outFd = opts.stdoutFile !== undefined ? openSync(opts.stdoutFile, "w") : undefined;
   return new Promise((resolve, reject) => {
     const t0 = performance.now();
     const child = spawn(process.execPath, [rssWrapper, script, ...args], {
       cwd: opts.cwd,
       env: { ...process.env, ...opts.env, STRATA_BENCH_RSS_FILE: rssFile },
-      stdio: ["ignore", "pipe", "pipe"],
+      stdio: ["ignore", outFd ?? "pipe", "pipe"],
     });
+    if (outFd !== undefined) closeSync(outFd);
     let stdout = "";
     let stderr = "";
-    child.stdout.setEncoding("utf8").on("data", (c: string) => (stdout += c));
-    child.stderr.setEncoding("utf8").on("data", (c: string) => (stderr += c));
+    child.stdout?.setEncoding("utf8").on("data", (c: string) => (stdout += c));
+    child.stderr?.setEncoding("utf8").on("data", (c: string) => (stderr += c));
     child.on("error", reject);
     child.on("close", (code) => {
       const wallMs = performance.now() - t0;

@@ -12,8 +12,10 @@ import { Channel } from "../lexicon/channel.js";
 import { InvalidArgumentError } from "commander";
 import {
   openCache, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples,
-  grammarOptions, loadEngine, outOption, plural, printDiagnostics, resolveGrammar, writeOut, type EngineKind,
+  grammarOptions, loadEngine, outOption, plural, printDiagnostics, resolveGrammar, type EngineKind,
 } from "./common.js";
+import { BufferedWriter } from "../emit/buffered.js";
+import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
 
@@ -65,7 +67,8 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     kind: o.engine ?? "machine",
     ...(cacheDir !== undefined ? { cacheDir } : {}),
     ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
-    blame: format === "jsonl",
+    // The per-step machines give JSON Lines its rules and let PLS skip enumerating most variants.
+    blame: format !== "tsv",
     syllables: o.syllableBreaks ?? true,
   });
   printDiagnostics(loaded.diagnostics, { quiet: o.quiet === true });
@@ -74,8 +77,10 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   const reader = readLexicon(fromStdin ? (o.input ?? process.stdin) : file, { inventory: loaded.inventory, file: sourceName });
 
   // Output: standard output as rows arrive, or (with -o) a file written whole at the end.
+  // Standard output goes in large chunks (back-pressure respected), flushed after each input batch.
   const chunks: string[] = [];
-  const write = o.out !== undefined && o.out !== "-" ? (t: string): void => void chunks.push(t) : writeOut;
+  const stdout = o.out !== undefined && o.out !== "-" ? undefined : new BufferedWriter(process.stdout);
+  const write = (text: string): Promise<void> | undefined => (stdout !== undefined ? stdout.write(text) : void chunks.push(text));
 
   let rejects = 0;
   let entries = 0;
@@ -95,37 +100,46 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     if (pending !== undefined && pls !== undefined) pls.push({ word: pending.word, phonemes: pending.phonemes, preferred: 0, source: { file: pending.file, line: pending.line, column: 1 } });
     pending = undefined;
   };
+  // Only what the format prints: TSV neither variants nor blame, PLS the variants, JSON Lines both.
+  const needs: Needs = format === "tsv" ? NARROW_ONLY : format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
   if (format === "tsv") await write(tsvHeader());
   try {
-    for await (const item of reader) {
-      const r = item.kind === "row" ? transcribeRow(loaded.engine, item) : item;
-      if (r.kind === "reject") {
-        reject(rejectDiagnostic(r));
-        continue;
-      }
-      if (format === "tsv") await write(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-      else if (format === "jsonl") await write(entryJsonLine(r));
-      else {
-        const mine = entryPhonemes(r);
-        try {
-          checkEntry({ word: r.word, phonemes: mine, preferred: 0, source: { file: r.file, line: r.line, column: 1 } }, 0, r.file);
-        } catch (err) {
-          if (!(err instanceof PlsError)) throw err;
-          reject(err.diagnostic);
+    for await (const batch of reader.batches()) {
+      for (const item of batch) {
+        const r = item.kind === "row" ? transcribeRow(loaded.engine, item, needs) : item;
+        if (r.kind === "reject") {
+          reject(rejectDiagnostic(r));
           continue;
         }
-        if (pending !== undefined && pending.word === r.word) {
-          for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
+        if (format === "tsv" || format === "jsonl") {
+          const w = write(format === "tsv" ? formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
+          if (w !== undefined) await w;
         } else {
-          flush();
-          pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+          const mine = entryPhonemes(r);
+          try {
+            checkEntry({ word: r.word, phonemes: mine, preferred: 0, source: { file: r.file, line: r.line, column: 1 } }, 0, r.file);
+          } catch (err) {
+            if (!(err instanceof PlsError)) throw err;
+            reject(err.diagnostic);
+            continue;
+          }
+          if (pending !== undefined && pending.word === r.word) {
+            for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
+          } else {
+            flush();
+            pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
+          }
         }
+        entries++;
       }
-      entries++;
+      // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.
+      const w = stdout?.flush();
+      if (w !== undefined) await w;
     }
     flush();
     pls?.close();
     await plsWriter;
+    await stdout?.flush();
   } catch (err) {
     pls?.fail(err);
     await plsWriter?.catch(() => undefined);

@@ -7,6 +7,7 @@ import {
   FrozenFst, freeze, freezeDeterministic, type DeterministicRunner,
   serialiseDeterministic, deserialiseDeterministic, serialiseFunctional, deserialiseFunctional,
 } from "../fst/index.js";
+import { unbounded, type Budget } from "./budget.js";
 
 export interface Block {
   readonly machine: Fst;
@@ -23,7 +24,7 @@ export interface Block {
  * starts a new one; applying the blocks in sequence gives the same relation as one machine.
  * `null` entries (identity steps) are skipped.
  */
-export function composeCascade(machines: readonly (Fst | null)[], maxStates: number): Block[] {
+export function composeCascade(machines: readonly (Fst | null)[], maxStates: number, budget: Budget = unbounded()): Block[] {
   const blocks: Block[] = [];
   let acc: Fst | null = null;
   let from = 0;
@@ -36,9 +37,11 @@ export function composeCascade(machines: readonly (Fst | null)[], maxStates: num
     if (m === null) return;
     if (acc === null) { acc = m; from = i; return; }
     let next: Fst | null = null;
+    budget.step = i;
+    budget.part = `composing step ${i + 1} with the steps before it`;
     try {
-      const c = compose(acc, m, { maxStates });
-      next = c.numStates > maxStates ? null : minimise(c);
+      const c = compose(acc, m, { maxStates, progress: budget.tick });
+      next = c.numStates > maxStates ? null : minimise(c, { progress: budget.tick });
       if (next !== null && next.numStates > maxStates) next = null;
     } catch (e) {
       if (!(e instanceof FstLimitError)) throw e;
@@ -81,12 +84,12 @@ function runnerFromBytes(kind: string, bytes: Uint8Array): BlockRunner | null {
   return null;
 }
 
-function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
+function blockRunner(m: Fst, tryTable: boolean, budget: Budget, onAmbiguous: () => void): BlockRunner {
   // A subsequential block becomes a dense table; when determinisation does not terminate within a
   // few times the block's size (no bounded delay: right contexts of unbounded length), search.
   let d: ReturnType<typeof determiniseTransducer> | null = null;
   try {
-    if (tryTable) d = determiniseTransducer(m, { maxStates: Math.min(Math.max(500, 2 * m.numStates), 50_000) });
+    if (tryTable) d = determiniseTransducer(m, { maxStates: Math.min(Math.max(500, 2 * m.numStates), 50_000), progress: budget.tick });
   } catch (e) {
     if (!(e instanceof FstLimitError)) throw e;
   }
@@ -101,18 +104,22 @@ function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
   }
   // Not subsequential (a right context of unbounded length): the two-pass runner for functional
   // transducers (a right-to-left DFA, then a left-to-right deterministic choice; src/fst/functional.ts).
-  const fr = freezeFunctional(m, { check: false });
+  const fr = freezeFunctional(m, { check: false, progress: budget.tick });
   if (fr.ok) {
     const runner = fr.runner;
     return { kind: "functional", run: (input, out) => runner.run(input, out), batch: runner.runBatch.bind(runner), bytes: () => serialiseFunctional(runner) };
   }
+  // The last resort: a search for the outputs. Each step's preferred machine is checked functional
+  // at compile time, so there is one; should there ever be two, the first in symbol order is taken
+  // and the entry is marked ambiguous (never a silent pick).
   const f: FrozenFst = freeze(m);
   return {
     kind: "search",
     run: (input, out) => {
-      const res = f.applyAll(input, 1);
+      const res = f.applyAll(input, 2);
       const first = res.outputs[0];
       if (first === undefined) return false;
+      if (res.outputs.length > 1) onAmbiguous();
       for (const x of first) out.push(x);
       return true;
     },
@@ -122,18 +129,22 @@ function blockRunner(m: Fst, tryTable: boolean): BlockRunner {
 /** The preferred cascade: each block functional; runs them in sequence. */
 export class PreferredRunner {
   private readonly runners: BlockRunner[];
+  /** How many runs met a block with more than one output (a search block; see blockRunner). Callers compare it before and after a run. */
+  ambiguities = 0;
   /**
    * `kinds`: how each block ran before (from the cache), so a known non-sequential block skips the
    * determinisation attempt; `frozen`: the runners' tables from the cache (rebuilt when missing or bad).
    */
-  constructor(blocks: readonly Block[], kinds?: readonly string[], frozen?: readonly (Uint8Array | null)[]) {
+  constructor(blocks: readonly Block[], kinds?: readonly string[], frozen?: readonly (Uint8Array | null)[], budget: Budget = unbounded()) {
     this.runners = blocks.map((b, i) => {
+      budget.step = b.from;
+      budget.part = `freezing the block of steps ${b.from + 1}–${b.to}`;
       const bytes = frozen?.[i];
       const cached = bytes && kinds?.[i] !== undefined ? runnerFromBytes(kinds[i]!, bytes) : null;
       // The two-pass functional runner is built first: attempting transducer determinisation on
       // every block cost seconds per grammar (13 s for the one-step blocks of en-us) for a runner
       // that is at most twice as fast; a table is only tried again where the cache says it worked.
-      return cached ?? blockRunner(b.machine, kinds !== undefined && kinds[i] === "sequential");
+      return cached ?? blockRunner(b.machine, kinds !== undefined && kinds[i] === "sequential", budget, () => { this.ambiguities++; });
     });
   }
   /** Each block's frozen tables as bytes (null for a search block). */

@@ -5,7 +5,8 @@ import type { Element, Environment, Pattern, Rule } from "../grammar/ast.js";
 import { bundleKey, type Bundle } from "../inventory/types.js";
 import { type Alphabet, EPSILON, FIRST_SEGMENT, SYLL, WORD } from "./alphabet.js";
 import { liveAssignments } from "./alphabet.js";
-import { anySet, dfaFromRx, dfaProduct, EPS_RX, type Dfa, type Rx, rxIsEmpty, symbolSet } from "./context.js";
+import { CompileLimitError, unbounded, type Budget } from "./budget.js";
+import { anySet, ContextTooLargeError, dfaFromRx, dfaProduct, EPS_RX, type Dfa, type Rx, rxIsEmpty, symbolSet } from "./context.js";
 import { lowerError, type Assignment, type Lowering } from "./lower.js";
 import type { LoweredRule, RuleCase } from "./rule.js";
 
@@ -141,6 +142,8 @@ export interface LowerRuleOptions {
   readonly domain: Uint8Array;
   /** Build the preferred variant: obligatory application, and the first change by key where alpha cases disagree. */
   readonly preferred?: boolean;
+  /** Limits on contexts and cases, the clock and the heap (default: the default limits, no clock). */
+  readonly budget?: Budget;
 }
 
 /** Sort keys of symbol ids, as the interpreter orders changes ('#', '.', or the bundle's key). */
@@ -156,6 +159,17 @@ export function symbolKeys(a: Alphabet): string[] {
 export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions): LoweredRule {
   const { low, alphabet } = sl;
   const size = alphabet.size;
+  const budget = opts.budget ?? unbounded();
+  /** A context recogniser, its size and time counted against the budget as `part`. */
+  const contextDfa = (part: string, rx: Rx): Dfa =>
+    budget.within(part, () => {
+      try {
+        return dfaFromRx(rx, size, budget.limits.contextStates, budget.tick);
+      } catch (e) {
+        if (e instanceof ContextTooLargeError) throw new CompileLimitError("states", part, budget.limits.contextStates);
+        throw e;
+      }
+    });
   const any: Rx = { k: "star", body: { k: "set", set: anySet(size) } };
   const domainBundles: Bundle[] = alphabet.segments.filter((s) => opts.domain[s.id]).map((s) => s.bundle);
   const n = rule.target.length;
@@ -169,8 +183,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
   const rights = new DfaPool(size);
   const segSet = new Uint8Array(size);
   for (let i = FIRST_SEGMENT; i < size; i++) segSet[i] = 1;
+  // Before a segment, before a '.' (rules that see boundaries: a syllable's end), or the final '#'.
+  if (!opts.blind) segSet[SYLL] = 1;
   const siteRx: Rx = { k: "alt", options: [{ k: "seq", items: [{ k: "set", set: segSet }, any] }, { k: "set", set: symbolSet(size, [WORD]) }] };
-  const siteDfa = n === 0 ? dfaFromRx(siteRx, size) : null;
+  const siteDfa = n === 0 ? contextDfa("the insertion sites", siteRx) : null;
 
   const cases: RuleCase[] = [];
   const envs = rule.environments.length > 0 ? rule.environments : [null];
@@ -210,9 +226,9 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
         const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
         const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };
         const afterRx: Rx = { k: "seq", items: [R, any] };
-        const left = lefts.add(rxKey(leftRx), () => dfaFromRx(leftRx, size));
-        const right = rights.add(rxKey(rightRx), () => dfaFromRx(rightRx, size));
-        const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => dfaFromRx(afterRx, size)) : undefined;
+        const left = lefts.add(rxKey(leftRx), () => contextDfa("the left side of an exception", leftRx));
+        const right = rights.add(rxKey(rightRx), () => contextDfa("the right side of an exception", rightRx));
+        const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => contextDfa("the right side of an exception", afterRx)) : undefined;
         const key = `${left}|${right}|${rightAfter ?? ""}`;
         if (seen.has(key)) continue;
         seen.add(key);
@@ -251,10 +267,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
     const tail = n > 0 && m > n ? rule.change.slice(n).map((c) => sl.idOf(low.inserted(c))) : [];
     if (tail.some((t) => t < 0)) throw lowerError("compile/internal", `Rule '${rule.name}': a written segment is missing from the alphabet.`, rule.span);
     const targetRx: Rx[] = target.map((set) => ({ k: "set", set }));
-    const sides: { L: Rx; R: Rx; env: Environment | null }[] = [];
-    for (const env of envs) {
+    const sides: { L: Rx; R: Rx; env: Environment | null; e: number }[] = [];
+    for (const [e, env] of envs.entries()) {
       if (need.length === 0) {
-        sides.push({ L: env ? sl.pattern(env.left, asg) : EPS_RX, R: env ? sl.pattern(env.right, asg) : EPS_RX, env });
+        sides.push({ L: env ? sl.pattern(env.left, asg) : EPS_RX, R: env ? sl.pattern(env.right, asg) : EPS_RX, env, e });
         continue;
       }
       if (env === null) continue;
@@ -264,20 +280,22 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
         const onRight = need.filter((_, i) => !((mask >> i) & 1));
         const L = sl.patternBinding(env.left, asg, onLeft);
         const R = sl.patternBinding(env.right, asg, onRight);
-        if (L !== null && R !== null) sides.push({ L, R, env });
+        if (L !== null && R !== null) sides.push({ L, R, env, e });
       }
     }
-    for (const { L, R, env } of sides) {
+    for (const { L, R, env, e } of sides) {
       if (rxIsEmpty(L) || rxIsEmpty(R)) continue;
+      if (cases.length >= budget.limits.ruleCases) throw new CompileLimitError("cases", `the alpha cases of rule '${rule.name}'`, budget.limits.ruleCases);
+      const where = envs.length > 1 ? ` of environment ${e + 1}` : "";
       const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
       const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };
-      const left = lefts.add(rxKey(leftRx), () => dfaFromRx(leftRx, size));
+      const left = lefts.add(rxKey(leftRx), () => contextDfa(`the left context${where}`, leftRx));
       const right = rights.add(rxKey(rightRx), () => {
-        const d = dfaFromRx(rightRx, size);
+        const d = contextDfa(`the right context${where}`, rightRx);
         return siteDfa ? dfaProduct(d, siteDfa, "and") : d;
       });
       const afterRx: Rx = { k: "seq", items: [R, any] };
-      const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => dfaFromRx(afterRx, size)) : undefined;
+      const rightAfter = opts.preferred === true && n > 1 && !rtl ? rights.add(rxKey(afterRx), () => contextDfa(`the right context${where}`, afterRx)) : undefined;
       const excepts = exceptsOf(env, asg, targetRx);
       cases.push({
         target, out, insert, left, right,

@@ -35,7 +35,11 @@ interface Nfa {
   arcs: { set: Uint8Array; to: number }[][];
 }
 
+/** Most NFA states one context expression may need (repetitions written out); more is ContextTooLargeError. */
+const MAX_NFA_STATES = 1_000_000;
+
 function newState(n: Nfa): number {
+  if (n.count >= MAX_NFA_STATES) throw new ContextTooLargeError(MAX_NFA_STATES);
   n.eps.push([]);
   n.arcs.push([]);
   return n.count++;
@@ -76,6 +80,8 @@ function build(n: Nfa, rx: Rx): [number, number] {
       return [a, b];
     }
     case "rep": {
+      // Each copy needs at least one state: a bound past the limit fails before anything is built.
+      if (Math.max(rx.min, rx.max ?? 0) > MAX_NFA_STATES) throw new ContextTooLargeError(MAX_NFA_STATES);
       const items: Rx[] = [];
       for (let i = 0; i < rx.min; i++) items.push(rx.body);
       if (rx.max === null) items.push({ k: "star", body: rx.body });
@@ -107,8 +113,8 @@ export class ContextTooLargeError extends Error {
   }
 }
 
-/** Subset construction of `rx` over symbols 1..size-1, then sink analysis. */
-export function dfaFromRx(rx: Rx, size: number, limit = 20000): Dfa {
+/** Subset construction of `rx` over symbols 1..size-1, then sink analysis; `progress` is called per state made (it may throw to abandon). */
+export function dfaFromRx(rx: Rx, size: number, limit = 20000, progress?: () => void): Dfa {
   const n: Nfa = { count: 0, eps: [], arcs: [] };
   const [s0, f] = build(n, rx);
   const keyOf = (set: number[]): string => set.join(",");
@@ -136,6 +142,7 @@ export function dfaFromRx(rx: Rx, size: number, limit = 20000): Dfa {
       if (id === undefined) {
         id = sets.length;
         if (id >= limit) throw new ContextTooLargeError(limit);
+        progress?.();
         index.set(k, id);
         sets.push(t);
       }

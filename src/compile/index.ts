@@ -8,12 +8,12 @@ import { bundleKey } from "../inventory/types.js";
 import type { Sym } from "../interp/index.js";
 import { SYLLABLE_EDGE, WORD_EDGE } from "../interp/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import type { Fst } from "../fst/index.js";
+import { FstLimitError, isFunctional, type Fst } from "../fst/index.js";
 import { type Alphabet, computeAlphabet, FIRST_SEGMENT, SYLL, WORD, symbolText } from "./alphabet.js";
-import { ContextTooLargeError } from "./context.js";
+import { Budget, CompileLimitError, describe as describeLimit, type CompileLimits } from "./budget.js";
 import { SymbolLowering, lowerRule } from "./cases.js";
-import { Lowering, LowerError } from "./lower.js";
-import { buildRule, RuleTooLargeError, type PairNfa } from "./rule.js";
+import { Lowering, LowerError, lowerError } from "./lower.js";
+import { buildRule, type PairNfa } from "./rule.js";
 import { buildStress, buildSyllabifier } from "./prosody.js";
 import { finishMachine, pairNfaToFst } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
@@ -21,6 +21,7 @@ import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } fro
 
 export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from "./alphabet.js";
 export type { Block } from "./cascade.js";
+export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
 /** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
 export const COMPILER_VERSION = "strata-compile-2";
@@ -32,6 +33,8 @@ export interface CompileOptions {
   readonly maxStates?: number;
   /** Shorthand expansion (default: the grammar front end's `desugar`). */
   readonly desugar?: (rule: Rule) => Rule;
+  /** Limits on states, cases, time and memory (DEFAULT_LIMITS for what is not given); see budget.ts. */
+  readonly limits?: Partial<CompileLimits>;
   /**
    * Segments that input words carry beyond the inventory's (written with its diacritics, e.g. a
    * long vowel no rule makes): the alphabet starts from them too, so the machines accept them
@@ -89,13 +92,19 @@ export interface CompiledSteps {
   readonly steps: readonly { readonly step: Step; readonly variants: Fst; readonly preferred: Fst | null }[];
 }
 
-function stepError(step: Step, e: unknown): Diagnostic {
+/** A limit reached while compiling `step` (or an input error found while lowering it) as its diagnostic; other errors are rethrown. */
+function stepError(step: Step, e: unknown, budget: Budget): Diagnostic {
   if (e instanceof LowerError) return e.diagnostic;
-  const span = step.span;
-  if (e instanceof RuleTooLargeError || e instanceof ContextTooLargeError) {
-    return diagnostic("error", "compile/too-large", `Step '${step.name}' is too large to compile: ${e.message}. Simplify its contexts or split the rule.`, span);
+  const what = step.kind === "rule" ? `Rule '${step.name}'` : `Step '${step.name}'`;
+  if (e instanceof CompileLimitError) return tooLarge(step, `${what} cannot be compiled within the limits: ${e.part} reached ${describeLimit(e.kind, e.limit)}.`);
+  if (e instanceof FstLimitError) {
+    return tooLarge(step, `${what} cannot be compiled within the limits: ${budget.part} reached ${describeLimit("states", e.limit)}.`);
   }
   throw e;
+}
+
+function tooLarge(step: Step, message: string): Diagnostic {
+  return diagnostic("error", "compile/too-large", `${message} Simplify its contexts or split it.`, step.span);
 }
 
 /**
@@ -104,16 +113,24 @@ function stepError(step: Step, e: unknown): Diagnostic {
  * intersected exactly with the condition material).
  */
 export function desugaredSteps(grammar: Grammar, inv: Inventory, desugar?: (r: Rule) => Rule): Step[] {
-  const d = desugar ?? ((r: Rule) => grammarDesugar(r, { inventory: inv, classes: grammar.classes }));
+  const d = desugar ?? ((r: Rule) => grammarDesugar(r, { inventory: inv, classes: grammar.classes, nodes: grammar.nodes }));
   return grammar.steps.map((s) => (s.kind === "rule" ? d(s) : s));
 }
 
 /** Compiles one step into its machine(s) over the alphabet. `preferred` null: the preferred cascade skips it (identity). */
 export function compileStep(
-  grammar: Grammar, low: Lowering, alphabet: Alphabet, step: Step, domain: Uint8Array,
+  grammar: Grammar, low: Lowering, alphabet: Alphabet, step: Step, domain: Uint8Array, budget: Budget = new Budget(),
 ): { variants: Fst; preferred: Fst | null } {
   const sl = new SymbolLowering(low, alphabet);
-  const fin = (p: PairNfa): Fst => finishMachine(pairNfaToFst(p));
+  const fin = (p: PairNfa): Fst =>
+    budget.within(`minimising its machine (${p.states.toLocaleString("en-US")} states before)`, () =>
+      finishMachine(pairNfaToFst(p), { maxStates: budget.limits.machineStates, progress: budget.tick }));
+  /** The rule's alignment construction, with its parts named for the limits. */
+  const rule = (r: Rule, variant: "variants" | "preferred"): PairNfa => {
+    const blind = isBoundaryBlind(r);
+    const lowered = lowerRule(sl, r, { blind, domain, budget, ...(variant === "preferred" ? { preferred: true } : {}) });
+    return budget.within(`the alignment construction${variant === "preferred" ? " of its preferred variant" : ""}`, () => buildRule(lowered, budget));
+  };
   switch (step.kind) {
     case "syllabify": {
       const m = fin(buildSyllabifier(grammar, low, alphabet, domain));
@@ -124,12 +141,22 @@ export function compileStep(
       return { variants: m, preferred: m };
     }
     case "rule": {
-      const blind = isBoundaryBlind(step);
-      const variants = fin(buildRule(lowerRule(sl, step, { blind, domain })));
+      const variants = fin(rule(step, "variants"));
       if (step.optional && step.prefer === "unapplied") return { variants, preferred: null };
       // An obligatory rule without variables has one output per word: its preferred machine is the same.
       if (!step.optional && low.variables(step).size === 0) return { variants, preferred: variants };
-      const preferred = fin(buildRule(lowerRule(sl, step, { blind, domain, preferred: true })));
+      const preferred = fin(rule(step, "preferred"));
+      // The preferred cascade is run by machines that take one path (the functional runner, or a
+      // search for the first output): that is exact only if every preferred step has one output
+      // per input. Checked here, so a second output can never be dropped silently at run time.
+      const single = budget.within("checking its preferred variant has one output", () => isFunctional(preferred, budget.limits.machineStates));
+      if (!single.functional) {
+        throw lowerError(
+          "compile/ambiguous-preferred",
+          `Rule '${step.name}': its preferred variant has two outputs for '${single.input.map((x) => symbolText(alphabet, x)).join("")}'; this is a fault of the compiler, please report it with the grammar.`,
+          step.span,
+        );
+      }
       return { variants, preferred };
     }
     default: {
@@ -140,10 +167,13 @@ export function compileStep(
 }
 
 /** Alphabet and per-step machines, with diagnostics for anything that cannot be compiled. */
-export function compileSteps(grammar: Grammar, inv: Inventory, opts: CompileOptions = {}): { result: CompiledSteps | null; diagnostics: Diagnostic[] } {
+export function compileSteps(
+  grammar: Grammar, inv: Inventory, opts: CompileOptions = {}, budget: Budget = new Budget(opts.limits),
+): { result: CompiledSteps | null; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const steps = desugaredSteps(grammar, inv, opts.desugar);
   const low = new Lowering(grammar, inv);
+  low.maxAssignments = budget.limits.ruleCases;
   let alphabet: Alphabet;
   try {
     alphabet = computeAlphabet(inv, low, steps, opts.extraSegments ?? []);
@@ -154,9 +184,11 @@ export function compileSteps(grammar: Grammar, inv: Inventory, opts: CompileOpti
   const out: { step: Step; variants: Fst; preferred: Fst | null }[] = [];
   steps.forEach((step, k) => {
     try {
-      out.push({ step, ...compileStep(grammar, low, alphabet, step, alphabet.domains[k]!) });
+      out.push({ step, ...compileStep(grammar, low, alphabet, step, alphabet.domains[k]!, budget) });
     } catch (e) {
-      diagnostics.push(stepError(step, e));
+      diagnostics.push(stepError(step, e, budget));
+      // Past the deadline or the heap budget every later step would fail the same way.
+      if (e instanceof CompileLimitError && (e.kind === "time" || e.kind === "memory")) return { result: null, diagnostics };
     }
   });
   if (diagnostics.some((d) => d.severity === "error")) return { result: null, diagnostics };
@@ -264,20 +296,38 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
       dropCache(opts.cacheDir, key);
     }
   }
-  const { result, diagnostics: stepDiagnostics } = compileSteps(grammar, inv, opts);
+  const budget = new Budget(opts.limits);
+  const { result, diagnostics: stepDiagnostics } = compileSteps(grammar, inv, opts, budget);
   const diagnostics = [...stepDiagnostics, ...cacheWarnings];
   if (result === null) return { compiled: null, diagnostics };
+  try {
+    return composeAndFreeze(result, opts, budget, key, cacheState, diagnostics, t0, maxStates);
+  } catch (e) {
+    if (!(e instanceof CompileLimitError || e instanceof FstLimitError)) throw e;
+    const step = result.steps[Math.max(0, budget.step)]?.step;
+    const reached = e instanceof CompileLimitError ? describeLimit(e.kind, e.limit) : describeLimit("states", e.limit);
+    const message = `The grammar cannot be compiled within the limits: ${budget.part} reached ${reached}.`;
+    return { compiled: null, diagnostics: [...diagnostics, step !== undefined ? tooLarge(step, message) : diagnostic("error", "compile/too-large", message, { file: grammar.file, line: 1, column: 1 })] };
+  }
+}
+
+/** Composition of both cascades, the runners, and the cache write: the part of `compileGrammar` after the steps. */
+function composeAndFreeze(
+  result: CompiledSteps, opts: CompileOptions, budget: Budget, key: string, cacheState: Compiled["cache"],
+  stepDiagnostics: readonly Diagnostic[], t0: number, maxStates: number,
+): CompileResult {
+  const diagnostics = [...stepDiagnostics];
   const t1 = performance.now();
   const steps: StepSize[] = result.steps.map(({ step, variants, preferred }) => ({
     name: step.name, kind: step.kind, optional: step.kind === "rule" && step.optional,
     states: variants.numStates, arcs: variants.numArcs(),
     preferredStates: preferred?.numStates ?? 0, preferredArcs: preferred?.numArcs() ?? 0,
   }));
-  const preferredBlocks = composeCascade(result.steps.map((s) => s.preferred), maxStates);
+  const preferredBlocks = composeCascade(result.steps.map((s) => s.preferred), maxStates, budget);
   const hasVariants = result.steps.some((s) => s.step.kind === "rule" && (s.step.optional || s.preferred === null || !sameMachine(s.variants, s.preferred)));
-  const variantBlocks = hasVariants ? composeCascade(result.steps.map((s) => s.variants), maxStates) : preferredBlocks;
+  const variantBlocks = hasVariants ? composeCascade(result.steps.map((s) => s.variants), maxStates, budget) : preferredBlocks;
   const t2 = performance.now();
-  const compiled = assemble(result.alphabet, steps, preferredBlocks, variantBlocks, hasVariants, cacheState, key, { steps: t1 - t0, compose: t2 - t1, freeze: 0, total: 0 });
+  const compiled = assemble(result.alphabet, steps, preferredBlocks, variantBlocks, hasVariants, cacheState, key, { steps: t1 - t0, compose: t2 - t1, freeze: 0, total: 0 }, undefined, undefined, budget);
   const t3 = performance.now();
   if (opts.cacheDir !== undefined) {
     const a = result.alphabet;
@@ -315,9 +365,9 @@ function sameMachine(a: Fst, b: Fst): boolean {
 function assemble(
   alphabet: Alphabet, steps: StepSize[], preferredBlocks: Block[], variantBlocks: Block[], hasVariants: boolean,
   cache: Compiled["cache"], cacheKey: string, timings: Compiled["timings"], kinds?: readonly string[],
-  frozen?: readonly (Uint8Array | null)[],
+  frozen?: readonly (Uint8Array | null)[], budget?: Budget,
 ): Compiled {
-  const preferred = new PreferredRunner(preferredBlocks, kinds, frozen);
+  const preferred = new PreferredRunner(preferredBlocks, kinds, frozen, budget);
   const variantsRunner = new VariantsRunner(variantBlocks);
   const encode = (word: readonly Sym[]): number[] | null => {
     const out: number[] = [];

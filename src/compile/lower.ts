@@ -40,6 +40,9 @@ export class Lowering {
   readonly segmental: readonly number[];
   private readonly literals = new Map<string, Bundle>();
 
+  /** Most assignments one rule may have (CompileLimits.ruleCases); more is a `compile/too-large` at the rule. */
+  maxAssignments = Infinity;
+
   constructor(readonly grammar: Grammar, readonly inventory: Inventory) {
     this.classes = new Map(grammar.classes.map((c) => [c.name, c]));
     this.nodes = new Map(grammar.nodes.map((n) => [n.name, n]));
@@ -155,6 +158,13 @@ export class Lowering {
           if (v.matched) addTuple(t.map(flip));
         }
         domain.sort((a, b) => (a.join("") < b.join("") ? -1 : a.join("") > b.join("") ? 1 : 0));
+      }
+      if (out.length * domain.length > this.maxAssignments) {
+        throw lowerError(
+          "compile/too-large",
+          `Rule '${rule.name}' cannot be compiled within the limits: its ${vars.length} alpha variables combine in more than ${this.maxAssignments.toLocaleString("en-US")} ways. Split the rule or use fewer variables.`,
+          rule.span,
+        );
       }
       const next: Map<string, readonly FeatureValue[]>[] = [];
       for (const a of out) for (const d of domain) { const m = new Map(a); m.set(name, d); next.push(m); }

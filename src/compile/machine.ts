@@ -2,7 +2,7 @@
 // acceptor is determinised and minimised with each input:output pair as one letter (the
 // documented transducer method of fst/minimise.ts), which leaves the relation unchanged.
 
-import { Fst, minimise, trim } from "../fst/index.js";
+import { Fst, minimise, trim, type DeterminiseOptions } from "../fst/index.js";
 import type { PairNfa } from "./rule.js";
 
 /** The relation of a pair NFA as an fst machine (not yet minimised). */
@@ -16,11 +16,11 @@ export function pairNfaToFst(p: PairNfa): Fst {
   return f;
 }
 
-/** Trimmed and minimised (as an acceptor over input:output pairs, or as a sequential machine). */
-export function finishMachine(f: Fst): Fst {
+/** Trimmed and minimised (as an acceptor over input:output pairs, or as a sequential machine); `opts` bound the determinisation. */
+export function finishMachine(f: Fst, opts: DeterminiseOptions = {}): Fst {
   const t = trim(f);
   if (t.numStates === 0) return t;
-  return minimise(t);
+  return minimise(t, opts);
 }
 
 /** The states and arcs of a machine, for reports. */

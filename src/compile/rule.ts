@@ -15,13 +15,16 @@
 // (left-to-right, as Mohri & Sproat's l1/l2 placed after the replacement); right-to-left is the
 // mirror image (left context Σ*·λ·τ on the input at the chunk's end, right context ρ·Σ* on the
 // output after it). Boundary-blind rules project '.' to ε in every context and target check and
-// copy it through without a decision (the paper's "ignore" operation). Each decision token then
+// copy it through without a decision (the paper's "ignore" operation). Exceptions (`unless`,
+// `longest-first`) need no new filter: where a case's left context holds, the right check it
+// spawns is its right context minus those of the exceptions whose left context holds too. Each decision token then
 // maps to its input:output pairs, giving an acceptor over pair-symbols that the cascade
 // determinises and minimises (pairs.ts).
 
 import type { ApplicationMode } from "../grammar/ast.js";
 import { dfaProduct, type Dfa } from "./context.js";
 import { EPSILON, SYLL, WORD } from "./alphabet.js";
+import { CompileLimitError, unbounded, type Budget } from "./budget.js";
 
 /** One alpha-variable assignment × environment of a rule, over symbol ids. */
 export interface RuleCase {
@@ -81,20 +84,18 @@ export interface PairNfa {
   readonly arcs: Int32Array;
 }
 
-export class RuleTooLargeError extends Error {
-  constructor(readonly rule: string, readonly states: number) {
-    super(`rule '${rule}' grew past ${states} states while being compiled`);
-  }
-}
-
 interface Pending { b: number; q: number; pos: boolean }
 
 /**
  * Builds the rule's relation as an NFA over input:output pairs (ε-free on neither side in general:
  * deletions are x:ε, insertions ε:y). Deterministic in the decision tokens; several tokens may
  * map to the same pairs (a rewrite that changes nothing), which determinising the pair acceptor removes.
+ * The budget's `ruleStates` bounds every state made, explored ones and those inside multi-symbol
+ * outputs alike; its clock and heap are checked as states are explored.
  */
-export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
+export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa {
+  const maxStates = budget.limits.ruleStates;
+  const tooLarge = (): CompileLimitError => new CompileLimitError("states", budget.part, maxStates);
   const { size, n, cases, lefts, blind, mode } = r;
   /** The rule's right-context checkers, then the exception-reduced ones made on demand (see `eff`). */
   const rights: Dfa[] = [...r.rights];
@@ -147,7 +148,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
     let id = index.get(k);
     if (id === undefined) {
       id = states.length;
-      if (id >= maxStates) throw new RuleTooLargeError(r.name, maxStates);
+      if (id + mids >= maxStates) throw tooLarge();
       index.set(k, id);
       states.push(st);
     }
@@ -225,7 +226,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   const sub = (b1: number, q1: number, b2: number, q2: number): boolean => {
     const k = b1 * 1_000_003 + b2;
     let m = inclusion.get(k);
-    if (m === undefined) { m = languageInclusion(rights[b1]!, rights[b2]!); inclusion.set(k, m); }
+    if (m === undefined) { m = languageInclusion(rights[b1]!, rights[b2]!, budget.tick); inclusion.set(k, m); }
     return m[q1 * rights[b2]!.states + q2] === 1;
   };
   const normalise = (v: Pending[]): Pending[] | null => {
@@ -246,11 +247,49 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   };
 
   // ---- output arcs ----------------------------------------------------------------------
+  // A token of several pairs becomes a chain through intermediate states ("mids", numbered -1,
+  // -2, … until the explored states are known). Chains share their states: an insertion's chain
+  // (ε:y … then x:x) shares its prefix with every chain from the same state, a chain that ends in
+  // inserted symbols (a longer literal change, held-back dots) shares its suffix with every chain
+  // into the same state. Each intermediate state has one role, so the paths — and the relation —
+  // are the same as with separate chains, while an insertion before each of |Σ| symbols costs
+  // |ins| + |Σ| states instead of |ins|·|Σ|.
   const arcs: number[] = [];
-  const chains: { from: number; pairs: number[]; to: number }[] = [];
+  let mids = 0;
+  const midIndex = new Map<string, number>();
+  /** The intermediate state of the chain prefix or suffix `key`; made on first use, when `link` adds its arc. */
+  const mid = (key: string, link: (m: number) => void): number => {
+    let m = midIndex.get(key);
+    if (m === undefined) {
+      if (states.length + mids >= maxStates) throw tooLarge();
+      m = -(++mids);
+      midIndex.set(key, m);
+      link(m);
+    }
+    return m;
+  };
   const emit = (from: number, pairs: number[], to: number): void => {
-    if (pairs.length === 2) arcs.push(from, pairs[0]!, pairs[1]!, to);
-    else chains.push({ from, pairs, to });
+    const len = pairs.length / 2;
+    if (len === 1) { arcs.push(from, pairs[0]!, pairs[1]!, to); return; }
+    if (pairs[0] === EPSILON) {
+      let cur = from;
+      let key = `>${from}`;
+      for (let k = 0; k < len - 1; k++) {
+        key += `,${pairs[2 * k]}:${pairs[2 * k + 1]}`;
+        const prev = cur;
+        cur = mid(key, (m) => arcs.push(prev, pairs[2 * k]!, pairs[2 * k + 1]!, m));
+      }
+      arcs.push(cur, pairs[2 * len - 2]!, pairs[2 * len - 1]!, to);
+      return;
+    }
+    let cur = to;
+    let key = `<${to}`;
+    for (let k = len - 1; k >= 1; k--) {
+      key += `,${pairs[2 * k]}:${pairs[2 * k + 1]}`;
+      const next = cur;
+      cur = mid(key, (m) => arcs.push(m, pairs[2 * k]!, pairs[2 * k + 1]!, next));
+    }
+    arcs.push(from, pairs[0]!, pairs[1]!, cur);
   };
 
   // ---- exploration --------------------------------------------------------------------------
@@ -259,6 +298,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
   const finals: number[] = [];
 
   for (let id = 0; id < states.length; id++) {
+    budget.tick();
     const st = states[id]!;
     if (st.s === 0) {
       let ok = true;
@@ -320,7 +360,7 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
           for (const y of c.insert) ins.push(EPSILON, y);
           const m = c.insert.length;
           for (const x of domain) {
-            if (!(x === WORD || x >= 3)) continue;
+            if (!(x === WORD || x >= 3 || (x === SYLL && !blind))) continue;
             nextS = 0;
             go([...ins, x, x], (k, p, v) => {
               if (rtl ? k === m : k === 0) return spawn(v, eff(c, p), true);
@@ -393,18 +433,13 @@ export function buildRule(r: LoweredRule, maxStates = 200_000): PairNfa {
     }
   }
 
-  // Multi-pair chains get intermediate states after the explored ones.
-  let next = states.length;
-  for (const ch of chains) {
-    const len = ch.pairs.length / 2;
-    let from = ch.from;
-    for (let k = 0; k < len; k++) {
-      const to = k === len - 1 ? ch.to : next++;
-      arcs.push(from, ch.pairs[2 * k]!, ch.pairs[2 * k + 1]!, to);
-      from = to;
-    }
+  // Intermediate states of chains are numbered after the explored ones.
+  const base = states.length - 1;
+  for (let i = 0; i < arcs.length; i += 4) {
+    if (arcs[i]! < 0) arcs[i] = base - arcs[i]!;
+    if (arcs[i + 3]! < 0) arcs[i + 3] = base - arcs[i + 3]!;
   }
-  return { states: next, start: 0, finals, arcs: Int32Array.from(arcs) };
+  return { states: states.length + mids, start: 0, finals, arcs: Int32Array.from(arcs) };
 }
 
 /** The mirror image of a pair NFA (arcs reversed, start and finals swapped through a fresh start). */
@@ -422,7 +457,7 @@ export function reversePairNfa(m: PairNfa): PairNfa {
  * implies q accepting", then remove pairs with a successor pair outside the relation, until
  * nothing changes. Symbols whose columns agree in both machines are tried once.
  */
-export function languageInclusion(a: Dfa, b: Dfa): Uint8Array {
+export function languageInclusion(a: Dfa, b: Dfa, progress?: () => void): Uint8Array {
   const na = a.states, nb = b.states, size = a.size;
   const cols: number[] = [];
   const seenCol = new Set<string>();
@@ -438,6 +473,7 @@ export function languageInclusion(a: Dfa, b: Dfa): Uint8Array {
   for (let changed = true; changed;) {
     changed = false;
     for (let p = 0; p < na; p++) {
+      progress?.();
       for (let q = 0; q < nb; q++) {
         if (m[p * nb + q] === 0) continue;
         for (const s of cols) {

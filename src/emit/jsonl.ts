@@ -34,5 +34,7 @@ export function formatJsonLine(e: JsonlEntry): string {
   o["variants"] = [...e.variants];
   o["rules"] = [...e.rules];
   if (e.source !== undefined) o["source"] = { file: e.source.file, line: e.source.line };
-  return JSON.stringify(o).replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";
+  const json = JSON.stringify(o);
+  if (json.indexOf("\u2028") < 0 && json.indexOf("\u2029") < 0) return json + "\n";
+  return json.replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";
 }

@@ -2,7 +2,6 @@
 // streamed one lexeme at a time so a large lexicon is never held as one document; xmlbuilder2
 // serialises the document frame, and is the reference the lexeme writer is tested against.
 
-import { create } from "xmlbuilder2";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, SourcePos } from "../diagnostics.js";
 import { writeFileAtomic } from "./atomic.js";
@@ -160,6 +159,7 @@ export function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedE
  * a reject in every output, not only in the PLS.
  */
 export function plsTextProblem(raw: string): { readonly code: string; readonly reason: string; readonly offset: number } | undefined {
+  if (plainXmlText(raw)) return undefined;
   const bad = findNonXmlChar(raw);
   if (bad !== undefined) {
     return {
@@ -179,6 +179,21 @@ export function plsTextProblem(raw: string): { readonly code: string; readonly r
   }
   if (nfc.trim() === "") return { code: "pls/empty-text", reason: "is empty", offset: 0 };
   return undefined;
+}
+
+/**
+ * The common case, decided in one pass: every UTF-16 unit is in U+0021–U+D7FF (XML 1.0 Char, no
+ * control character, no CR, no surrogate) and the first is printable ASCII or the text is not all
+ * white space — so `plsTextProblem` has nothing to report.
+ */
+function plainXmlText(raw: string): boolean {
+  const n = raw.length;
+  if (n === 0) return false;
+  for (let i = 0; i < n; i++) {
+    const c = raw.charCodeAt(i);
+    if (c <= 0x20 || c >= 0xd800) return false;
+  }
+  return raw.charCodeAt(0) < 0x7f || raw.trim() !== "";
 }
 
 /** A word shown in a message: control characters made visible. */
@@ -208,16 +223,28 @@ export async function* plsChunks(
     );
   }
   const pretty = opts.prettyPrint ?? true;
-  const { head, tail } = frame(opts.lang, pretty);
+  const { head, tail } = await frame(opts.lang, pretty);
   yield head;
   let ordinal = 0;
   let batch = "";
-  for await (const e of entries) {
-    ordinal++;
-    batch += lexemeXml(checkEntry(e, ordinal, file), pretty);
-    if (batch.length >= 1 << 16) {
-      yield batch;
-      batch = "";
+  // A plain iterable is read without an asynchronous step per lexeme (one per chunk instead).
+  if (Symbol.iterator in entries) {
+    for (const e of entries as Iterable<PlsEntry>) {
+      ordinal++;
+      batch += lexemeXml(checkEntry(e, ordinal, file), pretty);
+      if (batch.length >= 1 << 16) {
+        yield batch;
+        batch = "";
+      }
+    }
+  } else {
+    for await (const e of entries) {
+      ordinal++;
+      batch += lexemeXml(checkEntry(e, ordinal, file), pretty);
+      if (batch.length >= 1 << 16) {
+        yield batch;
+        batch = "";
+      }
     }
   }
   yield batch + tail;
@@ -228,7 +255,9 @@ export async function* plsChunks(
  * The document frame — XML declaration, the root `lexicon` start tag with its namespace and
  * attributes (§4.1), and the end tag — serialised by xmlbuilder2 around a marker comment.
  */
-function frame(lang: string, pretty: boolean): { head: string; tail: string } {
+async function frame(lang: string, pretty: boolean): Promise<{ head: string; tail: string }> {
+  // Loaded on first use: the library is large, and most commands never write PLS.
+  const { create } = await import("xmlbuilder2");
   const MARK = "strata-lexemes";
   const doc = create({ version: "1.0", encoding: "UTF-8" })
     .ele(PLS_NAMESPACE, "lexicon")

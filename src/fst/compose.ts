@@ -63,6 +63,8 @@ export interface ComposeOptions {
   readonly maxStates?: number;
   /** Trim the result (default true). */
   readonly trim?: boolean;
+  /** Called once per result state as it is made; it may throw to abandon the work (a caller's time or memory budget). */
+  readonly progress?: () => void;
 }
 
 /**
@@ -102,6 +104,7 @@ export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
     if (id === undefined) {
       id = qp.length;
       if (id >= maxStates) throw new FstLimitError("composition", maxStates);
+      options.progress?.();
       ids.set(key, id);
       qp.push(p);
       qq.push(q);

@@ -9,6 +9,8 @@ import { EPSILON, Fst, FstError, type Label } from "./fst.js";
 export interface DeterminiseOptions {
   /** Throw FstLimitError beyond this many result states (default 2 000 000). */
   readonly maxStates?: number;
+  /** Called once per result state as it is made; it may throw to abandon the work (a caller's time or memory budget). */
+  readonly progress?: () => void;
 }
 
 /**
@@ -31,6 +33,7 @@ export function determinise(fst: Fst, options: DeterminiseOptions = {}): Fst {
     if (id === undefined) {
       id = subsets.length;
       if (id >= maxStates) throw new FstLimitError("determinisation", maxStates);
+      options.progress?.();
       ids.set(key, id);
       subsets.push(set);
       r.addState();
@@ -130,6 +133,7 @@ export function determiniseTransducer(fst: Fst, options: DeterminiseOptions = {}
     if (id === undefined) {
       id = subsets.length;
       if (id >= maxStates) throw new FstLimitError("transducer determinisation", maxStates);
+      options.progress?.();
       ids.set(key, id);
       subsets.push(set);
       parent.push(from);

@@ -208,6 +208,8 @@ export interface FreezeFunctionalOptions {
   readonly check?: boolean;
   /** Most state sets of the right-to-left pass (default 1 000 000); FstLimitError beyond. */
   readonly maxSets?: number;
+  /** Called once per state set as it is made; it may throw to abandon the work. */
+  readonly progress?: () => void;
 }
 
 export type FreezeFunctionalResult =
@@ -273,6 +275,7 @@ export function freezeFunctional(fst: Fst, options: FreezeFunctionalOptions = {}
     if (id === undefined) {
       id = sets.length;
       if (id >= maxSets) throw new FstLimitError("the right-to-left pass of freezeFunctional", maxSets);
+      options.progress?.();
       ids.set(key, id);
       sets.push(set);
     }

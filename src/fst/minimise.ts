@@ -3,7 +3,7 @@
 // transducers (output pushing for sequential machines, pair encoding for the rest).
 
 import { canonicalOrder, trim } from "./basic.js";
-import { determinise } from "./determinise.js";
+import { determinise, type DeterminiseOptions } from "./determinise.js";
 import { addChain, removeInputEpsilons, type StrArc, type StrMachine } from "./epsilon.js";
 import { EPSILON, Fst, expandFinalOutputs, type Label } from "./fst.js";
 
@@ -297,10 +297,11 @@ function pushOutputs(m: StrMachine): { machine: StrMachine; startOutput: readonl
  *   acceptor is determinised and minimised, and the letters decoded. The relation is unchanged;
  *   the result is minimal among machines deterministic on the pair alphabet, which is a
  *   normal form but not always the smallest transducer.
+ * `options` bound the subset constructions involved (`maxStates`, and `progress` per state made).
  */
-export function minimise(fst: Fst): Fst {
+export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
   if (fst.isAcceptor()) {
-    const d = trim(isDeterministic(fst) ? fst : determinise(fst));
+    const d = trim(isDeterministic(fst) ? fst : determinise(fst, options));
     const m: StrMachine = {
       start: d.start,
       arcs: Array.from({ length: d.numStates }, (_, s) => d.arcs(s).map((a) => ({ input: a.input, output: [a.input], target: a.target }))),
@@ -339,7 +340,7 @@ export function minimise(fst: Fst): Fst {
     }
     if (m.isFinal(s)) enc.setFinal(s);
   }
-  const min = minimise(enc);
+  const min = minimise(enc, options);
   const r = new Fst();
   r.addStates(min.numStates);
   r.setStart(min.start);

@@ -6,6 +6,7 @@ import type { CheckContext, VariableUses } from "./check-context.js";
 import { checkElement, checkPattern, kindText } from "./check-names.js";
 import { conditionsSatisfiable } from "./desugar.js";
 import { elementText } from "./parse-patterns.js";
+import { checkNotation } from "./check-notation.js";
 
 /** Every rule: duplicate names, then its shape; a rule with errors is marked broken. */
 export function checkRules(c: CheckContext): void {
@@ -32,28 +33,28 @@ function ruleShape(c: CheckContext, r: Rule): void {
     checkPattern(c, env.left, bound);
     checkPattern(c, env.right, bound);
   }
+  for (const env of r.unless ?? []) {
+    checkPattern(c, env.left, new Map(bound));
+    checkPattern(c, env.right, new Map(bound));
+  }
   const used: VariableUses = new Map();
   for (const ch of r.change) checkElement(c, ch, used);
   for (const [v, u] of used) {
     const b = bound.get(v);
-    if (b === undefined)
-      c.error("grammar/unbound-variable", `variable ${v} in the change of rule '${r.name}' is not set by the target or an environment`, u.span);
-    else if (b.kind !== u.kind)
+    // A variable only the change uses takes every value: check-notation.ts warns (grammar/free-variable).
+    if (b !== undefined && b.kind !== u.kind)
       c.error("grammar/variable-kind", `variable ${v} stands for ${kindText(b.kind)} in the target or environment, but not in the change`, u.span);
   }
   if (r.target.length === 0 && r.change.length === 0) c.error("grammar/empty-rule", `rule '${r.name}' has ∅ on both sides of the arrow`, r.span);
-  if (r.target.length === 0) {
-    for (const ch of r.change)
-      if (ch.kind === "bundle")
-        c.error("grammar/insert-bundle", "an insertion writes whole segments; write the inserted segment in IPA, not a bundle", ch.span);
-  } else if (r.change.some((ch) => ch.kind === "bundle") && r.change.length !== r.target.length) {
+  c.out.push(...checkNotation(r, c.inv, c)); // inserted bundles, free variables, expansions
+  if (r.target.length > 0 && r.change.some((ch) => ch.kind === "bundle") && r.change.length !== r.target.length) {
     c.error(
       "grammar/change-length",
       `rule '${r.name}': a feature change needs one element per target element (target ${r.target.length}, change ${r.change.length})`,
       r.change[0]!.span,
     );
   }
-  for (const env of r.environments) conditions(c, r, env);
+  for (const env of [...r.environments, ...(r.unless ?? [])]) conditions(c, r, env);
 }
 
 /** Preconditions that make `desugar` exact (see desugar.ts), and conditions that contradict. */

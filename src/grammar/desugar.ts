@@ -3,7 +3,8 @@
 
 import { bundleOf, PROSODIC_FEATURES, type Inventory } from "../inventory/index.js";
 import { expandEnvironments } from "./expand.js";
-import type { ClassDef, Element, Environment, FeatureSpec, Pattern, ProsodicCondition, Rule, Span } from "./ast.js";
+import { insertedSegment } from "./check-notation.js";
+import type { ChangeElement, NodeDef, ClassDef, Element, Environment, FeatureSpec, Pattern, ProsodicCondition, Rule, Span } from "./ast.js";
 
 /*
  * Each condition constrains one side of the target, inside the target's syllable (C is a
@@ -88,6 +89,8 @@ const nucleus = (specs: readonly FeatureSpec[], span: Span): Pattern =>
 export interface DesugarContext {
   readonly inventory: Inventory;
   readonly classes: readonly ClassDef[];
+  /** The grammar's nodes (a value on a node in an inserted bundle). */
+  readonly nodes?: readonly NodeDef[];
 }
 
 /** A pattern or ⊥ (matches nothing). */
@@ -400,7 +403,7 @@ export function conditionsSatisfiable(env: Environment): boolean {
  */
 export function desugar(rule: Rule, ctx?: DesugarContext): Rule {
   const boundaryBlind = isBoundaryBlind(rule);
-  const expanded = expandEnvironments(rule);
+  const expanded = expandEnvironments(insertedBundlesAsSegments(rule, ctx));
   const environments: Environment[] = [];
   for (const env of expanded.environments) {
     // Exceptions: each condition variant is one more exception; one that never holds is dropped.
@@ -411,6 +414,21 @@ export function desugar(rule: Rule, ctx?: DesugarContext): Rule {
     else environments.push(...variants.map(scoped));
   }
   return { ...expanded, environments, boundaryBlind };
+}
+
+/**
+ * An insertion written as a feature bundle that denotes exactly one inventory segment becomes that
+ * segment (DEVELOPERS.md, "Inserting a bundle"); any other bundle is left for the checker to report.
+ */
+export function insertedBundlesAsSegments(rule: Rule, ctx: DesugarContext | undefined): Rule {
+  if (ctx === undefined || rule.target.length > 0 || !rule.change.some((c) => c.kind === "bundle")) return rule;
+  const nodes = new Map((ctx.nodes ?? []).map((n) => [n.name, n] as const));
+  const change = rule.change.map((c): ChangeElement => {
+    if (c.kind !== "bundle") return c;
+    const seg = insertedSegment(c, ctx.inventory, { nodes });
+    return typeof seg === "string" ? c : { kind: "segment", symbol: seg.symbol, span: c.span };
+  });
+  return { ...rule, change };
 }
 
 const withoutExcept = (e: Environment): Environment => {

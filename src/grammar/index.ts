@@ -7,4 +7,4 @@ export { loadGrammar, splitLiterals, GRAMMAR_FILE, type LoadedGrammar } from "./
 export { checkGrammar } from "./check.js";
 export { loadGrammarCached } from "./cache.js";
 export { expandEnvironments, hasEnvironmentNotation, mirrorImages, parenthesisExpansions, MAX_EXPANSIONS, TooManyExpansions } from "./expand.js";
-export { desugar, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";
+export { desugar, insertedBundlesAsSegments, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";

@@ -59,10 +59,14 @@ function makeView(word: Word, blind: boolean): View {
   return { view, dots, trailing: pending };
 }
 
-/** A site for ∅ is the gap before a segment or before the final `#` (DEVELOPERS.md, "Application"). */
+/**
+ * A site for ∅ is the gap before a segment, before a `.` (in a rule that sees boundaries: the end
+ * of a syllable inside a word), or before the final `#` (DEVELOPERS.md, "Application"). A
+ * boundary-blind rule's view has no `.`.
+ */
 function isInsertionSite(view: readonly Sym[], k: number): boolean {
   const s = view[k] as Sym;
-  return isSegment(s) || (k === view.length - 1 && isWordEdge(s));
+  return isSegment(s) || isSyllableEdge(s) || (k === view.length - 1 && isWordEdge(s));
 }
 
 /**

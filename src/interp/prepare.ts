@@ -7,7 +7,7 @@ import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
 import type {
   ApplicationMode, ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, ProsodicCondition, Rule, Span,
 } from "../grammar/ast.js";
-import { desugar, expandEnvironments, hasEnvironmentNotation, isBoundaryBlind } from "../grammar/index.js";
+import { desugar, expandEnvironments, hasEnvironmentNotation, insertedBundlesAsSegments, isBoundaryBlind } from "../grammar/index.js";
 import { resolveSymbol } from "./segments.js";
 
 /** What a rule needs from its grammar to be applied. */
@@ -105,10 +105,13 @@ const desugared = new WeakMap<Rule, { inv: Inventory; rule: Rule }>();
  * The front end's `desugar`, given the inventory and classes (so literal segments and classes
  * are intersected with the condition material exactly), memoised per rule object and inventory.
  */
-export function desugarOnce(rule: Rule, ctx: Pick<RuleContext, "inv" | "classes">): Rule {
+export function desugarOnce(rule: Rule, ctx: Pick<RuleContext, "inv" | "classes"> & Partial<Pick<RuleContext, "nodes">>): Rule {
   const hit = desugared.get(rule);
   if (hit !== undefined && hit.inv === ctx.inv) return hit.rule;
-  const d = rule.environments.some((e) => e.conditions.length > 0) || hasEnvironmentNotation(rule) ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()] }) : rule;
+  const insertsBundle = rule.target.length === 0 && rule.change.some((c) => c.kind === "bundle");
+  const d = rule.environments.some((e) => e.conditions.length > 0) || hasEnvironmentNotation(rule) || insertsBundle
+    ? desugar(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()], nodes: [...(ctx.nodes?.values() ?? [])] })
+    : rule;
   desugared.set(rule, { inv: ctx.inv, rule: d });
   return d;
 }
@@ -130,7 +133,9 @@ export type PrepareResult = { readonly rule: PreparedRule; readonly diagnostics:
 export function prepareRule(rule: Rule, ctx: RuleContext): PrepareResult {
   const hit = cache.get(rule);
   if (hit !== undefined && hit.ctx === ctx) return hit.result;
-  const written = ctx.conditions === "direct" ? expandEnvironments(rule) : desugarOnce(rule, ctx);
+  const written = ctx.conditions === "direct"
+    ? expandEnvironments(insertedBundlesAsSegments(rule, { inventory: ctx.inv, classes: [...ctx.classes.values()], nodes: [...ctx.nodes.values()] }))
+    : desugarOnce(rule, ctx);
   const result = new Preparer(written, ctx).run();
   cache.set(rule, { ctx, result });
   return result;

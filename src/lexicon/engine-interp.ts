@@ -31,6 +31,6 @@ export class InterpreterEngine implements Engine {
     const preferred = run.variants.find((v) => wordKey(v.word) === prefKey);
     const narrow = ipa(run.preferred);
     const variants = [narrow, ...run.outputs.filter((w) => wordKey(w) !== prefKey).map(ipa)];
-    return { narrow, broad: ipa(broadRun.preferred), variants, rules: preferred?.changedBy ?? [] };
+    return { narrow, broad: ipa(broadRun.preferred), variants, rules: preferred?.changedBy ?? [], ...(run.capped ? { capped: true as const } : {}) };
   }
 }

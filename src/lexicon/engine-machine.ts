@@ -1,6 +1,7 @@
 // The production Engine: the composed, frozen cascade of a compiled grammar gives the narrow form;
 // a one-block-per-step compilation of the same grammar says which steps changed the entry (blame);
 // the grammar's syllabify and stress steps alone give the broad syllabified column.
+// Work is done only for what the caller's outputs print (`Needs`): TSV needs neither variants nor blame.
 
 import type { Diagnostic } from "../diagnostics.js";
 import type { Grammar } from "../grammar/ast.js";
@@ -8,9 +9,11 @@ import type { Inventory } from "../inventory/types.js";
 import { WORD_EDGE, type Word } from "../interp/index.js";
 import { compileGrammar, segmentsOutside, type Compiled } from "../compile/index.js";
 import type { Bundle } from "../inventory/types.js";
-import type { Engine, Transcription } from "./engine.js";
+import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type SymbolView } from "./render.js";
+import { SymbolEncoder } from "./encode.js";
+import { VariantScreen } from "./variants.js";
 
 export interface MachineEngineOptions {
   /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
@@ -30,6 +33,13 @@ export class MachineEngine implements Engine {
   private readonly view: SymbolView;
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
+  private readonly bout: number[] = [];
+  private readonly stepA: number[] = [];
+  private readonly stepB: number[] = [];
+  private readonly enc: SymbolEncoder;
+  private readonly benc: SymbolEncoder;
+  /** Decides from the per-step runs whether an entry can have more than one variant (null: no blame machines). */
+  private readonly screen: VariantScreen | null;
   /**
    * For words with segments the alphabet lacks (the inventory writes them, no rule makes them):
    * an engine compiled with those segments added (`extraSegments`), rebuilt when a word brings
@@ -42,7 +52,7 @@ export class MachineEngine implements Engine {
   constructor(
     readonly compiled: Compiled,
     private readonly stepwise: Compiled | null,
-    private readonly broad: Compiled,
+    readonly broad: Compiled,
     private readonly inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
@@ -51,6 +61,9 @@ export class MachineEngine implements Engine {
     this.steps = stepNames;
     this.view = symbolView(compiled.alphabet, inventory);
     this.broadView = symbolView(broad.alphabet, inventory);
+    this.enc = new SymbolEncoder(compiled);
+    this.benc = new SymbolEncoder(broad);
+    this.screen = stepwise !== null && compiled.hasVariants ? VariantScreen.of(stepwise) : null;
   }
 
   /** Runs the preferred cascade on '#'-bracketed symbol ids; undefined when the machine rejects them. */
@@ -61,16 +74,16 @@ export class MachineEngine implements Engine {
 
   /** Symbol ids of a reader word (with its '#' edges) for the full and the prosody-only machines. */
   encode(symbols: Word): { ids: number[]; bids: number[] } | undefined {
-    const word = [WORD_EDGE, ...symbols, WORD_EDGE];
-    const ids = this.compiled.encode(word);
-    const bids = this.broad.encode(word);
-    return ids === null || bids === null ? undefined : { ids, bids };
+    const ids = this.enc.encode(symbols);
+    if (ids === null) return undefined;
+    const bids = this.benc.encode(symbols);
+    return bids === null ? undefined : { ids, bids };
   }
 
-  transcribeWord(symbols: Word): Transcription | undefined {
+  transcribeWord(symbols: Word, needs: Needs = ALL_NEEDS): Transcription | undefined {
     const e = this.encode(symbols);
-    if (e !== undefined) return this.transcribeIds(e.ids, e.bids);
-    return this.widened(symbols)?.transcribeWord(symbols);
+    if (e !== undefined) return this.transcribeIds(e.ids, e.bids, needs);
+    return this.widened(symbols)?.transcribeWord(symbols, needs);
   }
 
   /** The extended engine that accepts `symbols` (recompiled with their unseen segments), if any. */
@@ -92,40 +105,71 @@ export class MachineEngine implements Engine {
   }
 
   /** The work a worker thread does: machines over encoded ids, IPA out. */
-  transcribeIds(ids: number[], bids: number[]): Transcription | undefined {
+  transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS): Transcription | undefined {
     const out = this.out;
     out.length = 0;
+    const ambiguousBefore = this.compiled.preferred.ambiguities;
     if (!this.compiled.preferred.run(ids, out)) return undefined;
+    const ambiguous = this.compiled.preferred.ambiguities !== ambiguousBefore;
     const narrow = renderIpa(out, this.view, this.render);
-    const bout: number[] = [];
+    const bout = this.bout;
+    bout.length = 0;
     if (!this.broad.preferred.run(bids, bout)) return undefined;
     const broadText = renderIpa(bout, this.broadView, this.render);
+    // Blame runs every step on its own; the same runs tell the screen whether variants can exist.
+    const wantRules = needs.rules === true && this.stepwise !== null;
+    const wantVariants = needs.variants === true && this.compiled.hasVariants;
+    const rules = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants) : NO_BLAME;
     let variants: string[] = [narrow];
-    if (this.compiled.hasVariants) {
-      const all = this.compiled.variants(ids, this.maxVariants).outputs.map((o) => renderIpa(o, this.view, this.render));
-      variants = [narrow, ...[...new Set(all)].filter((v) => v !== narrow)];
+    let capped = false;
+    if (wantVariants && !rules.single) {
+      const v = this.compiled.variants(ids, this.maxVariants);
+      capped = v.capped;
+      const all = v.outputs.map((o) => renderIpa(o, this.view, this.render));
+      variants = [narrow, ...[...new Set(all)].filter((x) => x !== narrow)];
     }
-    return { narrow, broad: broadText, variants, rules: this.blame(ids) };
+    return {
+      narrow, broad: broadText, variants, rules: wantRules ? rules.changed : [],
+      ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}),
+    };
   }
 
-  /** Steps whose own machine changed the (preferred) word, in order (one block per step). */
-  private blame(ids: number[]): string[] {
-    const sw = this.stepwise;
-    if (sw === null) return [];
+  /**
+   * Steps whose own machine changed the (preferred) word, in order (one block per step), and —
+   * when `screen` — whether the screen proved that the entry has exactly one variant.
+   */
+  private blame(ids: ArrayLike<number>, screen: boolean): { changed: string[]; single: boolean } {
+    const sw = this.stepwise!;
     const changed: string[] = [];
-    let cur: number[] = ids;
+    let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
-    for (let k = 0; k < blocks.length; k++) {
-      const next: number[] = [];
+    const check = screen ? this.screen : null;
+    let single = check !== null;
+    // Steps before `unchecked` have been screened; a step with no preferred block (prefer
+    // unapplied) leaves the preferred string as it is, so it is screened on the current string.
+    let unchecked = 0;
+    let k = 0;
+    for (; k < blocks.length; k++) {
+      const b = blocks[k]!;
+      if (single) {
+        single = check!.identity(unchecked, b.from + 1, cur) && !check!.branchingIn(b.from + 1, b.to);
+        unchecked = b.to;
+      }
+      // Two buffers taken in turn: no array per step and entry.
+      const next = cur === this.stepA ? this.stepB : this.stepA;
+      next.length = 0;
       if (!sw.preferred.runBlock(k, cur, next)) break;
-      if (!sameIds(cur, next)) changed.push(this.steps[blocks[k]!.from]!);
+      if (!sameIds(cur, next)) changed.push(this.steps[b.from]!);
       cur = next;
     }
-    return changed;
+    if (single) single = k === blocks.length && check!.identity(unchecked, Number.MAX_SAFE_INTEGER, cur);
+    return { changed, single };
   }
 }
 
-function sameIds(a: readonly number[], b: readonly number[]): boolean {
+const NO_BLAME = { changed: [] as string[], single: false };
+
+function sameIds(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
   return true;

@@ -17,6 +17,10 @@ export interface EntryResult {
   readonly variants: readonly string[];
   /** Names of the steps that changed the preferred variant, in grammar order. */
   readonly rules: readonly string[];
+  /** Some variants were left out: the entry had more than the cap (16 by default). */
+  readonly capped?: true;
+  /** The preferred machine gave more than one output; the first by symbol order was taken. */
+  readonly ambiguous?: true;
 }
 
 export interface Transcription {
@@ -24,11 +28,28 @@ export interface Transcription {
   readonly broad: string;
   readonly variants: readonly string[];
   readonly rules: readonly string[];
+  /** Some variants were left out (more than the cap); absent when none were. */
+  readonly capped?: true;
+  /** The preferred machine gave more than one output and the first by symbol order was taken; absent otherwise. */
+  readonly ambiguous?: true;
 }
+
+/**
+ * What the caller's outputs print beyond the narrow and broad forms: every variant (JSON Lines,
+ * PLS, the summary's counts) and the steps that changed the entry (JSON Lines, the summary). An
+ * engine may skip what is not asked for: `variants` is then just the narrow form, `rules` empty.
+ */
+export interface Needs {
+  readonly variants?: boolean;
+  readonly rules?: boolean;
+}
+
+export const ALL_NEEDS: Needs = { variants: true, rules: true };
+export const NARROW_ONLY: Needs = { variants: false, rules: false };
 
 export interface Engine {
   /** Step names in grammar order (rules, syllabify and stress steps). */
   readonly steps: readonly string[];
   /** Undefined when a symbol of the word is outside the compiled alphabet. */
-  transcribeWord(symbols: Word): Transcription | undefined;
+  transcribeWord(symbols: Word, needs?: Needs): Transcription | undefined;
 }

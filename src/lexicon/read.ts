@@ -14,6 +14,7 @@ import type { Field } from "./fields.js";
 import { RecordSplitter } from "./records.js";
 import type { SourceRecord } from "./records.js";
 import { applyStress, unstressAll } from "./stress.js";
+import { pronReader } from "./pron.js";
 
 export { checkQuoting, columnInField, findForbidden } from "./fields.js";
 export type { Field, FieldSpan, QuoteCheck } from "./fields.js";
@@ -127,6 +128,8 @@ export interface ReadOptions {
 
 /** An async iterable of rows and rejects, in line order, with file-level diagnostics and counts. */
 export interface LexiconReader extends AsyncIterable<LexiconItem> {
+  /** The same items, a batch per input chunk (one asynchronous step per batch: the fast way to consume a large file). */
+  batches(): AsyncIterable<LexiconItem[]>;
   /** File-level problems: unreadable file, header errors (reading stops), unknown columns (warnings). */
   readonly diagnostics: readonly Diagnostic[];
   readonly stats: Readonly<ReadStats>;
@@ -178,7 +181,11 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
   const stats: ReadStats = { lines: 0, blankLines: 0, commentLines: 0, headerLine: 0, dataLines: 0, rows: 0, rejects: 0, maxInFlight: 0 };
   const inv = opts.inventory;
 
-  async function* iterate(): AsyncGenerator<LexiconItem> {
+  /**
+   * The items of each input chunk's complete records, in file order: every record is handled
+   * synchronously, so a consumer of batches pays one asynchronous step per chunk, not per row.
+   */
+  async function* batches(): AsyncGenerator<LexiconItem[]> {
     let stream: NodeJS.ReadableStream;
     if (typeof source === "string") {
       const o = await openFile(source);
@@ -231,17 +238,23 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
         const recs = splitter.push(chunk);
         stats.lines = splitter.lines;
         if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
+        const items: LexiconItem[] = [];
         for (const rec of recs) {
           const item = take(rec);
-          if (headerFailed) return;
-          if (item !== undefined) yield count(item);
+          if (headerFailed) break;
+          if (item !== undefined) items.push(count(item));
         }
+        if (items.length > 0) yield items;
+        if (headerFailed) return;
       }
+      const items: LexiconItem[] = [];
       for (const rec of splitter.end()) {
         const item = take(rec);
-        if (headerFailed) return;
-        if (item !== undefined) yield count(item);
+        if (headerFailed) break;
+        if (item !== undefined) items.push(count(item));
       }
+      if (items.length > 0) yield items;
+      if (headerFailed) return;
     } catch (e) {
       diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${splitter.lines}: ${(e as Error).message}.`, { file, line: Math.max(1, splitter.lines), column: 1 }));
       return;
@@ -254,9 +267,14 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
     }
   }
 
+  async function* iterate(): AsyncGenerator<LexiconItem> {
+    for await (const items of batches()) yield* items;
+  }
+
   return {
     diagnostics,
     stats,
+    batches,
     [Symbol.asyncIterator]: () => iterate(),
   };
 }
@@ -334,20 +352,27 @@ function readRow(
     if (first !== undefined) return reject(colOf("id"), "lexicon/duplicate-id", `The id '${id}' is already used on line ${first}; ids must be unique in the file.`);
     ids.set(id, info.line);
   }
-  const word = (get("word") ?? "").trim().normalize("NFC");
+  const trimmed = (get("word") ?? "").trim();
+  // ASCII is already NFC (Unicode normalisation leaves it unchanged): skip the normaliser for it.
+  const word = ASCII.test(trimmed) ? trimmed : trimmed.normalize("NFC");
   if (word === "") return reject(colOf("word"), "lexicon/empty-word", "The word is empty.");
   const pron = get("pron") ?? "";
   const pronIndex = header.get("pron")!;
   const pronField = info.fields[pronIndex] ?? { column: colOf("pron"), quoted: false };
   if (pron.trim() === "") return reject(pronField.column, "lexicon/empty-pron", `The pronunciation of '${word}' is empty.`);
 
-  const t = tokenise(inv, pron, { file, line: info.line, column: pronField.column });
-  if (!t.ok) {
-    return reject(columnInField(info.raw, pronField, t.error.column - pronField.column), t.error.code, t.error.message);
+  // The memoising fast path (lexicon/pron.ts) for the common case; every other case, errors included, below.
+  let s: { readonly symbols: Word; readonly marked: boolean } | undefined = pronReader(inv).read(pron);
+  if (s === undefined) {
+    const t = tokenise(inv, pron, { file, line: info.line, column: pronField.column });
+    if (!t.ok) {
+      return reject(columnInField(info.raw, pronField, t.error.column - pronField.column), t.error.code, t.error.message);
+    }
+    const r = applyStress(inv, t.tokens);
+    if (!r.ok) return reject(columnInField(info.raw, pronField, r.column - pronField.column), r.code, r.reason);
+    s = r;
   }
-  const s = applyStress(inv, t.tokens);
-  if (!s.ok) return reject(columnInField(info.raw, pronField, s.column - pronField.column), s.code, s.reason);
-  const tags = (get("tags") ?? "").split(/[\s,;]+/u).filter((x) => x !== "");
+  const tags = splitTags(get("tags"));
   // The tag `weak`: a weak form, every vowel unstressed rather than given default stress.
   const weak = tags.includes(WEAK_TAG);
   if (weak && s.marked) {
@@ -375,6 +400,12 @@ function readRow(
   };
   return row;
 }
+
+const ASCII = /^[\x00-\x7f]*$/;
+
+/** The `tags` field split at white space, commas and semicolons (no field, or an empty one: no tags). */
+const splitTags = (text: string | undefined): string[] =>
+  text === undefined || text === "" ? [] : text.split(/[\s,;]+/u).filter((x) => x !== "");
 
 const optional = <K extends string>(k: K, v: string | undefined): { [P in K]?: string } =>
   (v === undefined ? {} : { [k]: v }) as { [P in K]?: string };

@@ -10,7 +10,7 @@ import { writePls, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import type { Inventory } from "../inventory/types.js";
 import { Channel } from "./channel.js";
-import type { Engine, EntryResult, Transcription } from "./engine.js";
+import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
@@ -46,6 +46,10 @@ export interface RunSummary {
   /** Entries with more than one narrow variant. */
   readonly entriesWithVariants: number;
   readonly variantsTotal: number;
+  /** Entries whose variants were more than the cap (some left out; marked `capped` in JSON Lines). */
+  readonly entriesCapped: number;
+  /** Entries whose preferred machine had more than one output (marked `ambiguous` in JSON Lines). */
+  readonly entriesAmbiguous: number;
   /** How many entries each rule (and syllabify/stress step) changed, in grammar order. */
   readonly changedBy: readonly { readonly step: string; readonly entries: number }[];
   readonly files: Readonly<Record<string, string>>;
@@ -69,16 +73,33 @@ function outsideAlphabet(row: LexiconRow): RejectedRow {
 
 /** One entry as a JSON Lines record. */
 export const entryJsonLine = (r: EntryResult): string =>
-  formatJsonLine({ word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file: r.file, line: r.line } });
+  formatJsonLine({
+    word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}),
+    ...(r.capped === true ? { capped: true } : {}), ...(r.ambiguous === true ? { ambiguous: true } : {}), source: { file: r.file, line: r.line },
+  });
 
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
 export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
 
+/** Lines gathered into one chunk before it is handed to a file writer. */
+class ChunkedPush {
+  private buf = "";
+  constructor(private readonly ch: Channel<string>) {}
+  push(line: string): void {
+    this.buf += line;
+    if (this.buf.length >= 1 << 16) this.flush();
+  }
+  flush(): void {
+    if (this.buf !== "") this.ch.push(this.buf);
+    this.buf = "";
+  }
+}
+
 /** Words per batch sent to a worker thread. */
 const BATCH = 1024;
 
-export function transcribeRow(engine: Engine, row: LexiconRow): EntryResult | RejectedRow {
-  const t = engine.transcribeWord(row.symbols);
+export function transcribeRow(engine: Engine, row: LexiconRow, needs?: Needs): EntryResult | RejectedRow {
+  const t = engine.transcribeWord(row.symbols, needs);
   if (t === undefined) return outsideAlphabet(row);
   const bad = unwritableEntry(row, t);
   if (bad !== undefined) return bad;
@@ -130,36 +151,57 @@ export async function runLexicon(
   let entries = 0;
   let withVariants = 0;
   let variantsTotal = 0;
+  let entriesCapped = 0;
+  let entriesAmbiguous = 0;
   const reader = readLexicon(lexiconPath, { inventory });
   let seen = 0;
   const every = opts.progressEvery ?? 1000;
-  const emit = async (r: EntryResult | RejectedRow): Promise<void> => {
+  // Lines are gathered into chunks of about 64 KiB before they go to a file writer (one hand-over
+  // per chunk, not per line).
+  const tsvOut = tsv !== undefined ? new ChunkedPush(tsv) : undefined;
+  const jsonlOut = jsonl !== undefined ? new ChunkedPush(jsonl) : undefined;
+  const wantPls = formats.has("pls");
+  // Every entry of a run names the same file or few: its relative path is worked out once per file.
+  const relFiles = new Map<string, string>();
+  const relFile = (f: string): string => {
+    let r = relFiles.get(f);
+    if (r === undefined) relFiles.set(f, (r = relativeTo(root, f)));
+    return r;
+  };
+  const emitOne = (r: EntryResult | RejectedRow): void => {
     if (r.kind === "reject") {
       rejects.push(r);
       return;
     }
     entries++;
     if (r.variants.length > 1) withVariants++;
+    if (r.capped === true) entriesCapped++;
+    if (r.ambiguous === true) entriesAmbiguous++;
     variantsTotal += r.variants.length;
     for (const step of r.rules) changed.set(step, (changed.get(step) ?? 0) + 1);
-    tsv?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
-    jsonl?.push(entryJsonLine({ ...r, file: relativeTo(root, r.file) }));
-    if (formats.has("pls")) {
+    tsvOut?.push(formatTsvEntry({ word: r.word, narrow: r.narrow, broad: r.broad }));
+    jsonlOut?.push(entryJsonLine({ ...r, file: relFile(r.file) }));
+    if (wantPls) {
       const lx = lexemes.get(r.word);
       const mine = entryPhonemes(r);
       if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
       else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
     }
-    // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
-    if ((tsv?.backlog ?? 0) > 4096 || (jsonl?.backlog ?? 0) > 4096) await new Promise((res) => setImmediate(res));
+  };
+  // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
+  const drain = async (): Promise<void> => {
+    if ((tsv?.backlog ?? 0) > 16 || (jsonl?.backlog ?? 0) > 16) await new Promise((res) => setImmediate(res));
   };
   const pool = opts.pool;
   try {
     if (pool === undefined || !(engine instanceof MachineEngine)) {
-      for await (const item of reader) {
-        seen++;
-        if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
-        await emit(item.kind === "row" ? transcribeRow(engine, item) : item);
+      for await (const batch of reader.batches()) {
+        for (const item of batch) {
+          seen++;
+          if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
+          emitOne(item.kind === "row" ? transcribeRow(engine, item) : item);
+        }
+        await drain();
       }
     } else {
       // Batches in flight on the workers, emitted strictly in submission order.
@@ -172,20 +214,21 @@ export async function runLexicon(
         let k = 0;
         for (const item of head.items) {
           if (item.kind !== "row") {
-            await emit(item);
+            emitOne(item);
             continue;
           }
           const t = results[k++];
           const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-          await emit(bad ?? { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t! });
+          emitOne(bad ?? { kind: "entry", file: item.file, line: item.line, word: item.word, ...(item.id !== undefined ? { id: item.id } : {}), ...t! });
         }
+        await drain();
       };
       const submit = (): void => {
         queue.push({ items, done: pool.submit(words) });
         items = [];
         words = [];
       };
-      for await (const item of reader) {
+      for await (const batch of reader.batches()) for (const item of batch) {
         seen++;
         if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
         if (item.kind === "row") {
@@ -218,6 +261,8 @@ export async function runLexicon(
     await stage.abort();
     return failedSummary(variety.name, lexiconPath, diagnostics, t0);
   }
+  tsvOut?.flush();
+  jsonlOut?.flush();
   for (const ch of channels) ch.close();
   // Every file of the variety, or none: a failed write (or PLS, or reconciliation) leaves outDir as it was.
   const failWith = async (errors: Diagnostic[]): Promise<RunSummary> => {
@@ -267,6 +312,8 @@ export async function runLexicon(
     words: lexemes.size,
     entriesWithVariants: withVariants,
     variantsTotal,
+    entriesCapped,
+    entriesAmbiguous,
     changedBy: engine.steps.map((s) => ({ step: s, entries: changed.get(s) ?? 0 })),
     files,
     outputErrors,
@@ -287,7 +334,7 @@ export async function runLexicon(
 
 function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {
   return {
-    variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0,
+    variety, lexicon, rowsRead: 0, entriesWritten: 0, rowsRejected: 0, words: 0, entriesWithVariants: 0, variantsTotal: 0, entriesCapped: 0, entriesAmbiguous: 0,
     changedBy: [], files: {}, diagnostics: [...diagnostics, ...outputErrors], fileDiagnostics: capPerFile(diagnostics, "lexicon/too-many-problems"), outputErrors, seconds: (performance.now() - t0) / 1000, reconciled: false,
   };
 }

@@ -24,6 +24,8 @@ export function summaryJson(s: RunSummary, root: string): string {
     words: s.words,
     entriesWithVariants: s.entriesWithVariants,
     variantsTotal: s.variantsTotal,
+    entriesCapped: s.entriesCapped,
+    entriesAmbiguous: s.entriesAmbiguous,
     changedBy: s.changedBy,
     files: Object.keys(s.files).sort(),
     reconciled: s.reconciled,

@@ -24,8 +24,8 @@ const SEED = fcSeed();
 process.stderr.write(`compile/differential: fast-check seed ${SEED}\n`);
 
 const extra = { classes: [classDef("V", [bun("+syllabic")])], nodes: [nodeDef("place", ["labial", "coronal"])] };
-const interpOptsOf = (g: Grammar) => ({ desugar: (r: Rule) => desugar(r, { inventory: inv, classes: g.classes }), isBoundaryBlind: (r: Rule) => isBoundaryBlind(r), maxVariants: 2000 });
-const desugarIn = (g: Grammar) => (r: Rule) => desugar(r, { inventory: inv, classes: g.classes });
+const interpOptsOf = (g: Grammar) => ({ desugar: (r: Rule) => desugar(r, { inventory: inv, classes: g.classes, nodes: g.nodes }), isBoundaryBlind: (r: Rule) => isBoundaryBlind(r), maxVariants: 2000 });
+const desugarIn = (g: Grammar) => (r: Rule) => desugar(r, { inventory: inv, classes: g.classes, nodes: g.nodes });
 
 /** Does the interpreter accept this rule (prepare without errors)? */
 function interpretable(r0: Rule, g: Grammar, w: Sym[]): boolean {
@@ -87,7 +87,7 @@ describe("compiled rules agree with the interpreter", () => {
           expect(wordKey(dec.decode(pref[0]!))).toBe(wordKey(exp.preferred));
         }
       }),
-      { numRuns: 300 },
+      { numRuns: 250 },
     );
   });
 
@@ -125,7 +125,7 @@ describe("compiled rules agree with the interpreter", () => {
           checkGrammar(grammar(steps, { ...extra, onsets, codas, heavy }), words);
         },
       ),
-      { numRuns: 100 },
+      { numRuns: 70 },
     );
   });
 
@@ -134,7 +134,7 @@ describe("compiled rules agree with the interpreter", () => {
       fc.property(arbGrammar(), fc.array(fc.oneof(arbWord(inv, { dots: true }), arbWord(inv), arbWord(inv, { unseen: true })), { minLength: 1, maxLength: 5 }), ({ grammar: g }, words) => {
         checkGrammar(g, words);
       }),
-      { numRuns: 80 },
+      { numRuns: 50 },
     );
   });
 });

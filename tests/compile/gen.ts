@@ -49,8 +49,8 @@ const pattern = (vars: boolean): fc.Arbitrary<Pattern> =>
   ).map((items): Pattern => ({ kind: "sequence", items, span: SPAN }));
 
 const environment: fc.Arbitrary<Environment> = fc
-  .tuple(pattern(true), pattern(true), fc.subarray(["syllable-initial", "coda", "stressed", "word-final"] as const, { maxLength: 1 }))
-  .map(([left, right, conds]) => ({ left, right, conditions: conds.map((condition) => ({ condition, span: SPAN })), span: SPAN }));
+  .tuple(pattern(true), pattern(true), fc.subarray(["syllable-initial", "coda", "stressed", "word-final"] as const, { maxLength: 1 }), fc.constantFrom(false, false, false, true))
+  .map(([left, right, conds, mirrored]) => ({ left, right, conditions: conds.map((condition) => ({ condition, span: SPAN })), span: SPAN, ...(mirrored ? { mirrored } : {}) }));
 
 const changeFor = (vars: boolean): fc.Arbitrary<ChangeElement> =>
   fc.oneof(
@@ -68,6 +68,8 @@ export const ruleArb: fc.Arbitrary<Rule> = fc
     changes: fc.array(changeFor(true), { minLength: 2, maxLength: 2 }),
     insertSeg: fc.constantFrom("t", "a", "n"),
     envs: fc.array(environment, { maxLength: 2 }),
+    unless: fc.oneof({ weight: 4, arbitrary: fc.constant([] as Environment[]) }, { weight: 1, arbitrary: fc.array(environment, { minLength: 1, maxLength: 1 }) }),
+    longestFirst: fc.constantFrom(false, false, false, true),
     optional: fc.boolean(),
     mode: fc.constantFrom("simultaneous", "left-to-right", "right-to-left") as fc.Arbitrary<Rule["mode"]>,
     prefer: fc.constantFrom("applied", "unapplied") as fc.Arbitrary<Rule["prefer"]>,
@@ -78,6 +80,8 @@ export const ruleArb: fc.Arbitrary<Rule> = fc
     return {
       kind: "rule", name: "random", span: SPAN, optional: r.optional, mode: r.mode, prefer: r.prefer,
       target, change, environments: r.envs,
+      ...(r.unless.length > 0 ? { unless: r.unless } : {}),
+      ...(r.longestFirst ? { expansion: "longest-first" as const } : {}),
     };
   });
 

@@ -21,7 +21,7 @@ function grammarOf(body: string): Grammar {
 }
 
 const interp = (g: Grammar, word: Sym[]) =>
-  applyGrammar(g, inv, word, { desugar: (r) => desugar(r, { inventory: inv, classes: g.classes }), isBoundaryBlind, maxVariants: 2000 });
+  applyGrammar(g, inv, word, { desugar: (r) => desugar(r, { inventory: inv, classes: g.classes, nodes: g.nodes }), isBoundaryBlind, maxVariants: 2000 });
 
 function outputs(g: Grammar, text: string): string[] {
   return interp(g, symsOf(text, inv)).outputs.map((w) => ipaOf(w, inv)).sort();
@@ -106,3 +106,73 @@ describe("longest-first: parenthesis expansions disjunctively ordered", () => {
   });
 });
 
+
+describe("an inserted feature bundle that denotes one segment", () => {
+  it("inserts that segment (interpreter and compiler)", () => {
+    const g = grammarOf("rule epenthesis:\n  ∅ -> [+syllabic +coronal] / C _ C\n");
+    expect(outputs(g, "#ptak#")).toEqual(["pitak"]);
+    agreeOnAll(g, allWords(["p", "t", "a"], 4));
+  });
+  it("a bundle that fits several segments or none is an error at its place", () => {
+    const text = "node place = labial coronal\nrule e:\n  ∅ -> [+syllabic] / C _ C\nrule f:\n  ∅ -> [+syllabic +labial] / C _ C\n";
+    const parsed = parseGrammarText(text, "t.strata");
+    const d = checkGrammar(splitLiterals(parsed.grammar, inv).grammar, inv).filter((x) => x.code === "grammar/insert-bundle");
+    expect(d.map((x) => `${x.line}:${x.column} ${x.message}`)).toEqual([
+      "3:8 rule 'e': this inserted bundle fits 2 segments (a i); an inserted bundle must name exactly one",
+      "5:8 rule 'f': no segment of the inventory has every value of this inserted bundle",
+    ]);
+  });
+});
+
+describe("variables only the change uses, and variables some environments leave free", () => {
+  it("a variable set behind a repetition is alpha-ambiguous: a warning, and several outputs", () => {
+    const text = "rule r:\n  a -> [αnasal] / _ [-syllabic]₀ [-syllabic αnasal]\n";
+    const d = checkGrammar(splitLiterals(parseGrammarText(text, "t.strata").grammar, inv).grammar, inv);
+    expect(d.map((x) => `${x.line}:${x.column} ${x.code}`)).toEqual(["2:19 grammar/ambiguous-variable"]);
+    expect(outputs(grammarOf(text), "#atn#")).toEqual(["atn", "ãtn"]);
+  });
+  it("a change-only variable takes every value: several outputs, and a warning", () => {
+    const text = "rule r:\n  t -> [αvoice] / _ a\n";
+    const g = grammarOf(text);
+    expect(outputs(g, "#ta#")).toEqual(["da", "ta"]);
+    agreeOnAll(g, allWords(["t", "a"], 3));
+    const d = checkGrammar(splitLiterals(parseGrammarText(text, "t.strata").grammar, inv).grammar, inv);
+    expect(d.map((x) => `${x.line}:${x.column} ${x.severity} ${x.code}`)).toEqual(["2:19 warning grammar/free-variable"]);
+  });
+  it("a variable bound in one environment only: the other environment is named", () => {
+    const text = "node place = labial coronal\nrule r:\n  n -> [α place] / _ [-syllabic α place]\n    / _ #\n    / _ ([α place])\n";
+    const d = checkGrammar(splitLiterals(parseGrammarText(text, "t.strata").grammar, inv).grammar, inv);
+    expect(d.map((x) => `${x.line}:${x.column} ${x.code} ${x.message}`)).toEqual([
+      "5:7 grammar/ambiguous-variable rule 'r': 2 environments set variable α of the change; where more than one holds with different values, the site gets one output per value",
+      "4:7 grammar/free-variable rule 'r': in this environment variable α of the change is not set on every match (it is missing or optional), so a site there takes every value of α (several outputs)",
+      "5:7 grammar/free-variable rule 'r': in this environment variable α of the change is not set on every match (it is missing or optional), so a site there takes every value of α (several outputs)",
+    ]);
+  });
+});
+
+describe("insertion at a syllable's end inside a word", () => {
+  it("'_ $' inserts before every '.' and at the word's end (interpreter)", () => {
+    const g = grammarOf("rule r:\n  ∅ -> i / a _ $\n");
+    expect(outputs(g, "#pa.ta#")).toEqual(["pai.tai"]);
+    expect(outputs(g, "#pat.ta#")).toEqual(["pat.tai"]);
+  });
+  it("compiled = interpreted on every word up to 4 segments with '.' between any two", () => {
+    const words: Sym[][] = [];
+    for (const w of allWords(["p", "a", "n"], 4)) {
+      const body = w.slice(1, -1);
+      for (let mask = 0; mask < 1 << Math.max(0, body.length - 1); mask++) {
+        const out: Sym[] = [w[0]!];
+        body.forEach((s, i) => {
+          if (i > 0 && (mask >> (i - 1)) & 1) out.push({ kind: "boundary", which: "syllable" });
+          out.push(s);
+        });
+        out.push(w[w.length - 1]!);
+        words.push(out);
+      }
+    }
+    for (const head of ["", " right-to-left", " optional"]) {
+      agreeOnAll(grammarOf(`rule r${head}:\n  ∅ -> i / a _ $\n`), words);
+      agreeOnAll(grammarOf(`rule r${head}:\n  ∅ -> i / $ _ n\n`), words);
+    }
+  });
+});

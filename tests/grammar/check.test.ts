@@ -13,7 +13,7 @@ describe("names and values", () => {
   const cases: [string, [string, string, string][]][] = [
     ["rule r:\n  a -> [+nasel]", [["error", "grammar/unknown-feature", "3:9"]]],
     ["rule r:\n  Vowel -> ə", [["error", "grammar/unknown-class", "3:3"]]],
-    ["rule r:\n  a -> [αvoice]", [["error", "grammar/unbound-variable", "3:9"]]],
+    ["rule r:\n  t -> [αvoice]", [["warning", "grammar/free-variable", "3:9"]]],
     ["node place = labial coronal dorsal\nrule r:\n  [αplace] -> [αvoice]", [["error", "grammar/variable-kind", "4:16"]]],
     ["rule r:\n  a i -> [+nasal]", [["error", "grammar/change-length", "3:10"]]],
     ["rule r:\n  0 -> [+voice] / _ a", [["error", "grammar/insert-bundle", "3:8"]]],
@@ -36,7 +36,7 @@ describe("names and values", () => {
     expect(found("rule r:\n  a -> [+nasel]\nrule s:\n  Vowel -> [βvoice]").map((f) => f[1])).toEqual([
       "grammar/unknown-feature",
       "grammar/unknown-class",
-      "grammar/unbound-variable",
+      "grammar/free-variable",
     ]);
   });
   test("a clean grammar has no diagnostics", () => {

@@ -125,8 +125,9 @@ function mirrorPattern(p: Pattern): Pattern {
 }
 
 function mirrorRule(r: Rule): Rule {
-  const environments = r.environments.map((e): Environment => ({
+  const mirrorEnv = (e: Environment): Environment => ({
     ...e, left: mirrorPattern(e.right), right: mirrorPattern(e.left), conditions: e.conditions.map((c) => ({ ...c, condition: MIRROR[c.condition] })),
-  }));
-  return { ...r, target: [...r.target].reverse() as Element[], change: [...r.change].reverse(), environments };
+  });
+  const unless = r.unless?.map(mirrorEnv);
+  return { ...r, target: [...r.target].reverse() as Element[], change: [...r.change].reverse(), environments: r.environments.map(mirrorEnv), ...(unless ? { unless } : {}) };
 }

@@ -204,6 +204,21 @@ describe("where a build writes", () => {
     expect(err).not.toMatch(/\n\s+at /);
   });
 
+  // /sys refuses new folders even to root (EPERM), so the permission case runs under any user (Linux only).
+  it.runIf(process.platform === "linux" && existsSync("/sys/kernel"))("an output or cache folder without permission: one positioned error, or one warning", async () => {
+    const dir = lexiconFolder(GOOD);
+    const denied = await build(dir, opts("/sys/strata-test-out"));
+    expect(denied.code).toBe(1);
+    expect(denied.err.trim().split("\n")).toHaveLength(1);
+    expect(denied.err).toMatch(/^\/sys\/strata-test-out\/lex:1:1: error: Cannot write this output: permission denied\. \[output\/unwritable\]$/m);
+    const out = join(dir, "..", "out");
+    const cacheless = await build(dir, opts(out, { cacheDir: "/sys/strata-test-cache", quiet: false }));
+    expect(cacheless.code).toBe(0);
+    expect(cacheless.err.split("\n").filter((l) => l.includes("[cache/unusable]"))).toEqual([
+      "/sys/strata-test-cache:1:1: warning: The cache folder /sys/strata-test-cache cannot be used (permission denied); continuing without a cache. [cache/unusable]",
+    ]);
+  }, 120_000);
+
   it("a folder where run.json should be: one positioned line, exit 1, no variety written", async () => {
     const dir = lexiconFolder(GOOD);
     const out = join(dir, "..", "out");

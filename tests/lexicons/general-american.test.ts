@@ -262,6 +262,11 @@ describe("phonetician's review fixes (each with its source)", () => {
     expect(variants("winter")).toEqual(["ˈwɪ̃.ɾ̃ɚ", "ˈwɪ̃n.tɚ"]);
     expect(narrow("twenty")).toBe("ˈtʰw̥ɛ̃.ɾ̃i");
     expect(narrow("center")).toBe("ˈsɛ̃.ɾ̃ɚ");
+    // also before a vowel nasalised by a following nasal ("plantain"; same sources), and before ɫ̩ ("gentle")
+    expect(derive(general(), "ˈplæntɪn").preferred).toBe("ˈpʰl̥æ̃.ɾ̃ɪ̃n");
+    expect(narrow("gentle")).toBe("ˈdʒɛ̃.ɾ̃ɫ̩");
+    // but not before a syllabic n̩, where the /t/ is glottalised ("mountain"; Ladefoged & Johnson, ch. 3, from memory)
+    expect(narrow("mountain")).toBe("ˈmaʊ̃n.ʔn̩");
     // not before a stressed vowel, where the t is aspirated ("entire"; Kahn 1976, from memory)
     expect(narrow("entire")).toBe("ɪ̃nˈtʰaɪ.ɚ");
   });

@@ -14,7 +14,8 @@ describe("segments no rule makes, through the machine engine (en-us grammar)", (
   const machine = built.engine!;
   const oracle = new InterpreterEngine(v.grammar, v.inventory, 16, true);
   // Invented words; each has at least one segment outside the compiled alphabet.
-  const words = ["ˈsm̥oʊkiːn̥", "ˈkʷɪt̪ə"];
+  // The second word needs no new segment: the widened engine is reused, not rebuilt.
+  const words = ["ˈsm̥oʊkʷiːn̥", "ˈkʷiːn̥"];
 
   test("the plain compiled alphabet lacks them", () => {
     expect(built.diagnostics.filter((d) => d.severity === "error")).toEqual([]);

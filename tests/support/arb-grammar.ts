@@ -70,8 +70,10 @@ const arbConditions = (targetIsVowel: boolean): fc.Arbitrary<ProsodicCondition[]
   return fc.oneof({ weight: 3, arbitrary: fc.constant<ProsodicCondition[]>([]) }, { weight: 1, arbitrary: fc.uniqueArray(fc.constantFrom(...all), { minLength: 1, maxLength: 2 }) });
 };
 const arbEnv = (targetIsVowel: boolean): fc.Arbitrary<Environment> =>
-  fc.record({ left: arbSide, right: arbSide, conditions: arbConditions(targetIsVowel) }).map(
-    ({ left, right, conditions }): Environment => ({ left, right, conditions: conditions.map((condition) => ({ condition, span: SPAN })), span: SPAN }),
+  fc.record({ left: arbSide, right: arbSide, conditions: arbConditions(targetIsVowel), mirrored: fc.constantFrom(false, false, false, true) }).map(
+    ({ left, right, conditions, mirrored }): Environment => ({
+      left, right, conditions: conditions.map((condition) => ({ condition, span: SPAN })), span: SPAN, ...(mirrored ? { mirrored } : {}),
+    }),
   );
 
 interface Core {
@@ -106,6 +108,17 @@ const arbCore: fc.Arbitrary<Core> = fc.oneof(
       return { target: [bundle([value("syllabic", "-")])], change, bindLeft: where === "left" ? [binder] : [], bindRight: where === "right" ? [binder] : [] };
     }),
   },
+  // a variable only the change uses: it takes every value (several outputs)
+  { weight: 1, arbitrary: fc.tuple(arbTargetElement, fc.constantFrom("voice", "nasal", "labial", "coronal")).map(([t, f]): Core => ({ target: [t], change: [{ kind: "bundle", specs: [variable(f, "beta")], span: SPAN }], bindLeft: [], bindRight: [] })) },
+  // insertion of a bundle that denotes one segment (every feature of a tiny-inventory segment)
+  {
+    weight: 1,
+    arbitrary: fc.constantFrom(...SEGMENTS).map((symbol): Core => {
+      const seg = tinyInventory.segments.find((x) => x.symbol === symbol)!;
+      const specs = FEATURES.map((f) => value(f, seg.bundle[tinyInventory.featureIndex.get(f)!]!));
+      return { target: [], change: [{ kind: "bundle", specs, span: SPAN }], bindLeft: [], bindRight: [] };
+    }),
+  },
   // node variable: place copied from a neighbouring consonant (assimilation)
   {
     weight: 1,
@@ -124,13 +137,15 @@ const arbRule = (index: number): fc.Arbitrary<Rule> =>
       optional: fc.boolean(),
       prefer: fc.constantFrom<"applied" | "unapplied">("applied", "unapplied"),
       envCount: fc.integer({ min: 0, max: 2 }),
+      unlessCount: fc.constantFrom(0, 0, 0, 0, 1),
+      longestFirst: fc.constantFrom(false, false, false, true),
     })
-    .chain(({ core, mode, optional, prefer, envCount }) => {
+    .chain(({ core, mode, optional, prefer, envCount, unlessCount, longestFirst }) => {
       const vowelTarget = core.target.length === 1 && core.target[0]?.kind === "class" && core.target[0].name === "V";
       // The checker rejects stress conditions on a target that can be a nucleus (the stress is
       // then written in the target itself), so they are dropped for such targets.
       const nucleusTarget = core.target.some(canBeNucleus);
-      return fc.array(arbEnv(vowelTarget), { minLength: envCount, maxLength: envCount }).map((written): Rule => {
+      return fc.tuple(fc.array(arbEnv(vowelTarget), { minLength: envCount, maxLength: envCount }), fc.array(arbEnv(vowelTarget), { minLength: unlessCount, maxLength: unlessCount })).map(([written, unlessWritten]): Rule => {
         const envs = nucleusTarget
           ? written.map((e): Environment => ({ ...e, conditions: e.conditions.filter((c) => !STRESS_CONDITIONS.includes(c.condition)) }))
           : written;
@@ -141,9 +156,14 @@ const arbRule = (index: number): fc.Arbitrary<Rule> =>
           left: seqOf([...itemsOf(e.left), ...core.bindLeft.map(pat)]),
           right: seqOf([...core.bindRight.map(pat), ...itemsOf(e.right)]),
         }));
+        const unless = nucleusTarget
+          ? unlessWritten.map((e): Environment => ({ ...e, conditions: e.conditions.filter((c) => !STRESS_CONDITIONS.includes(c.condition)) }))
+          : unlessWritten;
         return {
           kind: "rule", name: `r${index + 1}`, span: SPAN, optional, mode, prefer: optional ? prefer : "applied",
           target: core.target, change: core.change, environments,
+          ...(unless.length > 0 ? { unless } : {}),
+          ...(longestFirst ? { expansion: "longest-first" as const } : {}),
         };
       });
     });
@@ -318,13 +338,15 @@ function changeText(c: ChangeElement): string {
 }
 
 function ruleText(r: Rule): string {
-  const head = [`rule ${r.name}`, r.optional ? "optional" : "", r.mode, r.optional ? `prefer ${r.prefer}` : ""].filter((x) => x !== "").join(" ");
+  const head = [`rule ${r.name}`, r.optional ? "optional" : "", r.mode, r.optional ? `prefer ${r.prefer}` : "", r.expansion === "longest-first" ? "longest-first" : ""].filter((x) => x !== "").join(" ");
   const target = r.target.length === 0 ? "∅" : r.target.map(elementText).join(" ");
   const change = r.change.length === 0 ? "∅" : r.change.map(changeText).join(" ");
-  const envs = r.environments.map((e) => {
+  const envText = (intro: string, e: Environment): string => {
     const where = e.conditions.length > 0 ? ` where ${e.conditions.map((c) => c.condition).join(", ")}` : "";
-    return `\n    / ${patternText(e.left)} _ ${patternText(e.right)}${where}`.replace(/ +/g, " ").replace(/\n \//, "\n    /");
-  });
+    const mirror = e.mirrored === true ? " mirrored" : "";
+    return `\n    ${intro} ${patternText(e.left)} _ ${patternText(e.right)}${mirror}${where}`.replace(/ +/g, " ").replace(/^\n /, "\n    ");
+  };
+  const envs = [...r.environments.map((e) => envText("/", e)), ...(r.unless ?? []).map((e) => envText("unless", e))];
   return `${head}:\n  ${target} -> ${change}${envs.join("")}\n`;
 }
 

@@ -1,0 +1,185 @@
+// End to end against the script it replaces: `strata transcribe` (TSV to stdout) and `strata build`
+// (one variety, TSV + JSON Lines + PLS), both with cached machines, each timed as a whole child
+// process beside the in-house script (bench/inhouse.ts: csv-parse plus a regular-expression cascade)
+// on the same CSV, in turn (script, transcribe, build, script, …) so each ratio is taken pair by
+// pair; and the stages of one build measured one at a time in this process.
+
+import { readFileSync, rmSync } from "node:fs";
+import { join } from "node:path";
+import type { Grammar } from "../src/grammar/index.js";
+import type { Inventory } from "../src/inventory/types.js";
+import { writeFileAtomic } from "../src/emit/atomic.js";
+import { writePls, type PlsEntry } from "../src/emit/pls.js";
+import { formatTsvEntry, tsvHeader } from "../src/emit/tsv.js";
+import { ALL_NEEDS, NARROW_ONLY, type EntryResult } from "../src/lexicon/engine.js";
+import { machineEngine } from "../src/lexicon/engine-machine.js";
+import { PronReader } from "../src/lexicon/pron.js";
+import { readLexicon, writeRejects, type LexiconRow } from "../src/lexicon/read.js";
+import { countInputRecords, countWritten, reconcile } from "../src/lexicon/reconcile.js";
+import { renderIpa, symbolView } from "../src/lexicon/render.js";
+import { entryJsonLine, entryPhonemes } from "../src/lexicon/runner.js";
+import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
+
+export interface EndToEnd {
+  readonly inhouseMs: number;
+  readonly transcribeMs: number;
+  readonly buildMs: number;
+  readonly inhouseRss: number | null;
+  readonly transcribeRss: number | null;
+  readonly buildRss: number | null;
+  /** Medians of the per-pair ratios. */
+  readonly transcribeRatio: number;
+  readonly buildRatio: number;
+  readonly stages: readonly { readonly name: string; readonly ms: number }[];
+  readonly failures: readonly string[];
+}
+
+const say = (s = ""): void => void process.stdout.write(s + "\n");
+const maxRss = (runs: readonly ChildRun[]): number | null => {
+  const xs = runs.map((r) => r.maxRssBytes).filter((x): x is number => x !== null);
+  return xs.length > 0 ? Math.max(...xs) : null;
+};
+
+export async function benchEndToEnd(o: {
+  root: string; csv: string; lexiconDir: string; grammarPath: string; grammar: Grammar; inventory: Inventory;
+  cacheDir: string; work: string; reps: number; entries: number;
+}): Promise<EndToEnd> {
+  const failures: string[] = [];
+  const rssWrapper = join(o.root, "dist", "bench", "rss.js");
+  const inhouse = join(o.root, "dist", "bench", "inhouse.js");
+  const cli = join(o.root, "dist", "src", "cli", "main.js");
+  const outRoot = join(o.work, "e2e-out");
+  const inhouseOut = join(o.work, "inhouse.tsv");
+  const transcribeOut = join(o.work, "transcribe.tsv");
+  const runs = { inhouse: [] as ChildRun[], transcribe: [] as ChildRun[], build: [] as ChildRun[] };
+  rmSync(outRoot, { recursive: true, force: true });
+  const transcribeArgs = ["transcribe", "-g", join(o.root, "lexicons", "en-us"), "--cache-dir", o.cacheDir, o.csv];
+  const buildArgs = ["build", o.lexiconDir, "--out", outRoot, "--cache-dir", o.cacheDir, "--quiet"];
+  // One untimed run of each fills the caches (machines, grammar) and the file system's.
+  await runChild(rssWrapper, cli, buildArgs, { cwd: o.root });
+  for (let k = 0; k < o.reps; k++) {
+    runs.inhouse.push(await runChild(rssWrapper, inhouse, [o.csv], { cwd: o.root, stdoutFile: inhouseOut }));
+    runs.transcribe.push(await runChild(rssWrapper, cli, transcribeArgs, { cwd: o.root, stdoutFile: transcribeOut }));
+    runs.build.push(await runChild(rssWrapper, cli, buildArgs, { cwd: o.root }));
+  }
+  for (const [what, rs] of Object.entries(runs)) {
+    const bad = rs.find((r) => r.code !== 0);
+    if (bad) failures.push(`${what} exited with ${bad.code}: ${bad.stderr.trim().split("\n").slice(0, 3).join(" | ")}`);
+  }
+  // Output checks: every entry written; transcribe's TSV is the build's TSV byte for byte.
+  const lines = (p: string): number => readFileSync(p, "utf8").split("\n").length - 2;
+  if (lines(inhouseOut) !== o.entries) failures.push(`the in-house script wrote ${lines(inhouseOut)} entries, not ${o.entries}`);
+  const built = join(outRoot, "cmu", "general", "lexicon.tsv");
+  if (!readFileSync(built).equals(readFileSync(transcribeOut))) failures.push("strata transcribe's TSV differs from strata build's lexicon.tsv");
+  for (const f of ["lexicon.jsonl", "lexicon.pls"]) {
+    try {
+      readFileSync(join(outRoot, "cmu", "general", f));
+    } catch {
+      failures.push(`strata build wrote no ${f}`);
+    }
+  }
+  const pairRatio = (a: readonly ChildRun[]): number => median(a.map((r, k) => r.wallMs / runs.inhouse[k]!.wallMs));
+  const res = {
+    inhouseMs: median(runs.inhouse.map((r) => r.wallMs)),
+    transcribeMs: median(runs.transcribe.map((r) => r.wallMs)),
+    buildMs: median(runs.build.map((r) => r.wallMs)),
+    inhouseRss: maxRss(runs.inhouse), transcribeRss: maxRss(runs.transcribe), buildRss: maxRss(runs.build),
+    transcribeRatio: pairRatio(runs.transcribe), buildRatio: pairRatio(runs.build),
+  };
+  say();
+  say(`-- end to end against the in-house script (child processes, same CSV, in turn; median of ${o.reps}) --`);
+  say(textTable(["", "wall", "÷ in-house (pairs)", "peak RSS"], [
+    ["in-house script: csv-parse + 5 regexes → TSV (stdout)", fmtMs(res.inhouseMs), "1.00×", fmtMB(res.inhouseRss)],
+    ["strata transcribe → TSV (stdout), cached machines", fmtMs(res.transcribeMs), `${fmt(res.transcribeRatio, 2)}×`, fmtMB(res.transcribeRss)],
+    ["strata build → TSV + JSON Lines + PLS, cached machines", fmtMs(res.buildMs), `${fmt(res.buildRatio, 2)}×`, fmtMB(res.buildRss)],
+  ]));
+
+  const stages = await buildStages(o, join(o.work, "stages"), failures);
+  const total = stages.reduce((s, x) => s + x.ms, 0);
+  say();
+  say("-- the stages of one build, one at a time (in process, whole dictionary, cached machines) --");
+  say(textTable(["stage", "time", "share"], [
+    ...stages.map((s) => [s.name, fmtMs(s.ms), `${fmt((100 * s.ms) / total, 0)}%`]),
+    ["sum of the stages", fmtMs(total), ""],
+  ]));
+  return { ...res, stages, failures };
+}
+
+/**
+ * Times each stage of a build on its own, in the order a build runs them: read and parse (the
+ * reader less its tokenising), tokenise (a fresh memo), encode, the machines (narrow and broad),
+ * render, per-step blame, variants (both by difference of whole engine runs), each writer
+ * (formatting and writing its file whole), and the reconciliation that reads the files back.
+ */
+async function buildStages(o: { csv: string; grammar: Grammar; inventory: Inventory; cacheDir: string }, outDir: string, failures: string[]): Promise<{ name: string; ms: number }[]> {
+  const inv = o.inventory;
+  const built = machineEngine(o.grammar, inv, { cacheDir: o.cacheDir });
+  const engine = built.engine;
+  if (engine === undefined) throw new Error("the en-us grammar does not compile");
+  const time = async <T>(fn: () => T | Promise<T>): Promise<{ ms: number; value: T }> => {
+    const t0 = performance.now();
+    const value = await fn();
+    return { ms: performance.now() - t0, value };
+  };
+  const reading = await time(async () => {
+    const rows: LexiconRow[] = [];
+    for await (const batch of readLexicon(o.csv, { inventory: inv }).batches()) for (const x of batch) if (x.kind === "row") rows.push(x);
+    return rows;
+  });
+  const rows = reading.value;
+  const tok = await time(() => {
+    const fresh = new PronReader(inv);
+    let n = 0;
+    for (const r of rows) n += fresh.read(r.pron)?.symbols.length ?? 0;
+    return n;
+  });
+  const enc = await time(() => rows.map((r) => engine.encode(r.symbols)));
+  const encoded = enc.value.filter((e): e is { ids: number[]; bids: number[] } => e !== undefined);
+  if (encoded.length !== rows.length) failures.push(`${rows.length - encoded.length} entries are outside the compiled alphabet`);
+  const mach = await time(() => encoded.map((e) => {
+    const out: number[] = [];
+    const bout: number[] = [];
+    engine.compiled.preferred.run(e.ids, out);
+    engine.broad.preferred.run(e.bids, bout);
+    return [out, bout] as const;
+  }));
+  const view = symbolView(engine.compiled.alphabet, inv);
+  const bview = symbolView(engine.broad.alphabet, inv);
+  const render = await time(() => mach.value.map(([a, b]) => renderIpa(a, view).length + renderIpa(b, bview).length));
+  const narrowOnly = await time(() => encoded.map((e) => engine.transcribeIds(e.ids, e.bids, NARROW_ONLY)));
+  const withRules = await time(() => encoded.map((e) => engine.transcribeIds(e.ids, e.bids, { rules: true, variants: false })));
+  const all = await time(() => encoded.map((e) => engine.transcribeIds(e.ids, e.bids, ALL_NEEDS)));
+  const results: EntryResult[] = all.value.map((t, k) => ({ kind: "entry", file: rows[k]!.file, line: rows[k]!.line, word: rows[k]!.word, ...t! }));
+  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), [tsvHeader(), ...results.map((r) => formatTsvEntry(r))]));
+  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), results.map(entryJsonLine)));
+  const pls = await time(async () => {
+    const lexemes = new Map<string, PlsEntry & { phonemes: string[] }>();
+    for (const r of results) {
+      const lx = lexemes.get(r.word);
+      if (lx === undefined) lexemes.set(r.word, { word: r.word, phonemes: entryPhonemes(r), preferred: 0 });
+      else for (const p of entryPhonemes(r)) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
+    }
+    return writePls(join(outDir, "lexicon.pls"), lexemes.values(), { lang: "en-US" });
+  });
+  await writeRejects(join(outDir, "rejects.csv"), []);
+  const reconciling = await time(async () => {
+    const input = await countInputRecords(o.csv);
+    const written = await countWritten({ tsv: join(outDir, "lexicon.tsv"), jsonl: join(outDir, "lexicon.jsonl"), pls: join(outDir, "lexicon.pls"), rejects: join(outDir, "rejects.csv") });
+    return reconcile(o.csv, input, written);
+  });
+  if (reconciling.value.length > 0) failures.push(`the stage outputs do not reconcile: ${reconciling.value[0]!.message}`);
+  rmSync(outDir, { recursive: true, force: true });
+  return [
+    { name: "read and parse (reader less tokenising)", ms: Math.max(0, reading.ms - tok.ms) },
+    { name: "tokenise (fresh memo)", ms: tok.ms },
+    { name: "encode (narrow and broad alphabets)", ms: enc.ms },
+    { name: "machines (composed preferred + prosody)", ms: mach.ms },
+    { name: "render IPA (narrow and broad)", ms: render.ms },
+    { name: "per-step blame", ms: Math.max(0, withRules.ms - narrowOnly.ms) },
+    { name: "variants (screen + enumeration)", ms: Math.max(0, all.ms - withRules.ms) },
+    { name: "TSV writer", ms: tsv.ms },
+    { name: "JSON Lines writer", ms: jsonl.ms },
+    { name: "PLS writer", ms: pls.ms },
+    { name: "reconciliation (input counted, outputs read back)", ms: reconciling.ms },
+  ];
+}

@@ -1,0 +1,185 @@
+// Proving cheaply that an entry has exactly one variant, so the variants cascade (a general search
+// over every output) runs only for the few entries that can have several (about 5% of the CMU
+// dictionary under en-us). Exact: when the screen cannot prove it, the full enumeration runs.
+//
+// Method. The variants of a word are the image of the input under the steps' relations in order.
+// A step whose variants machine is its preferred machine is a function. For a step that can branch
+// (an optional rule, or alpha ambiguity), if every accepting path of its variants machine over the
+// string that reaches it writes that string back unchanged (only identity arcs, no insertions,
+// deletions or final output), its image is that one string. So if every branching step is
+// identity-only on the preferred derivation's string before it, the whole image is the preferred
+// output alone. "Identity-only" is decided by a lazily built subset automaton over configurations
+// (state, changed-flag) of the step's machine: one table look-up per symbol once warm.
+
+import { EPSILON, freeze, type FrozenFst } from "../fst/index.js";
+import type { Compiled } from "../compile/index.js";
+
+/** Most subset states per step before the screen gives up on that step (then: full enumeration). */
+const MAX_SUBSETS = 20_000;
+
+/** Identity-only decision for one machine over inputs of an alphabet of `size` symbols. */
+class IdentityScreen {
+  private readonly m: FrozenFst;
+  private readonly size: number;
+  /** Per subset state: its transitions by symbol (-1 unknown, -2 none alive), created lazily. */
+  private readonly next: Int32Array[] = [];
+  /** Per subset state: 1 when a changed configuration accepts (or a clean one with final output), 2 when only clean ones accept, 0 none. */
+  private readonly verdict: number[] = [];
+  private readonly configs: Int32Array[] = [];
+  private readonly byKey = new Map<string, number>();
+  private readonly start: number;
+  private full = false;
+
+  constructor(m: FrozenFst, size: number) {
+    this.m = m;
+    this.size = size;
+    this.start = this.state(this.closure([m.start * 2]));
+  }
+
+  /** ε-closure of configurations c = 2·state + changed. */
+  private closure(seed: number[]): number[] {
+    const m = this.m;
+    const seen = new Set<number>(seed);
+    const stack = [...seed];
+    while (stack.length > 0) {
+      const c = stack.pop()!;
+      const s = c >> 1;
+      const end = m.first[s + 1]!;
+      for (let k = m.first[s]!; k < end && m.input[k] === EPSILON; k++) {
+        const d = m.target[k]! * 2 + ((c & 1) | (m.output[k] !== EPSILON ? 1 : 0));
+        if (!seen.has(d)) {
+          seen.add(d);
+          stack.push(d);
+        }
+      }
+    }
+    return [...seen].sort((a, b) => a - b);
+  }
+
+  private state(configs: number[]): number {
+    const key = configs.join(",");
+    let d = this.byKey.get(key);
+    if (d !== undefined) return d;
+    d = this.configs.length;
+    if (d >= MAX_SUBSETS) {
+      this.full = true;
+      return -1;
+    }
+    this.byKey.set(key, d);
+    this.configs.push(Int32Array.from(configs));
+    this.next.push(new Int32Array(this.size).fill(-1));
+    const m = this.m;
+    let v = 0;
+    for (const c of configs) {
+      const s = c >> 1;
+      if (m.isFinal[s] !== 1) continue;
+      if ((c & 1) === 1 || m.finalFirst[s + 1]! > m.finalFirst[s]!) v = 1;
+      else if (v === 0) v = 2;
+    }
+    this.verdict.push(v);
+    return d;
+  }
+
+  private step(d: number, x: number): number {
+    const m = this.m;
+    const seed: number[] = [];
+    for (const c of this.configs[d]!) {
+      const s = c >> 1;
+      const end = m.first[s + 1]!;
+      for (let k = m.first[s]!; k < end; k++) {
+        const i = m.input[k]!;
+        if (i < x) continue;
+        if (i > x) break;
+        seed.push(m.target[k]! * 2 + ((c & 1) | (m.output[k] !== x ? 1 : 0)));
+      }
+    }
+    const t = seed.length === 0 ? -2 : this.state(this.closure(seed));
+    if (t !== -1) this.next[d]![x] = t;
+    return t;
+  }
+
+  /** True when the machine accepts `input` and every accepting path writes it back unchanged. */
+  identityOnly(input: ArrayLike<number>): boolean {
+    let d = this.start;
+    if (d < 0) return false;
+    for (let i = 0; i < input.length; i++) {
+      const x = input[i]!;
+      if (x <= EPSILON || x >= this.size) return false;
+      let t = this.next[d]![x]!;
+      if (t === -1) {
+        if (this.full) return false;
+        t = this.step(d, x);
+      }
+      if (t < 0) return false;
+      d = t;
+    }
+    return this.verdict[d] === 2;
+  }
+}
+
+/** For each step of a one-block-per-step compilation: null (a function) or the screen of its variants machine. */
+export class VariantScreen {
+  private constructor(
+    private readonly screens: readonly (IdentityScreen | null)[],
+    /** branchingBefore[s] = number of branching steps among 0 … s-1. */
+    private readonly branchingBefore: Int32Array,
+  ) {}
+
+  /**
+   * The screen of a stepwise compilation, or null when its variant blocks are not one step each
+   * (then nothing can be proven and the caller always enumerates).
+   */
+  static of(stepwise: Compiled): VariantScreen | null {
+    const n = stepwise.steps.length;
+    const byStep: ({ readonly from: number; readonly to: number; readonly machine: import("../fst/index.js").Fst } | undefined)[] = new Array(n);
+    for (const b of stepwise.variantBlocks) {
+      if (b.to !== b.from + 1) return null;
+      byStep[b.from] = b;
+    }
+    const prefByStep = new Map(stepwise.preferredBlocks.filter((b) => b.to === b.from + 1).map((b) => [b.from, b.machine]));
+    const screens: (IdentityScreen | null)[] = [];
+    const before = new Int32Array(n + 1);
+    for (let s = 0; s < n; s++) {
+      const v = byStep[s];
+      const size = stepwise.steps[s]!;
+      // A step is a function when it is not optional and its variants machine is its preferred one.
+      const branching = v === undefined || size.optional || prefByStep.get(s) !== v.machine && !sameShape(prefByStep.get(s), v.machine);
+      screens.push(branching && v !== undefined ? new IdentityScreen(freeze(v.machine), stepwise.alphabet.size) : null);
+      before[s + 1] = before[s]! + (branching ? 1 : 0);
+      if (branching && v === undefined) return null;
+    }
+    return new VariantScreen(screens, before);
+  }
+
+  /** True when steps [from, to) hold a step that can branch. */
+  branchingIn(from: number, to: number): boolean {
+    const n = this.screens.length;
+    const a = Math.min(Math.max(from, 0), n);
+    const b = Math.min(Math.max(to, a), n);
+    return this.branchingBefore[b]! > this.branchingBefore[a]!;
+  }
+
+  /** True when every branching step among [from, to) is identity-only on `input` (the string entering each of them). */
+  identity(from: number, to: number, input: ArrayLike<number>): boolean {
+    const n = this.screens.length;
+    for (let s = Math.max(from, 0); s < Math.min(to, n); s++) {
+      const sc = this.screens[s];
+      if (sc !== null && sc !== undefined && !sc.identityOnly(input)) return false;
+    }
+    return true;
+  }
+}
+
+/** Structural equality of two machines (same states, finals, final outputs and arcs in order). */
+function sameShape(a: import("../fst/index.js").Fst | undefined, b: import("../fst/index.js").Fst): boolean {
+  if (a === undefined) return false;
+  if (a.numStates !== b.numStates || a.start !== b.start) return false;
+  for (let s = 0; s < a.numStates; s++) {
+    const fa = a.finalOutput(s), fb = b.finalOutput(s);
+    if ((fa === undefined) !== (fb === undefined) || (fa !== undefined && fb !== undefined && fa.join(",") !== fb.join(","))) return false;
+    const x = a.arcs(s), y = b.arcs(s);
+    if (x.length !== y.length) return false;
+    for (let k = 0; k < x.length; k++) if (x[k]!.input !== y[k]!.input || x[k]!.output !== y[k]!.output || x[k]!.target !== y[k]!.target) return false;
+  }
+  return true;
+}
