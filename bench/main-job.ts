@@ -293,7 +293,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   if (!existsSync(cli)) {
     failures.push(`${relative(root, cli)} is missing: build the project first (npm run bench does)`);
   } else {
-    const args = [cli, "build", folder.dir, "--out", outRoot, "--format", "tsv", "pls", "--quiet"];
+    const args = [cli, "build", folder.dir, "--out", outRoot, "--format", "tsv,pls", "--quiet"];
     rmSync(outRoot, { recursive: true, force: true });
     coldBuild = await runChild(rssWrapper, args[0]!, args.slice(1), { cwd: root });
     for (let k = 0; k < childReps; k++) builds.push(await runChild(rssWrapper, args[0]!, args.slice(1), { cwd: root }));

@@ -5,13 +5,18 @@ import { spawn } from "node:child_process";
 import { closeSync, mkdtempSync, openSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import stringWidth from "string-width";
 
-/** The median of a non-empty list (the mean of the two middle values for an even count). */
+/**
+ * The median of a non-empty list (the mean of the two middle values for an even count). Zero is
+ * returned as +0 whatever the order: the sort treats -0 and +0 as equal, so without `+ 0` the
+ * result's sign of zero would depend on the input's order.
+ */
 export function median(xs: readonly number[]): number {
   if (xs.length === 0) throw new Error("median of nothing");
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 === 1 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+  return (s.length % 2 === 1 ? s[m]! : (s[m - 1]! + s[m]!) / 2) + 0;
 }
 
 /**
@@ -129,10 +134,14 @@ export function fmtRate(perSecond: number): string {
   return `${fmt(perSecond, 0)}/s`;
 }
 
-/** A plain-text table with aligned columns (first column left, the rest right-aligned). */
+/**
+ * A plain-text table with aligned columns (first column left, the rest right-aligned). Widths are
+ * terminal columns (string-width), so IPA with combining marks lines up.
+ */
 export function textTable(head: readonly string[], rows: readonly (readonly string[])[]): string {
-  const w = head.map((h, i) => Math.max([...h].length, ...rows.map((r) => [...(r[i] ?? "")].length)));
+  const w = head.map((h, i) => Math.max(stringWidth(h), ...rows.map((r) => stringWidth(r[i] ?? ""))));
+  const pad = (c: string, n: number, left: boolean): string => (left ? c + " ".repeat(n - stringWidth(c)) : " ".repeat(n - stringWidth(c)) + c);
   const line = (r: readonly string[]): string =>
-    r.map((c, i) => (i === 0 ? c.padEnd(w[i]!) : c.padStart(w[i]!))).join("  ").trimEnd();
+    r.map((c, i) => pad(c, w[i]!, i === 0)).join("  ").trimEnd();
   return [line(head), w.map((n) => "-".repeat(n)).join("  "), ...rows.map(line)].join("\n");
 }

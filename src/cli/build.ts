@@ -3,35 +3,43 @@
 
 import { createReadStream, readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
-import type { Command } from "commander";
+import { availableParallelism } from "node:os";
+import { InvalidArgumentError, Option, type Command } from "commander";
 import cliProgress from "cli-progress";
-import pc from "picocolors";
+import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
 import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../lexicon/runner.js";
-import { loadEngine, packageRoot, printDiagnostics, positiveInt, type EngineKind } from "./common.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
-import { availableParallelism } from "node:os";
 import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from "../regress/record.js";
 import { checkBuildPins, readPins } from "../regress/pinned.js";
 import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
-import { probeCacheDir } from "../compile/cache.js";
+import {
+  openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
+  listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
+} from "./common.js";
 
-interface BuildOptions {
-  out: string;
-  allowRejects: boolean;
-  quiet: boolean;
-  format?: string[];
-  engine: EngineKind;
+export interface BuildOptions {
+  out?: string;
+  allowRejects?: boolean;
+  quiet?: boolean;
+  /** Outputs to write (default: all). */
+  format?: OutputFormat[];
+  /** Build only this variety (by its name in varieties.json). */
+  variety?: string;
+  engine?: EngineKind;
   check?: number;
-  cache: boolean;
+  cache?: boolean;
   maxStates?: number;
-  samples: number;
-  workers: string;
-  syllableBreaks: boolean;
+  samples?: number;
+  /** Worker threads: "auto" or a whole number (0: none). */
+  workers?: string | number;
+  syllableBreaks?: boolean;
   cacheDir?: string;
+  /** The summaries as one JSON document on stdout instead of the text report. */
+  json?: boolean;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
@@ -47,6 +55,16 @@ async function countLines(path: string): Promise<number> {
   return n;
 }
 
+/** `--workers`: auto or a whole number. */
+function workersArg(value: string): string {
+  if (value === "auto") return value;
+  try {
+    return String(wholeNumber(value));
+  } catch {
+    throw new InvalidArgumentError("It must be 'auto' or a whole number (0: no worker threads).");
+  }
+}
+
 export async function runBuild(dirArg: string | undefined, o: BuildOptions): Promise<number> {
   // The output folder's lock and run record are released and written however the build ends.
   const held: { output?: BuildOutput; workers: number } = { workers: 0 };
@@ -58,53 +76,60 @@ export async function runBuild(dirArg: string | undefined, o: BuildOptions): Pro
 }
 
 async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { output?: BuildOutput; workers: number }): Promise<number> {
+  const quiet = o.quiet === true;
   const dir = dirArg ?? join(packageRoot(), "lexicons", "demo");
+  const outArg = o.out ?? "build";
+  const pathProblem = (dirArg !== undefined ? checkInputFolder(dirArg, [], "lexicon folder") : undefined) ?? checkOutputPath(outArg, ["-o", "--out"], "folder");
+  if (pathProblem !== undefined) {
+    printDiagnostics([pathProblem]);
+    return EXIT.badInput;
+  }
   const { manifest, diagnostics } = loadManifest(dir);
-  printDiagnostics(diagnostics);
-  if (manifest === undefined) return 1;
+  printDiagnostics(diagnostics, { quiet });
+  if (manifest === undefined) return EXIT.badInput;
   const pinned = readPins(dirname(manifest.file), manifest.varieties.map((v) => v.name));
   printDiagnostics(pinned.diagnostics);
-  if (pinned.diagnostics.length > 0) return 1;
-  const formats = (o.format ?? [...ALL_FORMATS]) as OutputFormat[];
-  for (const f of formats) {
-    if (!ALL_FORMATS.includes(f)) {
-      process.stderr.write(`strata: unknown --format '${f}' (choose from ${ALL_FORMATS.join(", ")})\n`);
-      return 2;
-    }
+  if (pinned.diagnostics.length > 0) return EXIT.badInput;
+  const varieties = o.variety === undefined ? manifest.varieties : manifest.varieties.filter((v) => v.name === o.variety);
+  if (varieties.length === 0) {
+    printDiagnostics([commandLineError("cli/unknown-variety", `There is no variety '${o.variety}' in ${manifest.name}'s varieties.json; its varieties are ${manifest.varieties.map((v) => v.name).join(", ")}.`, o.variety, ["-d", "--variety"])]);
+    return EXIT.badInput;
   }
-  const outRoot = resolve(o.out);
+  const formats = o.format ?? [...ALL_FORMATS];
+  const engine = o.engine ?? "machine";
+  const syllables = o.syllableBreaks ?? true;
+  const outRoot = resolve(outArg);
   const opened = await openBuildOutput(join(outRoot, manifest.name), dirname(manifest.file));
   if (!opened.ok) {
     printDiagnostics(opened.diagnostics);
-    return 1;
+    return EXIT.badInput;
   }
   held.output = opened.output;
-  const cache = o.cache ? probeCacheDir(resolve(o.cacheDir ?? join(outRoot, "cache"))) : undefined;
-  if (cache !== undefined) printDiagnostics(cache.diagnostics.filter(() => !o.quiet));
-  const cacheDir = cache?.dir;
-  const tty = process.stderr.isTTY === true && !o.quiet;
+  const cache = openCache(o, join(outRoot, "cache"));
+  printDiagnostics(cache.diagnostics, { quiet });
+  const cacheDir = cache.dir;
+  const tty = process.stderr.isTTY === true && !quiet && o.json !== true;
+  const c = colours(process.stdout);
   const lines = await countLines(manifest.lexicon);
   const total = tty ? lines : 0;
   // Worker threads besides the main thread (which reads, tokenises and writes): auto leaves one
   // core to the main thread, from 4 cores (peak memory grows by ~85 MB per worker). On 2 cores a
   // worker does not pay: the main thread's reading and writing is most of the work, and the
   // CMU build took the same wall time with one worker as with none, for 13% more CPU.
-  const wanted = o.workers === "auto" ? (lines >= WORKERS_FROM_ROWS && availableParallelism() >= 4 ? Math.min(8, availableParallelism() - 1) : 0) : Number(o.workers);
-  if (!Number.isInteger(wanted) || wanted < 0) {
-    process.stderr.write(`strata: --workers must be 'auto' or a whole number (0: no worker threads)\n`);
-    return 2;
-  }
-  const threads = o.engine === "machine" && WorkerPool.script() !== undefined ? wanted : 0;
+  const workers = String(o.workers ?? "auto");
+  const wanted = workers === "auto" ? (lines >= WORKERS_FROM_ROWS && availableParallelism() >= 4 ? Math.min(8, availableParallelism() - 1) : 0) : Number(workers);
+  const threads = engine === "machine" && WorkerPool.script() !== undefined ? wanted : 0;
   held.workers = threads;
   let failed = false;
   let internal = false;
-  let rejected = false;
+  let checksFailed = false;
   const summaries: RunSummary[] = [];
   const records: VarietyRecord[] = [];
-  for (const variety of manifest.varieties) {
+  const report: unknown[] = [];
+  for (const variety of varieties) {
     const t0 = performance.now();
-    const loaded = loadEngine(variety.grammar, { kind: o.engine, syllables: o.syllableBreaks, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
-    printDiagnostics(loaded.diagnostics.filter((d) => d.severity === "error" || !o.quiet));
+    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
+    printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
       held.output.record({ name: variety.name, status: "failed", compileMs: performance.now() - t0, runMs: 0 });
@@ -119,7 +144,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     let pool: WorkerPool | undefined;
     try {
       if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables: o.syllableBreaks, derivations: formats.includes("jsonl") });
+        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") });
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
@@ -134,89 +159,112 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     summaries.push(summary);
     held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
     if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;
-    // The lexicon file's own problems (all of them, capped per file): the same for every variety, so printed once.
-    const fileErrors = summary.fileDiagnostics.filter((d) => d.severity === "error");
-    if (!summary.reconciled || fileErrors.length > 0 || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...(summaries.length === 1 ? summary.fileDiagnostics.filter((d) => d.severity === "error" || !o.quiet) : []), ...summary.outputErrors]);
-    if (summary.rowsRejected > 0) rejected = true;
-    if (!o.quiet) printSummary(summary, compileMs, outDir, o.samples);
+    // Problems with the lexicon file itself (every one, capped per file; the same for every variety,
+    // so printed once) and outputs that could not be written are errors: printed even with --quiet.
+    // Rejected rows are in rejects.csv.
+    const fileProblems = summary.fileDiagnostics;
+    if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
+    printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...summary.outputErrors], { quiet });
+    let check: { compared: number; mismatches: { line: number; word: string; machine: string; interpreter: string }[] } | undefined;
     if (o.check !== undefined) {
       const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
       const res = await checkAgainstInterpreter(loaded.engine, interp, loaded.inventory, manifest.lexicon, o.check);
-      const line = `check: ${res.compared} entries compared with the reference interpreter, ${res.mismatches.length} differ`;
-      process.stdout.write((res.mismatches.length === 0 ? line : pc.red(line)) + "\n");
-      for (const m of res.mismatches.slice(0, 10)) process.stdout.write(`  line ${m.line} ${m.word}: machine ${m.machine} | interpreter ${m.interpreter}\n`);
-      if (res.mismatches.length > 0) failed = true;
+      check = { compared: res.compared, mismatches: res.mismatches.map((m) => ({ line: m.line, word: m.word, machine: m.machine, interpreter: m.interpreter })) };
+      if (res.mismatches.length > 0) checksFailed = true;
+    }
+    if (o.json === true) {
+      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
+    } else {
+      if (!quiet) printSummary(summary, compileMs, outDir, o.samples ?? 6);
+      if (check !== undefined) {
+        const line = `check: ${plural(check.compared, "entry", "entries")} compared with the reference interpreter, ${check.mismatches.length} differ`;
+        process.stdout.write((check.mismatches.length === 0 ? line : c.red(line)) + "\n");
+        for (const m of check.mismatches.slice(0, 10)) process.stdout.write(`  line ${m.line} ${m.word}: machine ${m.machine} | interpreter ${m.interpreter}\n`);
+      }
     }
   }
-  let pinsFailed = false;
+  // The build record (what produced the build) and the pinned expectations (lexicon/pinned.csv).
   if (!failed) {
     await writeBuildRecord(join(outRoot, manifest.name), buildRecord(manifest, records));
     if (pinned.pins.length > 0 && formats.includes("jsonl")) {
       const res = await checkBuildPins(openBuild(join(outRoot, manifest.name)), records.map((r) => r.name), pinned.pins);
-      for (const f of res.failures) process.stderr.write(pc.red(f) + "\n");
-      if (!o.quiet) process.stdout.write(`pinned: ${res.checked - res.failures.length} of ${res.checked} expectations hold\n`);
-      pinsFailed = res.failures.length > 0;
-    } else if (pinned.pins.length > 0 && !o.quiet) {
-      process.stderr.write("strata: pinned.csv was not checked: it is checked against lexicon.jsonl, which --format left out\n");
+      for (const f of res.failures) process.stderr.write(colours().red(f) + "\n");
+      if (!quiet && o.json !== true) process.stdout.write(`pinned: ${res.checked - res.failures.length} of ${plural(res.checked, "expectation")} hold\n`);
+      if (res.failures.length > 0) checksFailed = true;
+    } else if (pinned.pins.length > 0 && !quiet) {
+      process.stderr.write("strata: pinned.csv was not checked: it is checked against lexicon.jsonl, which --format left out.\n");
     }
   }
-  if (rejected) {
-    const n = summaries.reduce((k, s) => k + s.rowsRejected, 0);
-    const msg = `${n} row(s) rejected (see rejects.csv in each variety's folder)`;
-    if (!o.allowRejects) {
-      process.stderr.write(pc.red(`strata: ${msg}; rerun with --allow-rejects to accept them`) + "\n");
-      return internal ? 70 : failed ? 1 : pinsFailed ? 4 : 3;
-    }
-    if (!o.quiet) process.stderr.write(`strata: ${msg}, allowed by --allow-rejects\n`);
+  if (o.json === true) process.stdout.write(JSON.stringify({ lexicon: manifest.name, varieties: report }, null, 2) + "\n");
+  const rejected = summaries.reduce((k, s) => k + s.rowsRejected, 0);
+  if (rejected > 0) {
+    const msg = `${plural(rejected, "row")} rejected (see rejects.csv in each variety's folder)`;
+    if (o.allowRejects !== true) process.stderr.write(colours().red(`strata: ${msg}; rerun with --allow-rejects to accept them.`) + "\n");
+    else if (!quiet) process.stderr.write(`strata: ${msg}, allowed by --allow-rejects.\n`);
   }
-  return internal ? 70 : failed ? 1 : pinsFailed ? 4 : 0;
+  if (internal) return EXIT.internal;
+  if (failed) return EXIT.badInput;
+  if (checksFailed) return EXIT.checksFailed;
+  if (rejected > 0 && o.allowRejects !== true) return EXIT.rejects;
+  return EXIT.ok;
 }
 
+/** Pads to a width in terminal columns (IPA combining marks take none). */
+const padTo = (s: string, w: number): string => s + " ".repeat(Math.max(0, w - stringWidth(s)));
+
 function printSummary(s: RunSummary, compileMs: number, outDir: string, samples: number): void {
+  const c = colours(process.stdout);
   const rel = relative(process.cwd(), outDir) || ".";
   const w = (line: string) => process.stdout.write(line + "\n");
-  w(pc.bold(`${s.variety}`) + `  → ${rel}/`);
-  w(`  rows read ${s.rowsRead} = entries ${s.entriesWritten} + rejected ${s.rowsRejected}${s.reconciled ? "" : pc.red("  (does not reconcile!)")}`);
-  w(`  words ${s.words}, entries with variants ${s.entriesWithVariants} (${s.variantsTotal} variants in all)`);
+  w(c.bold(`${s.variety}`) + `  → ${rel}/`);
+  w(`  rows read ${s.rowsRead} = entries ${s.entriesWritten} + rejected ${s.rowsRejected}${s.reconciled ? "" : c.red("  (does not reconcile!)")}`);
+  w(`  ${plural(s.words, "word")}, ${plural(s.entriesWithVariants, "entry", "entries")} with variants (${plural(s.variantsTotal, "variant")} in all)`);
   w(`  compile ${compileMs.toFixed(0)} ms, run ${(s.seconds * 1000).toFixed(0)} ms`);
-  const changed = s.changedBy.filter((c) => c.entries > 0).map((c) => `${c.step} ${c.entries}`);
+  const changed = s.changedBy.filter((x) => x.entries > 0).map((x) => `${x.step} ${x.entries}`);
   if (changed.length > 0) w(`  entries changed by: ${changed.join(", ")}`);
   w(`  files: ${Object.keys(s.files).sort().join(", ")}`);
   const tsv = s.files["lexicon.tsv"];
   if (tsv !== undefined && samples > 0) {
     const lines = readFileSync(tsv, "utf8").split("\n").slice(1).filter((l) => l !== "");
     const step = Math.max(1, Math.floor(lines.length / samples));
+    // The TSV's columns are named in its header; the sample shows word, broad → narrow.
+    const header = readFileSync(tsv, "utf8").split("\n", 1)[0]!.split("\t");
+    const col = (name: string, fallback: number): number => (header.indexOf(name) >= 0 ? header.indexOf(name) : fallback);
+    const [iw, inarrow, ibroad] = [col("word", 0), col("narrow", 1), col("broad", 2)];
     for (let i = 0; i < lines.length && i / step < samples; i += step) {
-      const [, word, narrow, broad] = lines[i]!.split("\t");
-      w(`    ${word!.padEnd(22)} ${(broad ?? "").padEnd(26)} → ${narrow}`);
+      const f = lines[i]!.split("\t");
+      w(`    ${padTo(f[iw] ?? "", 22)} ${padTo(f[ibroad] ?? "", 26)} → ${f[inarrow] ?? ""}`);
     }
   }
 }
 
+interface BuildCliOptions extends Omit<BuildOptions, "workers"> {
+  workers: string;
+}
+
 export function registerBuild(program: Command): void {
-  program
+  const cmd = program
     .command("build")
     .description("compile a lexicon folder's varieties (cached) and write TSV, JSON Lines and PLS for each under build/<lexicon>/<variety>/")
     .argument("[dir]", "lexicon folder holding varieties.json (default: the shipped demo)")
-    .option("-o, --out <dir>", "output root", "build")
-    .option("--format <formats...>", `outputs to write (${ALL_FORMATS.join(" ")})`)
-    .option("--allow-rejects", "exit 0 even when some rows were rejected", false)
-    .option("-q, --quiet", "no progress bar, no summary", false)
-    .option("--engine <kind>", "machine (compiled transducers) or interpreter (the slow reference)", "machine")
-    .option("--check <n>", "also compare the first N entries with the reference interpreter", positiveInt("--check"))
-    .option("--no-cache", "do not read or write compiled machines")
-    .option("--cache-dir <dir>", "where compiled machines are cached (default: <out>/cache)")
-    .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
+    .option("-o, --out <dir>", "output root folder", "build")
+    .option("-d, --variety <name>", "build only this variety (its name in varieties.json)")
+    .option("--format <formats>", `outputs to write, comma-separated or repeated (${ALL_FORMATS.join(", ")}; default: all)`, listOf(ALL_FORMATS))
+    .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
+    .option("--check <n>", "also compare the first N entries with the reference interpreter (exit 4 when they differ)", positiveInt)
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
-    .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", "auto")
-    .option("--samples <n>", "sample lines to print per variety", (v) => Number(v), 6)
-    .action(async (dir: string | undefined, opts: BuildOptions) => {
-      if (opts.engine !== "machine" && opts.engine !== "interpreter") {
-        process.stderr.write(`strata: --engine must be 'machine' or 'interpreter'\n`);
-        process.exitCode = 2;
-        return;
-      }
-      process.exitCode = await runBuild(dir, opts);
-    });
+    .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
+    .option("--samples <n>", "sample lines to print per variety", wholeNumber, 6);
+  jsonOption(cmd, "print the summaries as one JSON document instead of the report");
+  cacheOptions(cmd);
+  commonOptions(cmd);
+  examples(cmd, [
+    ["strata build", "the shipped demo → build/demo/<variety>/"],
+    ["strata build lexicons/demo -d careful --format tsv,pls", "one variety, two outputs"],
+    ["strata build my-voice -o out --allow-rejects -q", "errors only; rejects do not fail the run"],
+  ]);
+  cmd.action(async (dir: string | undefined, opts: BuildCliOptions) => {
+    process.exitCode = await runBuild(dir, opts);
+  });
 }

@@ -5,7 +5,8 @@ import { existsSync, readFileSync, statSync } from "node:fs";
 import { FILE_LIMITS, readTextFile } from "../files.js";
 import { dirname, join, resolve } from "node:path";
 import type { Command } from "commander";
-import { diagnostic, hasErrors, renderDiagnostic, type Diagnostic } from "../diagnostics.js";
+import { diagnostic, hasErrors, type Diagnostic } from "../diagnostics.js";
+import { COMMAND_LINE, commandLineError, runColumns, commonOptions, EXIT, examples, grammarOptions, jsonOption, printOutcome, renderDiagnostics, resolveGrammar, useColour, type CommandOutcome } from "./common.js";
 import {
   describeBundle,
   loadInventory,
@@ -15,24 +16,21 @@ import {
   type PartialBundle,
 } from "../inventory/index.js";
 
-export interface ClassesOutcome {
-  readonly stdout: string;
-  readonly stderr: string;
-  readonly exitCode: number;
-}
-
-const COMMAND_LINE = "<command line>";
+export type ClassesOutcome = CommandOutcome;
 
 /**
  * Where the inventory lives for `-g PATH`: a folder holding segments.csv (and diacritics.csv),
  * an inventory .csv file, or a .strata grammar whose `inventory "…"` / `diacritics "…"` lines name
  * the files relative to the grammar's folder (segments.csv beside it when it names none).
  */
-function locate(path: string): { csv: string; diacritics?: string } | Diagnostic {
-  const where = { file: COMMAND_LINE, line: 1, column: 1 };
-  if (!existsSync(path)) return diagnostic("error", "cli/no-such-path", `'${path}' does not exist: give a folder holding segments.csv, or a grammar file.`, where);
-  if (statSync(path).isDirectory()) return { csv: join(path, "segments.csv") };
-  if (path.endsWith(".csv")) return { csv: path };
+function locate(given: string | undefined, variety: string | undefined): { csv: string; diacritics?: string } | Diagnostic {
+  const flags = ["-g", "--grammar"];
+  if (given !== undefined && !existsSync(given)) return commandLineError("cli/no-such-path", `'${given}' does not exist: give a folder holding segments.csv, or a grammar file.`, given, flags);
+  if (given !== undefined && variety === undefined && statSync(given).isDirectory() && existsSync(join(given, "segments.csv"))) return { csv: join(given, "segments.csv") };
+  if (given !== undefined && given.endsWith(".csv")) return { csv: given };
+  const r = resolveGrammar(given, variety);
+  if ("diagnostics" in r) return r.diagnostics[0]!;
+  const path = r.path;
   if (path.endsWith(".strata")) {
     const read = readTextFile(path, { what: "grammar file", limit: FILE_LIMITS.grammar, code: "cli/unreadable" });
     if (!read.ok) return read.diagnostic;
@@ -45,42 +43,28 @@ function locate(path: string): { csv: string; diacritics?: string } | Diagnostic
     if (dia !== undefined) found.diacritics = join(dir, dia);
     return found;
   }
-  return diagnostic("error", "cli/bad-grammar-path", `'${path}' is neither a folder, an inventory .csv nor a .strata grammar.`, where);
+  return commandLineError("cli/bad-grammar-path", `'${given}' is neither a folder, an inventory .csv nor a .strata grammar.`, given, flags);
 }
 
-function render(ds: readonly Diagnostic[], sources: ReadonlyMap<string, string>): string {
-  return ds
-    .map((d) => {
-      let text = sources.get(d.file);
-      if (text === undefined && d.file !== COMMAND_LINE && existsSync(d.file)) {
-        try {
-          text = readFileSync(d.file, "utf8");
-        } catch {
-          text = undefined;
-        }
-      }
-      return renderDiagnostic(d, text) + "\n";
-    })
-    .join("");
-}
+const render = (ds: readonly Diagnostic[]): string => renderDiagnostics(ds, useColour());
 
 const asObject = (inv: Inventory, b: PartialBundle): Record<string, string> =>
   Object.fromEntries([...b.entries()].sort((x, y) => x[0] - y[0]).map(([f, v]) => [inv.features[f]!, v]));
 
 /** Runs the command without touching the process (the CLI prints the outcome and sets the exit code). */
-export function runClasses(grammarPath: string, symbols: readonly string[], json: boolean): ClassesOutcome {
-  const located = locate(grammarPath);
-  if ("severity" in located) return { stdout: "", stderr: render([located], new Map()), exitCode: 1 };
+export function runClasses(grammarPath: string | undefined, symbols: readonly string[], json: boolean, variety?: string): ClassesOutcome {
+  const located = locate(grammarPath, variety);
+  if ("severity" in located) return { stdout: "", stderr: render([located]), exitCode: EXIT.badInput };
   const loaded = loadInventory(located.csv, located.diacritics);
-  let stderr = render(loaded.diagnostics, new Map());
+  let stderr = render(loaded.diagnostics);
   const inv = loaded.inventory;
-  if (!inv || hasErrors(loaded.diagnostics)) return { stdout: "", stderr, exitCode: 1 };
+  if (!inv || hasErrors(loaded.diagnostics)) return { stdout: "", stderr, exitCode: EXIT.badInput };
 
-  // Each argument must be exactly one segment; its column is its place in the joined argument list.
+  // Each argument must be exactly one segment; its column is its place on the command line.
   const problems: Diagnostic[] = [];
-  const line = symbols.join(" ");
-  let column = 1;
-  for (const sym of symbols) {
+  const columns = runColumns(symbols);
+  symbols.forEach((sym, i) => {
+    const column = columns[i]!;
     const r = tokenise(inv, sym, { file: COMMAND_LINE, line: 1, column });
     if (!r.ok) problems.push(r.error);
     else {
@@ -89,11 +73,10 @@ export function runClasses(grammarPath: string, symbols: readonly string[], json
         problems.push(diagnostic("error", "cli/not-one-segment", `'${sym}' is not one segment: give each segment as its own argument.`, { file: COMMAND_LINE, line: 1, column, length: Array.from(sym).length }));
       }
     }
-    column += Array.from(sym).length + 1;
-  }
+  });
   if (problems.length > 0) {
-    stderr += render(problems, new Map([[COMMAND_LINE, line]]));
-    return { stdout: "", stderr, exitCode: 1 };
+    stderr += render(problems);
+    return { stdout: "", stderr, exitCode: EXIT.badInput };
   }
 
   const result = naturalClasses(inv, symbols);
@@ -124,16 +107,18 @@ export function runClasses(grammarPath: string, symbols: readonly string[], json
 }
 
 export function registerClasses(program: Command): void {
-  program
+  const cmd = program
     .command("classes")
-    .description("Say whether the given segments form a natural class, with every minimal feature bundle that picks them out.")
-    .requiredOption("-g, --grammar <path>", "folder holding segments.csv and diacritics.csv, or a .strata grammar file")
-    .option("--json", "print the answer as JSON")
-    .argument("<symbols...>", "the segments, in IPA, one per argument")
-    .action((symbols: string[], opts: { grammar: string; json?: boolean }) => {
-      const out = runClasses(opts.grammar, symbols, opts.json === true);
-      process.stdout.write(out.stdout);
-      process.stderr.write(out.stderr);
-      if (out.exitCode !== 0) process.exitCode = out.exitCode;
-    });
+    .description("say whether the given segments form a natural class, with every minimal feature bundle that picks them out")
+    .argument("<symbols...>", "the segments, in IPA, one per argument");
+  grammarOptions(cmd, "a folder holding segments.csv, an inventory .csv, a .strata grammar, or a lexicon folder (default: the current folder)");
+  jsonOption(cmd, "print the answer as JSON");
+  commonOptions(cmd);
+  examples(cmd, [
+    ["strata classes -g lexicons/en-us p t k", "is {p t k} a natural class, and by which bundles"],
+    ["strata classes -g lexicons/demo -d careful m n ŋ --json", "the same for a variety, as JSON"],
+  ]);
+  cmd.action(async (symbols: string[], o: { grammar?: string; variety?: string; json?: boolean }) => {
+    await printOutcome(runClasses(o.grammar, symbols, o.json === true, o.variety));
+  });
 }

@@ -1,17 +1,30 @@
-// Shared pieces of the commands: printing diagnostics with their source line, resolving `-g`,
-// loading a grammar and building an engine for it, the package's own folders.
+// Shared pieces of the commands: the package's own folders, loading a grammar and building an engine
+// for it. The conventions every command follows live beside this file and are re-exported here, so a
+// new command imports everything from "./common.js":
+//   options.ts  shared option declarations (-g/-d, cache, -q/--color, --json, -o) and help examples
+//   variety.ts  `-g PATH -d NAME` → one grammar file
+//   cmdline.ts  diagnostics positioned on the command line
+//   paths.ts    input/output path checks, output ≠ input, file-system errors as one line
+//   output.ts   printing diagnostics, colour, standard output that survives `| head`, `-o FILE`
+//   exit.ts     the exit-code table, CommandOutcome, plural()
 
-import { existsSync, readFileSync, statSync } from "node:fs";
-import { dirname, join, resolve } from "node:path";
+import { existsSync } from "node:fs";
+import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
-import pc from "picocolors";
-import { renderDiagnostic, type Diagnostic } from "../diagnostics.js";
+import type { Diagnostic } from "../diagnostics.js";
 import { loadGrammar, loadGrammarCached } from "../grammar/index.js";
 import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import type { Engine } from "../lexicon/engine.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { machineEngine } from "../lexicon/engine-machine.js";
+
+export * from "./exit.js";
+export * from "./cmdline.js";
+export * from "./options.js";
+export * from "./output.js";
+export * from "./paths.js";
+export * from "./variety.js";
 
 /** The package's root folder (holding lexicons/), from this file's place in src/cli or dist/src/cli. */
 export function packageRoot(): string {
@@ -23,39 +36,11 @@ export function packageRoot(): string {
   return process.cwd();
 }
 
-/** Renders diagnostics with the offending line and a caret, errors in red, warnings in yellow (on a terminal). */
-export function printDiagnostics(ds: readonly Diagnostic[], stream: NodeJS.WriteStream = process.stderr): void {
-  const cache = new Map<string, string | undefined>();
-  const source = (file: string): string | undefined => {
-    if (!cache.has(file)) {
-      let text: string | undefined;
-      try {
-        text = existsSync(file) && statSync(file).isFile() ? readFileSync(file, "utf8") : undefined;
-      } catch {
-        text = undefined;
-      }
-      cache.set(file, text);
-    }
-    return cache.get(file);
-  };
-  const colour = stream.isTTY === true;
-  for (const d of ds) {
-    const text = renderDiagnostic(d, source(d.file));
-    const paint = !colour ? (s: string) => s : d.severity === "error" ? pc.red : pc.yellow;
-    stream.write(paint(text) + "\n");
-  }
-}
-
-/**
- * `-g DIR [-d VARIETY]`: DIR/grammar.strata, or DIR/VARIETY.strata with -d, or a .strata file itself.
- */
-export function grammarPath(g: string, variety?: string): string {
-  const p = resolve(g);
-  if (existsSync(p) && statSync(p).isDirectory()) return join(p, `${variety ?? "grammar"}.strata`);
-  return p;
-}
+/** The shipped General American grammar folder. */
+export const shippedGrammar = (): string => join(packageRoot(), "lexicons", "en-us");
 
 export type EngineKind = "machine" | "interpreter";
+export const ENGINE_KINDS: readonly EngineKind[] = ["machine", "interpreter"];
 
 export interface LoadedEngine {
   readonly grammar: Grammar;
@@ -64,12 +49,17 @@ export interface LoadedEngine {
   readonly diagnostics: readonly Diagnostic[];
 }
 
+/** Loads and checks a grammar (through the checked-grammar cache when there is a cache folder). */
+export function loadChecked(path: string, cacheDir: string | undefined): ReturnType<typeof loadGrammar> {
+  return cacheDir !== undefined ? loadGrammarCached(path, cacheDir) : loadGrammar(path);
+}
+
 /** Loads, checks and compiles (or interprets) a grammar; diagnostics are returned, never thrown. */
 export function loadEngine(
   path: string,
   opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean; derivations?: boolean } = {},
 ): LoadedEngine | { readonly diagnostics: readonly Diagnostic[] } {
-  const g = opts.cacheDir !== undefined ? loadGrammarCached(path, opts.cacheDir) : loadGrammar(path);
+  const g = loadChecked(path, opts.cacheDir);
   if (g.grammar === undefined || g.inventory === undefined || g.diagnostics.some((d) => d.severity === "error")) {
     return { diagnostics: g.diagnostics };
   }
@@ -85,16 +75,4 @@ export function loadEngine(
   });
   if (m.engine === undefined) return { diagnostics: [...g.diagnostics, ...m.diagnostics] };
   return { grammar: g.grammar, inventory: g.inventory, engine: m.engine, diagnostics: [...g.diagnostics, ...m.diagnostics] };
-}
-
-/** Parses a positive integer option or exits with a clear message. */
-export function positiveInt(name: string) {
-  return (value: string): number => {
-    const n = Number(value);
-    if (!Number.isInteger(n) || n <= 0) {
-      process.stderr.write(`strata: option ${name} needs a positive whole number, got '${value}'\n`);
-      process.exit(2);
-    }
-    return n;
-  };
 }

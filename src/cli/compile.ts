@@ -1,66 +1,40 @@
 // `strata compile -g DIR`: compile a grammar's steps into transducers, compose the cascade, and
 // print per-step and total sizes (states, arcs), the blocks, the cache state and the time taken.
 
-import { existsSync, readFileSync, statSync } from "node:fs";
-import { resolve } from "node:path";
 import type { Command } from "commander";
-import { diagnostic, hasErrors, renderDiagnostic, type Diagnostic } from "../diagnostics.js";
-import { loadGrammar } from "../grammar/index.js";
+import { hasErrors, type Diagnostic } from "../diagnostics.js";
 import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import { compileGrammar, type Compiled } from "../compile/index.js";
+import { resolve } from "node:path";
+import stringWidth from "string-width";
+import {
+  openCache, cacheOptions, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, printOutcome, renderDiagnostics,
+  resolveGrammar, useColour, type CommandOutcome,
+} from "./common.js";
 
-/** What a command run produced (the CLI writes it; tests read it). */
-export interface CommandOutcome {
-  readonly stdout: string;
-  readonly stderr: string;
-  readonly exitCode: number;
-}
-
-const COMMAND_LINE = "<command line>";
+export type { CommandOutcome } from "./common.js";
 
 /** Diagnostics rendered with their source line and a caret (one block each). */
-export function renderAll(ds: readonly Diagnostic[]): string {
-  const texts = new Map<string, string | undefined>();
-  const source = (file: string): string | undefined => {
-    if (!texts.has(file)) {
-      let t: string | undefined;
-      try {
-        t = file !== COMMAND_LINE && existsSync(file) && statSync(file).isFile() ? readFileSync(file, "utf8") : undefined;
-      } catch {
-        t = undefined;
-      }
-      texts.set(file, t);
-    }
-    return texts.get(file);
-  };
-  return ds.map((d) => renderDiagnostic(d, source(d.file)) + "\n").join("");
-}
+export const renderAll = (ds: readonly Diagnostic[]): string => renderDiagnostics(ds, useColour());
 
-/** `-g PATH`: a folder holding grammar.strata, or a .strata file. */
-export function resolveGrammarPath(g: string): string | Diagnostic {
-  const p = resolve(g);
-  const where = { file: COMMAND_LINE, line: 1, column: 1 };
-  if (!existsSync(p)) return diagnostic("error", "cli/no-such-path", `'${g}' does not exist: give a grammar folder (holding grammar.strata) or a .strata file.`, where);
-  if (statSync(p).isDirectory()) {
-    const main = resolve(p, "grammar.strata");
-    if (!existsSync(main)) return diagnostic("error", "cli/no-grammar", `'${g}' holds no grammar.strata.`, where);
-    return main;
-  }
-  if (!p.endsWith(".strata")) return diagnostic("error", "cli/bad-grammar-path", `'${g}' is neither a grammar folder nor a .strata file.`, where);
-  return p;
-}
-
-/** Loads and checks the grammar at `-g`; errors come back as diagnostics. */
-export function loadForCompile(g: string): { grammar: Grammar; inventory: Inventory; diagnostics: Diagnostic[] } | { diagnostics: Diagnostic[] } {
-  const path = resolveGrammarPath(g);
-  if (typeof path !== "string") return { diagnostics: [path] };
-  const loaded = loadGrammar(path);
+/** Loads and checks the grammar `-g`/`-d` name; errors come back as diagnostics. */
+export function loadForCompile(
+  g: string | undefined,
+  variety?: string,
+  cacheDir?: string,
+): { grammar: Grammar; inventory: Inventory; path: string; diagnostics: readonly Diagnostic[] } | { diagnostics: readonly Diagnostic[] } {
+  const r = resolveGrammar(g, variety);
+  if ("diagnostics" in r) return { diagnostics: r.diagnostics };
+  const loaded = loadChecked(r.path, cacheDir);
   if (loaded.grammar === undefined || loaded.inventory === undefined || hasErrors(loaded.diagnostics)) return { diagnostics: loaded.diagnostics };
-  return { grammar: loaded.grammar, inventory: loaded.inventory, diagnostics: loaded.diagnostics };
+  return { grammar: loaded.grammar, inventory: loaded.inventory, path: r.path, diagnostics: loaded.diagnostics };
 }
 
 export interface CompileCommandOptions {
+  readonly variety?: string;
+  /** Warnings left out. */
+  readonly quiet?: boolean;
   /** false: neither read nor write the cache. */
   readonly cache?: boolean;
   readonly cacheDir?: string;
@@ -69,8 +43,10 @@ export interface CompileCommandOptions {
 }
 
 function table(rows: readonly (readonly string[])[], right: readonly boolean[]): string {
-  const widths = rows[0]!.map((_, i) => Math.max(...rows.map((r) => [...r[i]!].length)));
-  return rows.map((r) => r.map((c, i) => (right[i] ? c.padStart(widths[i]!) : c.padEnd(widths[i]!))).join("  ").trimEnd()).join("\n") + "\n";
+  // Widths in terminal columns (string-width), so names with IPA combining marks line up.
+  const widths = rows[0]!.map((_, i) => Math.max(...rows.map((r) => stringWidth(r[i]!))));
+  const pad = (c: string, w: number, right: boolean): string => (right ? " ".repeat(w - stringWidth(c)) + c : c + " ".repeat(w - stringWidth(c)));
+  return rows.map((r) => r.map((c, i) => pad(c, widths[i]!, right[i] === true)).join("  ").trimEnd()).join("\n") + "\n";
 }
 
 const n = (x: number): string => x.toLocaleString("en-US");
@@ -106,21 +82,22 @@ export function compileReport(path: string, c: Compiled, cacheDir: string | unde
 }
 
 /** Runs `strata compile`; pure apart from reading the grammar and the cache folder. */
-export function runCompile(g: string, opts: CompileCommandOptions = {}): CommandOutcome {
-  const loaded = loadForCompile(g);
-  const warnings = loaded.diagnostics.filter((d) => d.severity === "warning");
-  if (!("grammar" in loaded)) return { stdout: "", stderr: renderAll(loaded.diagnostics), exitCode: 1 };
-  const cacheDir = opts.cache === false ? undefined : opts.cacheDir ?? "build/cache";
+export function runCompile(g: string | undefined, opts: CompileCommandOptions = {}): CommandOutcome {
+  const cache = openCache(opts);
+  const cacheDir = cache.dir;
+  const loaded = loadForCompile(g, opts.variety, cacheDir);
+  const warnings = opts.quiet === true ? [] : [...cache.diagnostics, ...loaded.diagnostics.filter((d) => d.severity === "warning")];
+  if (!("grammar" in loaded)) return { stdout: "", stderr: renderAll(loaded.diagnostics.filter((d) => d.severity === "error" || opts.quiet !== true)), exitCode: EXIT.badInput };
   const r = compileGrammar(loaded.grammar, loaded.inventory, {
     ...(cacheDir !== undefined ? { cacheDir } : {}),
     ...(opts.maxStates !== undefined ? { maxStates: opts.maxStates } : {}),
   });
-  const stderr = renderAll([...warnings, ...r.diagnostics]);
-  if (r.compiled === null) return { stdout: "", stderr, exitCode: 1 };
+  const stderr = renderAll([...warnings, ...r.diagnostics.filter((d) => d.severity === "error" || opts.quiet !== true)]);
+  if (r.compiled === null) return { stdout: "", stderr, exitCode: EXIT.badInput };
   const c = r.compiled;
   if (opts.json === true) {
     const out = {
-      grammar: resolveGrammarPath(g),
+      grammar: loaded.path,
       alphabet: c.alphabet.segments.length,
       steps: c.steps,
       preferred: c.preferredSize,
@@ -128,35 +105,40 @@ export function runCompile(g: string, opts: CompileCommandOptions = {}): Command
       cache: cacheDir === undefined ? "off" : c.cache,
       timings: c.timings,
     };
-    return { stdout: JSON.stringify(out, null, 2) + "\n", stderr, exitCode: 0 };
+    return { stdout: JSON.stringify(out, null, 2) + "\n", stderr, exitCode: EXIT.ok };
   }
-  return { stdout: compileReport(String(resolveGrammarPath(g)), c, cacheDir), stderr, exitCode: 0 };
+  return { stdout: compileReport(loaded.path, c, cacheDir), stderr, exitCode: EXIT.ok };
 }
 
-function positiveInt(name: string): (v: string) => number {
-  return (v: string) => {
-    const x = Number(v);
-    if (!Number.isInteger(x) || x <= 0) throw new Error(`${name} needs a positive whole number, got '${v}'`);
-    return x;
-  };
+interface CompileCliOptions {
+  grammar?: string;
+  variety?: string;
+  cacheDir?: string;
+  cache: boolean;
+  maxStates?: number;
+  json?: boolean;
+  quiet?: boolean;
 }
 
 export function registerCompile(program: Command): void {
-  program
+  const cmd = program
     .command("compile")
-    .description("compile a grammar into transducers; print each step's and the cascade's states and arcs, and the cache state")
-    .requiredOption("-g, --grammar <path>", "grammar folder (holding grammar.strata) or a .strata file")
-    .option("--cache-dir <dir>", "where compiled machines are cached", "build/cache")
-    .option("--no-cache", "neither read nor write the cache")
-    .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
-    .option("--json", "print the figures as JSON", false)
-    .action((opts: { grammar: string; cacheDir: string; cache: boolean; maxStates?: number; json: boolean }) => {
-      const r = runCompile(opts.grammar, {
-        cache: opts.cache, cacheDir: opts.cacheDir, json: opts.json,
-        ...(opts.maxStates !== undefined ? { maxStates: opts.maxStates } : {}),
-      });
-      process.stdout.write(r.stdout);
-      process.stderr.write(r.stderr);
-      process.exitCode = r.exitCode;
-    });
+    .description("compile a grammar into transducers; print each step's and the cascade's states and arcs, and the cache state");
+  grammarOptions(cmd);
+  cacheOptions(cmd);
+  jsonOption(cmd, "print the figures as JSON");
+  commonOptions(cmd);
+  examples(cmd, [
+    ["strata compile -g lexicons/en-us", "the default variety (grammar.strata)"],
+    ["strata compile -g lexicons/demo -d careful", "a variety by its name in varieties.json"],
+    ["strata compile -g lexicons/en-us --no-cache --json", "cold compile, figures as JSON"],
+  ]);
+  cmd.action(async (o: CompileCliOptions) => {
+    await printOutcome(runCompile(o.grammar, {
+      cache: o.cache, json: o.json === true, quiet: o.quiet === true,
+      ...(o.variety !== undefined ? { variety: o.variety } : {}),
+      ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
+      ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
+    }));
+  });
 }

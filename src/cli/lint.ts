@@ -3,15 +3,21 @@
 
 import type { Command } from "commander";
 import { formatDiagnostic } from "../diagnostics.js";
-import { loadGrammar } from "../grammar/index.js";
 import { lintContext, lintLexicon, type LintFinding, type LintReport } from "../lexicon/lint.js";
-import { grammarPath } from "./common.js";
+import {
+  openCache, cacheOptions, checkInputFile, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, plural, printOutcome, renderDiagnostics,
+  resolveGrammar, useColour,
+} from "./common.js";
 
 export interface LintOptions {
-  /** Grammar folder (grammar.strata inside) or a .strata file. */
-  readonly grammar: string;
-  /** Use <grammar>/<dialect>.strata. */
-  readonly dialect?: string;
+  /** Grammar folder, .strata file or lexicon folder (default: the current folder). */
+  readonly grammar?: string;
+  /** The variety, by its name in varieties.json. */
+  readonly variety?: string;
+  /** Warnings left out of the findings. */
+  readonly quiet?: boolean;
+  readonly cache?: boolean;
+  readonly cacheDir?: string;
   /** One JSON document on stdout instead of lines. */
   readonly json?: boolean;
   /** Exit 1 on warnings too. */
@@ -23,7 +29,7 @@ export interface LintOptions {
 export interface LintOutcome {
   readonly stdout: string;
   readonly stderr: string;
-  /** 0 no error-level finding (warnings allowed unless strict); 1 some error (or warning when strict); 2 lint could not run. */
+  /** 0 no error-level finding (warnings allowed unless strict); 4 some error (or warning when strict); 1 lint could not run. */
   readonly exitCode: number;
 }
 
@@ -64,28 +70,36 @@ const jsonFinding = (f: LintFinding): LintJson["findings"][number] => ({
 export function lintSummary(r: LintReport): string {
   let s = "";
   for (const [code, n] of Object.entries(r.counts)) s += `  ${String(n).padStart(7)}  ${code}\n`;
-  s += `lint: ${r.rows} rows read (${r.rejects} rejected), ${r.rowsWithFindings} with findings: ${r.errors} errors, ${r.warnings} warnings\n`;
+  s += `lint: ${plural(r.rows, "row")} read (${r.rejects} rejected), ${r.rowsWithFindings} with findings: ${plural(r.errors, "error")}, ${plural(r.warnings, "warning")}\n`;
   return s;
 }
 
 /** Runs the lint without touching the process (the command prints the outcome and sets the exit code). */
 export async function runLint(file: string | undefined, opts: LintOptions): Promise<LintOutcome> {
-  const gpath = grammarPath(opts.grammar, opts.dialect);
-  const g = loadGrammar(gpath);
+  const render = (ds: Parameters<typeof renderDiagnostics>[0]): string => renderDiagnostics(ds, useColour());
+  const resolved = resolveGrammar(opts.grammar, opts.variety);
+  if ("diagnostics" in resolved) return { stdout: "", stderr: render(resolved.diagnostics), exitCode: EXIT.badInput };
+  const gpath = resolved.path;
+  const cache = openCache(opts);
+  const g = loadChecked(gpath, cache.dir);
   const gErrors = g.diagnostics.filter((d) => d.severity === "error");
   if (g.grammar === undefined || g.inventory === undefined || gErrors.length > 0) {
-    return { stdout: "", stderr: g.diagnostics.map((d) => formatDiagnostic(d) + "\n").join("") + "lint: the grammar does not load; nothing was linted\n", exitCode: 2 };
+    return { stdout: "", stderr: render(g.diagnostics) + "lint: the grammar does not load; nothing was linted.\n", exitCode: EXIT.badInput };
+  }
+  const fromStdin = file === undefined || file === "-";
+  if (!fromStdin) {
+    const bad = checkInputFile(file, [], "lexicon");
+    if (bad !== undefined) return { stdout: "", stderr: render([bad]), exitCode: EXIT.badInput };
   }
   const ctx = lintContext(g.grammar, g.inventory);
-  const fromStdin = file === undefined || file === "-";
   const report = fromStdin
     ? await lintLexicon(opts.input ?? process.stdin, ctx, { file: "<stdin>" })
     : await lintLexicon(file, ctx);
   if (report.fatal) {
-    return { stdout: "", stderr: report.findings.map((d) => formatDiagnostic(d) + "\n").join("") + "lint: the lexicon could not be read\n", exitCode: 2 };
+    return { stdout: "", stderr: render(report.findings) + "lint: the lexicon could not be read.\n", exitCode: EXIT.badInput };
   }
   const failed = report.errors > 0 || (opts.strict === true && report.warnings > 0);
-  const exitCode = failed ? 1 : 0;
+  const exitCode = failed ? EXIT.checksFailed : EXIT.ok;
   if (opts.json === true) {
     const doc: LintJson = {
       file: report.file,
@@ -98,26 +112,35 @@ export async function runLint(file: string | undefined, opts: LintOptions): Prom
       counts: report.counts,
       findings: report.findings.map(jsonFinding),
     };
-    return { stdout: JSON.stringify(doc, null, 2) + "\n", stderr: "", exitCode };
+    return { stdout: JSON.stringify(doc, null, 2) + "\n", stderr: opts.quiet === true ? "" : render(cache.diagnostics), exitCode };
   }
-  const stdout = report.findings.map((f) => formatDiagnostic(f) + "\n").join("") + lintSummary(report);
-  return { stdout, stderr: "", exitCode };
+  const shown = opts.quiet === true ? report.findings.filter((f) => f.severity === "error") : report.findings;
+  const stdout = shown.map((f) => formatDiagnostic(f) + "\n").join("") + (opts.quiet === true ? "" : lintSummary(report));
+  return { stdout, stderr: opts.quiet === true ? "" : render(cache.diagnostics), exitCode };
 }
 
 /** Adds `strata lint` to the program. */
 export function registerLint(program: Command): void {
-  program
+  const cmd = program
     .command("lint")
     .description("check a lexicon CSV: syllabification under the grammar's onsets and codas, stress marks, unreadable rows")
-    .argument("[file]", "lexicon CSV (word,pron,...); '-' or nothing for standard input")
-    .requiredOption("-g, --grammar <dir>", "grammar folder (grammar.strata inside) or a .strata file")
-    .option("-d, --dialect <variety>", "use <dir>/<variety>.strata instead of grammar.strata")
-    .option("--json", "print one JSON document (findings, counts per code, totals)", false)
-    .option("--strict", "exit 1 on warnings as well as errors", false)
-    .action(async (file: string | undefined, o: { grammar: string; dialect?: string; json: boolean; strict: boolean }) => {
-      const outcome = await runLint(file, o);
-      if (outcome.stdout !== "") process.stdout.write(outcome.stdout);
-      if (outcome.stderr !== "") process.stderr.write(outcome.stderr);
-      process.exitCode = outcome.exitCode;
-    });
+    .argument("[file]", "lexicon CSV (word,pron,...); '-' or nothing for standard input");
+  grammarOptions(cmd);
+  jsonOption(cmd, "print one JSON document (findings, counts per code, totals)");
+  cmd.option("--strict", "fail (exit 4) on warnings as well as errors");
+  cacheOptions(cmd, false);
+  commonOptions(cmd);
+  examples(cmd, [
+    ["strata lint -g lexicons/en-us lexicons/demo/lexicon.csv", "findings with positions, then counts"],
+    ["strata lint -g lexicons/demo -d careful --strict --json my.csv", "a variety's grammar; warnings fail too"],
+    ["cat my.csv | strata lint -g lexicons/en-us -", "the lexicon from standard input"],
+  ]);
+  cmd.action(async (file: string | undefined, o: { grammar?: string; variety?: string; json?: boolean; strict?: boolean; quiet?: boolean; cache: boolean; cacheDir?: string }) => {
+    await printOutcome(await runLint(file, {
+      json: o.json === true, strict: o.strict === true, quiet: o.quiet === true, cache: o.cache,
+      ...(o.grammar !== undefined ? { grammar: o.grammar } : {}),
+      ...(o.variety !== undefined ? { variety: o.variety } : {}),
+      ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
+    }));
+  });
 }

@@ -1,7 +1,8 @@
 #!/usr/bin/env node
-// The `strata` command line: a thin commander layer; each command lives in its own file under cli/.
+// The `strata` command line: a thin commander layer; each command lives in its own file under cli/,
+// the program around them (version, errors, exit codes) in program.ts.
 
-import { Command } from "commander";
+import { createProgram, runProgram } from "./program.js";
 import { registerClasses } from "./classes.js";
 import { registerImport } from "./import.js";
 import { registerBuild } from "./build.js";
@@ -10,16 +11,14 @@ import { registerCompile } from "./compile.js";
 import { registerGraph } from "./graph.js";
 import { registerLint } from "./lint.js";
 import { registerClusters } from "./clusters.js";
+import { registerInit } from "./init.js";
 import { registerCompare } from "./compare.js";
 import { registerAccept } from "./accept.js";
 import { registerExplain } from "./explain.js";
 import { registerInteractions } from "./interactions.js";
 
-const program = new Command();
-program
-  .name("strata")
-  .description("Compile SPE-style phonological rules into finite-state transducers and run pronunciation lexicons through them.")
-  .version("0.1.0");
+const program = createProgram();
+registerInit(program);
 registerClasses(program);
 registerImport(program);
 registerBuild(program);
@@ -33,4 +32,4 @@ registerAccept(program);
 registerExplain(program);
 registerInteractions(program);
 
-await program.parseAsync(process.argv);
+await runProgram(program, process.argv);

@@ -1,57 +1,100 @@
-// `strata transcribe -g DIR [-d VARIETY] [--format tsv|jsonl|pls] [FILE|-]`: a lexicon CSV in,
+// `strata transcribe [-g PATH] [-d VARIETY] [--format tsv|jsonl|pls] [FILE|-]`: a lexicon CSV in,
 // narrow transcriptions out on stdout as rows arrive (for pipelines); rejects reported on stderr.
 
-import type { Command } from "commander";
+import { Option, type Command } from "commander";
 import { formatDiagnostic } from "../diagnostics.js";
-import { plsChunks, type PlsEntry } from "../emit/pls.js";
+import { checkEntry, isWellFormedLanguageTag, PlsError, plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
+import { writeFileAtomic } from "../emit/atomic.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
 import { entryJsonLine, entryPhonemes, transcribeRow } from "../lexicon/runner.js";
 import { EntryKeys } from "../lexicon/keys.js";
-import { grammarPath, loadEngine, positiveInt, printDiagnostics, type EngineKind } from "./common.js";
 import { Channel } from "../lexicon/channel.js";
+import { InvalidArgumentError } from "commander";
+import {
+  openCache, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples,
+  grammarOptions, loadEngine, outOption, plural, printDiagnostics, resolveGrammar, type EngineKind,
+} from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 
-interface TranscribeOptions {
-  grammar: string;
-  dialect?: string;
-  format: string;
-  lang: string;
-  allowRejects: boolean;
-  engine: EngineKind;
+export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
+
+export interface TranscribeOptions {
+  grammar?: string;
+  variety?: string;
+  format?: (typeof TRANSCRIBE_FORMATS)[number];
+  /** xml:lang for PLS (default: the variety's lang in varieties.json, else `und`). */
+  lang?: string;
+  allowRejects?: boolean;
+  engine?: EngineKind;
+  cache?: boolean;
   cacheDir?: string;
   maxStates?: number;
-  syllableBreaks: boolean;
+  syllableBreaks?: boolean;
+  out?: string;
+  quiet?: boolean;
+  /** Standard input when the file is `-` or absent (default: process.stdin). */
+  input?: NodeJS.ReadableStream;
 }
 
-/** Stdout in large chunks (back-pressure respected); flushed before the command returns. */
-const stdout = new BufferedWriter(process.stdout);
-const write = (text: string): Promise<void> | undefined => stdout.write(text);
+/** A BCP 47 tag for `--lang` (RFC 5646 well-formedness, as PLS xml:lang needs). */
+function languageTag(value: string): string {
+  if (!isWellFormedLanguageTag(value)) throw new InvalidArgumentError("It must be a well-formed BCP 47 language tag such as en-US.");
+  return value;
+}
 
 export async function runTranscribe(file: string | undefined, o: TranscribeOptions): Promise<number> {
-  if (!["tsv", "jsonl", "pls"].includes(o.format)) {
-    process.stderr.write(`strata: --format must be tsv, jsonl or pls, not '${o.format}'\n`);
-    return 2;
+  const format = o.format ?? "tsv";
+  const fromStdin = file === undefined || file === "-";
+  const resolved = resolveGrammar(o.grammar, o.variety);
+  if ("diagnostics" in resolved) {
+    printDiagnostics(resolved.diagnostics);
+    return EXIT.badInput;
   }
-  const loaded = loadEngine(grammarPath(o.grammar, o.dialect), {
-    kind: o.engine,
-    ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
+  const lang = o.lang ?? resolved.lang ?? "und";
+  const paths =
+    (fromStdin ? undefined : checkInputFile(file, [], "lexicon")) ??
+    (o.out !== undefined ? checkOutputPath(o.out, ["-o", "--out"], "file") ?? checkNotAnInput({ value: o.out, flags: ["-o", "--out"] }, fromStdin ? [] : [file]) : undefined) ??
+    (!isWellFormedLanguageTag(lang) ? commandLineError("cli/bad-language-tag", `The variety's language tag '${lang}' is not a well-formed BCP 47 tag; give --lang.`, o.variety, ["-d", "--variety"]) : undefined);
+  if (paths !== undefined) {
+    printDiagnostics([paths]);
+    return EXIT.badInput;
+  }
+  const cache = openCache(o);
+  printDiagnostics(cache.diagnostics, { quiet: o.quiet === true });
+  const cacheDir = cache.dir;
+  const loaded = loadEngine(resolved.path, {
+    kind: o.engine ?? "machine",
+    ...(cacheDir !== undefined ? { cacheDir } : {}),
     ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
     // The per-step machines give JSON Lines its rules and let PLS skip enumerating most variants.
-    blame: o.format !== "tsv",
-    syllables: o.syllableBreaks,
+    blame: format !== "tsv",
+    syllables: o.syllableBreaks ?? true,
   });
-  printDiagnostics(loaded.diagnostics);
-  if (!("engine" in loaded)) return 1;
-  const source = file === undefined || file === "-" ? process.stdin : file;
-  const reader = readLexicon(source, { inventory: loaded.inventory, file: file === undefined || file === "-" ? "<stdin>" : file });
+  printDiagnostics(loaded.diagnostics, { quiet: o.quiet === true });
+  if (!("engine" in loaded)) return EXIT.badInput;
+  const sourceName = fromStdin ? "<stdin>" : file;
+  const reader = readLexicon(fromStdin ? (o.input ?? process.stdin) : file, { inventory: loaded.inventory, file: sourceName });
+
+  // Output: standard output as rows arrive, or (with -o) a file written whole at the end.
+  // Standard output goes in large chunks (back-pressure respected), flushed after each input batch.
+  const chunks: string[] = [];
+  const stdout = o.out !== undefined && o.out !== "-" ? undefined : new BufferedWriter(process.stdout);
+  const write = (text: string): Promise<void> | undefined => (stdout !== undefined ? stdout.write(text) : void chunks.push(text));
+
   let rejects = 0;
   let entries = 0;
+  const reject = (d: Parameters<typeof printDiagnostics>[0][number]): void => {
+    rejects++;
+    process.stderr.write(formatDiagnostic(d) + "\n");
+  };
   // PLS: one lexeme per word; rows of a word that follow each other are grouped as they stream.
-  const pls = o.format === "pls" ? new Channel<PlsEntry>() : undefined;
+  // Each row is checked as a PLS entry first (characters XML forbids, …): a row that cannot be
+  // written is a reject, so the document on stdout is never left half-written.
+  const pls = format === "pls" ? new Channel<PlsEntry>() : undefined;
   const plsWriter = pls !== undefined ? (async () => {
-    for await (const chunk of plsChunks(pls, { lang: o.lang, file: "<stdout>" })) await write(chunk);
+    for await (const chunk of plsChunks(pls, { lang, file: "<stdout>" })) await write(chunk);
   })() : undefined;
   let pending: { word: string; phonemes: string[]; line: number; file: string } | undefined;
   const flush = (): void => {
@@ -59,25 +102,29 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     pending = undefined;
   };
   // Only what the format prints: TSV neither variants nor blame, PLS the variants, JSON Lines both.
-  const needs: Needs = o.format === "tsv" ? NARROW_ONLY : o.format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
-  if (o.format === "tsv") await write(tsvHeader());
+  const needs: Needs = format === "tsv" ? NARROW_ONLY : format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
+  if (format === "tsv") await write(tsvHeader());
   const keys = new EntryKeys();
   try {
     for await (const batch of reader.batches()) {
       for (const item of batch) {
         const r = item.kind === "row" ? transcribeRow(loaded.engine, item, keys.next(item.word, item.id), needs) : item;
         if (r.kind === "reject") {
-          rejects++;
-          process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
+          reject(rejectDiagnostic(r));
           continue;
         }
-        entries++;
-        if (o.format === "tsv" || o.format === "jsonl") {
-          const w = write(o.format === "tsv" ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
+        if (format === "tsv" || format === "jsonl") {
+          const w = write(format === "tsv" ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
           if (w !== undefined) await w;
-        }
-        else {
+        } else {
           const mine = entryPhonemes(r);
+          try {
+            checkEntry({ word: r.word, phonemes: mine, preferred: 0, source: { file: r.file, line: r.line, column: 1 } }, 0, r.file);
+          } catch (err) {
+            if (!(err instanceof PlsError)) throw err;
+            reject(err.diagnostic);
+            continue;
+          }
           if (pending !== undefined && pending.word === r.word) {
             for (const p of mine) if (!pending.phonemes.includes(p)) pending.phonemes.push(p);
           } else {
@@ -85,43 +132,52 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
             pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
           }
         }
+        entries++;
       }
       // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.
-      const w = stdout.flush();
+      const w = stdout?.flush();
       if (w !== undefined) await w;
     }
     flush();
     pls?.close();
     await plsWriter;
-    await stdout.flush();
+    await stdout?.flush();
   } catch (err) {
     pls?.fail(err);
     await plsWriter?.catch(() => undefined);
     throw err;
   }
-  printDiagnostics(reader.diagnostics);
+  printDiagnostics(reader.diagnostics, { quiet: o.quiet === true });
+  const failed = reader.diagnostics.some((d) => d.severity === "error");
+  if (!failed && chunks.length > 0) await writeFileAtomic(o.out!, chunks);
   const stats = reader.stats;
-  process.stderr.write(`strata: ${stats.dataLines} rows read = ${entries} written + ${rejects} rejected\n`);
-  if (reader.diagnostics.some((d) => d.severity === "error")) return 1;
-  if (rejects > 0 && !o.allowRejects) return 3;
-  return 0;
+  if (o.quiet !== true) process.stderr.write(`strata: ${plural(stats.dataLines, "row")} read = ${entries} written + ${rejects} rejected\n`);
+  if (failed) return EXIT.badInput;
+  if (rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
+  return EXIT.ok;
 }
 
 export function registerTranscribe(program: Command): void {
-  program
+  const cmd = program
     .command("transcribe")
-    .description("stream a lexicon CSV through a grammar; narrow transcriptions on stdout")
-    .argument("[file]", "lexicon CSV (word,pron,...); '-' or nothing for standard input")
-    .requiredOption("-g, --grammar <dir>", "grammar folder (grammar.strata inside) or a .strata file")
-    .option("-d, --dialect <variety>", "use <dir>/<variety>.strata instead of grammar.strata")
-    .option("--format <format>", "tsv, jsonl or pls", "tsv")
-    .option("--lang <tag>", "BCP 47 tag for PLS xml:lang", "und")
-    .option("--allow-rejects", "exit 0 even when some rows were rejected", false)
-    .option("--engine <kind>", "machine or interpreter", "machine")
-    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
-    .option("--cache-dir <dir>", "read and write compiled machines here")
-    .option("--max-states <n>", "largest composed block before the cascade splits", positiveInt("--max-states"))
-    .action(async (file: string | undefined, opts: TranscribeOptions) => {
-      process.exitCode = await runTranscribe(file, opts);
-    });
+    .description("stream a lexicon CSV through a grammar; narrow transcriptions on stdout as rows arrive")
+    .argument("[file]", "lexicon CSV (word,pron,...); '-' or nothing for standard input");
+  grammarOptions(cmd);
+  cmd
+    .addOption(new Option("--format <format>", "what to write").choices(TRANSCRIBE_FORMATS).default("tsv"))
+    .option("--lang <tag>", "BCP 47 tag for PLS xml:lang (default: the variety's lang in varieties.json, else und)", languageTag)
+    .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
+    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)");
+  outOption(cmd, "file");
+  cacheOptions(cmd);
+  commonOptions(cmd);
+  examples(cmd, [
+    ["strata transcribe -g lexicons/en-us lexicons/demo/lexicon.csv", "TSV on standard output"],
+    ["strata transcribe -g lexicons/demo -d careful --format pls -o careful.pls words.csv", "a variety's PLS, written whole"],
+    ["printf 'word,pron\\nkettle,ˈkɛtəl\\n' | strata transcribe -g lexicons/en-us --format jsonl", "from standard input"],
+  ]);
+  cmd.action(async (file: string | undefined, o: TranscribeOptions) => {
+    process.exitCode = await runTranscribe(file, o);
+  });
 }

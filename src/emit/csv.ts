@@ -1,19 +1,26 @@
 // Writing CSV records that Strata's own lexicon reader (and any RFC 4180 reader) reads back unchanged.
+// The quoting is csv-stringify's (the writing half of the csv-parse family the reader uses).
 
-/**
- * One field, quoted when it must be (RFC 4180 §2: fields containing a comma, a double quote or a
- * line break are enclosed in double quotes, and a double quote inside is doubled).
- * Strata also quotes a field that starts with `#` (an unquoted `#` at the start of a line marks a
- * comment line for our reader), and one with a space or tab at either end (so no reader trims it).
+import { stringify, type Options } from "csv-stringify/sync";
+
+/*
+ * RFC 4180 §2: a field holding a comma, a double quote or a line break is enclosed in double quotes
+ * and a double quote inside is doubled (csv-stringify does this by itself). Strata also quotes a
+ * field that starts with `#` (an unquoted `#` at the start of a line marks a comment line for our
+ * reader), and one with a space or tab at either end (so no reader trims it). Empty fields stay empty.
  */
+const OPTIONS: Options = {
+  record_delimiter: "\n",
+  quoted_match: [/^#/, /^[ \t]|[ \t]$/, /\r/],
+};
+
+/** One field as it appears in a record. */
 export function csvField(value: string): string {
-  if (value === "") return "";
-  const needsQuotes =
-    /[",\r\n]/.test(value) || value.startsWith("#") || /^[ \t]|[ \t]$/.test(value);
-  return needsQuotes ? `"${value.replace(/"/g, '""')}"` : value;
+  return csvLine([value]).slice(0, -1);
 }
 
 /** One record, terminated by LF. */
 export function csvLine(fields: readonly string[]): string {
-  return fields.map(csvField).join(",") + "\n";
+  // csv-stringify writes a lone empty field as an empty line, exactly as wanted.
+  return stringify([fields as string[]], OPTIONS);
 }

@@ -117,7 +117,7 @@ export interface CheckedEntry {
  * Checks one entry and returns its text normalised to NFC, or throws PlsError.
  * `ordinal` is the entry's 1-based position in the stream (used when it has no `source`).
  */
-function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedEntry {
+export function checkEntry(e: PlsEntry, ordinal: number, file: string): CheckedEntry {
   const fail = (code: string, message: string, offset = 0): never => {
     const pos: SourcePos = e.source
       ? { file: e.source.file, line: e.source.line, column: e.source.column }

@@ -5,6 +5,7 @@
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { bundleOf, describeBundle, PROSODIC_FEATURES, realise, type Bundle, type FeatureValue, type Inventory } from "../inventory/index.js";
 import type { ClassDef, Element, Grammar, NodeDef, Rule, Span } from "./ast.js";
+import { distance } from "fastest-levenshtein";
 
 /** Variables seen in a rule: each stands for a feature value ("feature") or for a node (its name). */
 export type VariableUses = Map<string, { kind: "feature" | string; span: Span }>;
@@ -141,18 +142,3 @@ export class CheckContext {
 }
 
 export const flip = (v: FeatureValue, negated: boolean): FeatureValue => (!negated || v === "0" ? v : v === "+" ? "-" : "+");
-
-/** Levenshtein distance, for "did you mean" on feature names. */
-function distance(a: string, b: string): number {
-  const d = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    let prev = d[0]!;
-    d[0] = i;
-    for (let j = 1; j <= b.length; j++) {
-      const cur = d[j]!;
-      d[j] = Math.min(d[j]! + 1, d[j - 1]! + 1, prev + (a[i - 1] === b[j - 1] ? 0 : 1));
-      prev = cur;
-    }
-  }
-  return d[b.length]!;
-}

@@ -1,6 +1,8 @@
 // Normalising IPA text for matching: canonical decomposition (NFD), tie bars dropped, ASCII g read
 // as ɡ, while remembering which code point of the original string each matched code point came from.
 
+import { distance } from "fastest-levenshtein";
+
 /** U+0361 COMBINING DOUBLE INVERTED BREVE and U+035C COMBINING DOUBLE BREVE BELOW: tie bars. */
 export const TIE_BARS: ReadonlySet<string> = new Set(["\u0361", "\u035C"]);
 
@@ -91,20 +93,8 @@ export function decodeMark(cell: string): string | undefined {
 /** Code point length of a string. */
 export const cpLength = (s: string): number => Array.from(s).length;
 
-/** Levenshtein distance over code points (for "did you mean" suggestions). */
-export function editDistance(a: string, b: string): number {
-  const x = Array.from(a);
-  const y = Array.from(b);
-  let prev = Array.from({ length: y.length + 1 }, (_, k) => k);
-  for (let i = 1; i <= x.length; i++) {
-    const cur = [i];
-    for (let j = 1; j <= y.length; j++) {
-      cur[j] = Math.min(prev[j]! + 1, cur[j - 1]! + 1, prev[j - 1]! + (x[i - 1] === y[j - 1] ? 0 : 1));
-    }
-    prev = cur;
-  }
-  return prev[y.length]!;
-}
+/** Levenshtein distance (for "did you mean" suggestions): fastest-levenshtein's, shared with the grammar checker. */
+export const editDistance = (a: string, b: string): number => distance(a, b);
 
 /** `U+0303` for a code point (for messages about invisible marks). */
 export const codePointName = (cp: string): string =>

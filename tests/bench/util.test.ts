@@ -3,7 +3,7 @@
 
 import { describe, expect, test } from "vitest";
 import fc from "fast-check";
-import { median, sampleIndices, seededRandom } from "../../bench/util.js";
+import { median, sampleIndices, seededRandom, textTable } from "../../bench/util.js";
 import { replaceSection } from "../../bench/readme.js";
 import { randomDfa, walk } from "../../bench/table-walk.js";
 
@@ -12,6 +12,10 @@ describe("median", () => {
     expect(median([3, 1, 2])).toBe(2);
     expect(median([4, 1, 3, 2])).toBe(2.5);
     expect(() => median([])).toThrow();
+  });
+  test("zero has one sign whatever the order (the sort cannot tell -0 from +0)", () => {
+    for (const xs of [[0, 5e-324, -0], [-0, 5e-324, 0], [-0, 0], [0, -0], [-0]]) expect(Object.is(median(xs), 0)).toBe(true);
+    expect(median([-0, 5e-324, 0])).toBe(median([0, 5e-324, -0]));
   });
   test("lies between the minimum and the maximum and ignores order", () => {
     fc.assert(
@@ -23,6 +27,16 @@ describe("median", () => {
       }),
       { numRuns: 200 },
     );
+  });
+});
+
+describe("text table", () => {
+  test("aligns IPA with combining marks by what a terminal shows (string-width)", () => {
+    // ɫ̩ is two code points but one column wide: ˈkʰɛ.ɾɫ̩ takes 7 columns, pʰɪn 4.
+    const t = textTable(["word", "narrow"], [["kettle", "ˈkʰɛ.ɾɫ̩"], ["pin", "pʰɪn"]]);
+    const lines = t.split("\n");
+    expect(lines[2]).toBe("kettle  ˈkʰɛ.ɾɫ̩");
+    expect(lines[3]).toBe("pin        pʰɪn");
   });
 });
 

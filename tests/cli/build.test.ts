@@ -11,6 +11,7 @@ import { loadEngine } from "../../src/cli/common.js";
 import { InterpreterEngine } from "../../src/lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../../src/lexicon/check.js";
 import { plsSchemaErrors } from "../emit/pls-schema.js";
+import { cli } from "./helpers.js";
 
 const ROOT = resolve(__dirname, "../..");
 const DEMO = join(ROOT, "lexicons", "demo");
@@ -176,4 +177,63 @@ describe("rejects", () => {
 
 function basenameOf(p: string): string {
   return p.split(/[\\/]/).filter(Boolean).pop()!;
+}
+
+describe("build's command line", () => {
+  // The stdout/stderr spies above are replaced by the helper's own while a command runs.
+  it("--variety NAME (or -d) builds that variety only", async () => {
+    const out = mkdtempSync(join(tmpdir(), "strata-one-"));
+    const r = await cliRun(["build", DEMO, "-d", "careful", "-o", out, "--cache-dir", SHARED_CACHE, "-q"]);
+    expect(r.exitCode).toBe(0);
+    expect(readdirSync(join(out, "demo")).filter((f) => !f.endsWith(".json"))).toEqual(["careful"]); // beside run.json
+    const unknown = await cliRun(["build", DEMO, "--variety", "casual", "-o", out]);
+    expect(unknown.exitCode).toBe(1);
+    expect(unknown.stderr).toMatch(/^command line:1:\d+: error: There is no variety 'casual' in demo's varieties\.json; its varieties are general, careful\. \[cli\/unknown-variety\]/);
+  });
+
+  it("a folder after --format is the folder, not another format (it was swallowed before)", async () => {
+    const out = mkdtempSync(join(tmpdir(), "strata-fmt-"));
+    const dir = lexiconFolder("word,pron\nbrindle,ˈbɹɪndəl\n");
+    const r = await cliRun(["build", "--format", "tsv", dir, "-o", out, "--cache-dir", SHARED_CACHE, "-q"]);
+    expect(r.stderr).toBe("");
+    expect(r.exitCode).toBe(0);
+    const files = readdirSync(join(out, basenameOf(dir), "general"));
+    expect(files).toContain("lexicon.tsv");
+    expect(files).not.toContain("lexicon.pls");
+    const two = await cliRun(["build", dir, "--format", "tsv,pls", "--format", "jsonl", "-o", join(out, "b"), "--cache-dir", SHARED_CACHE, "-q"]);
+    expect(two.exitCode).toBe(0);
+    expect(readdirSync(join(out, "b", basenameOf(dir), "general"))).toEqual(expect.arrayContaining(["lexicon.tsv", "lexicon.pls", "lexicon.jsonl"]));
+  });
+
+  it("prints every problem with the lexicon file, also with -q (errors are never quiet)", async () => {
+    const dir = lexiconFolder("# a comment first\nword,word,ipa\nbrindle,brindle,ˈbɹɪndəl\n");
+    const out = mkdtempSync(join(tmpdir(), "strata-errs-"));
+    const r = await cliRun(["build", dir, "-o", out, "--cache-dir", SHARED_CACHE, "-q"]);
+    expect(r.exitCode).toBe(1);
+    expect(r.stderr).toMatch(/lexicon\.csv:2:\d+: error: The column 'word' appears twice in the header\. \[lexicon\/duplicate-column\]/);
+    expect(r.stderr).toMatch(/lexicon\.csv:2:\d+: error: The header has no 'pron' column .*\[lexicon\/missing-column\]/);
+    expect(r.stdout).toBe("");
+  });
+
+  it("--json prints the summaries as data; counts agree in number in the text report", async () => {
+    const dir = lexiconFolder("word,pron\nbrindle,ˈbɹɪndəl\n");
+    const out = mkdtempSync(join(tmpdir(), "strata-json-"));
+    const j = await cliRun(["build", dir, "-o", out, "--cache-dir", SHARED_CACHE, "--json"]);
+    expect(j.exitCode).toBe(0);
+    const doc = JSON.parse(j.stdout) as { varieties: { variety: string; rowsRead: number; entriesWritten: number; reconciled: boolean }[] };
+    expect(doc.varieties).toMatchObject([{ variety: "general", rowsRead: 1, entriesWritten: 1, reconciled: true }]);
+    const text = await cliRun(["build", dir, "-o", out, "--cache-dir", SHARED_CACHE, "--samples", "0"]);
+    expect(text.stdout).toContain("1 word, 1 entry with variants (2 variants in all)"); // was "1 words"
+  });
+});
+
+async function cliRun(args: string[]) {
+  stdout.mockRestore();
+  stderr.mockRestore();
+  try {
+    return await cli(args);
+  } finally {
+    stdout = vi.spyOn(process.stdout, "write").mockImplementation(() => true);
+    stderr = vi.spyOn(process.stderr, "write").mockImplementation(() => true);
+  }
 }

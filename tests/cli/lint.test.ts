@@ -81,12 +81,12 @@ describe("strata lint: syllabification findings", () => {
     expect(byLine.get(3)!.message).toContain("'skl'");
   });
 
-  it("counts per code and totals; exit 1 because of the error-level no-nucleus", async () => {
+  it("counts per code and totals; exit 4 because of the error-level no-nucleus", async () => {
     const o = await runLint(file, { grammar: g, json: true });
     const j = JSON.parse(o.stdout) as LintJson;
     expect(j.counts).toEqual({ "interp/illegal-coda": 2, "interp/illegal-onset": 1, "interp/no-legal-split": 1, "lint/no-nucleus": 1 });
     expect(j).toMatchObject({ rows: 6, rejects: 0, rowsWithFindings: 5, errors: 1, warnings: 4 });
-    expect(o.exitCode).toBe(1);
+    expect(o.exitCode).toBe(4);
   });
 
   it("prints one line per finding as file:line:column, then the counts and totals", async () => {
@@ -95,18 +95,18 @@ describe("strata lint: syllabification findings", () => {
     expect(lines[0]).toBe(`${file}:3:9: warning: 'sklimo': word-initial cluster is not a declared onset: 'skl'. [interp/illegal-onset]`);
     expect(lines).toContain("        2  interp/illegal-coda");
     expect(lines).toContain("        1  lint/no-nucleus");
-    expect(lines[lines.length - 1]).toBe("lint: 6 rows read (0 rejected), 5 with findings: 1 errors, 4 warnings");
-    expect(o.exitCode).toBe(1);
+    expect(lines[lines.length - 1]).toBe("lint: 6 rows read (0 rejected), 5 with findings: 1 error, 4 warnings");
+    expect(o.exitCode).toBe(4);
   });
 
-  it("exits 0 on warnings only, and 1 with --strict", async () => {
+  it("exits 0 on warnings only, and 4 with --strict", async () => {
     const warnOnly = lexicon("word,pron\nsklimo,ˈsklimoʊ\npelta,ˈpɛltə\n");
     expect((await runLint(warnOnly, { grammar: g })).exitCode).toBe(0);
-    expect((await runLint(warnOnly, { grammar: g, strict: true })).exitCode).toBe(1);
+    expect((await runLint(warnOnly, { grammar: g, strict: true })).exitCode).toBe(4);
     const clean = lexicon("word,pron\npelta,ˈpɛltə\n");
     const o = await runLint(clean, { grammar: g, strict: true });
     expect(o.exitCode).toBe(0);
-    expect(o.stdout).toBe("lint: 1 rows read (0 rejected), 0 with findings: 0 errors, 0 warnings\n");
+    expect(o.stdout).toBe("lint: 1 row read (0 rejected), 0 with findings: 0 errors, 0 warnings\n");
   });
 
   it("a quoted pronunciation field moves the columns by its opening quote", async () => {
@@ -131,7 +131,7 @@ describe("strata lint: stress and unreadable rows", () => {
     const j = JSON.parse(o.stdout) as LintJson;
     expect(where(j)).toEqual(["2:11 lint/many-primary", "4:13 lint/many-primary"]);
     expect(j.findings[1]!.message).toContain("3 primary stress marks");
-    expect(o.exitCode).toBe(1);
+    expect(o.exitCode).toBe(4);
   });
 
   it("an entry with only secondary stress is a warning", async () => {
@@ -156,7 +156,7 @@ describe("strata lint: stress and unreadable rows", () => {
     const j = JSON.parse(o.stdout) as LintJson;
     expect(where(j)).toEqual(["2:10 ipa/unknown-symbol", "3:11 lexicon/stress-without-vowel", "4:1 lexicon/empty-word"]);
     expect(j).toMatchObject({ rows: 4, rejects: 3, errors: 3, warnings: 0 });
-    expect(o.exitCode).toBe(1);
+    expect(o.exitCode).toBe(4);
   });
 
   it("the shipped en-us grammar finds nothing to report in plain invented words", async () => {
@@ -175,23 +175,23 @@ describe("strata lint: stress and unreadable rows", () => {
 });
 
 describe("strata lint: when it cannot run", () => {
-  it("exits 2 with the grammar's diagnostics when the grammar does not load", async () => {
+  it("exits 1 with the grammar's diagnostics when the grammar does not load", async () => {
     const dir = mkdtempSync(join(tmpdir(), "strata-lint-bad-"));
     writeFileSync(join(dir, "grammar.strata"), 'inventory "nowhere.csv"\nsyllabify\n');
     const o = await runLint(lexicon("word,pron\na,ˈa\n"), { grammar: dir });
-    expect(o.exitCode).toBe(2);
+    expect(o.exitCode).toBe(1);
     expect(o.stdout).toBe("");
     expect(o.stderr).toContain("grammar.strata:1:");
     expect(o.stderr).toContain("nothing was linted");
   });
 
-  it("exits 2 with a positioned message when the lexicon is missing or has no pron column", async () => {
+  it("exits 1 with a positioned message when the lexicon is missing or has no pron column", async () => {
     const g = tinyGrammar();
     const missing = await runLint(join(tmpdir(), "strata-no-such-lexicon.csv"), { grammar: g });
-    expect(missing.exitCode).toBe(2);
-    expect(missing.stderr).toMatch(/strata-no-such-lexicon\.csv:1:1: error: Cannot read the lexicon: there is no such file\. \[lexicon\/unreadable\]/u);
+    expect(missing.exitCode).toBe(1);
+    expect(missing.stderr).toMatch(/command line:1:1: error: Cannot read the lexicon '.*strata-no-such-lexicon\.csv': there is no such file\. \[cli\/no-such-file\]/u);
     const noPron = await runLint(lexicon("word,ipa\npelta,ˈpɛltə\n"), { grammar: g });
-    expect(noPron.exitCode).toBe(2);
+    expect(noPron.exitCode).toBe(1);
     expect(noPron.stderr).toContain("[lexicon/missing-column]");
   });
 });

@@ -2,7 +2,7 @@
 // and writing each transcription as soon as its row arrives, in every output format.
 
 import { execFileSync, spawn } from "node:child_process";
-import { mkdtempSync, readFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -110,4 +110,87 @@ describe("strata build with worker threads (compiled CLI)", () => {
       }
     }
   }, 300_000);
+});
+
+describe("the process: broken pipes, half documents, exit codes (compiled CLI)", () => {
+  const noStack = (stderr: string): void => {
+    expect(stderr).not.toMatch(/\n\s+at /);
+    expect(stderr).not.toMatch(/EPIPE|Error:/);
+  };
+
+  it.each(["tsv", "pls"])("a reader that stops early (| head) ends the run quietly with exit 0 (%s)", async (format) => {
+    const rows = Array.from({ length: 20_000 }, (_, i) => `kettle${i},ˈkɛtəl`).join("\n");
+    const child = spawn(process.execPath, [CLI, ...G, "--format", format, "-"], { cwd: ROOT, stdio: ["pipe", "pipe", "pipe"] });
+    let stderr = "";
+    child.stderr.setEncoding("utf8").on("data", (d: string) => (stderr += d));
+    child.stdin.on("error", () => undefined);
+    child.stdin.end(`word,pron\n${rows}\n`);
+    // Read one chunk, then close the pipe as `head` does.
+    await new Promise<void>((res) => child.stdout.once("data", () => res()));
+    child.stdout.destroy();
+    const code = await new Promise<number | null>((res) => child.on("close", (c) => res(c)));
+    expect(code).toBe(0);
+    noStack(stderr);
+  }, 120_000);
+
+  it("PLS: a word XML cannot hold is a reject; standard output is still one whole schema-valid document", () => {
+    const r = run([...G, "--format", "pls", "--lang", "en-US"], "word,pron\nkit,ˈkɪt\nba\u0001d,ˈbæd\npin,ˈpɪn\n");
+    expect(r.status).toBe(3);
+    expect(plsSchemaErrors(r.stdout)).toEqual([]);
+    expect(r.stdout.match(/<lexeme>/g)?.length).toBe(2);
+    // The reader refuses the character (lexicon/control-character); were it to pass, the PLS check
+    // before grouping makes the row a reject (pls/invalid-xml-char): either way, never half a document.
+    expect(r.stderr).toMatch(/^<stdin>:3:\d+: error: .* \[(lexicon\/control-character|pls\/invalid-xml-char)\]$/m);
+    expect(r.stderr).toContain("3 rows read = 2 written + 1 rejected");
+    noStack(r.stderr);
+  });
+
+  it("PLS: a bad --lang, or a bad lang in varieties.json, stops before anything reaches stdout", () => {
+    const bad = run([...G, "--format", "pls", "--lang", "en_US"], "word,pron\nkit,ˈkɪt\n");
+    expect(bad.status).toBe(1);
+    expect(bad.stdout).toBe("");
+    expect(bad.stderr).toMatch(/^command line:1:\d+: error: Option --lang does not take 'en_US'\./);
+    const dir = mkdtempSync(join(tmpdir(), "strata-lang-"));
+    writeFileSync(join(dir, "lexicon.csv"), "word,pron\n");
+    writeFileSync(join(dir, "varieties.json"), JSON.stringify({ lexicon: "lexicon.csv", varieties: [{ name: "general", lang: "en_US", grammar: join(ROOT, "lexicons", "en-us", "grammar.strata") }] }));
+    const fromManifest = run(["transcribe", "-g", dir, "--cache-dir", CACHE, "--format", "pls"], "word,pron\nkit,ˈkɪt\n");
+    expect(fromManifest.status).toBe(1);
+    expect(fromManifest.stdout).toBe("");
+    noStack(fromManifest.stderr);
+  });
+
+  it("a bad option exits 1 in the one style; -v prints the version", () => {
+    const r = run(["transcribe", "-g", "lexicons/en-us", "--max-states", "0"], "");
+    expect(r.status).toBe(1);
+    expect(r.stderr).toMatch(/^command line:1:43: error: Option --max-states does not take '0'\. It must be a whole number of 1 or more\. \[cli\/bad-option-value\]\n/);
+    const v = run(["-v"], "");
+    expect(v.status).toBe(0);
+    expect(v.stdout.trim()).toBe((JSON.parse(readFileSync(join(ROOT, "package.json"), "utf8")) as { version: string }).version);
+  });
+
+  it("file-system problems at command-line paths: one positioned line, exit 1, nothing on stdout", () => {
+    const dir = mkdtempSync(join(tmpdir(), "strata-fs-"));
+    const file = join(dir, "words.csv");
+    writeFileSync(file, "word,pron\nkit,ˈkɪt\n");
+    const noManifest = run(["build", dir], "");
+    expect(noManifest.status).toBe(1);
+    expect(noManifest.stderr).toMatch(/varieties\.json:1:1: error: .*\[manifest\/missing\]/);
+    noStack(noManifest.stderr);
+    for (const args of [[...G, dir], [...G, file, "-o", join(file, "x.tsv")], ["build", file], ["build", "lexicons/demo", "-o", file], ["import", "--arpabet", dir]]) {
+      const r = run(args, "");
+      expect(r.status).toBe(1);
+      expect(r.stdout).toBe("");
+      expect(r.stderr).toMatch(/^command line:1:\d+: error: [A-Z].*\. \[cli\/[a-z-]+\]\n/);
+      noStack(r.stderr);
+    }
+  });
+
+  it("npm pack ships the compiled program and the lexicons, not the tests, benches or sources", () => {
+    const out = execFileSync("npm", ["pack", "--dry-run", "--json", "--ignore-scripts"], { cwd: ROOT, encoding: "utf8", stdio: ["ignore", "pipe", "ignore"] });
+    const files = (JSON.parse(out) as { files: { path: string }[] }[])[0]!.files.map((f) => f.path);
+    expect(files).toContain("dist/src/cli/main.js");
+    expect(files).toContain("lexicons/en-us/grammar.strata");
+    expect(files).toContain("lexicons/demo/varieties.json");
+    expect(files.filter((f) => /^(tests|bench|src|dist\/bench)\//.test(f) || f.endsWith(".ts") || f.endsWith(".map"))).toEqual([]);
+  });
 });

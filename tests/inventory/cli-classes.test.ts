@@ -58,8 +58,8 @@ describe("strata classes", () => {
   it("points at a bad symbol in the argument list", () => {
     const r = runClasses(EN_US, ["p", "x", "tʃæ"], false);
     expect(r.exitCode).toBe(1);
-    expect(r.stderr).toContain("<command line>:1:3: error: Unknown symbol: 'x'");
-    expect(r.stderr).toContain("<command line>:1:5: error: 'tʃæ' is not one segment");
+    expect(r.stderr).toContain("command line:1:3: error: Unknown symbol: 'x'");
+    expect(r.stderr).toContain("command line:1:5: error: 'tʃæ' is not one segment");
   });
 
   it("reports a path that does not exist", () => {
@@ -74,7 +74,7 @@ describe("strata classes", () => {
     registerClasses(program);
     const cmd = program.commands.find((c) => c.name() === "classes")!;
     expect(cmd).toBeDefined();
-    expect(cmd.options.map((o) => o.long)).toEqual(["--grammar", "--json"]);
+    expect(cmd.options.map((o) => o.long)).toEqual(["--grammar", "--variety", "--json", "--quiet", "--color", "--no-color"]);
     const writes: string[] = [];
     const orig = process.stdout.write.bind(process.stdout);
     process.stdout.write = ((chunk: string) => {

@@ -199,7 +199,8 @@ describe("where a build writes", () => {
     writeFileSync(blocker, "not a folder\n");
     const { code, err } = await build(dir, opts(blocker));
     expect(code).toBe(1);
-    expect(err).toMatch(/^\S+:1:1: error: Cannot write this output: (a part of the path is a file, not a folder|something else already exists there)\. \[output\/unwritable\]$/m);
+    // Refused on the command line (cli/output-is-file) before the output folder is opened.
+    expect(err).toMatch(/^command line:1:\d+: error: The output '.*' is a file; give a folder\. \[cli\/output-is-file\]$/m);
     expect(err).not.toMatch(/\n\s+at /);
   });
 
