@@ -163,10 +163,10 @@ describe("-g PATH -d NAME: one way to name a variety", () => {
     const file = lexicon("word,pron\nwater,ˈwɔtɚ\n");
     const general = await cli(["transcribe", "-g", EN_US, "-d", "general", file]);
     expect(general.exitCode).toBe(0);
-    expect(general.stdout.split("\n")[1]).toMatch(/^water\tˈwɔ\.ɾɚ\t/u);
+    expect(general.stdout.split("\n")[1]).toMatch(/^water#1\twater\tˈwɔ\.ɾɚ\t/u);
     const careful = await cli(["transcribe", "-g", DEMO, "-d", "careful", file]);
     expect(careful.exitCode).toBe(0);
-    expect(careful.stdout.split("\n")[1]).toMatch(/^water\tˈwɔ\.tɚ\t/u); // no flapping in careful speech
+    expect(careful.stdout.split("\n")[1]).toMatch(/^water#1\twater\tˈwɔ\.tɚ\t/u); // no flapping in careful speech
   });
 
   it("compile and graph take -d too", async () => {
@@ -188,7 +188,7 @@ describe("the compile cache is used by default", () => {
     const r = await cli(["transcribe", "-g", EN_US, "--cache-dir", join(file, "cache"), file]);
     expect(r.exitCode).toBe(0);
     expect(r.stderr).toMatch(/warning: The cache folder .* cannot be used .*continuing without a cache/);
-    expect(r.stdout.split("\n")[1]).toMatch(/^kettle\t/);
+    expect(r.stdout.split("\n")[1]).toMatch(/^kettle#1\tkettle\t/);
     const c = await cli(["compile", "-g", EN_US, "--cache-dir", join(file, "cache"), "--json"]);
     expect(c.exitCode).toBe(0);
     expect(JSON.parse(c.stdout).cache).toBe("off");
