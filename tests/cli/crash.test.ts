@@ -12,6 +12,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { csvLine } from "../../src/emit/csv.js";
 import { parseTempName } from "../../src/tempfile.js";
 import { arpabetToIpa, cmuEntries } from "../lexicons/harness.js";
+import { seededRandom } from "../../bench/util.js";
 
 const ROOT = resolve(__dirname, "../..");
 // A private compilation (other test files compile dist/ at the same time; a half-rewritten file
@@ -27,17 +28,6 @@ const KILLS = 5;
 const SEED = Number(process.env["STRATA_FC_SEED"] ?? (process.env["CI"] ? 20261202 : Date.now() % 2 ** 31));
 process.stderr.write(`cli/crash: seed ${SEED}\n`);
 
-/** mulberry32: a small seeded generator of numbers in [0, 1) (common practice, no source). */
-function random(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** `rows` CMU entries (npm `cmu-pronouncing-dictionary`) from `offset`, every 10th, as our lexicon CSV. */
 function cmuLexicon(rows: number, offset: number): string {
@@ -115,7 +105,7 @@ beforeAll(async () => {
 
 describe("strata build killed with SIGKILL at random moments", () => {
   it("leaves each variety folder whole (the previous run or the new one), and the next run cleans up", async () => {
-    const rnd = random(SEED);
+    const rnd = seededRandom(SEED);
     const seen: string[] = [];
     for (let k = 0; k < KILLS; k++) {
       const out = mkdtempSync(join(tmpdir(), "strata-crash-out-"));
