@@ -225,10 +225,11 @@ function printSummary(s: RunSummary, compileMs: number, outDir: string, samples:
   w(`  files: ${Object.keys(s.files).sort().join(", ")}`);
   const tsv = s.files["lexicon.tsv"];
   if (tsv !== undefined && samples > 0) {
-    const lines = readFileSync(tsv, "utf8").split("\n").slice(1).filter((l) => l !== "");
+    const all = readFileSync(tsv, "utf8").split("\n");
+    const lines = all.slice(1).filter((l) => l !== "");
     const step = Math.max(1, Math.floor(lines.length / samples));
     // The TSV's columns are named in its header; the sample shows word, broad → narrow.
-    const header = readFileSync(tsv, "utf8").split("\n", 1)[0]!.split("\t");
+    const header = all[0]!.split("\t");
     const col = (name: string, fallback: number): number => (header.indexOf(name) >= 0 ? header.indexOf(name) : fallback);
     const [iw, inarrow, ibroad] = [col("word", 0), col("narrow", 1), col("broad", 2)];
     for (let i = 0; i < lines.length && i / step < samples; i += step) {
