@@ -17,12 +17,19 @@ export interface Where {
 /** Where one step of a resolved grammar came from. */
 export interface StepOrigin {
   readonly name: string;
-  /** Where the step's body (or settings) is written. */
+  /** Where the step was first written: in the base file, or in the variety that added it (a replaced body is at its edit). */
   readonly defined: Where;
   /** How it got into the grammar: written in a plain grammar, or added by a variety. */
   readonly added: boolean;
   /** The edits applied to it, oldest first (the base's own variety first in a chain). */
   readonly edits: readonly { readonly kind: "replaced" | "adjusted"; readonly at: Where }[];
+}
+
+/** A base step a variety left out: where it was written and where the `omit` is. */
+export interface OmittedStep {
+  readonly name: string;
+  readonly defined: Where;
+  readonly omittedAt: Where;
 }
 
 const at = (s: Span): Where => ({ file: s.file, line: s.line });
@@ -43,7 +50,7 @@ export function applyVariety(
   baseOrigins: readonly StepOrigin[],
   v: VarietyFile,
   files: readonly string[],
-): { grammar: Grammar; origins: StepOrigin[]; diagnostics: Diagnostic[] } {
+): { grammar: Grammar; origins: StepOrigin[]; omitted: OmittedStep[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const err = (code: string, message: string, span: Span): void => void diagnostics.push(diagnostic("error", code, message, span));
   const baseNames = new Map<string, number>();
@@ -153,10 +160,15 @@ export function applyVariety(
     if (!placed.has(e.step.name))
       err("grammar/anchor-cycle", `'${e.step.name}' is placed ${e.placement.where} '${e.placement.anchor.name}', which is itself placed by way of '${e.step.name}': the new steps never reach a step of the base.`, e.placement.anchor.span);
 
+  const omitted: OmittedStep[] = base.steps.flatMap((s) => {
+    const e = editOf.get(s.name);
+    return e?.kind === "omit" ? [{ name: s.name, defined: origins.get(s.name)?.defined ?? at(s.span), omittedAt: at(e.span) }] : [];
+  });
   const decl = declarations(base, v, err);
   return {
     grammar: { ...base, ...decl, file: v.file, steps: outSteps, files },
     origins: outOrigins,
+    omitted,
     diagnostics,
   };
 }

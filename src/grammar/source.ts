@@ -8,12 +8,31 @@ import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { isInside, readTextFile, realPath } from "../files.js";
 import type { Grammar, Span } from "./ast.js";
 import { assembleGrammar, type TopItem } from "./assemble.js";
-import { applyVariety, plainOrigins, type StepOrigin } from "./inherit.js";
+import { applyVariety, plainOrigins, type OmittedStep, type StepOrigin } from "./inherit.js";
 import { parseFile } from "./parser.js";
 import { isVarietyText, parseVarietyFile } from "./parse-variety.js";
 
 /** The file whose presence marks a project root (DEVELOPERS.md, "Varieties"). */
 export const ROOT_MARKER = ".strata-root";
+
+let named: string | undefined;
+
+/**
+ * Names the project root for every grammar loaded from now on that does not name its own
+ * (`--root DIR`; the command line sets it before a command runs and clears it after). undefined: the default.
+ */
+export function setProjectRoot(dir: string | undefined): void {
+  named = dir === undefined ? undefined : realPath(path.resolve(dir));
+}
+
+/** The root named by `setProjectRoot`, if any (passed on to worker threads). */
+export const namedProjectRoot = (): string | undefined => named;
+
+/** The project root a grammar is confined to: the one given, else the one named, else `defaultRoot`. */
+export function projectRoot(mainFile: string, given?: string): string {
+  if (given !== undefined) return realPath(path.resolve(given));
+  return named ?? defaultRoot(mainFile);
+}
 
 /**
  * The project root of a grammar when none is named: the nearest folder at or above the grammar's
@@ -33,6 +52,8 @@ export interface Source {
   readonly grammar: Grammar;
   /** Where each step came from (parallel to `grammar.steps`). */
   readonly origins: readonly StepOrigin[];
+  /** Base steps the varieties of the chain left out (the base's own variety first). */
+  readonly omitted: readonly OmittedStep[];
   /** Where `inventory` and `diacritics` are declared (for errors about those files). */
   readonly declared: { readonly inventory?: Span; readonly diacritics?: Span };
   /** The chain of variety files from the main file down to the plain grammar at its bottom. */
@@ -61,7 +82,7 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
   const b = v.base; // null: a malformed `base`, reported by the parser
   const failed = (): Source => {
     const empty = assembleGrammar(file, [], [file]).grammar;
-    return { grammar: empty, origins: [], declared: {}, chain: [file], failed: true };
+    return { grammar: empty, origins: [], omitted: [], declared: {}, chain: [file], failed: true };
   };
   if (b === null) return failed();
   if (!isInside(ctx.root, b.path)) {
@@ -86,7 +107,7 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
   const declared = { ...base.declared };
   for (const e of v.edits)
     if (e.kind === "declare" && (e.item.kind === "inventory" || e.item.kind === "diacritics")) declared[e.item.kind] = e.item.span;
-  return { grammar: r.grammar, origins: r.origins, declared, chain: [file, ...base.chain], ...(base.failed === true ? { failed: true } : {}) };
+  return { grammar: r.grammar, origins: r.origins, omitted: [...base.omitted, ...r.omitted], declared, chain: [file, ...base.chain], ...(base.failed === true ? { failed: true } : {}) };
 }
 
 /** A plain grammar: its includes expanded in place (each file read once), then assembled. */
@@ -130,5 +151,5 @@ function readPlain(ctx: Context, main: string, mainText: string): Source {
   diagnostics.push(...assembled.diagnostics);
   const declared: { inventory?: Span; diacritics?: Span } = {};
   for (const i of items) if ((i.kind === "inventory" || i.kind === "diacritics") && declared[i.kind] === undefined) declared[i.kind] = i.span;
-  return { grammar: assembled.grammar, origins: plainOrigins(assembled.grammar), declared, chain: [main] };
+  return { grammar: assembled.grammar, origins: plainOrigins(assembled.grammar), omitted: [], declared, chain: [main] };
 }
