@@ -101,7 +101,7 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
     return failed();
   }
   const base = read(ctx, b.path, baseRead.text, [...stack, realPath(b.path)]);
-  const files = [...base.grammar.files, file];
+  const files = [file, ...base.grammar.files]; // the main file first, as for includes
   const r = applyVariety(base.grammar, base.origins, v, files);
   ctx.diagnostics.push(...r.diagnostics);
   const declared = { ...base.declared };

@@ -156,7 +156,7 @@ replace stress from left 1
     const w = loadGrammar(join(root, "base/full.strata"));
     expect(errors(v)).toEqual([]);
     expect(placeless(v.grammar!)).toEqual(placeless(w.grammar!));
-    expect(v.grammar!.files.map((f) => f.slice(root.length))).toEqual(["/base/grammar.strata", "/mid/mid.strata", "/top/top.strata"]);
+    expect(v.grammar!.files.map((f) => f.slice(root.length))).toEqual(["/top/top.strata", "/mid/mid.strata", "/base/grammar.strata"]);
     const origin = Object.fromEntries(v.variety!.origins.map((o) => [o.name, o]));
     expect(origin["mid-rule"]!.added).toBe(true);
     expect(origin["mid-rule"]!.defined.file).toBe(join(root, "mid/mid.strata"));
