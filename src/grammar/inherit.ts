@@ -5,7 +5,8 @@
 import * as path from "node:path";
 import { closest } from "fastest-levenshtein";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import type { ClassDef, Cluster, Grammar, NodeDef, Pattern, Rule, Span, Step } from "./ast.js";
+import type { Cluster, Grammar, Rule, Span, Step } from "./ast.js";
+import { assembleGrammar } from "./assemble.js";
 import { applyOptions, type Edit, type NameRef, type VarietyFile } from "./parse-variety.js";
 
 /** A place in a grammar file. */
@@ -164,75 +165,63 @@ export function applyVariety(
     const e = editOf.get(s.name);
     return e?.kind === "omit" ? [{ name: s.name, defined: origins.get(s.name)?.defined ?? at(s.span), omittedAt: at(e.span) }] : [];
   });
-  const decl = declarations(base, v, err);
+  const decl = declarations(base, v, err, diagnostics);
   return {
-    grammar: { ...base, ...decl, file: v.file, steps: outSteps, files },
+    grammar: { ...decl, file: v.file, steps: outSteps, files },
     origins: outOrigins,
     omitted,
     diagnostics,
   };
 }
 
-/** The base's declarations with the variety's replacements and extensions. */
-function declarations(
-  base: Grammar,
-  v: VarietyFile,
-  err: (code: string, message: string, span: Span) => void,
-): Pick<Grammar, "inventory" | "diacritics" | "nodes" | "classes" | "onsets" | "codas" | "heavy"> {
-  let { inventory, diacritics, onsets, codas } = base;
-  let heavy: readonly Pattern[] = base.heavy;
-  const nodes: NodeDef[] = [...base.nodes];
-  const classes: ClassDef[] = [...base.classes];
-  const once = new Map<string, Span>();
-  const first = (what: string, span: Span): boolean => {
-    const f = once.get(what);
-    if (f !== undefined) { err("grammar/duplicate-declaration", `'${what}' is already declared by this variety (${where(f)}).`, span); return false; }
-    once.set(what, span);
-    return true;
+/**
+ * The base's declarations with the variety's replacements and extensions. The variety's own
+ * declarations are assembled as a grammar of their own (so a declaration made twice is reported as
+ * in any grammar); a node or class replaces the base's of that name or is added, and every other
+ * declaration it makes (inventory, onsets, heavy, … and any the language gains) replaces the base's.
+ */
+function declarations(base: Grammar, v: VarietyFile, err: (code: string, message: string, span: Span) => void, diagnostics: Diagnostic[]): Grammar {
+  const own = assembleGrammar(v.file, v.edits.flatMap((e) => (e.kind === "declare" ? [e.item] : [])), []);
+  diagnostics.push(...own.diagnostics);
+  const merged: Record<string, unknown> = { ...base };
+  for (const [k, value] of Object.entries(own.grammar)) {
+    if (k === "file" || k === "files" || k === "steps" || value === null || value === undefined || (Array.isArray(value) && value.length === 0)) continue;
+    merged[k] = value;
+  }
+  const named = <T extends { readonly name: string }>(mine: readonly T[], theirs: readonly T[]): T[] => {
+    const out = [...mine];
+    for (const d of theirs) {
+      const i = out.findIndex((x) => x.name === d.name);
+      if (i >= 0) out[i] = d;
+      else out.push(d);
+    }
+    return out;
   };
-  const replaceNamed = <T extends { name: string }>(list: T[], def: T): void => {
-    const i = list.findIndex((x) => x.name === def.name);
-    if (i >= 0) list[i] = def;
-    else list.push(def);
-  };
+  const g = { ...merged, nodes: named(base.nodes, own.grammar.nodes), classes: named(base.classes, own.grammar.classes) } as unknown as Grammar;
+  const classes = [...g.classes];
+  let { onsets, codas } = g;
   const clusterText = (c: Cluster): string => c.segments.join("");
   for (const e of v.edits) {
-    if (e.kind === "declare") {
-      const it = e.item;
-      switch (it.kind) {
-        case "inventory": if (first("inventory", it.span)) inventory = it.path; break;
-        case "diacritics": if (first("diacritics", it.span)) diacritics = it.path; break;
-        case "onsets": if (first("onsets", it.span)) onsets = it.clusters; break;
-        case "codas": if (first("codas", it.span)) codas = it.clusters; break;
-        case "heavy": if (first("heavy", it.span)) heavy = it.patterns; break;
-        case "node": if (first(`node ${it.def.name}`, it.def.span)) replaceNamed(nodes, it.def); break;
-        case "class":
-          if (it.implicit) { if (!classes.some((c) => c.name === it.def.name)) classes.push(it.def); }
-          else if (first(`class ${it.def.name}`, it.def.span)) replaceNamed(classes, it.def);
-          break;
-        default: break;
-      }
-    } else if (e.kind === "extend" || e.kind === "remove") {
-      const it = e.item;
-      if (it.kind === "class") {
-        const i = classes.findIndex((c) => c.name === it.def.name);
-        if (i < 0) { err("grammar/unknown-class", `There is no class '${it.def.name}' to add members to; 'class ${it.def.name} = …' defines one.`, it.def.span); continue; }
-        classes[i] = { ...classes[i]!, members: [...classes[i]!.members, ...it.def.members] };
-      } else if (it.kind === "onsets" || it.kind === "codas") {
-        const list = it.kind === "onsets" ? onsets : codas;
-        if (list === null) { err("grammar/no-list", `The base grammar declares no ${it.kind} (it allows every cluster); write '${it.kind} = …' to declare a list.`, it.span); continue; }
-        let next: Cluster[] = [...list];
-        if (e.kind === "extend") next.push(...it.clusters);
-        else
-          for (const c of it.clusters) {
-            const t = clusterText(c);
-            if (!next.some((x) => clusterText(x) === t)) err("grammar/unknown-cluster", `'${t}' is not among the base grammar's ${it.kind}.`, c.span);
-            next = next.filter((x) => clusterText(x) !== t);
-          }
-        if (it.kind === "onsets") onsets = next;
-        else codas = next;
-      }
+    if (e.kind !== "extend" && e.kind !== "remove") continue;
+    const it = e.item;
+    if (it.kind === "class") {
+      const i = classes.findIndex((c) => c.name === it.def.name);
+      if (i < 0) { err("grammar/unknown-class", `There is no class '${it.def.name}' to add members to; 'class ${it.def.name} = …' defines one.`, it.def.span); continue; }
+      classes[i] = { ...classes[i]!, members: [...classes[i]!.members, ...it.def.members] };
+    } else if (it.kind === "onsets" || it.kind === "codas") {
+      const list = it.kind === "onsets" ? onsets : codas;
+      if (list === null) { err("grammar/no-list", `The base grammar declares no ${it.kind} (it allows every cluster); write '${it.kind} = …' to declare a list.`, it.span); continue; }
+      let next: Cluster[] = [...list];
+      if (e.kind === "extend") next.push(...it.clusters);
+      else
+        for (const c of it.clusters) {
+          const t = clusterText(c);
+          if (!next.some((x) => clusterText(x) === t)) err("grammar/unknown-cluster", `'${t}' is not among the base grammar's ${it.kind}.`, c.span);
+          next = next.filter((x) => clusterText(x) !== t);
+        }
+      if (it.kind === "onsets") onsets = next;
+      else codas = next;
     }
   }
-  return { inventory, diacritics, nodes, classes, onsets, codas, heavy };
+  return { ...g, classes, onsets, codas };
 }

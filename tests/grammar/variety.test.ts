@@ -218,6 +218,19 @@ describe("errors in a variety are positioned at the edit", () => {
     expect(errors(v('base "grammar.strata"\n'))).toEqual([["grammar/base-not-first", "v.strata:2:1"]]);
   });
 
+  test("a declaration made twice in the variety; members and clusters for lists that are not there", () => {
+    expect(errors(v("onsets = p t\nonsets = k\nclass Stop = p\nclass Stop = t\n"))).toEqual([
+      ["grammar/duplicate-declaration", "v.strata:3:1"],
+      ["grammar/duplicate-name", "v.strata:5:7"],
+    ]);
+    expect(errors(v("add class Nasal = m\nremove codas = ŋ\n"))).toEqual([
+      ["grammar/unknown-class", "v.strata:2:11"],
+      ["grammar/unknown-cluster", "v.strata:3:16"],
+    ]);
+    const noLists = load({ "base/grammar.strata": 'inventory "segments.csv"\nrule x:\n  a -> i\n', "base/v.strata": 'base "grammar.strata"\nadd onsets = p\n' }, "base/v.strata");
+    expect(errors(noLists)).toEqual([["grammar/no-list", "v.strata:2:5"]]);
+  });
+
   test("a stress step replaced by a rule, options on a syllabify step", () => {
     expect(errors(v("replace stress:\n  a -> i\nadjust syllabify optional\n"))).toEqual([
       ["grammar/edit-kind", "v.strata:2:9"],
