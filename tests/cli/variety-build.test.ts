@@ -1,6 +1,7 @@
 // `strata build` with a variety defined as edits of a base in another folder (the shipped layout:
 // lexicons/demo/*.strata → ../en-us/): it builds, build.json names every file of the chain, and a
-// variety equal to careful.strata gives byte-identical outputs to it.
+// variety equal to careful.strata gives byte-identical outputs to it (and the machines agree with
+// the reference interpreter on the first entries, --check).
 
 import { cpSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -30,7 +31,7 @@ describe("build with a variety of the shipped grammar", () => {
       ] }, null, 2) + "\n",
     );
     const out = join(dir, "out");
-    const r = await cli(["build", join(lex, "demo"), "-o", out, "-q", "--cache-dir", SHARED_CACHE, "--samples", "0", "--workers", "0"]);
+    const r = await cli(["build", join(lex, "demo"), "-o", out, "-q", "--cache-dir", SHARED_CACHE, "--samples", "0", "--workers", "0", "--check", "60"]);
     expect(r.stderr).toBe("");
     expect(r.exitCode).toBe(0);
     const record = JSON.parse(readFileSync(join(out, "demo", "build.json"), "utf8")) as { varieties: { name: string; grammar: { files: { path: string }[] } }[] };

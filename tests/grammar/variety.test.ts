@@ -1,12 +1,13 @@
 // Varieties defined as a base plus edits (DEVELOPERS.md, "Varieties"): each edit kind resolves to
-// the grammar written out in full — the same steps, the same compiled machines — and the shipped
-// careful variety written as edits of the casual one derives what careful.strata derives.
+// the grammar written out in full — the same steps, the same compiled machines; chains, the caches,
+// and every error positioned at the edit that causes it.
 
+import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, test } from "vitest";
 import { cacheKeyOf, compileGrammar, type Compiled } from "../../src/compile/index.js";
 import { equivalent, serialise } from "../../src/fst/index.js";
-import { loadGrammar, type Grammar, type Step } from "../../src/grammar/index.js";
+import { loadGrammar, loadGrammarCached, type Grammar } from "../../src/grammar/index.js";
 import { at, tempTree, TOY_DIACRITICS, TOY_SEGMENTS } from "./helpers.js";
 
 const toy = { ".strata-root": "", "base/segments.csv": TOY_SEGMENTS, "base/diacritics.csv": TOY_DIACRITICS };
@@ -162,6 +163,21 @@ replace stress from left 1
     expect(origin["mid-rule"]!.defined.file).toBe(join(root, "mid/mid.strata"));
     expect(origin["mid-rule"]!.edits.map((e) => [e.kind, e.at.file.slice(root.length), e.at.line])).toEqual([["adjusted", "/top/top.strata", 2]]);
     expect(origin["voicing"]!.defined).toEqual({ file: join(root, "base/grammar.strata"), line: 10 });
+  });
+});
+
+describe("caches see every file of the chain", () => {
+  test("an edit of the base file reaches a variety loaded through the grammar cache", () => {
+    const root = tempTree({ ...toy, "base/grammar.strata": NODE + BASE, "v/v.strata": 'base "../base/grammar.strata"\nomit reduce\n' });
+    const cache = join(root, "cache");
+    const first = loadGrammarCached(join(root, "v/v.strata"), cache);
+    expect(errors(first)).toEqual([]);
+    expect(first.grammar!.files).toContain(join(root, "base/grammar.strata"));
+    expect(loadGrammarCached(join(root, "v/v.strata"), cache).grammar!.steps.map((s) => s.name)).toEqual(first.grammar!.steps.map((s) => s.name));
+    writeFileSync(join(root, "base/grammar.strata"), NODE + BASE.replace("rule lengthen:", "rule longer:"));
+    const again = loadGrammarCached(join(root, "v/v.strata"), cache);
+    expect(again.grammar!.steps.map((s) => s.name)).toContain("longer");
+    expect(cacheKeyOf(again.grammar!, again.inventory!, 50_000)).not.toBe(cacheKeyOf(first.grammar!, first.inventory!, 50_000));
   });
 });
 
