@@ -130,6 +130,11 @@ export function applyVariety(
   const outSteps: Step[] = [];
   const outOrigins: StepOrigin[] = [];
   const placed = new Set<string>();
+  // `prefer` written in an edit of a rule that ends up obligatory has no effect (as in a rule header).
+  const preferUseless = (e: { readonly options: { readonly prefer?: string }; readonly span: Span }, r: Step): void => {
+    if (r.kind === "rule" && !r.optional && e.options.prefer !== undefined)
+      diagnostics.push(diagnostic("warning", "grammar/prefer-obligatory", `rule '${r.name}' is obligatory, so 'prefer' has no effect`, e.span));
+  };
   const emitSlot = (slot: string, depth: number): void => {
     const e = slots.get(slot);
     if (e === undefined || depth > adds.size) return;
@@ -146,10 +151,13 @@ export function applyVariety(
     const o = origins.get(s.name) ?? { name: s.name, defined: at(s.span), added: false, edits: [] };
     if (e?.kind === "replace") {
       const step = e.step.kind === "rule" && s.kind === "rule" ? applyOptions({ ...e.step, optional: s.optional, mode: s.mode, prefer: s.prefer, ...(s.expansion ? { expansion: s.expansion } : {}) } as Rule, e.options) : e.step;
+      if (e.step.kind === "rule") preferUseless(e, step);
       outSteps.push({ ...step, name: s.name });
       outOrigins.push({ ...o, edits: [...o.edits, { kind: "replaced", at: at(e.span) }] });
     } else if (e?.kind === "adjust" && s.kind === "rule") {
-      outSteps.push(applyOptions(s, e.options));
+      const adjusted = applyOptions(s, e.options);
+      preferUseless(e, adjusted);
+      outSteps.push(adjusted);
       outOrigins.push({ ...o, edits: [...o.edits, { kind: "adjusted", at: at(e.span) }] });
     } else {
       outSteps.push(s);

@@ -68,6 +68,14 @@ interface Context {
   readonly diagnostics: Diagnostic[];
 }
 
+function isFolder(p: string): boolean {
+  try {
+    return fs.statSync(p).isDirectory();
+  } catch {
+    return false;
+  }
+}
+
 const shown = (root: string, f: string): string => path.relative(root, f) || path.basename(f);
 
 /** Reads `file` (its text already read) and everything it names; `stack` is the variety chain above it, real paths. */
@@ -79,28 +87,30 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
   if (!isVarietyText(text)) return readPlain(ctx, file, text);
   const v = parseVarietyFile(text, file);
   ctx.diagnostics.push(...v.diagnostics);
-  const b = v.base; // null: a malformed `base`, reported by the parser
   const failed = (): Source => {
     const empty = assembleGrammar(file, [], [file]).grammar;
     return { grammar: empty, origins: [], omitted: [], declared: {}, chain: [file], failed: true };
   };
-  if (b === null) return failed();
-  if (!isInside(ctx.root, b.path)) {
-    ctx.diagnostics.push(diagnostic("error", "grammar/base-outside", `The base '${b.written}' is outside the project root (${ctx.root}); a grammar may name files inside it only (--root names another).`, b.span));
+  if (v.base === null) return failed(); // a malformed `base`, reported by the parser
+  const { written, span } = v.base;
+  // A grammar folder names its grammar.strata, as `-g FOLDER` does.
+  const basePath = isFolder(v.base.path) ? path.join(v.base.path, "grammar.strata") : v.base.path;
+  if (!isInside(ctx.root, basePath)) {
+    ctx.diagnostics.push(diagnostic("error", "grammar/base-outside", `The base '${written}' is outside the project root (${ctx.root}); a grammar may name files inside it only (--root names another).`, span));
     return failed();
   }
-  const cycleAt = stack.indexOf(realPath(b.path));
+  const cycleAt = stack.indexOf(realPath(basePath));
   if (cycleAt >= 0) {
-    const chain = [...stack.slice(cycleAt), realPath(b.path)].map((f) => shown(ctx.root, f));
-    ctx.diagnostics.push(diagnostic("error", "grammar/base-cycle", `The varieties name each other as base in a cycle: ${chain.join(" → ")}.`, b.span));
+    const chain = [...stack.slice(cycleAt), realPath(basePath)].map((f) => shown(ctx.root, f));
+    ctx.diagnostics.push(diagnostic("error", "grammar/base-cycle", `The varieties name each other as base in a cycle: ${chain.join(" → ")}.`, span));
     return failed();
   }
-  const baseRead = readTextFile(b.path, { what: "base grammar", limit: ctx.limit, code: "grammar/base-missing", at: b.span });
+  const baseRead = readTextFile(basePath, { what: "base grammar", limit: ctx.limit, code: "grammar/base-missing", at: span });
   if (!baseRead.ok) {
     ctx.diagnostics.push(baseRead.diagnostic);
     return failed();
   }
-  const base = read(ctx, b.path, baseRead.text, [...stack, realPath(b.path)]);
+  const base = read(ctx, basePath, baseRead.text, [...stack, realPath(basePath)]);
   const files = [file, ...base.grammar.files]; // the main file first, as for includes
   const r = applyVariety(base.grammar, base.origins, v, files);
   ctx.diagnostics.push(...r.diagnostics);

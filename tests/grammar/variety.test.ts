@@ -247,6 +247,18 @@ describe("errors in a variety are positioned at the edit", () => {
     expect(errors(noLists)).toEqual([["grammar/no-list", "v.strata:2:5"]]);
   });
 
+  test("a base given as a grammar folder reads its grammar.strata", () => {
+    const r = load({ "base/grammar.strata": NODE + BASE, "v/v.strata": 'base "../base"\nomit reduce\n' }, "v/v.strata");
+    expect(errors(r)).toEqual([]);
+    expect(r.grammar!.steps.map((s) => s.name)).not.toContain("reduce");
+  });
+
+  test("'prefer' on a rule an edit leaves obligatory is a warning", () => {
+    const r = v("adjust voicing prefer unapplied\nadjust reduce obligatory\n");
+    expect(errors(r)).toEqual([]);
+    expect(r.diagnostics.filter((d) => d.severity === "warning").map((d) => [d.code, at(d)])).toEqual([["grammar/prefer-obligatory", "2:1"]]);
+  });
+
   test("a stress step replaced by a rule, options on a syllabify step", () => {
     expect(errors(v("replace stress:\n  a -> i\nadjust syllabify optional\n"))).toEqual([
       ["grammar/edit-kind", "v.strata:2:9"],
