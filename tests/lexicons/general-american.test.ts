@@ -226,7 +226,7 @@ describe("stress placement", () => {
   });
   test("default stress for unmarked entries: penult if heavy, else antepenult", () => {
     // Chomsky & Halle 1968; Hayes 1982 (from memory): "agenda" (closed penult), "aroma" (tense penult), "America", "cinema" (light penult)
-    expect(derive(general(), "ədʒɛndə").preferred).toBe("əˈdʒɛ̃n.də");
+    expect(derive(general(), "ədʒɛndə").preferred).toBe("əˈdʒɛ̃ːn.də");
     expect(derive(general(), "əɹoʊmə").preferred).toBe("əˈɹoʊ.mə");
     expect(derive(general(), "əmɛɹɪkə").preferred).toBe("əˈmɛ.ɹɪ.kə");
     expect(derive(general(), "sɪnəmə").preferred).toBe("ˈsɪ.nə.mə");
@@ -254,16 +254,19 @@ describe("phonetician's review fixes (each with its source)", () => {
   test("stressed vowels are long before a voiced obstruent that starts the next, unstressed syllable", () => {
     // Peterson & Lehiste 1960; Ladefoged & Johnson ch. 4; Kahn 1976 on ambisyllabic consonants (from
     // memory): as in "bead" and "rider", also before b v ð z ɡ dʒ at the flapping site ("father",
-    // "driver", "yoga"), after ɹ ("organization"), and before an obstruent + glide onset ("figure")
+    // "driver", "yoga"), after one sonorant consonant as in "change" ("organization", "changes",
+    // "shoulder"), and before an obstruent + glide onset ("figure")
     expect(narrow("father")).toBe("ˈfɑː.ðɚ");
     expect(narrow("driver")).toBe("ˈdɹaɪː.vɚ");
     expect(narrow("yoga")).toBe("ˈjoʊː.ɡə");
     expect(narrow("organization")).toMatch(/^ˌɔːɹ\.ɡə/);
+    expect(narrow("changes")).toBe("ˈtʃeɪ̃ːn.dʒəz");
+    expect(narrow("shoulder")).toBe("ˈʃoʊːɫ.dɚ");
     expect(narrow("figure")).toBe("ˈfɪː.ɡjɚ");
-    // not before a voiceless one, not before a stressed syllable, not across another consonant
+    // not before a voiceless one, not before a stressed syllable
     expect(narrow("offer")).toBe("ˈɔ.fɚ");
     expect(narrow("cigar")).toBe("sɪˈɡɑɹ");
-    expect(narrow("shoulder")).toBe("ˈʃoʊɫ.dɚ");
+    expect(narrow("winter")).not.toContain("ː");
   });
   test("t glottalised before a consonant that starts the next syllable (casual; optional, glottal stop preferred)", () => {
     // Ladefoged & Johnson ch. 3; Wells 1982 vol. 3 (from memory): "greatly", "atlas", "outside", "football"
