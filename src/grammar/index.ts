@@ -7,4 +7,5 @@ export { loadGrammar, splitLiterals, GRAMMAR_FILE, type LoadedGrammar } from "./
 export { checkGrammar } from "./check.js";
 export { loadGrammarCached } from "./cache.js";
 export { expandEnvironments, hasEnvironmentNotation, mirrorImages, parenthesisExpansions, MAX_EXPANSIONS, TooManyExpansions } from "./expand.js";
+export { namesJoin, environmentNamesJoin } from "./joins.js";
 export { desugar, insertedBundlesAsSegments, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";
