@@ -26,7 +26,8 @@ import { checkQuoting, readLexicon, type LexiconRow, type RejectedRow } from "./
  *   stands for and the comparison of varieties pairs them.
  * - An override row whose word has no row in the lexicon is rejected (`override/unknown-word`,
  *   also a warning at the word): overrides change words, new words go in the lexicon. One whose key
- *   is the key of a lexicon row that stays is rejected (`override/duplicate-key`).
+ *   is the key of a lexicon row that stays, or of an earlier override row, is rejected
+ *   (`override/duplicate-key`).
  */
 
 /** Override rows of one variety, read whole (override files are small) before the lexicon streams. */
@@ -90,6 +91,7 @@ export class Overrides {
    */
   tail(): ({ kind: "row"; row: LexiconRow; key: string } | RejectedRow)[] {
     const out: ({ kind: "row"; row: LexiconRow; key: string; line: number } | RejectedRow)[] = [...this.rejects];
+    const taken = new Map<string, number>();
     for (const [word, rows] of this.byWord) {
       for (const { row, key } of rows) {
         if (!this.replacedWords.has(word)) {
@@ -97,11 +99,14 @@ export class Overrides {
           continue;
         }
         const other = this.keptKeys.get(key);
-        if (other !== undefined) {
+        const mine = taken.get(key);
+        if (other !== undefined || mine !== undefined) {
+          const whose = other !== undefined ? `of line ${other} of the lexicon, which this variety keeps` : `of line ${mine} of this file`;
           out.push({ kind: "reject", file: row.file, line: row.line, column: this.wordColumn(row), code: "override/duplicate-key",
-            reason: `the key '${key}' is already the key of line ${other} of the lexicon, which this variety keeps (give the override row another id)`, raw: row.raw });
+            reason: `the key '${key}' is already the key ${whose} (give the override row another id)`, raw: row.raw });
           continue;
         }
+        taken.set(key, row.line);
         out.push({ kind: "row", row, key, line: row.line });
       }
     }
