@@ -145,3 +145,22 @@ describe("a synthetic grammar pair: a split", () => {
     expect(q.splits).toEqual([]);
   }, 120_000);
 });
+
+describe("a variety defined by edits of its base (base, replace, omit)", () => {
+  it("an edited rule shows as edited, an omitted one as only in the base; entries and mergers blamed on them", async () => {
+    // /t/ flaps but /d/ does not: an invented variety, to see the edit reported.
+    writeFileSync(join(root, "lexicons", "en-us", "tflap.strata"), 'base "grammar.strata"\nomit glottal-stop\nreplace flapping:\n  t -> ɾ / Vowel (ɹ) _ [+syllabic -stress -nasal]\n');
+    const dir = lexiconFolder(root, "tflap", cmuRows(["parity", "parody", "ladder", "button", "city"]), { general: "grammar.strata", tflap: "tflap.strata" });
+    expect(await build(dir, join(root, "build"))).toBe(0);
+    const p = await pairOf(join(root, "build", "tflap"));
+    expect(p.steps.a.map((s) => [s.step, s.change])).toEqual([["flapping", "edited"], ["glottal-stop", "only-here"]]);
+    expect(p.steps.b.map((s) => [s.step, s.change])).toEqual([["flapping", "edited"]]);
+    const by = new Map(p.differences.map((d) => [d.word, d.rules]));
+    expect(by.get("ladder")).toEqual(["flapping"]);
+    expect(by.get("parody")).toEqual(["flapping"]);
+    expect(by.get("button")).toEqual(["glottal-stop"]);
+    expect(by.has("city")).toBe(false);
+    expect(setWords(p.mergers)).toEqual([[["parity"], ["parody"]]]);
+    expect(p.rules.find((r) => r.rule === "flapping")).toMatchObject({ where: "both", change: "edited" });
+  }, 120_000);
+});
