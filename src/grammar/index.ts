@@ -10,4 +10,5 @@ export { defaultRoot, namedProjectRoot, projectRoot, setProjectRoot, ROOT_MARKER
 export type { StepOrigin, OmittedStep, Where } from "./inherit.js";
 export type { VarietyOrigins, LoadOptions } from "./load.js";
 export { expandEnvironments, hasEnvironmentNotation, mirrorImages, parenthesisExpansions, MAX_EXPANSIONS, TooManyExpansions } from "./expand.js";
+export { namesJoin, environmentNamesJoin } from "./joins.js";
 export { desugar, insertedBundlesAsSegments, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";
