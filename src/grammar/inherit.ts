@@ -68,6 +68,10 @@ export function applyVariety(
   for (const e of v.edits) {
     if (e.kind !== "omit" && e.kind !== "replace" && e.kind !== "adjust") continue;
     const i = baseNames.get(e.target.name);
+    if (i === undefined && v.edits.some((a) => a.kind === "add" && a.step.name === e.target.name)) {
+      err("grammar/unknown-step", `'${e.target.name}' is added by this variety, not a step of the base; write its body and options in its 'add' statement.`, e.target.span);
+      continue;
+    }
     if (i === undefined) { unknown(e.target); continue; }
     const first = editOf.get(e.target.name);
     if (first !== undefined) {
