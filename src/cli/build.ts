@@ -18,7 +18,7 @@ import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
-  listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
+  listOf, loadEngine, rootOption, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
 } from "./common.js";
 
 export interface BuildOptions {
@@ -260,6 +260,7 @@ export function registerBuild(program: Command): void {
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
     .option("--samples <n>", "sample lines to print per variety", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
+  cmd.addOption(rootOption());
   cacheOptions(cmd);
   commonOptions(cmd);
   examples(cmd, [

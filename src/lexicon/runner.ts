@@ -20,6 +20,7 @@ import { stageFolder } from "./outdir.js";
 import { countInputRecords, countWritten, reconcile } from "./reconcile.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
 import { unwritableEntry } from "./writable.js";
+import { asCompound } from "./compound.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
@@ -111,8 +112,9 @@ const BATCH = 1024;
 
 /** `key`: the entry key (see keys.ts; an EntryKeys gives them in file order). */
 export function transcribeRow(engine: Engine, row: LexiconRow, key: string, needs?: Needs): EntryResult | RejectedRow {
-  const t = engine.transcribeWord(row.symbols, needs);
-  if (t === undefined) return outsideAlphabet(row);
+  const t0 = engine.transcribeWord(row.symbols, needs);
+  if (t0 === undefined) return outsideAlphabet(row);
+  const t = asCompound(row, t0, engine.writesSyllables ?? true);
   const bad = unwritableEntry(row, t);
   if (bad !== undefined) return bad;
   return entryOf(row, key, t);
@@ -249,7 +251,7 @@ export async function runLexicon(
           const key = rowKeys.get(item)!;
           rowKeys.delete(item);
           const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-          emitOne(bad ?? entryOf(item, key, t!));
+          emitOne(bad ?? entryOf(item, key, asCompound(item, t!, engine.writesSyllables ?? true)));
         }
         await drain();
       };
