@@ -15,7 +15,8 @@
 // (left-to-right, as Mohri & Sproat's l1/l2 placed after the replacement); right-to-left is the
 // mirror image (left context Σ*·λ·τ on the input at the chunk's end, right context ρ·Σ* on the
 // output after it). Boundary-blind rules project '.' to ε in every context and target check and
-// copy it through without a decision (the paper's "ignore" operation). Exceptions (`unless`,
+// copy it through without a decision (the paper's "ignore" operation); a rule that never names '+'
+// treats joins the same way. Exceptions (`unless`,
 // `longest-first`) need no new filter: where a case's left context holds, the right check it
 // spawns is its right context minus those of the exceptions whose left context holds too. Each decision token then
 // maps to its input:output pairs, giving an acceptor over pair-symbols that the cascade
@@ -23,7 +24,7 @@
 
 import type { ApplicationMode } from "../grammar/ast.js";
 import { ContextTooLargeError, dfaBoolean, dfaProduct, type Dfa } from "./context.js";
-import { EPSILON, SYLL, WORD } from "./alphabet.js";
+import { EPSILON, FIRST_SEGMENT, JOIN, SYLL, WORD } from "./alphabet.js";
 import { CompileLimitError, unbounded, type Budget } from "./budget.js";
 
 /** One alpha-variable assignment × environment of a rule, over symbol ids. */
@@ -42,7 +43,7 @@ export interface RuleCase {
   readonly rightAfter?: number;
   /** A literal change longer than its target: the extra segments, written after the last target segment. */
   readonly tail?: readonly number[];
-  /** A literal change of another length in a boundary-blind rule: the '.' inside the target go after the change. */
+  /** A literal change of another length in a rule blind to '.' or '+': the hidden boundaries inside the target go after the change, in order. */
   readonly dotsAfter?: boolean;
   /**
    * Exceptions (`unless`, longer `longest-first` expansions): the case's site does not hold where
@@ -57,6 +58,8 @@ export interface LoweredRule {
   /** False: obligatory (copy forbidden where a site holds). */
   readonly optional: boolean;
   readonly blind: boolean;
+  /** The rule never names '+': joins are copied through without a decision, like '.' in a boundary-blind rule (absent: false). */
+  readonly joinBlind?: boolean;
   /** Target length (0 = insertion). */
   readonly n: number;
   readonly cases: readonly RuleCase[];
@@ -100,6 +103,11 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
   const maxStates = budget.limits.ruleStates;
   const tooLarge = (): CompileLimitError => new CompileLimitError("states", budget.part, maxStates);
   const { size, n, cases, lefts, blind, mode } = r;
+  /** Boundaries the rule cannot see: '.' when boundary-blind, '+' when it never names '+'. */
+  const hidden = new Uint8Array(size);
+  if (blind) hidden[SYLL] = 1;
+  if (r.joinBlind === true) hidden[JOIN] = 1;
+  const anyHidden = blind || r.joinBlind === true;
   /** The rule's right-context checkers, then the exception-reduced ones made on demand (see `eff`). */
   const rights: Dfa[] = [...r.rights];
   const obligatory = !r.optional;
@@ -137,7 +145,8 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
   // cases d whose left context held at the chunk's start and whose target matches so far, each
   // with how d's change compares with c's so far (0 equal, 1 d sorts first). At the chunk's end
   // every d that sorts first must not hold (its right context is then checked as a negative).
-  // d: '.' held back inside a chunk whose change has another length (written after the change).
+  // d: hidden boundaries held back inside a chunk whose change has another length (written after
+  // the change, in order): their symbol ids as base-4 digits, the first held back the most significant.
   type State = { s: number; p: Int32Array; v: Pending[]; cmp: readonly number[]; d: number };
   const keyOf = (st: State): string => {
     let k = `${st.s}|${st.d}|${st.p.join(",")}|${st.cmp.join(",")}|`;
@@ -158,7 +167,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     return id;
   };
 
-  const project = (sym: number): number => (sym === EPSILON || (blind && sym === SYLL) ? EPSILON : sym);
+  const project = (sym: number): number => (sym === EPSILON || hidden[sym] === 1 ? EPSILON : sym);
 
   /** Advances a working state over one pair; returns false if it died. */
   const stepPair = (p: Int32Array, v: Pending[], inp: number, outp: number): Pending[] | null => {
@@ -383,7 +392,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     const lastPairs = (c: RuleCase, x: number, y: number, dots: number): number[] => {
       const out = [x, y];
       for (const t of c.tail ?? []) out.push(EPSILON, t);
-      for (let i = 0; i < dots; i++) out.push(EPSILON, SYLL);
+      for (const h of heldBack(dots)) out.push(EPSILON, h);
       return out;
     };
 
@@ -397,7 +406,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
         nextS = 0;
         nextD = 0;
         nextCmp = [];
-        if (blind && x === SYLL) { go([x, x], none); continue; }
+        if (hidden[x] === 1) { go([x, x], none); continue; }
         // Left contexts are judged before x, or after it when they include the target (right-to-left).
         const pl = rtl ? advanceLeft(st.p, x) : st.p;
         const holding = cases.filter((c) => c.target[0]![x] === 1 && leftHolds(pl, c));
@@ -434,7 +443,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
       const forbid = obligatory ? anyOf(holding.map((c) => eff(c, st.p))) : NONE;
       for (const x of domain) {
         nextS = 0;
-        go([x, x], (k, _p, v) => (k === 0 && !(blind && x === SYLL) ? spawnAt(v, forbid, false) : true));
+        go([x, x], (k, _p, v) => (k === 0 && hidden[x] === 0 ? spawnAt(v, forbid, false) : true));
       }
       const groups = new Map<string, { ins: number[]; rights: number[] }>();
       for (const c of holding) {
@@ -447,7 +456,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
         const check = anyOf(g.rights);
         const m = g.ins.length / 2;
         for (const x of domain) {
-          if (!(x === WORD || x >= 3 || (x === SYLL && !blind))) continue;
+          if (!(x === WORD || x >= FIRST_SEGMENT || ((x === SYLL || x === JOIN) && hidden[x] === 0))) continue;
           nextS = 0;
           go([...g.ins, x, x], (k, _p, v) => (k === (rtl ? m : 0) ? spawnAt(v, check, true) : true));
         }
@@ -456,7 +465,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
       // Targets of several segments: a copy needs no case to hold; a rewrite starts a chunk of one case.
       for (const x of domain) {
         nextS = 0;
-        if ((blind && x === SYLL) || !obligatory) { go([x, x], none); continue; }
+        if (hidden[x] === 1 || !obligatory) { go([x, x], none); continue; }
         go([x, x], (k, p, v) => (k === (rtl ? 1 : 0) ? forbidSites(p, v) : true));
       }
       cases.forEach((c, ci) => {
@@ -477,17 +486,20 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
       const ci = Math.floor((st.s - 1) / n);
       const j = (st.s - 1) % n;
       const c = cases[ci]!;
-      if (blind) {
-        nextS = st.s;
-        nextCmp = st.cmp;
-        // Dots inside the target: copied in place, or held back (at most 8) after a change of another length.
-        if (c.dotsAfter !== true) { nextD = st.d; go([SYLL, SYLL], none); }
-        else if (st.d < 8) { nextD = st.d + 1; go([SYLL, EPSILON], none); }
+      if (anyHidden) {
+        // Hidden boundaries inside the target: copied in place, or held back (at most 8) after a change of another length.
+        for (const h of [SYLL, JOIN]) {
+          if (hidden[h] === 0) continue;
+          nextS = st.s;
+          nextCmp = st.cmp;
+          if (c.dotsAfter !== true) { nextD = st.d; go([h, h], none); }
+          else if (heldBack(st.d).length < 8) { nextD = st.d * 4 + h; go([h, EPSILON], none); }
+        }
       }
       const tj = c.target[j]!;
       const oj = c.out[j]!;
       for (const x of domain) {
-        if (!tj[x] || (blind && x === SYLL)) continue;
+        if (!tj[x] || hidden[x] === 1) continue;
         const y = oj[x]!;
         if (y < 0) continue;
         nextS = j + 1 === n ? 0 : st.s + 1;
@@ -519,6 +531,13 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     if (arcs[i + 3]! < 0) arcs[i + 3] = base - arcs[i + 3]!;
   }
   return { states: states.length + mids, start: 0, finals, arcs: Int32Array.from(arcs) };
+}
+
+/** The boundaries held back in a chunk, in order (the base-4 digits of `d`; see State.d). */
+function heldBack(d: number): number[] {
+  const out: number[] = [];
+  for (let x = d; x > 0; x = Math.floor(x / 4)) out.unshift(x % 4);
+  return out;
 }
 
 /** The mirror image of a pair NFA (arcs reversed, start and finals swapped through a fresh start). */
