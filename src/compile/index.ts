@@ -197,7 +197,8 @@ export function compileSteps(
 
 /**
  * The segments of `words` an alphabet lacks, with prosody cleared and each once (key order): what
- * `extraSegments` needs so that the machines accept the words.
+ * `extraSegments` needs so that the machines accept the words. A segment the alphabet has only
+ * because a step makes it (outside the first step's domain) is lacking too.
  */
 export function segmentsOutside(alphabet: Alphabet, inv: Inventory, words: readonly (readonly Sym[])[]): Bundle[] {
   const si = inv.featureIndex.get("stress");
@@ -205,7 +206,9 @@ export function segmentsOutside(alphabet: Alphabet, inv: Inventory, words: reado
   const found = new Map<string, Bundle>();
   for (const w of words) {
     for (const s of w) {
-      if (s.kind !== "segment" || alphabet.byKey.has(bundleKey(s.bundle))) continue;
+      if (s.kind !== "segment") continue;
+      const id = alphabet.byKey.get(bundleKey(s.bundle));
+      if (id !== undefined && (alphabet.domains[0] === undefined || alphabet.domains[0][id] === 1)) continue;
       const b = [...s.bundle];
       if (si !== undefined) b[si] = "0";
       if (pi !== undefined) b[pi] = "0";
@@ -369,12 +372,14 @@ function assemble(
 ): Compiled {
   const preferred = new PreferredRunner(preferredBlocks, kinds, frozen, budget);
   const variantsRunner = new VariantsRunner(variantBlocks);
+  // A segment only a step makes (not in the first step's domain) is outside what the machines read.
+  const first = alphabet.domains[0];
   const encode = (word: readonly Sym[]): number[] | null => {
     const out: number[] = [];
     for (const s of word) {
       if (s.kind === "boundary") { out.push(s.which === "word" ? WORD : s.which === "join" ? JOIN : SYLL); continue; }
       const id = alphabet.byKey.get(bundleKey(s.bundle));
-      if (id === undefined) return null;
+      if (id === undefined || (first !== undefined && first[id] !== 1)) return null;
       out.push(id);
     }
     return out;

@@ -23,7 +23,7 @@
 // determinises and minimises (pairs.ts).
 
 import type { ApplicationMode } from "../grammar/ast.js";
-import { dfaProduct, type Dfa } from "./context.js";
+import { ContextTooLargeError, dfaBoolean, dfaProduct, type Dfa } from "./context.js";
 import { EPSILON, FIRST_SEGMENT, JOIN, SYLL, WORD } from "./alphabet.js";
 import { CompileLimitError, unbounded, type Budget } from "./budget.js";
 
@@ -88,6 +88,9 @@ export interface PairNfa {
 }
 
 interface Pending { b: number; q: number; pos: boolean }
+
+/** No check: the decision has no case to judge. */
+const NONE = -1;
 
 /**
  * Builds the rule's relation as an NFA over input:output pairs (ε-free on neither side in general:
@@ -195,6 +198,56 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     return true;
   };
 
+  /** Adds a check that may be NONE (no case: a positive check fails, a negative one holds). */
+  const spawnAt = (v: Pending[], b: number, pos: boolean): boolean => (b === NONE ? !pos : spawn(v, b, pos));
+
+  // Combined checks. Where several cases are judged at one decision, their right checks become
+  // one DFA (a boolean combination of theirs, minimised; made once per combination), so a state
+  // carries at most one new pending check per position instead of one per case.
+  const comboIndex = new Map<string, number>();
+  const combine = (kind: string, groups: readonly (readonly number[])[], f: (any: readonly boolean[]) => boolean): number => {
+    const sorted = groups.map((g) => [...new Set(g)].sort((a, b) => a - b));
+    const key = `${kind}|${sorted.map((g) => g.join(",")).join("|")}`;
+    let i = comboIndex.get(key);
+    if (i === undefined) {
+      const members = [...new Set(sorted.flat())].sort((a, b) => a - b);
+      const at = sorted.map((g) => g.map((b) => members.indexOf(b)));
+      const limit = budget.limits.contextStates;
+      let d: Dfa;
+      try {
+        d = dfaBoolean(members.map((b) => rights[b]!), (acc) => f(at.map((g) => g.some((j) => acc[j]))), limit, budget.tick);
+      } catch (e) {
+        if (e instanceof ContextTooLargeError) throw new CompileLimitError("states", `the right contexts combined by ${budget.part}`, limit);
+        throw e;
+      }
+      i = rights.length;
+      rights.push(d);
+      comboIndex.set(key, i);
+    }
+    return i;
+  };
+  /** Some of the checks holds. */
+  const anyOf = (bs: readonly number[]): number => {
+    const u = [...new Set(bs)];
+    return u.length === 0 ? NONE : u.length === 1 ? u[0]! : combine("or", [u], (g) => g[0]!);
+  };
+  /** Some of `bs` holds and none of `not`. */
+  const anyBut = (bs: readonly number[], not: readonly number[]): number =>
+    not.length === 0 ? anyOf(bs) : combine("but", [bs, not], (g) => g[0]! && !g[1]!);
+  /**
+   * The negative check of a pair x:x that is both a copy and a rewrite to x: it is written where no
+   * case holds (`all`) or where a case with output x holds (`same`) and none sorting first (`better`).
+   */
+  const keepOrCopy = (all: readonly number[], same: readonly number[], better: readonly number[]): number =>
+    combine("keep", [all, same, better], (g) => g[0]! && !(g[1]! && !g[2]!));
+  /** The left-context states after reading input symbol x. */
+  const advanceLeft = (p: Int32Array, x: number): Int32Array => {
+    const q = Int32Array.from(p);
+    const l = project(x);
+    if (l !== EPSILON) for (let i = 0; i < nl; i++) q[i] = lefts[i]!.next[q[i]! * size + l]!;
+    return q;
+  };
+
   const leftHolds = (p: Int32Array, c: RuleCase): boolean => lefts[c.left]!.accept[p[c.left]!] === 1;
 
   // Exceptions. Where a case's left context holds, its site holds iff its right context does and no
@@ -220,11 +273,8 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     return i;
   };
 
-  /** Negative checks for a copy decision: no case's site may hold here. */
-  const forbidSites = (p: Int32Array, v: Pending[]): boolean => {
-    for (const c of cases) if (leftHolds(p, c) && !spawn(v, eff(c, p), false)) return false;
-    return true;
-  };
+  /** The negative check for a copy decision: no case's site may hold here. */
+  const forbidSites = (p: Int32Array, v: Pending[]): boolean => spawnAt(v, anyOf(cases.filter((c) => leftHolds(p, c)).map((c) => eff(c, p))), false);
 
   // Subsumption among pending checks: for negative checks only the largest languages matter (the
   // path fails if any accepts), for positive ones only the smallest (all must accept); a positive
@@ -346,38 +396,79 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
       return out;
     };
 
-    if (st.s === 0) {
-      // Copy decisions (and '.' passed through by boundary-blind rules).
+    if (st.s === 0 && n === 1) {
+      // One-segment targets: one decision per output pair. The cases that could rewrite x here
+      // are judged together: rewriting to y needs some case with that output to hold (one
+      // positive check, the union of their right contexts) and, in the preferred variant, no
+      // case with an output that sorts first; a copy needs no case to hold (one negative check).
+      // A rewrite to x itself is the same pair as the copy and is folded into it.
       for (const x of domain) {
         nextS = 0;
+        nextD = 0;
+        nextCmp = [];
         if (hidden[x] === 1) { go([x, x], none); continue; }
-        if (!obligatory) { go([x, x], none); continue; }
-        if (n === 0) {
-          go([x, x], (k, p, v) => (k === 0 ? forbidSites(p, v) : true));
-        } else if (rtl) {
-          go([x, x], (k, p, v) => (k === 1 ? forbidSites(p, v) : true));
-        } else {
-          go([x, x], (k, p, v) => (k === 0 ? forbidSites(p, v) : true));
+        // Left contexts are judged before x, or after it when they include the target (right-to-left).
+        const pl = rtl ? advanceLeft(st.p, x) : st.p;
+        const holding = cases.filter((c) => c.target[0]![x] === 1 && leftHolds(pl, c));
+        const all = holding.map((c) => eff(c, pl));
+        const groups = new Map<string, { pairs: number[]; y: number; rights: number[] }>();
+        for (const c of holding) {
+          const y = c.out[0]![x]!;
+          if (y < 0) continue;
+          const pairs = lastPairs(c, x, y, 0);
+          const key = pairs.join(",");
+          let g = groups.get(key);
+          if (g === undefined) { g = { pairs, y, rights: [] }; groups.set(key, g); }
+          g.rights.push(eff(c, pl));
+        }
+        let copyCheck = obligatory ? anyOf(all) : NONE;
+        for (const g of groups.values()) {
+          const better = prefer
+            ? holding.filter((d) => { const o = d.out[0]![x]!; return o >= 0 && keys[o]! < keys[g.y]!; }).map((d) => eff(d, pl))
+            : [];
+          if (g.pairs.length === 2 && g.y === x) {
+            if (obligatory) copyCheck = keepOrCopy(all, g.rights, better);
+            continue;
+          }
+          const check = anyBut(g.rights, better);
+          const end = g.pairs.length / 2;
+          go(g.pairs, (k, _p, v) => (k === (rtl ? end : 0) ? spawnAt(v, check, true) : true));
+        }
+        go([x, x], (k, _p, v) => (k === (rtl ? 1 : 0) ? spawnAt(v, copyCheck, false) : true));
+      }
+    } else if (st.s === 0 && n === 0) {
+      // Insertions: a copy needs no case to hold; an insertion needs some case with that string
+      // to hold (one check per decision, as above).
+      const holding = cases.filter((c) => leftHolds(st.p, c));
+      const forbid = obligatory ? anyOf(holding.map((c) => eff(c, st.p))) : NONE;
+      for (const x of domain) {
+        nextS = 0;
+        go([x, x], (k, _p, v) => (k === 0 && hidden[x] === 0 ? spawnAt(v, forbid, false) : true));
+      }
+      const groups = new Map<string, { ins: number[]; rights: number[] }>();
+      for (const c of holding) {
+        const key = c.insert.join(",");
+        let g = groups.get(key);
+        if (g === undefined) { g = { ins: c.insert.flatMap((y) => [EPSILON, y]), rights: [] }; groups.set(key, g); }
+        g.rights.push(eff(c, st.p));
+      }
+      for (const g of groups.values()) {
+        const check = anyOf(g.rights);
+        const m = g.ins.length / 2;
+        for (const x of domain) {
+          if (!(x === WORD || x >= FIRST_SEGMENT || ((x === SYLL || x === JOIN) && hidden[x] === 0))) continue;
+          nextS = 0;
+          go([...g.ins, x, x], (k, _p, v) => (k === (rtl ? m : 0) ? spawnAt(v, check, true) : true));
         }
       }
-      // Rewrite decisions.
-      cases.forEach((c) => {
-        if (n === 0) {
-          if (!rtl && !leftHolds(st.p, c)) return;
-          if (rtl && !leftHolds(st.p, c)) return;
-          const ins: number[] = [];
-          for (const y of c.insert) ins.push(EPSILON, y);
-          const m = c.insert.length;
-          for (const x of domain) {
-            if (!(x === WORD || x >= FIRST_SEGMENT || ((x === SYLL || x === JOIN) && hidden[x] === 0))) continue;
-            nextS = 0;
-            go([...ins, x, x], (k, p, v) => {
-              if (rtl ? k === m : k === 0) return spawn(v, eff(c, p), true);
-              return true;
-            });
-          }
-          return;
-        }
+    } else if (st.s === 0) {
+      // Targets of several segments: a copy needs no case to hold; a rewrite starts a chunk of one case.
+      for (const x of domain) {
+        nextS = 0;
+        if (hidden[x] === 1 || !obligatory) { go([x, x], none); continue; }
+        go([x, x], (k, p, v) => (k === (rtl ? 1 : 0) ? forbidSites(p, v) : true));
+      }
+      cases.forEach((c, ci) => {
         if (!rtl && !leftHolds(st.p, c)) return;
         const t0 = c.target[0]!;
         const o0 = c.out[0]!;
@@ -385,22 +476,10 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
           if (!t0[x]) continue;
           const y = o0[x]!;
           if (y < 0) continue;
-          nextS = n === 1 ? 0 : 1 + cases.indexOf(c) * n + 1;
+          nextS = 1 + ci * n + 1;
           nextCmp = preferLong ? compareStep(cases.flatMap((d, di) => (d !== c && (rtl || leftHolds(st.p, d)) ? [di, 0, rtl ? -1 : eff(d, st.p, true)] : [])), c, 0, x) : [];
-          // Cases whose change on x sorts before this one must not hold here (preferred variant).
-          const better = prefer ? cases.filter((d) => d !== c && d.target[0]![x] && d.out[0]![x]! >= 0 && keys[d.out[0]![x]!]! < keys[y]!) : [];
-          const excludeBetter = (p: Int32Array, v: Pending[]): boolean => {
-            for (const d of better) if (leftHolds(p, d) && !spawn(v, eff(d, p), false)) return false;
-            return true;
-          };
-          const pairs = n === 1 ? lastPairs(c, x, y, 0) : [x, y];
-          const end = pairs.length / 2;
           nextD = 0;
-          go(pairs, (k, p, v) => {
-            if (!rtl) return k === 0 ? spawn(v, eff(c, p), true) && excludeBetter(p, v) : true;
-            if (n === 1 && k === end) return leftHolds(p, c) && spawn(v, eff(c, p), true) && excludeBetter(p, v);
-            return true;
-          });
+          go([x, y], (k, p, v) => (!rtl && k === 0 ? spawnAt(v, eff(c, p), true) : true));
         }
       });
     } else {

@@ -51,12 +51,15 @@ function checkGrammar(g: Grammar, words: Sym[][]): void {
   const c = res.compiled!;
   for (const w of words) {
     const ids = c.encode(w)!;
-    const run = applyGrammar(g, inv, w, interpOptsOf(g));
     const v = c.variants(ids, 2000);
-    if (run.capped || v.capped) continue;
-    const got = v.outputs.map((o) => wordKey(c.decode(o))).sort();
-    const exp = run.outputs.map(wordKey).sort();
-    expect(got, `word ${wordKey(w)}`).toEqual(exp);
+    // Past the cap only the preferred output is compared: the interpreter keeps up to the cap per
+    // variant and step, which for optional rules applying everywhere is millions of words.
+    const run = applyGrammar(g, inv, w, v.capped ? { ...interpOptsOf(g), maxVariants: 16 } : interpOptsOf(g));
+    if (!run.capped && !v.capped) {
+      const got = v.outputs.map((o) => wordKey(c.decode(o))).sort();
+      const exp = run.outputs.map(wordKey).sort();
+      expect(got, `word ${wordKey(w)}`).toEqual(exp);
+    }
     const out: number[] = [];
     expect(c.preferred.run(ids, out)).toBe(true);
     expect(wordKey(c.decode(out)), `preferred of ${wordKey(w)}`).toBe(wordKey(run.preferred));
