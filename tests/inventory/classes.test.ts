@@ -91,7 +91,7 @@ describe("naturalClasses", () => {
 
   it("every bundle returned picks out exactly the set (en-us, several sets)", () => {
     const inv = enUs();
-    for (const set of [["p", "t", "k"], ["m", "n", "ŋ"], ["i", "u"], ["eɪ", "aɪ", "ɔɪ", "aʊ", "oʊ", "ʌɪ", "ʌʊ", "ɪə", "ɛə", "ʊə"], ["s", "z", "ʃ", "ʒ", "tʃ", "dʒ"]]) {
+    for (const set of [["p", "t", "k"], ["m", "n", "ŋ"], ["i", "u"], ["eɪ", "aɪ", "ɔɪ", "aʊ", "oʊ"], ["s", "z", "ʃ", "ʒ", "tʃ", "dʒ"]]) {
       const r = naturalClasses(inv, set);
       expect(r.exact.length).toBeGreaterThan(0);
       for (const b of r.exact) expect(ext(inv, b).sort()).toEqual([...set].sort());

@@ -1,8 +1,9 @@
-// The Canadian variety (lexicons/en-us/canadian.strata: General American + Canadian raising + the
+// The Canadian variety (lexicons/en-ca/grammar.strata: General American + Canadian raising + the
 // low-back merger) on CMU Pronouncing Dictionary words, each fact with its source beside it, checked
 // with the reference interpreter and through the real `strata build`.
 
 import { beforeAll, describe, expect, test } from "vitest";
+import { analyseInteractions, RELATIONS } from "../../src/analyze/interactions.js";
 import { cmu, derive, grammarAt, variety } from "./harness.js";
 import { CANADIAN, buildNarrow, type Row } from "./variety-build.js";
 
@@ -95,4 +96,25 @@ describe("through the real build", () => {
     // Labov, Ash & Boberg 2006 (from memory): the low-back merger makes caught and cot homophones
     expect(at("caught")).toBe(at("cot"));
   });
+});
+
+describe("the exact interaction analysis of the Canadian grammar (strata interactions)", () => {
+  test("raising counterbleeds flapping and the glottal stop; the merger interacts with nothing", () => {
+    const v = canadian();
+    const r = analyseInteractions(v.grammar, v.inventory);
+    expect(r.diagnostics).toEqual([]);
+    const name = (i: number): string => r.report!.steps[i]!.name;
+    const ours = (i: number): boolean => name(i) === "canadian-raising" || name(i) === "low-back-merger";
+    const involving = r.report!.pairs
+      .filter((p) => ours(p.a) || ours(p.b))
+      .flatMap((p) => RELATIONS.filter((k) => p.relations[k].decided && p.relations[k].value !== null).map((k) => [name(p.a), k, name(p.b)]));
+    // every pair decided (no analysis gave up on a limit)
+    expect(r.report!.pairs.filter((p) => (ours(p.a) || ours(p.b)) && RELATIONS.some((k) => !p.relations[k].decided))).toEqual([]);
+    // Joos 1942; Chambers 1973 (from memory): the raised vowel survives the flap ("writer") and, by the
+    // same order, the glottal stop before syllabic n ("frighten")
+    expect(involving).toEqual([
+      ["canadian-raising", "counterbleeds", "flapping"],
+      ["canadian-raising", "counterbleeds", "glottal-stop"],
+    ]);
+  }, 600_000);
 });

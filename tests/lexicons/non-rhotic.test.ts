@@ -1,4 +1,4 @@
-// The non-rhotic variety (lexicons/en-us/non-rhotic.strata: General American + the low-back merger +
+// The non-rhotic variety (lexicons/en-us-nonrhotic/grammar.strata: General American + the low-back merger +
 // r dropping with linking r, approximating Eastern New England) on CMU Pronouncing Dictionary words,
 // each fact with its source beside it, checked with the reference interpreter and through the real build.
 

@@ -9,8 +9,8 @@ import { fileURLToPath } from "node:url";
 import { cli } from "../cli/helpers.js";
 
 const LEXICONS = fileURLToPath(new URL("../../lexicons/", import.meta.url));
-export const CANADIAN = join(LEXICONS, "en-us", "canadian.strata");
-export const NON_RHOTIC = join(LEXICONS, "en-us", "non-rhotic.strata");
+export const CANADIAN = join(LEXICONS, "en-ca", "grammar.strata");
+export const NON_RHOTIC = join(LEXICONS, "en-us-nonrhotic", "grammar.strata");
 
 /** One cache for every test file of a run (keys are content hashes, so sharing is safe). */
 const CACHE = join(tmpdir(), "strata-test-cache");
