@@ -33,6 +33,7 @@ export interface MachineEngineOptions {
 
 export class MachineEngine implements Engine {
   readonly steps: readonly string[];
+  readonly writesSyllables: boolean;
   private readonly view: SymbolView;
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
@@ -62,6 +63,7 @@ export class MachineEngine implements Engine {
     private readonly render: { readonly syllables: boolean; readonly derivations?: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
+    this.writesSyllables = render.syllables;
     this.view = symbolView(compiled.alphabet, inventory);
     this.broadView = symbolView(broad.alphabet, inventory);
     this.enc = new SymbolEncoder(compiled);
@@ -118,7 +120,7 @@ export class MachineEngine implements Engine {
     const bout = this.bout;
     bout.length = 0;
     if (!this.broad.preferred.run(bids, bout)) return undefined;
-    const broadText = renderIpa(bout, this.broadView, this.render);
+    const broadText = renderIpa(bout, this.broadView, { ...this.render, joins: true });
     // Blame runs every step on its own; the same runs tell the screen whether variants can exist.
     const wantRules = needs.rules === true && this.stepwise !== null;
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
