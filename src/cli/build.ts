@@ -16,6 +16,7 @@ import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from
 import { checkBuildPins, readPins } from "../regress/pinned.js";
 import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
+import { STRESS_REPORT, stressLine, stressTotal } from "../lexicon/hygiene.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
   listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
@@ -40,6 +41,8 @@ export interface BuildOptions {
   cacheDir?: string;
   /** The summaries as one JSON document on stdout instead of the text report. */
   json?: boolean;
+  /** Exit 4 when any stress problem is found (after writing every output). */
+  strict?: boolean;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
@@ -149,6 +152,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
         sourceRoot: dirname(manifest.file),
+        assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress"),
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
@@ -165,6 +169,11 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     const fileProblems = summary.fileDiagnostics;
     if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
     printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...summary.outputErrors], { quiet });
+    // Stress hygiene: one line per variety on stderr; --strict fails on any problem.
+    if (summary.stress !== undefined) {
+      if (!quiet) process.stderr.write(`strata: ${variety.name}: ${stressLine(summary.stress, STRESS_REPORT)}\n`);
+      if (o.strict === true && stressTotal(summary.stress) > 0) checksFailed = true;
+    }
     let check: { compared: number; mismatches: { line: number; word: string; machine: string; interpreter: string }[] } | undefined;
     if (o.check !== undefined) {
       const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
@@ -173,7 +182,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       if (res.mismatches.length > 0) checksFailed = true;
     }
     if (o.json === true) {
-      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
+      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, reconciled: summary.reconciled, words: summary.words, ...(summary.stress !== undefined ? { stress: summary.stress } : {}), entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
       if (!quiet) printSummary(summary, compileMs, outDir, o.samples ?? 6);
       if (check !== undefined) {
@@ -252,6 +261,7 @@ export function registerBuild(program: Command): void {
     .option("-d, --variety <name>", "build only this variety (its name in varieties.json)")
     .option("--format <formats>", `outputs to write, comma-separated or repeated (${ALL_FORMATS.join(", ")}; default: all)`, listOf(ALL_FORMATS))
     .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .option("--strict", `exit 4 when an entry has a stress problem (listed in each variety's ${STRESS_REPORT}); every output is still written`)
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
     .option("--check <n>", "also compare the first N entries with the reference interpreter (exit 4 when they differ)", positiveInt)
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
@@ -264,6 +274,7 @@ export function registerBuild(program: Command): void {
     ["strata build", "the shipped demo → build/demo/<variety>/"],
     ["strata build lexicons/demo -d careful --format tsv,pls", "one variety, two outputs"],
     ["strata build my-voice -o out --allow-rejects -q", "errors only; rejects do not fail the run"],
+    ["strata build my-voice --strict", "exit 4 when stress.csv lists any stress problem"],
   ]);
   cmd.action(async (dir: string | undefined, opts: BuildCliOptions) => {
     process.exitCode = await runBuild(dir, opts);

@@ -17,6 +17,7 @@ import {
 } from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
+import { StressHygiene, stressLine, stressTotal } from "../lexicon/hygiene.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
 
@@ -36,6 +37,10 @@ export interface TranscribeOptions {
   quiet?: boolean;
   /** Standard input when the file is `-` or absent (default: process.stdin). */
   input?: NodeJS.ReadableStream;
+  /** Exit 4 when any stress problem is found (after writing the output). */
+  strict?: boolean;
+  /** Where to write the stress problems as CSV (lexicon/hygiene.ts); none when absent. */
+  stressReport?: string;
 }
 
 /** A BCP 47 tag for `--lang` (RFC 5646 well-formedness, as PLS xml:lang needs). */
@@ -56,6 +61,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   const paths =
     (fromStdin ? undefined : checkInputFile(file, [], "lexicon")) ??
     (o.out !== undefined ? checkOutputPath(o.out, ["-o", "--out"], "file") ?? checkNotAnInput({ value: o.out, flags: ["-o", "--out"] }, fromStdin ? [] : [file]) : undefined) ??
+    (o.stressReport !== undefined ? checkOutputPath(o.stressReport, ["--stress-report"], "file") ?? checkNotAnInput({ value: o.stressReport, flags: ["--stress-report"] }, [...(fromStdin ? [] : [file]), ...(o.out !== undefined ? [o.out] : [])]) : undefined) ??
     (!isWellFormedLanguageTag(lang) ? commandLineError("cli/bad-language-tag", `The variety's language tag '${lang}' is not a well-formed BCP 47 tag; give --lang.`, o.variety, ["-d", "--variety"]) : undefined);
   if (paths !== undefined) {
     printDiagnostics([paths]);
@@ -105,6 +111,8 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   const needs: Needs = format === "tsv" ? NARROW_ONLY : format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
   if (format === "tsv") await write(tsvHeader());
   const keys = new EntryKeys();
+  // Stress hygiene of every entry written (the checks strata lint makes; lexicon/hygiene.ts).
+  const hygiene = new StressHygiene({ inventory: loaded.inventory, assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress") });
   try {
     for await (const batch of reader.batches()) {
       for (const item of batch) {
@@ -132,6 +140,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
             pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
           }
         }
+        if (item.kind === "row") hygiene.observe(item, r.key);
         entries++;
       }
       // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.
@@ -150,9 +159,13 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   printDiagnostics(reader.diagnostics, { quiet: o.quiet === true });
   const failed = reader.diagnostics.some((d) => d.severity === "error");
   if (!failed && chunks.length > 0) await writeFileAtomic(o.out!, chunks);
+  if (!failed && o.stressReport !== undefined) await writeFileAtomic(o.stressReport, hygiene.report());
   const stats = reader.stats;
   if (o.quiet !== true) process.stderr.write(`strata: ${plural(stats.dataLines, "row")} read = ${entries} written + ${rejects} rejected\n`);
+  const stress = hygiene.summary();
+  if (o.quiet !== true && !failed) process.stderr.write(`strata: ${stressLine(stress, o.stressReport)}\n`);
   if (failed) return EXIT.badInput;
+  if (o.strict === true && stressTotal(stress) > 0) return EXIT.checksFailed;
   if (rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
   return EXIT.ok;
 }
@@ -167,6 +180,8 @@ export function registerTranscribe(program: Command): void {
     .addOption(new Option("--format <format>", "what to write").choices(TRANSCRIBE_FORMATS).default("tsv"))
     .option("--lang <tag>", "BCP 47 tag for PLS xml:lang (default: the variety's lang in varieties.json, else und)", languageTag)
     .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .option("--strict", "exit 4 when an entry has a stress problem (the checks of strata lint); the output is still written")
+    .option("--stress-report <file>", "write the stress problems as CSV, one line each (file, line, column, key, word, severity, code, message)")
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)");
   outOption(cmd, "file");
@@ -176,6 +191,7 @@ export function registerTranscribe(program: Command): void {
     ["strata transcribe -g lexicons/en-us lexicons/demo/lexicon.csv", "TSV on standard output"],
     ["strata transcribe -g lexicons/demo -d careful --format pls -o careful.pls words.csv", "a variety's PLS, written whole"],
     ["printf 'word,pron\\nkettle,ˈkɛtəl\\n' | strata transcribe -g lexicons/en-us --format jsonl", "from standard input"],
+    ["strata transcribe -g lexicons/en-us --strict --stress-report stress.csv words.csv", "exit 4 on stress problems, listed in stress.csv"],
   ]);
   cmd.action(async (file: string | undefined, o: TranscribeOptions) => {
     process.exitCode = await runTranscribe(file, o);

@@ -19,6 +19,8 @@ import { stageFolder } from "./outdir.js";
 import { countInputRecords, countWritten, reconcile } from "./reconcile.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
 import { unwritableEntry } from "./writable.js";
+import { StressHygiene, STRESS_REPORT, type StressSummary } from "./hygiene.js";
+import { reconcileStressReport } from "./reconcile-stress.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
@@ -32,6 +34,8 @@ export interface RunOptions {
   readonly pool?: WorkerPool;
   /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
   readonly sourceRoot?: string;
+  /** Whether the grammar has a `stress` step (default: the engine has a step named `stress`); for the stress checks. */
+  readonly assignsStress?: boolean;
 }
 
 export interface RunSummary {
@@ -62,6 +66,8 @@ export interface RunSummary {
   readonly seconds: number;
   /** The written files account for every input record exactly once (lexicon/reconcile.ts). */
   readonly reconciled: boolean;
+  /** Stress problems and policies (lexicon/hygiene.ts); absent when the run failed. */
+  readonly stress?: StressSummary;
 }
 
 /** Transcribes one read row through the engine; a row the machine cannot take becomes a reject. */
@@ -174,7 +180,10 @@ export async function runLexicon(
     if (r === undefined) relFiles.set(f, (r = relativeTo(root, f)));
     return r;
   };
-  const emitOne = (r: EntryResult | RejectedRow): void => {
+  // Stress hygiene of every entry written, in output order (lexicon/hygiene.ts).
+  const hygiene = new StressHygiene({ inventory, assignsStress: opts.assignsStress ?? engine.steps.includes("stress") }, relFile);
+  const emitOne = (r: EntryResult | RejectedRow, row?: LexiconRow | RejectedRow | EntryResult): void => {
+    if (r.kind === "entry" && row?.kind === "row") hygiene.observe(row, r.key);
     if (r.kind === "reject") {
       rejects.push(r);
       return;
@@ -206,7 +215,7 @@ export async function runLexicon(
         for (const item of batch) {
           seen++;
           if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
-          emitOne(item.kind === "row" ? transcribeRow(engine, item, keys.next(item.word, item.id)) : item);
+          emitOne(item.kind === "row" ? transcribeRow(engine, item, keys.next(item.word, item.id)) : item, item);
         }
         await drain();
       }
@@ -216,20 +225,22 @@ export async function runLexicon(
       let items: (LexiconRow | RejectedRow | EntryResult)[] = [];
       let words: { ids: number[]; bids: number[] }[] = [];
       const rowKeys = new Map<LexiconRow, string>();
+      // Entries transcribed on this thread, with their rows (for the stress checks at emit time).
+      const rowOf = new WeakMap<LexiconRow | RejectedRow | EntryResult, LexiconRow>();
       const drainOne = async (): Promise<void> => {
         const head = queue.shift()!;
         const results = await head.done;
         let k = 0;
         for (const item of head.items) {
           if (item.kind !== "row") {
-            emitOne(item);
+            emitOne(item, rowOf.get(item));
             continue;
           }
           const t = results[k++];
           const key = rowKeys.get(item)!;
           rowKeys.delete(item);
           const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-          emitOne(bad ?? entryOf(item, key, t!));
+          emitOne(bad ?? entryOf(item, key, t!), item);
         }
         await drain();
       };
@@ -246,7 +257,9 @@ export async function runLexicon(
           const e = engine.encode(item.symbols);
           if (e === undefined) {
             // Segments the workers' machines lack: this thread's engine widens its alphabet.
-            items.push(transcribeRow(engine, item, key));
+            const r = transcribeRow(engine, item, key);
+            rowOf.set(r, item);
+            items.push(r);
             continue;
           }
           words.push(e);
@@ -301,6 +314,8 @@ export async function runLexicon(
     }
     files["rejects.csv"] = join(outDir, "rejects.csv");
     await writeRejects(staged("rejects.csv"), rejects.map((r) => ({ ...r, file: relativeTo(root, r.file) })));
+    files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
+    await writeFileAtomic(staged(STRESS_REPORT), hygiene.report());
     const input = await countInputRecords(lexiconPath);
     const written = await countWritten({
       ...(formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
@@ -309,7 +324,7 @@ export async function runLexicon(
       rejects: staged("rejects.csv"),
     });
     rowsRead = input.count;
-    reconcileErrors = reconcile(lexiconPath, input, written);
+    reconcileErrors = [...reconcile(lexiconPath, input, written), ...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), hygiene.total, input, written.rejectLines))];
   } catch (err) {
     return failWrite(err);
   }
@@ -333,6 +348,7 @@ export async function runLexicon(
     diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
     reconciled: true,
+    stress: hygiene.summary(),
   };
   files["summary.json"] = join(outDir, "summary.json");
   try {
