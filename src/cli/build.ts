@@ -17,6 +17,7 @@ import { checkBuildPins, readPins } from "../regress/pinned.js";
 import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
 import { STRESS_REPORT, stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
   listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
@@ -43,6 +44,10 @@ export interface BuildOptions {
   json?: boolean;
   /** Exit 4 when any stress problem is found (after writing every output). */
   strict?: boolean;
+  /** Tie bars between the letters of one segment (t͡ʃ, a͡ɪ) in every IPA written. */
+  tieBars?: boolean;
+  /** What lexicon.pls phonemes hold: every narrow variant (default) or the broad form. */
+  plsPhonemes?: PlsPhonemes;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
@@ -131,7 +136,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const report: unknown[] = [];
   for (const variety of varieties) {
     const t0 = performance.now();
-    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
+    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
@@ -147,12 +152,13 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     let pool: WorkerPool | undefined;
     try {
       if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") });
+        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true });
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
         sourceRoot: dirname(manifest.file),
         assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress"),
+        ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
@@ -265,6 +271,8 @@ export function registerBuild(program: Command): void {
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
     .option("--check <n>", "also compare the first N entries with the reference interpreter (exit 4 when they differ)", positiveInt)
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
+    .option("--tie-bars", "write tie bars on affricates and diphthongs (t͡ʃ, d͡ʒ, a͡ɪ) in every output, for consumers that parse IPA")
+    .addOption(new Option("--pls-phonemes <form>", "what lexicon.pls phonemes hold: every narrow variant, or the broad form alone (for engines with limited IPA)").choices(PLS_PHONEMES).default("narrow"))
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
     .option("--samples <n>", "sample lines to print per variety", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
@@ -275,6 +283,7 @@ export function registerBuild(program: Command): void {
     ["strata build lexicons/demo -d careful --format tsv,pls", "one variety, two outputs"],
     ["strata build my-voice -o out --allow-rejects -q", "errors only; rejects do not fail the run"],
     ["strata build my-voice --strict", "exit 4 when stress.csv lists any stress problem"],
+    ["strata build my-voice --pls-phonemes broad --tie-bars", "broad forms in PLS; tie bars everywhere"],
   ]);
   cmd.action(async (dir: string | undefined, opts: BuildCliOptions) => {
     process.exitCode = await runBuild(dir, opts);

@@ -14,11 +14,13 @@ export type TopItem =
   | { readonly kind: "class"; readonly def: ClassDef; readonly implicit: boolean }
   | { readonly kind: "onsets" | "codas"; readonly clusters: readonly Cluster[]; readonly span: Span }
   | { readonly kind: "heavy"; readonly patterns: readonly Pattern[]; readonly span: Span }
-  | { readonly kind: "step"; readonly step: Step };
+  | { readonly kind: "step"; readonly step: Step }
+  /** `language "en-US"`: the variety's language tag (PLS xml:lang when no varieties.json names one). */
+  | { readonly kind: "language"; readonly tag: string; readonly span: Span };
 
 /**
  * Builds a Grammar from items in order (includes already expanded or ignored). Reports a second
- * `inventory`, `diacritics`, `onsets`, `codas` or `heavy`, and a node or class defined twice.
+ * `inventory`, `diacritics`, `language`, `onsets`, `codas` or `heavy`, and a node or class defined twice.
  * Steps other than rules are named by their keyword, numbered from the second on (`stress-2`).
  */
 export function assembleGrammar(
@@ -34,6 +36,7 @@ export function assembleGrammar(
   let onsets: readonly Cluster[] | null = null;
   let codas: readonly Cluster[] | null = null;
   let heavy: readonly Pattern[] | null = null;
+  let language: Grammar["language"];
   const steps: Step[] = [];
   const seen = new Map<string, Span>();
   const once = (what: string, span: Span): boolean => {
@@ -80,6 +83,9 @@ export function assembleGrammar(
       case "heavy":
         if (once("heavy", it.span)) heavy = it.patterns;
         break;
+      case "language":
+        if (once("language", it.span)) language = { tag: it.tag, span: it.span };
+        break;
       case "step": {
         const s = it.step;
         if (s.kind === "rule") steps.push(s);
@@ -97,7 +103,7 @@ export function assembleGrammar(
     }
   }
   return {
-    grammar: { file, inventory, diacritics, nodes, classes, onsets, codas, heavy: heavy ?? [], steps, files },
+    grammar: { file, inventory, diacritics, nodes, classes, onsets, codas, heavy: heavy ?? [], steps, files, ...(language !== undefined ? { language } : {}) },
     diagnostics,
   };
 }

@@ -21,6 +21,7 @@ import { outputError, relativeTo, summaryJson } from "./summary.js";
 import { unwritableEntry } from "./writable.js";
 import { StressHygiene, STRESS_REPORT, type StressSummary } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
+import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
@@ -36,6 +37,8 @@ export interface RunOptions {
   readonly sourceRoot?: string;
   /** Whether the grammar has a `stress` step (default: the engine has a step named `stress`); for the stress checks. */
   readonly assignsStress?: boolean;
+  /** What PLS phonemes hold: every narrow variant (default) or the broad form alone (ipa-options.ts). */
+  readonly plsPhonemes?: PlsPhonemes;
 }
 
 export interface RunSummary {
@@ -90,7 +93,7 @@ const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult =>
 });
 
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
-export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+export const entryPhonemes = (r: EntryResult): string[] => plsPhonemes(r, "narrow");
 
 /** Lines gathered into one chunk before it is handed to a file writer. */
 class ChunkedPush {
@@ -198,7 +201,7 @@ export async function runLexicon(
     jsonlOut?.push(entryJsonLine({ ...r, file: relFile(r.file) }));
     if (wantPls) {
       const lx = lexemes.get(r.word);
-      const mine = entryPhonemes(r);
+      const mine = plsPhonemes(r, opts.plsPhonemes);
       if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
       else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
     }
