@@ -91,7 +91,7 @@ export function parseGrammarText(text: string, file: string): { grammar: Grammar
 }
 
 /** Parses one statement; pushes its item(s) to `items`. Throws Abort (caught by parseFile) on an error. */
-class StatementParser extends RuleParser {
+export class StatementParser extends RuleParser {
   keyword: string | null = null;
 
   constructor(
