@@ -160,3 +160,19 @@ describe("the stress report and the options agree", () => {
     expect(readFileSync(join(b, name, "general", "stress.csv"), "utf8")).toBe(ra);
   }, 120_000);
 });
+
+describe("the language of a variety file", () => {
+  it("is the base grammar's, unless the variety declares its own", async () => {
+    const { tempTree, TOY_SEGMENTS, TOY_DIACRITICS } = await import("../grammar/helpers.js");
+    const root = tempTree({
+      ".strata-root": "",
+      "g/segments.csv": TOY_SEGMENTS,
+      "g/diacritics.csv": TOY_DIACRITICS,
+      "g/grammar.strata": 'inventory "segments.csv"\nlanguage "en-US"\nsyllabify\n',
+      "g/same.strata": 'base "grammar.strata"\n',
+      "g/own.strata": 'base "grammar.strata"\nlanguage "en-CA"\n',
+    });
+    expect(loadGrammar(join(root, "g", "same.strata")).grammar?.language?.tag).toBe("en-US");
+    expect(loadGrammar(join(root, "g", "own.strata")).grammar?.language?.tag).toBe("en-CA");
+  });
+});
