@@ -20,7 +20,7 @@ import { STRESS_REPORT, stressLine, stressTotal } from "../lexicon/hygiene.js";
 import { PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
-  listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
+  listOf, loadEngine, rootOption, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
 } from "./common.js";
 
 export interface BuildOptions {
@@ -159,6 +159,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
         sourceRoot: dirname(manifest.file),
         assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress"),
         ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
+        ...(variety.overrides !== undefined ? { overrides: variety.overrides } : {}),
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
@@ -174,7 +175,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     // Rejected rows are in rejects.csv.
     const fileProblems = summary.fileDiagnostics;
     if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...summary.outputErrors], { quiet });
+    printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...(summary.overrideDiagnostics ?? []), ...summary.outputErrors], { quiet });
     // Stress hygiene: one line per variety on stderr; --strict fails on any problem.
     if (summary.stress !== undefined) {
       if (!quiet) process.stderr.write(`strata: ${variety.name}: ${stressLine(summary.stress, STRESS_REPORT)}\n`);
@@ -188,7 +189,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       if (res.mismatches.length > 0) checksFailed = true;
     }
     if (o.json === true) {
-      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, reconciled: summary.reconciled, words: summary.words, ...(summary.stress !== undefined ? { stress: summary.stress } : {}), entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
+      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, ...(summary.stress !== undefined ? { stress: summary.stress } : {}), entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
       if (!quiet) printSummary(summary, compileMs, outDir, o.samples ?? 6);
       if (check !== undefined) {
@@ -232,7 +233,8 @@ function printSummary(s: RunSummary, compileMs: number, outDir: string, samples:
   const rel = relative(process.cwd(), outDir) || ".";
   const w = (line: string) => process.stdout.write(line + "\n");
   w(c.bold(`${s.variety}`) + `  → ${rel}/`);
-  w(`  rows read ${s.rowsRead} = entries ${s.entriesWritten} + rejected ${s.rowsRejected}${s.reconciled ? "" : c.red("  (does not reconcile!)")}`);
+  const replaced = s.rowsReplaced !== undefined ? ` + replaced by overrides ${s.rowsReplaced}` : "";
+  w(`  rows read ${s.rowsRead} = entries ${s.entriesWritten} + rejected ${s.rowsRejected}${replaced}${s.reconciled ? "" : c.red("  (does not reconcile!)")}`);
   w(`  ${plural(s.words, "word")}, ${plural(s.entriesWithVariants, "entry", "entries")} with variants (${plural(s.variantsTotal, "variant")} in all)`);
   w(`  compile ${compileMs.toFixed(0)} ms, run ${(s.seconds * 1000).toFixed(0)} ms`);
   const changed = s.changedBy.filter((x) => x.entries > 0).map((x) => `${x.step} ${x.entries}`);
@@ -276,6 +278,7 @@ export function registerBuild(program: Command): void {
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
     .option("--samples <n>", "sample lines to print per variety", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
+  cmd.addOption(rootOption());
   cacheOptions(cmd);
   commonOptions(cmd);
   examples(cmd, [

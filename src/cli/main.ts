@@ -16,6 +16,7 @@ import { registerCompare } from "./compare.js";
 import { registerAccept } from "./accept.js";
 import { registerExplain } from "./explain.js";
 import { registerInteractions } from "./interactions.js";
+import { registerVarieties } from "./varieties.js";
 
 const program = createProgram();
 registerInit(program);
@@ -31,5 +32,6 @@ registerCompare(program);
 registerAccept(program);
 registerExplain(program);
 registerInteractions(program);
+registerVarieties(program);
 
 await runProgram(program, process.argv);

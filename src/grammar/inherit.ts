@@ -5,7 +5,8 @@
 import * as path from "node:path";
 import { closest } from "fastest-levenshtein";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import type { ClassDef, Cluster, Grammar, NodeDef, Pattern, Rule, Span, Step } from "./ast.js";
+import type { Cluster, Grammar, Rule, Span, Step } from "./ast.js";
+import { assembleGrammar } from "./assemble.js";
 import { applyOptions, type Edit, type NameRef, type VarietyFile } from "./parse-variety.js";
 
 /** A place in a grammar file. */
@@ -17,12 +18,19 @@ export interface Where {
 /** Where one step of a resolved grammar came from. */
 export interface StepOrigin {
   readonly name: string;
-  /** Where the step's body (or settings) is written. */
+  /** Where the step was first written: in the base file, or in the variety that added it (a replaced body is at its edit). */
   readonly defined: Where;
   /** How it got into the grammar: written in a plain grammar, or added by a variety. */
   readonly added: boolean;
   /** The edits applied to it, oldest first (the base's own variety first in a chain). */
   readonly edits: readonly { readonly kind: "replaced" | "adjusted"; readonly at: Where }[];
+}
+
+/** A base step a variety left out: where it was written and where the `omit` is. */
+export interface OmittedStep {
+  readonly name: string;
+  readonly defined: Where;
+  readonly omittedAt: Where;
 }
 
 const at = (s: Span): Where => ({ file: s.file, line: s.line });
@@ -43,7 +51,7 @@ export function applyVariety(
   baseOrigins: readonly StepOrigin[],
   v: VarietyFile,
   files: readonly string[],
-): { grammar: Grammar; origins: StepOrigin[]; diagnostics: Diagnostic[] } {
+): { grammar: Grammar; origins: StepOrigin[]; omitted: OmittedStep[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const err = (code: string, message: string, span: Span): void => void diagnostics.push(diagnostic("error", code, message, span));
   const baseNames = new Map<string, number>();
@@ -122,6 +130,11 @@ export function applyVariety(
   const outSteps: Step[] = [];
   const outOrigins: StepOrigin[] = [];
   const placed = new Set<string>();
+  // `prefer` written in an edit of a rule that ends up obligatory has no effect (as in a rule header).
+  const preferUseless = (e: { readonly options: { readonly prefer?: string }; readonly span: Span }, r: Step): void => {
+    if (r.kind === "rule" && !r.optional && e.options.prefer !== undefined)
+      diagnostics.push(diagnostic("warning", "grammar/prefer-obligatory", `rule '${r.name}' is obligatory, so 'prefer' has no effect`, e.span));
+  };
   const emitSlot = (slot: string, depth: number): void => {
     const e = slots.get(slot);
     if (e === undefined || depth > adds.size) return;
@@ -138,10 +151,13 @@ export function applyVariety(
     const o = origins.get(s.name) ?? { name: s.name, defined: at(s.span), added: false, edits: [] };
     if (e?.kind === "replace") {
       const step = e.step.kind === "rule" && s.kind === "rule" ? applyOptions({ ...e.step, optional: s.optional, mode: s.mode, prefer: s.prefer, ...(s.expansion ? { expansion: s.expansion } : {}) } as Rule, e.options) : e.step;
+      if (e.step.kind === "rule") preferUseless(e, step);
       outSteps.push({ ...step, name: s.name });
       outOrigins.push({ ...o, edits: [...o.edits, { kind: "replaced", at: at(e.span) }] });
     } else if (e?.kind === "adjust" && s.kind === "rule") {
-      outSteps.push(applyOptions(s, e.options));
+      const adjusted = applyOptions(s, e.options);
+      preferUseless(e, adjusted);
+      outSteps.push(adjusted);
       outOrigins.push({ ...o, edits: [...o.edits, { kind: "adjusted", at: at(e.span) }] });
     } else {
       outSteps.push(s);
@@ -153,76 +169,67 @@ export function applyVariety(
     if (!placed.has(e.step.name))
       err("grammar/anchor-cycle", `'${e.step.name}' is placed ${e.placement.where} '${e.placement.anchor.name}', which is itself placed by way of '${e.step.name}': the new steps never reach a step of the base.`, e.placement.anchor.span);
 
-  const decl = declarations(base, v, err);
+  const omitted: OmittedStep[] = base.steps.flatMap((s) => {
+    const e = editOf.get(s.name);
+    return e?.kind === "omit" ? [{ name: s.name, defined: origins.get(s.name)?.defined ?? at(s.span), omittedAt: at(e.span) }] : [];
+  });
+  const decl = declarations(base, v, err, diagnostics);
   return {
-    grammar: { ...base, ...decl, file: v.file, steps: outSteps, files },
+    grammar: { ...decl, file: v.file, steps: outSteps, files },
     origins: outOrigins,
+    omitted,
     diagnostics,
   };
 }
 
-/** The base's declarations with the variety's replacements and extensions. */
-function declarations(
-  base: Grammar,
-  v: VarietyFile,
-  err: (code: string, message: string, span: Span) => void,
-): Pick<Grammar, "inventory" | "diacritics" | "nodes" | "classes" | "onsets" | "codas" | "heavy" | "language"> {
-  let { inventory, diacritics, onsets, codas } = base;
-  let language = base.language;
-  let heavy: readonly Pattern[] = base.heavy;
-  const nodes: NodeDef[] = [...base.nodes];
-  const classes: ClassDef[] = [...base.classes];
-  const once = new Map<string, Span>();
-  const first = (what: string, span: Span): boolean => {
-    const f = once.get(what);
-    if (f !== undefined) { err("grammar/duplicate-declaration", `'${what}' is already declared by this variety (${where(f)}).`, span); return false; }
-    once.set(what, span);
-    return true;
+/**
+ * The base's declarations with the variety's replacements and extensions. The variety's own
+ * declarations are assembled as a grammar of their own (so a declaration made twice is reported as
+ * in any grammar); a node or class replaces the base's of that name or is added, and every other
+ * declaration it makes (inventory, onsets, heavy, … and any the language gains) replaces the base's.
+ */
+function declarations(base: Grammar, v: VarietyFile, err: (code: string, message: string, span: Span) => void, diagnostics: Diagnostic[]): Grammar {
+  const own = assembleGrammar(v.file, v.edits.flatMap((e) => (e.kind === "declare" ? [e.item] : [])), []);
+  diagnostics.push(...own.diagnostics);
+  const merged: Record<string, unknown> = { ...base };
+  for (const [k, value] of Object.entries(own.grammar)) {
+    if (k === "file" || k === "files" || k === "steps" || value === null || value === undefined || (Array.isArray(value) && value.length === 0)) continue;
+    merged[k] = value;
+  }
+  const named = <T extends { readonly name: string }>(mine: readonly T[], theirs: readonly T[]): T[] => {
+    const out = [...mine];
+    for (const d of theirs) {
+      const i = out.findIndex((x) => x.name === d.name);
+      if (i >= 0) out[i] = d;
+      else out.push(d);
+    }
+    return out;
   };
-  const replaceNamed = <T extends { name: string }>(list: T[], def: T): void => {
-    const i = list.findIndex((x) => x.name === def.name);
-    if (i >= 0) list[i] = def;
-    else list.push(def);
-  };
+  const g = { ...merged, nodes: named(base.nodes, own.grammar.nodes), classes: named(base.classes, own.grammar.classes) } as unknown as Grammar;
+  const classes = [...g.classes];
+  let { onsets, codas } = g;
   const clusterText = (c: Cluster): string => c.segments.join("");
   for (const e of v.edits) {
-    if (e.kind === "declare") {
-      const it = e.item;
-      switch (it.kind) {
-        case "inventory": if (first("inventory", it.span)) inventory = it.path; break;
-        case "diacritics": if (first("diacritics", it.span)) diacritics = it.path; break;
-        case "language": if (first("language", it.span)) language = { tag: it.tag, span: it.span }; break;
-        case "onsets": if (first("onsets", it.span)) onsets = it.clusters; break;
-        case "codas": if (first("codas", it.span)) codas = it.clusters; break;
-        case "heavy": if (first("heavy", it.span)) heavy = it.patterns; break;
-        case "node": if (first(`node ${it.def.name}`, it.def.span)) replaceNamed(nodes, it.def); break;
-        case "class":
-          if (it.implicit) { if (!classes.some((c) => c.name === it.def.name)) classes.push(it.def); }
-          else if (first(`class ${it.def.name}`, it.def.span)) replaceNamed(classes, it.def);
-          break;
-        default: break;
-      }
-    } else if (e.kind === "extend" || e.kind === "remove") {
-      const it = e.item;
-      if (it.kind === "class") {
-        const i = classes.findIndex((c) => c.name === it.def.name);
-        if (i < 0) { err("grammar/unknown-class", `There is no class '${it.def.name}' to add members to; 'class ${it.def.name} = …' defines one.`, it.def.span); continue; }
-        classes[i] = { ...classes[i]!, members: [...classes[i]!.members, ...it.def.members] };
-      } else if (it.kind === "onsets" || it.kind === "codas") {
-        const list = it.kind === "onsets" ? onsets : codas;
-        if (list === null) { err("grammar/no-list", `The base grammar declares no ${it.kind} (it allows every cluster); write '${it.kind} = …' to declare a list.`, it.span); continue; }
-        let next: Cluster[] = [...list];
-        if (e.kind === "extend") next.push(...it.clusters);
-        else
-          for (const c of it.clusters) {
-            const t = clusterText(c);
-            if (!next.some((x) => clusterText(x) === t)) err("grammar/unknown-cluster", `'${t}' is not among the base grammar's ${it.kind}.`, c.span);
-            next = next.filter((x) => clusterText(x) !== t);
-          }
-        if (it.kind === "onsets") onsets = next;
-        else codas = next;
-      }
+    if (e.kind !== "extend" && e.kind !== "remove") continue;
+    const it = e.item;
+    if (it.kind === "class") {
+      const i = classes.findIndex((c) => c.name === it.def.name);
+      if (i < 0) { err("grammar/unknown-class", `There is no class '${it.def.name}' to add members to; 'class ${it.def.name} = …' defines one.`, it.def.span); continue; }
+      classes[i] = { ...classes[i]!, members: [...classes[i]!.members, ...it.def.members] };
+    } else if (it.kind === "onsets" || it.kind === "codas") {
+      const list = it.kind === "onsets" ? onsets : codas;
+      if (list === null) { err("grammar/no-list", `The base grammar declares no ${it.kind} (it allows every cluster); write '${it.kind} = …' to declare a list.`, it.span); continue; }
+      let next: Cluster[] = [...list];
+      if (e.kind === "extend") next.push(...it.clusters);
+      else
+        for (const c of it.clusters) {
+          const t = clusterText(c);
+          if (!next.some((x) => clusterText(x) === t)) err("grammar/unknown-cluster", `'${t}' is not among the base grammar's ${it.kind}.`, c.span);
+          next = next.filter((x) => clusterText(x) !== t);
+        }
+      if (it.kind === "onsets") onsets = next;
+      else codas = next;
     }
   }
-  return { inventory, diacritics, nodes, classes, onsets, codas, heavy, ...(language !== undefined ? { language } : {}) };
+  return { ...g, classes, onsets, codas };
 }

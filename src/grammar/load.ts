@@ -10,8 +10,8 @@ import { FILE_LIMITS, isInside, readTextFile, realPath } from "../files.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
 import { checkGrammar } from "./check.js";
-import type { StepOrigin } from "./inherit.js";
-import { defaultRoot, readSource } from "./source.js";
+import type { OmittedStep, StepOrigin } from "./inherit.js";
+import { projectRoot, readSource } from "./source.js";
 
 /** The file a grammar folder is read from. */
 export const GRAMMAR_FILE = "grammar.strata";
@@ -27,11 +27,23 @@ export interface LoadOptions {
   readonly root?: string;
 }
 
+/** Where a loaded grammar's steps came from (every grammar has it; a plain grammar's steps are all its own). */
+export interface VarietyOrigins {
+  /** Per step of `grammar.steps`: where it is written, whether a variety added it, the edits that changed it. */
+  readonly origins: readonly StepOrigin[];
+  /** Base steps left out by the chain's varieties. */
+  readonly omitted: readonly OmittedStep[];
+  /** The grammar files from the main one down to the plain grammar at the bottom of the chain. */
+  readonly chain: readonly string[];
+  /** The project root every file was confined to. */
+  readonly root: string;
+}
+
 export interface LoadedGrammar {
   readonly grammar?: Grammar;
   readonly inventory?: Inventory;
   /** Where each step came from, the chain of variety files (main first) and the project root used. */
-  readonly variety?: { readonly origins: readonly StepOrigin[]; readonly chain: readonly string[]; readonly root: string };
+  readonly variety?: VarietyOrigins;
   readonly diagnostics: Diagnostic[];
 }
 
@@ -60,13 +72,13 @@ function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
       diagnostics.push(mainRead.diagnostic);
       return { diagnostics };
     }
-    const root = opts.root !== undefined ? realPath(path.resolve(opts.root)) : defaultRoot(main);
+    const root = projectRoot(main, opts.root);
     if (!isInside(root, main)) {
       diagnostics.push(diagnostic("error", "grammar/file-outside", `The grammar '${path.basename(main)}' is outside the project root (${root}).`, startOf(main)));
       return { diagnostics };
     }
     const source = readSource(main, mainRead.text, root, grammarLimit, diagnostics);
-    const variety = { origins: source.origins, chain: source.chain, root };
+    const variety = { origins: source.origins, omitted: source.omitted, chain: source.chain, root };
     let grammar = source.grammar;
     if (grammar.inventory === null) {
       if (source.failed !== true) diagnostics.push(diagnostic("error", "grammar/no-inventory", 'the grammar names no inventory (inventory "segments.csv")', startOf(main)));

@@ -8,12 +8,15 @@ import type { TopItem } from "./assemble.js";
 import { splitStatements, type Char, type Statement } from "./lexer.js";
 import { Abort } from "./parse-patterns.js";
 import { RuleParser } from "./parse-rule.js";
-import { StatementParser } from "./parser.js";
+import { STATEMENT_KEYWORDS, StatementParser } from "./parser.js";
 
 /** The statements only a variety file has. */
 export const VARIETY_KEYWORDS = ["base", "omit", "replace", "adjust", "add", "remove"] as const;
-/** Ordinary statements a variety may also hold: each replaces (or adds) the base's declaration of the same name. */
-export const VARIETY_DECLARATIONS = ["inventory", "diacritics", "language", "node", "class", "onsets", "codas", "heavy"] as const;
+/**
+ * Ordinary statements a variety may also hold: every declaration of the language (inventory, node,
+ * class, onsets, …), each replacing (or adding) the base's of the same name; not steps or includes.
+ */
+export const VARIETY_DECLARATIONS: readonly string[] = STATEMENT_KEYWORDS.filter((k) => !["include", "rule", "syllabify", "stress"].includes(k));
 
 /** Rule options as written in an edit; an absent field keeps the base rule's value. */
 export interface RuleOptions {
@@ -124,7 +127,7 @@ class VarietyParser extends StatementParser {
       this.base = { path: p.resolved, written: p.written, span: p.span };
       return;
     }
-    if ((VARIETY_DECLARATIONS as readonly string[]).includes(word)) {
+    if (VARIETY_DECLARATIONS.includes(word)) {
       this.parse();
       for (const item of this.items) this.edits.push({ kind: "declare", item });
       return;

@@ -8,12 +8,31 @@ import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { isInside, readTextFile, realPath } from "../files.js";
 import type { Grammar, Span } from "./ast.js";
 import { assembleGrammar, type TopItem } from "./assemble.js";
-import { applyVariety, plainOrigins, type StepOrigin } from "./inherit.js";
+import { applyVariety, plainOrigins, type OmittedStep, type StepOrigin } from "./inherit.js";
 import { parseFile } from "./parser.js";
 import { isVarietyText, parseVarietyFile } from "./parse-variety.js";
 
 /** The file whose presence marks a project root (DEVELOPERS.md, "Varieties"). */
 export const ROOT_MARKER = ".strata-root";
+
+let named: string | undefined;
+
+/**
+ * Names the project root for every grammar loaded from now on that does not name its own
+ * (`--root DIR`; the command line sets it before a command runs and clears it after). undefined: the default.
+ */
+export function setProjectRoot(dir: string | undefined): void {
+  named = dir === undefined ? undefined : realPath(path.resolve(dir));
+}
+
+/** The root named by `setProjectRoot`, if any (passed on to worker threads). */
+export const namedProjectRoot = (): string | undefined => named;
+
+/** The project root a grammar is confined to: the one given, else the one named, else `defaultRoot`. */
+export function projectRoot(mainFile: string, given?: string): string {
+  if (given !== undefined) return realPath(path.resolve(given));
+  return named ?? defaultRoot(mainFile);
+}
 
 /**
  * The project root of a grammar when none is named: the nearest folder at or above the grammar's
@@ -33,6 +52,8 @@ export interface Source {
   readonly grammar: Grammar;
   /** Where each step came from (parallel to `grammar.steps`). */
   readonly origins: readonly StepOrigin[];
+  /** Base steps the varieties of the chain left out (the base's own variety first). */
+  readonly omitted: readonly OmittedStep[];
   /** Where `inventory` and `diacritics` are declared (for errors about those files). */
   readonly declared: { readonly inventory?: Span; readonly diacritics?: Span };
   /** The chain of variety files from the main file down to the plain grammar at its bottom. */
@@ -47,6 +68,14 @@ interface Context {
   readonly diagnostics: Diagnostic[];
 }
 
+function isFolder(p: string): boolean {
+  try {
+    return fs.statSync(p).isDirectory();
+  } catch {
+    return false;
+  }
+}
+
 const shown = (root: string, f: string): string => path.relative(root, f) || path.basename(f);
 
 /** Reads `file` (its text already read) and everything it names; `stack` is the variety chain above it, real paths. */
@@ -58,35 +87,37 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
   if (!isVarietyText(text)) return readPlain(ctx, file, text);
   const v = parseVarietyFile(text, file);
   ctx.diagnostics.push(...v.diagnostics);
-  const b = v.base; // null: a malformed `base`, reported by the parser
   const failed = (): Source => {
     const empty = assembleGrammar(file, [], [file]).grammar;
-    return { grammar: empty, origins: [], declared: {}, chain: [file], failed: true };
+    return { grammar: empty, origins: [], omitted: [], declared: {}, chain: [file], failed: true };
   };
-  if (b === null) return failed();
-  if (!isInside(ctx.root, b.path)) {
-    ctx.diagnostics.push(diagnostic("error", "grammar/base-outside", `The base '${b.written}' is outside the project root (${ctx.root}); a grammar may name files inside it only (--root names another).`, b.span));
+  if (v.base === null) return failed(); // a malformed `base`, reported by the parser
+  const { written, span } = v.base;
+  // A grammar folder names its grammar.strata, as `-g FOLDER` does.
+  const basePath = isFolder(v.base.path) ? path.join(v.base.path, "grammar.strata") : v.base.path;
+  if (!isInside(ctx.root, basePath)) {
+    ctx.diagnostics.push(diagnostic("error", "grammar/base-outside", `The base '${written}' is outside the project root (${ctx.root}); a grammar may name files inside it only (--root names another).`, span));
     return failed();
   }
-  const cycleAt = stack.indexOf(realPath(b.path));
+  const cycleAt = stack.indexOf(realPath(basePath));
   if (cycleAt >= 0) {
-    const chain = [...stack.slice(cycleAt), realPath(b.path)].map((f) => shown(ctx.root, f));
-    ctx.diagnostics.push(diagnostic("error", "grammar/base-cycle", `The varieties name each other as base in a cycle: ${chain.join(" → ")}.`, b.span));
+    const chain = [...stack.slice(cycleAt), realPath(basePath)].map((f) => shown(ctx.root, f));
+    ctx.diagnostics.push(diagnostic("error", "grammar/base-cycle", `The varieties name each other as base in a cycle: ${chain.join(" → ")}.`, span));
     return failed();
   }
-  const baseRead = readTextFile(b.path, { what: "base grammar", limit: ctx.limit, code: "grammar/base-missing", at: b.span });
+  const baseRead = readTextFile(basePath, { what: "base grammar", limit: ctx.limit, code: "grammar/base-missing", at: span });
   if (!baseRead.ok) {
     ctx.diagnostics.push(baseRead.diagnostic);
     return failed();
   }
-  const base = read(ctx, b.path, baseRead.text, [...stack, realPath(b.path)]);
-  const files = [...base.grammar.files, file];
+  const base = read(ctx, basePath, baseRead.text, [...stack, realPath(basePath)]);
+  const files = [file, ...base.grammar.files]; // the main file first, as for includes
   const r = applyVariety(base.grammar, base.origins, v, files);
   ctx.diagnostics.push(...r.diagnostics);
   const declared = { ...base.declared };
   for (const e of v.edits)
     if (e.kind === "declare" && (e.item.kind === "inventory" || e.item.kind === "diacritics")) declared[e.item.kind] = e.item.span;
-  return { grammar: r.grammar, origins: r.origins, declared, chain: [file, ...base.chain], ...(base.failed === true ? { failed: true } : {}) };
+  return { grammar: r.grammar, origins: r.origins, omitted: [...base.omitted, ...r.omitted], declared, chain: [file, ...base.chain], ...(base.failed === true ? { failed: true } : {}) };
 }
 
 /** A plain grammar: its includes expanded in place (each file read once), then assembled. */
@@ -130,5 +161,5 @@ function readPlain(ctx: Context, main: string, mainText: string): Source {
   diagnostics.push(...assembled.diagnostics);
   const declared: { inventory?: Span; diacritics?: Span } = {};
   for (const i of items) if ((i.kind === "inventory" || i.kind === "diacritics") && declared[i.kind] === undefined) declared[i.kind] = i.span;
-  return { grammar: assembled.grammar, origins: plainOrigins(assembled.grammar), declared, chain: [main] };
+  return { grammar: assembled.grammar, origins: plainOrigins(assembled.grammar), omitted: [], declared, chain: [main] };
 }

@@ -15,6 +15,7 @@ export function prosodyOnly(grammar: Grammar): Grammar {
 
 export class InterpreterEngine implements Engine {
   readonly steps: readonly string[];
+  readonly writesSyllables: boolean;
   private readonly full: PreparedGrammar;
   private readonly broadOnly: PreparedGrammar;
   /** How a word is written (with tie bars on request: inventory/diphthong.ts). */
@@ -22,6 +23,7 @@ export class InterpreterEngine implements Engine {
 
   constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16, private readonly syllables = true, ties = false) {
     this.steps = grammar.steps.map((s) => s.name);
+    this.writesSyllables = syllables;
     this.full = prepareGrammar(grammar, inventory);
     this.broadOnly = prepareGrammar(prosodyOnly(grammar), inventory);
     this.ipaOptions = ties ? { syllables, realise: (b) => { const t = realiseBundle(inventory, b); return t === null ? null : withTieBars(t); } } : { syllables };
@@ -38,7 +40,7 @@ export class InterpreterEngine implements Engine {
     const others = run.variants.filter((v) => wordKey(v.word) !== prefKey);
     const variants = [narrow, ...others.map((v) => ipa(v.word))];
     const rules = preferred?.changedBy ?? [];
-    return { narrow, broad: ipa(broadRun.preferred), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
+    return { narrow, broad: symsToIpa(broadRun.preferred, this.inventory, { syllables: this.syllables, joins: true }), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
   }
 
   /** The preferred word step by step: each step of the prepared grammar alone, on the previous step's preferred output. */

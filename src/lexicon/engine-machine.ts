@@ -36,6 +36,7 @@ export interface MachineEngineOptions {
 
 export class MachineEngine implements Engine {
   readonly steps: readonly string[];
+  readonly writesSyllables: boolean;
   private readonly view: SymbolView;
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
@@ -65,6 +66,7 @@ export class MachineEngine implements Engine {
     private readonly render: { readonly syllables: boolean; readonly derivations?: boolean; readonly ties?: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
+    this.writesSyllables = render.syllables;
     this.view = tiedView(symbolView(compiled.alphabet, inventory), render.ties === true);
     this.broadView = tiedView(symbolView(broad.alphabet, inventory), render.ties === true);
     this.enc = new SymbolEncoder(compiled);
@@ -121,7 +123,7 @@ export class MachineEngine implements Engine {
     const bout = this.bout;
     bout.length = 0;
     if (!this.broad.preferred.run(bids, bout)) return undefined;
-    const broadText = renderIpa(bout, this.broadView, this.render);
+    const broadText = renderIpa(bout, this.broadView, { ...this.render, joins: true });
     // Blame runs every step on its own; the same runs tell the screen whether variants can exist.
     const wantRules = needs.rules === true && this.stepwise !== null;
     const wantVariants = needs.variants === true && this.compiled.hasVariants;

@@ -8,12 +8,13 @@ import { tokenise } from "../inventory/index.js";
 import type { Bundle, Inventory, PronToken } from "../inventory/types.js";
 import type { Diagnostic } from "../diagnostics.js";
 import type { LexiconRow } from "./read.js";
+import { isCompound } from "./compound.js";
 
 /*
  * The stress problems, by code (DEVELOPERS.md, "Stress hygiene"). Severity as `strata lint` reports
  * them; a build or transcribe run counts every one, and fails on any under --strict.
  *
- *   lint/many-primary      error    more than one primary stress in one word (of a phrase)
+ *   lint/many-primary      error    more than one primary stress in one word of a phrase, or in a compound
  *   lint/unstressed-entry  error    no stress mark, and the grammar has no `stress` step to assign one
  *   lint/no-primary        warning  stress marks, but only secondary ones
  *   lint/final-secondary   warning  secondary stress on a word's last syllable where it looks weak:
@@ -89,7 +90,7 @@ interface Problem {
   readonly code: StressCode;
   readonly message: string;
   /** Where: the whole pronunciation, or the n-th primary / the secondary before the last nucleus of word `word`. */
-  readonly at: { readonly kind: "whole" } | { readonly kind: "primary"; readonly word: number; readonly nth: number } | { readonly kind: "last-nucleus"; readonly word: number };
+  readonly at: { readonly kind: "whole" } | { readonly kind: "primary"; readonly word: number | "all"; readonly nth: number } | { readonly kind: "last-nucleus"; readonly word: number };
 }
 
 const WEAK_TAG = "weak";
@@ -98,6 +99,9 @@ const WEAK_TAG = "weak";
 function problemsOf(row: LexiconRow, ctx: StressContext, fs: Features): Problem[] {
   const out: Problem[] = [];
   const weak = row.tags.includes(WEAK_TAG);
+  // A compound (lexicon/compound.ts) is one stress domain: at most one primary in all its parts.
+  const compound = isCompound(row);
+  let compoundPrimaries = 0;
   let anyNucleus = false;
   let anyStress = false;
   let anyPrimary = false;
@@ -112,7 +116,8 @@ function problemsOf(row: LexiconRow, ctx: StressContext, fs: Features): Problem[
   let beforeLast: Bundle | undefined;
   let consonantAfterLast = false;
   const endWord = (): void => {
-    if (primaries > 1) out.push({ code: "lint/many-primary", message: `${primaries} primary stress marks in one word.`, at: { kind: "primary", word, nth: 1 } });
+    if (primaries > 1 && !compound) out.push({ code: "lint/many-primary", message: `${primaries} primary stress marks in one word.`, at: { kind: "primary", word, nth: 1 } });
+    compoundPrimaries += primaries;
     if (nuclei > 0 && allReduced && !reducedWordFound && !weak && last![fs.stress] === "0" && ctx.assignsStress) reducedWordFound = true;
     if (nuclei > 1 && last![fs.stress] === "+" && last![fs.primary] === "-" && beforeLast![fs.stress] === "-" && !consonantAfterLast && (fs.reduced(last!) || fs.highFront(last!))) {
       out.push({ code: "lint/final-secondary", message: "secondary stress on the last syllable, which looks weak (open, after an unstressed syllable, with a reduced or high front vowel).", at: { kind: "last-nucleus", word } });
@@ -151,6 +156,7 @@ function problemsOf(row: LexiconRow, ctx: StressContext, fs: Features): Problem[
     } else if (st === "0") anyUnassigned = true;
   }
   endWord();
+  if (compound && compoundPrimaries > 1) out.unshift({ code: "lint/many-primary", message: `${compoundPrimaries} primary stress marks in one compound.`, at: { kind: "primary", word: "all", nth: 1 } });
   if (anyStress && !anyPrimary) out.push({ code: "lint/no-primary", message: "the entry has stress marks but no primary stress (ˈ).", at: { kind: "whole" } });
   if (anyNucleus && anyUnassigned && !ctx.assignsStress) {
     out.push({ code: "lint/unstressed-entry", message: "the entry has no stress mark and the grammar has no 'stress' step to assign one.", at: { kind: "whole" } });
@@ -201,7 +207,7 @@ function markColumn(tokens: readonly PronToken[], at: Problem["at"], fs: Feature
       word++;
       continue;
     }
-    if (word !== at.word) continue;
+    if (at.word !== "all" && word !== at.word) continue;
     if (t.kind === "stress") {
       mark = t;
       if (at.kind === "primary" && t.level === "primary" && nth++ === at.nth) return { column: t.column, length: 1 };

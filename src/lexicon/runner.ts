@@ -15,6 +15,7 @@ import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
 import { EntryKeys } from "./keys.js";
+import { Overrides, writeReplaced } from "./overrides.js";
 import { stageFolder } from "./outdir.js";
 import { countInputRecords, countWritten, reconcile } from "./reconcile.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
@@ -22,6 +23,7 @@ import { unwritableEntry } from "./writable.js";
 import { StressHygiene, STRESS_REPORT, type StressSummary } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
 import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
+import { asCompound } from "./compound.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
@@ -39,6 +41,8 @@ export interface RunOptions {
   readonly assignsStress?: boolean;
   /** What PLS phonemes hold: every narrow variant (default) or the broad form alone (ipa-options.ts). */
   readonly plsPhonemes?: PlsPhonemes;
+  /** The variety's override CSV (overrides.ts): its rows replace the lexicon's rows of their words. */
+  readonly overrides?: string;
 }
 
 export interface RunSummary {
@@ -71,6 +75,9 @@ export interface RunSummary {
   readonly reconciled: boolean;
   /** Stress problems and policies (lexicon/hygiene.ts); absent when the run failed. */
   readonly stress?: StressSummary;
+  /** With an override file: lexicon rows replaced by it (in replaced.csv), and its warnings and problems. */
+  readonly rowsReplaced?: number;
+  readonly overrideDiagnostics?: readonly Diagnostic[];
 }
 
 /** Transcribes one read row through the engine; a row the machine cannot take becomes a reject. */
@@ -114,8 +121,9 @@ const BATCH = 1024;
 
 /** `key`: the entry key (see keys.ts; an EntryKeys gives them in file order). */
 export function transcribeRow(engine: Engine, row: LexiconRow, key: string, needs?: Needs): EntryResult | RejectedRow {
-  const t = engine.transcribeWord(row.symbols, needs);
-  if (t === undefined) return outsideAlphabet(row);
+  const t0 = engine.transcribeWord(row.symbols, needs);
+  if (t0 === undefined) return outsideAlphabet(row);
+  const t = asCompound(row, t0, engine.writesSyllables ?? true);
   const bad = unwritableEntry(row, t);
   if (bad !== undefined) return bad;
   return entryOf(row, key, t);
@@ -140,6 +148,11 @@ export async function runLexicon(
   const formats = new Set(opts.formats ?? ALL_FORMATS);
   const files: Record<string, string> = {};
   const root = opts.sourceRoot ?? dirname(lexiconPath);
+  // The override file is read whole first: a file that cannot be read stops the variety before anything is written.
+  const ov = opts.overrides !== undefined ? await Overrides.read(opts.overrides, inventory) : undefined;
+  if (ov?.failed === true) {
+    return { ...failedSummary(variety.name, lexiconPath, [], t0, ov.diagnostics.filter((d) => d.severity === "error")), overrideDiagnostics: ov.diagnostics.filter((d) => d.severity !== "error") };
+  }
   let stage: Awaited<ReturnType<typeof stageFolder>>;
   try {
     stage = await stageFolder(outDir);
@@ -212,13 +225,22 @@ export async function runLexicon(
   };
   const pool = opts.pool;
   const keys = new EntryKeys();
+  /** A lexicon row's key, or undefined when an override replaces the row in this variety. */
+  const baseKey = (row: LexiconRow): string | undefined => {
+    const key = keys.next(row.word, row.id);
+    return ov?.replaced(row, key) === true ? undefined : key;
+  };
   try {
     if (pool === undefined || !(engine instanceof MachineEngine)) {
       for await (const batch of reader.batches()) {
         for (const item of batch) {
           seen++;
           if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
-          emitOne(item.kind === "row" ? transcribeRow(engine, item, keys.next(item.word, item.id)) : item, item);
+          if (item.kind !== "row") emitOne(item);
+          else {
+            const key = baseKey(item);
+            if (key !== undefined) emitOne(transcribeRow(engine, item, key), item);
+          }
         }
         await drain();
       }
@@ -243,7 +265,7 @@ export async function runLexicon(
           const key = rowKeys.get(item)!;
           rowKeys.delete(item);
           const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-          emitOne(bad ?? entryOf(item, key, t!), item);
+          emitOne(bad ?? entryOf(item, key, asCompound(item, t!, engine.writesSyllables ?? true)), item);
         }
         await drain();
       };
@@ -256,7 +278,8 @@ export async function runLexicon(
         seen++;
         if (opts.onProgress && seen % every === 0) opts.onProgress(seen);
         if (item.kind === "row") {
-          const key = keys.next(item.word, item.id);
+          const key = baseKey(item);
+          if (key === undefined) continue;
           const e = engine.encode(item.symbols);
           if (e === undefined) {
             // Segments the workers' machines lack: this thread's engine widens its alphabet.
@@ -275,6 +298,8 @@ export async function runLexicon(
       if (items.length > 0) submit();
       while (queue.length > 0) await drainOne();
     }
+    // The override rows (and their rejects) after the lexicon's own entries.
+    if (ov !== undefined) for (const t of ov.tail()) emitOne(t.kind === "row" ? transcribeRow(engine, t.row, t.key) : t, t.kind === "row" ? t.row : undefined);
   } catch (err) {
     for (const ch of channels) ch.fail(err);
     await Promise.allSettled(writers);
@@ -317,6 +342,10 @@ export async function runLexicon(
     }
     files["rejects.csv"] = join(outDir, "rejects.csv");
     await writeRejects(staged("rejects.csv"), rejects.map((r) => ({ ...r, file: relativeTo(root, r.file) })));
+    if (ov !== undefined) {
+      files["replaced.csv"] = join(outDir, "replaced.csv");
+      await writeReplaced(staged("replaced.csv"), ov.replacedRows, relFile);
+    }
     files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
     await writeFileAtomic(staged(STRESS_REPORT), hygiene.report());
     const input = await countInputRecords(lexiconPath);
@@ -325,9 +354,14 @@ export async function runLexicon(
       ...(formats.has("jsonl") ? { jsonl: staged("lexicon.jsonl") } : {}),
       ...(formats.has("pls") ? { pls: staged("lexicon.pls") } : {}),
       rejects: staged("rejects.csv"),
+      ...(ov !== undefined ? { replaced: staged("replaced.csv") } : {}),
     });
-    rowsRead = input.count;
-    reconcileErrors = [...reconcile(lexiconPath, input, written), ...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), hygiene.total, input, written.rejectLines))];
+    const overInput = opts.overrides !== undefined ? await countInputRecords(opts.overrides) : undefined;
+    rowsRead = input.count + (overInput?.count ?? 0);
+    reconcileErrors = reconcile(lexiconPath, input, written, overInput !== undefined ? { lexicon: relFile(lexiconPath), overrides: relFile(opts.overrides!), input: overInput } : undefined);
+    const sources = [{ file: relFile(lexiconPath), input }, ...(overInput !== undefined ? [{ file: relFile(opts.overrides!), input: overInput }] : [])];
+    const notEntries = [...written.rejectLines.map((line, i) => ({ file: written.rejectFiles[i] ?? "", line })), ...(written.replaced ?? []).map((r) => ({ file: r.file, line: r.line }))];
+    reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), hygiene.total, sources, notEntries)));
   } catch (err) {
     return failWrite(err);
   }
@@ -352,6 +386,7 @@ export async function runLexicon(
     seconds: (performance.now() - t0) / 1000,
     reconciled: true,
     stress: hygiene.summary(),
+    ...(ov !== undefined ? { rowsReplaced: ov.replacedRows.length, overrideDiagnostics: ov.diagnostics } : {}),
   };
   files["summary.json"] = join(outDir, "summary.json");
   try {

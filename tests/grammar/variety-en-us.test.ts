@@ -94,6 +94,13 @@ describe("varieties of the shipped grammar", () => {
     expect(errors(loadGrammar(join(lex, "demo", "abs.strata")))).toEqual([["grammar/base-outside", "abs.strata:1:6"]]);
   });
 
+  test("an inventory a variety names outside the root is an error at its declaration", () => {
+    const lex = shippedCopy();
+    writeFileSync(join(lex, "..", "segments.csv"), readFileSync(join(lex, "en-us", "segments.csv")));
+    writeFileSync(join(lex, "demo", "inv.strata"), 'base "../en-us/grammar.strata"\ninventory "../../segments.csv"\n');
+    expect(errors(loadGrammar(join(lex, "demo", "inv.strata")))).toEqual([["grammar/file-outside", "inv.strata:2:11"]]);
+  });
+
   test("a narrower root named by the caller confines the base to it", () => {
     const lex = shippedCopy();
     writeFileSync(join(lex, "demo", "careful-edits.strata"), CAREFUL_AS_EDITS);

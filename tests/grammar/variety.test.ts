@@ -1,12 +1,13 @@
 // Varieties defined as a base plus edits (DEVELOPERS.md, "Varieties"): each edit kind resolves to
-// the grammar written out in full — the same steps, the same compiled machines — and the shipped
-// careful variety written as edits of the casual one derives what careful.strata derives.
+// the grammar written out in full — the same steps, the same compiled machines; chains, the caches,
+// and every error positioned at the edit that causes it.
 
+import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, test } from "vitest";
 import { cacheKeyOf, compileGrammar, type Compiled } from "../../src/compile/index.js";
 import { equivalent, serialise } from "../../src/fst/index.js";
-import { loadGrammar, type Grammar, type Step } from "../../src/grammar/index.js";
+import { loadGrammar, loadGrammarCached, type Grammar } from "../../src/grammar/index.js";
 import { at, tempTree, TOY_DIACRITICS, TOY_SEGMENTS } from "./helpers.js";
 
 const toy = { ".strata-root": "", "base/segments.csv": TOY_SEGMENTS, "base/diacritics.csv": TOY_DIACRITICS };
@@ -156,12 +157,27 @@ replace stress from left 1
     const w = loadGrammar(join(root, "base/full.strata"));
     expect(errors(v)).toEqual([]);
     expect(placeless(v.grammar!)).toEqual(placeless(w.grammar!));
-    expect(v.grammar!.files.map((f) => f.slice(root.length))).toEqual(["/base/grammar.strata", "/mid/mid.strata", "/top/top.strata"]);
+    expect(v.grammar!.files.map((f) => f.slice(root.length))).toEqual(["/top/top.strata", "/mid/mid.strata", "/base/grammar.strata"]);
     const origin = Object.fromEntries(v.variety!.origins.map((o) => [o.name, o]));
     expect(origin["mid-rule"]!.added).toBe(true);
     expect(origin["mid-rule"]!.defined.file).toBe(join(root, "mid/mid.strata"));
     expect(origin["mid-rule"]!.edits.map((e) => [e.kind, e.at.file.slice(root.length), e.at.line])).toEqual([["adjusted", "/top/top.strata", 2]]);
     expect(origin["voicing"]!.defined).toEqual({ file: join(root, "base/grammar.strata"), line: 10 });
+  });
+});
+
+describe("caches see every file of the chain", () => {
+  test("an edit of the base file reaches a variety loaded through the grammar cache", () => {
+    const root = tempTree({ ...toy, "base/grammar.strata": NODE + BASE, "v/v.strata": 'base "../base/grammar.strata"\nomit reduce\n' });
+    const cache = join(root, "cache");
+    const first = loadGrammarCached(join(root, "v/v.strata"), cache);
+    expect(errors(first)).toEqual([]);
+    expect(first.grammar!.files).toContain(join(root, "base/grammar.strata"));
+    expect(loadGrammarCached(join(root, "v/v.strata"), cache).grammar!.steps.map((s) => s.name)).toEqual(first.grammar!.steps.map((s) => s.name));
+    writeFileSync(join(root, "base/grammar.strata"), NODE + BASE.replace("rule lengthen:", "rule longer:"));
+    const again = loadGrammarCached(join(root, "v/v.strata"), cache);
+    expect(again.grammar!.steps.map((s) => s.name)).toContain("longer");
+    expect(cacheKeyOf(again.grammar!, again.inventory!, 50_000)).not.toBe(cacheKeyOf(first.grammar!, first.inventory!, 50_000));
   });
 });
 
@@ -216,6 +232,31 @@ describe("errors in a variety are positioned at the edit", () => {
   test("a missing base, and `base` that is not first", () => {
     expect(errors(load({ "a.strata": 'base "nowhere.strata"\n' }, "a.strata"))).toEqual([["grammar/base-missing", "a.strata:1:6"]]);
     expect(errors(v('base "grammar.strata"\n'))).toEqual([["grammar/base-not-first", "v.strata:2:1"]]);
+  });
+
+  test("a declaration made twice in the variety; members and clusters for lists that are not there", () => {
+    expect(errors(v("onsets = p t\nonsets = k\nclass Stop = p\nclass Stop = t\n"))).toEqual([
+      ["grammar/duplicate-declaration", "v.strata:3:1"],
+      ["grammar/duplicate-name", "v.strata:5:7"],
+    ]);
+    expect(errors(v("add class Nasal = m\nremove codas = ŋ\n"))).toEqual([
+      ["grammar/unknown-class", "v.strata:2:11"],
+      ["grammar/unknown-cluster", "v.strata:3:16"],
+    ]);
+    const noLists = load({ "base/grammar.strata": 'inventory "segments.csv"\nrule x:\n  a -> i\n', "base/v.strata": 'base "grammar.strata"\nadd onsets = p\n' }, "base/v.strata");
+    expect(errors(noLists)).toEqual([["grammar/no-list", "v.strata:2:5"]]);
+  });
+
+  test("a base given as a grammar folder reads its grammar.strata", () => {
+    const r = load({ "base/grammar.strata": NODE + BASE, "v/v.strata": 'base "../base"\nomit reduce\n' }, "v/v.strata");
+    expect(errors(r)).toEqual([]);
+    expect(r.grammar!.steps.map((s) => s.name)).not.toContain("reduce");
+  });
+
+  test("'prefer' on a rule an edit leaves obligatory is a warning", () => {
+    const r = v("adjust voicing prefer unapplied\nadjust reduce obligatory\n");
+    expect(errors(r)).toEqual([]);
+    expect(r.diagnostics.filter((d) => d.severity === "warning").map((d) => [d.code, at(d)])).toEqual([["grammar/prefer-obligatory", "2:1"]]);
   });
 
   test("a stress step replaced by a rule, options on a syllabify step", () => {

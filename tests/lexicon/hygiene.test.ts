@@ -139,14 +139,19 @@ describe("the stress report is reconciled before the folder is swapped in", () =
     const good = `${header}lexicon.csv,2,18,baseball#1,baseball,error,lint/many-primary,m\nlexicon.csv,3,6,city#1,city,warning,lint/no-primary,m\n`;
     const path = join(dir, "stress.csv");
     writeFileSync(path, good);
-    expect(await reconcileStressReport(lexicon, path, 2, input, [4])).toEqual([]);
-    expect((await reconcileStressReport(lexicon, path, 3, input, [4])).map((d) => d.message)).toEqual([
+    const src = [{ file: "lexicon.csv", input }];
+    const rejected = [{ file: "lexicon.csv", line: 4 }];
+    expect(await reconcileStressReport(lexicon, path, 2, src, rejected)).toEqual([]);
+    expect((await reconcileStressReport(lexicon, path, 3, src, rejected)).map((d) => d.message)).toEqual([
       "The run found 3 stress problems but stress.csv holds 2. This is a bug in Strata; please report it with the lexicon.",
     ]);
     writeFileSync(path, `${header}lexicon.csv,4,1,bad#1,bad,error,lint/many-primary,m\n`);
-    expect((await reconcileStressReport(lexicon, path, 1, input, [4]))[0]!.message).toContain("names line 4, which is not an entry");
+    expect((await reconcileStressReport(lexicon, path, 1, src, rejected))[0]!.message).toContain("names lexicon.csv line 4, which is not an entry");
     writeFileSync(path, `${header}lexicon.csv,3,6,city#1,town,warning,lint/no-primary,m\n`);
-    expect((await reconcileStressReport(lexicon, path, 1, input, [4]))[0]).toMatchObject({ line: 3, code: "run/unreconciled" });
+    expect((await reconcileStressReport(lexicon, path, 1, src, rejected))[0]).toMatchObject({ line: 3, code: "run/unreconciled" });
+    // another file's line 3 is not this one's
+    writeFileSync(path, `${header}overrides.csv,3,6,city#1,city,warning,lint/no-primary,m\n`);
+    expect((await reconcileStressReport(lexicon, path, 1, src, rejected))[0]!.message).toContain("names overrides.csv line 3, which is not an entry");
   });
 });
 
