@@ -1,7 +1,7 @@
 // `strata build [DIR]`: compile every variety a lexicon folder declares (cached), run the lexicon
 // through each, write TSV, JSON Lines, PLS, rejects and a summary under build/<lexicon>/<variety>/.
 
-import { createReadStream, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
 import { availableParallelism } from "node:os";
 import { InvalidArgumentError, Option, type Command } from "commander";
@@ -9,6 +9,7 @@ import cliProgress from "cli-progress";
 import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
 import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../lexicon/runner.js";
+import { countInputRecords } from "../lexicon/reconcile.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
@@ -44,16 +45,6 @@ export interface BuildOptions {
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
 const WORKERS_FROM_ROWS = 20_000;
-
-/** Counts data lines cheaply (for the progress bar's total). */
-async function countLines(path: string): Promise<number> {
-  let n = 0;
-  for await (const chunk of createReadStream(path)) {
-    const b = chunk as Buffer;
-    for (let i = 0; i < b.length; i++) if (b[i] === 10) n++;
-  }
-  return n;
-}
 
 /** `--workers`: auto or a whole number. */
 function workersArg(value: string): string {
@@ -110,7 +101,10 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const cacheDir = cache.dir;
   const tty = process.stderr.isTTY === true && !quiet && o.json !== true;
   const c = colours(process.stdout);
-  const lines = await countLines(manifest.lexicon);
+  // The lexicon's records, counted once for every variety (the reconciliation checks each
+  // variety's outputs against them; a file that cannot be read is reported by the reader).
+  const inputRecords = countInputRecords(manifest.lexicon);
+  const lines = await inputRecords.then((r) => r.count + 1, () => 0);
   const total = tty ? lines : 0;
   // Worker threads besides the main thread (which reads, tokenises and writes): auto leaves one
   // core to the main thread, from 4 cores (peak memory grows by ~85 MB per worker). On 2 cores a
@@ -149,6 +143,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
         sourceRoot: dirname(manifest.file),
+        inputRecords,
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });

@@ -12,7 +12,7 @@ import type { Bundle } from "../inventory/types.js";
 import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type SymbolView } from "./render.js";
-import { preferredDerivation, VariantTracer } from "./derivation.js";
+import { VariantTracer, type DerivationStep, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
 
@@ -119,47 +119,62 @@ export class MachineEngine implements Engine {
     bout.length = 0;
     if (!this.broad.preferred.run(bids, bout)) return undefined;
     const broadText = renderIpa(bout, this.broadView, this.render);
-    // Blame runs every step on its own; the same runs tell the screen whether variants can exist.
+    // One walk through the steps gives the blame, the derivation's forms (JSON Lines) and tells the
+    // screen whether variants can exist.
     const wantRules = needs.rules === true && this.stepwise !== null;
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
-    const rules = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants) : NO_BLAME;
-    let variants: string[] = [narrow];
+    const wantDerivation = wantRules && (this.render.derivations ?? true);
+    const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation) : NO_BLAME;
+    const ruleList = wantRules ? walk.changed : [];
+    const flags = { ...(ambiguous ? { ambiguous: true as const } : {}) };
+    if (!wantVariants || walk.single) {
+      return { narrow, broad: broadText, variants: [narrow], rules: ruleList, derivation: walk.derivation, variantSteps: [ruleList], ...flags };
+    }
+    // Several variants can exist. With the derivation wanted, the traced run through the steps gives
+    // every output with its steps; the composed variants cascade runs only when the trace was cut
+    // at its cap (then the two need not keep the same outputs) or is not wanted.
+    let traced: TracedOutputs | undefined;
+    if (wantDerivation) {
+      this.tracer ??= new VariantTracer(this.stepwise!, this.steps);
+      traced = this.tracer.trace(ids, this.maxVariants);
+    }
     let capped = false;
-    if (wantVariants && !rules.single) {
+    let outputs: readonly (readonly number[])[];
+    if (traced !== undefined && !traced.capped) outputs = traced.paths.map((p) => p.ids);
+    else {
       const v = this.compiled.variants(ids, this.maxVariants);
       capped = v.capped;
-      const all = v.outputs.map((o) => renderIpa(o, this.view, this.render));
-      variants = [narrow, ...[...new Set(all)].filter((x) => x !== narrow)];
+      outputs = v.outputs;
     }
-    const ruleList = wantRules ? rules.changed : [];
-    if (!wantRules || !(this.render.derivations ?? true)) {
-      return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])), ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}) };
-    }
-    // The derivation (form after each step) and each variant's steps, for the JSON Lines output.
-    const sw = this.stepwise!;
-    const idList = Array.from(ids);
-    const { derivation } = preferredDerivation(sw, this.steps, idList, this.view, this.render);
-    let variantSteps: string[][] = [ruleList];
+    const texts = outputs.map((o) => renderIpa(o, this.view, this.render));
+    const variants = [narrow, ...[...new Set(texts)].filter((x) => x !== narrow)];
+    if (capped) Object.assign(flags, { capped: true as const });
+    if (!wantDerivation) return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])), ...flags };
+    let variantSteps: (readonly string[])[] = [ruleList];
     if (variants.length > 1) {
-      this.tracer ??= new VariantTracer(sw, this.steps);
-      const byText = new Map<string, string[]>();
-      for (const [key, steps] of this.tracer.run(idList, this.maxVariants)) {
-        const text = renderIpa(key.split(",").map(Number), this.view, this.render);
-        if (!byText.has(text)) byText.set(text, steps);
+      // Each variant's steps: of the traced outputs (in key order) the first that renders as it.
+      const byText = new Map<string, readonly string[]>();
+      const sameTrace = traced !== undefined && !traced.capped;
+      const paths = traced!.paths;
+      for (let k = 0; k < paths.length; k++) {
+        const text = sameTrace ? texts[k]! : renderIpa(paths[k]!.ids, this.view, this.render);
+        if (!byText.has(text)) byText.set(text, paths[k]!.steps);
       }
       // A variant the traced run dropped at its cap (more than maxVariants on the way) gets no steps.
       variantSteps = variants.map((v, i) => (i === 0 ? ruleList : byText.get(v) ?? []));
     }
-    return { narrow, broad: broadText, variants, rules: ruleList, derivation, variantSteps, ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}) };
+    return { narrow, broad: broadText, variants, rules: ruleList, derivation: walk.derivation, variantSteps, ...flags };
   }
 
   /**
-   * Steps whose own machine changed the (preferred) word, in order (one block per step), and —
-   * when `screen` — whether the screen proved that the entry has exactly one variant.
+   * Steps whose own machine changed the (preferred) word, in order (one block per step), with the
+   * narrow form after each when `forms`, and — when `screen` — whether the screen proved that the
+   * entry has exactly one variant.
    */
-  private blame(ids: ArrayLike<number>, screen: boolean): { changed: string[]; single: boolean } {
+  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean): { changed: string[]; derivation: DerivationStep[]; single: boolean } {
     const sw = this.stepwise!;
     const changed: string[] = [];
+    const derivation: DerivationStep[] = [];
     let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
     const check = screen ? this.screen : null;
@@ -178,17 +193,21 @@ export class MachineEngine implements Engine {
       const next = cur === this.stepA ? this.stepB : this.stepA;
       next.length = 0;
       if (!sw.preferred.runBlock(k, cur, next)) break;
-      if (!sameIds(cur, next)) changed.push(this.steps[b.from]!);
+      if (!sameIds(cur, next)) {
+        const step = this.steps[b.from]!;
+        changed.push(step);
+        if (forms) derivation.push({ step, form: renderIpa(next, this.view, this.render) });
+      }
       cur = next;
     }
     if (single) single = k === blocks.length && check!.identity(unchecked, Number.MAX_SAFE_INTEGER, cur);
-    return { changed, single };
+    return { changed, derivation, single };
   }
 
   private tracer: VariantTracer | undefined;
 }
 
-const NO_BLAME = { changed: [] as string[], single: false };
+const NO_BLAME = { changed: [] as string[], derivation: [] as DerivationStep[], single: false };
 
 function sameIds(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
   if (a.length !== b.length) return false;

@@ -6,6 +6,7 @@ import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import { readBackJsonl, readBackTsv } from "./readback.js";
 
 /** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
 export interface InputRecords {
@@ -180,47 +181,23 @@ export interface WrittenCounts {
   readonly rejectLines: readonly number[];
 }
 
-const SOURCE_LINE = /"source":\{"file":"(?:[^"\\]|\\.)*","line":(\d+)\}/;
-// A quote outside a JSON string only ever opens or closes one, so `"word":"` is always the key.
-const WORD = /"word":("(?:[^"\\]|\\.)*")/;
-
-/** Reads back the files of one variety's staging folder (each path given is a file that was written). */
+/** Reads back the files of one variety's staging folder (each path given is a file that was written; readback.ts reads them on bytes). */
 export async function countWritten(files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string }): Promise<WrittenCounts> {
   let tsv: number | undefined;
   let tsvWords: number | undefined;
   if (files.tsv !== undefined) {
-    let wordAt = -1;
-    const words = new Set<string>();
-    let n = -1;
-    await eachLine(files.tsv, (l) => {
-      if (n === -1) wordAt = l.split("\t").indexOf("word");
-      else if (wordAt >= 0) {
-        let from = 0;
-        for (let k = 0; k < wordAt && from >= 0; k++) from = l.indexOf("\t", from) + 1 || -1;
-        const end = from < 0 ? -1 : l.indexOf("\t", from);
-        words.add(from < 0 ? "" : l.slice(from, end < 0 ? l.length : end));
-      }
-      n++;
-    });
-    tsv = Math.max(0, n);
-    tsvWords = words.size;
+    const t = await readBackTsv(files.tsv);
+    tsv = t.entries;
+    tsvWords = t.words;
   }
   let jsonl: number | undefined;
   let jsonlLines: number[] | undefined;
   let jsonlWords: string[] | undefined;
   if (files.jsonl !== undefined) {
-    jsonl = 0;
-    jsonlLines = [];
-    jsonlWords = [];
-    const ls = jsonlLines;
-    const ws = jsonlWords;
-    await eachLine(files.jsonl, (l) => {
-      jsonl!++;
-      const m = SOURCE_LINE.exec(l);
-      ls.push(m === null ? 0 : Number(m[1]));
-      const w = WORD.exec(l);
-      ws.push(w === null ? "" : (JSON.parse(w[1]!) as string));
-    });
+    const j = await readBackJsonl(files.jsonl);
+    jsonl = j.count;
+    jsonlLines = j.lines;
+    jsonlWords = j.words;
   }
   let plsLexemes: number | undefined;
   if (files.pls !== undefined) {
@@ -271,17 +248,31 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
     fail(`lexicon.pls holds ${w.plsLexemes} lexemes but lexicon.tsv ${w.tsvWords} distinct words.`);
   }
   if (w.jsonlLines !== undefined) {
-    const seen = new Map<number, number>();
-    for (const l of [...w.jsonlLines, ...w.rejectLines]) seen.set(l, (seen.get(l) ?? 0) + 1);
-    const missing = input.lines.filter((l) => (seen.get(l) ?? 0) === 0);
-    const doubled = input.lines.filter((l) => (seen.get(l) ?? 0) > 1);
-    const known = new Set(input.lines);
-    const stray = [...seen.keys()].filter((l) => !known.has(l)).sort((a, b) => a - b);
+    // Per line of the lexicon (typed arrays: a whole dictionary has over a hundred thousand):
+    // the record on it (index + 1, 0 for none) and how often an entry or reject names it.
+    let last = 0;
+    for (const l of input.lines) if (l > last) last = l;
+    const recordAt = new Int32Array(last + 1);
+    input.lines.forEach((l, i) => (recordAt[l] = i + 1));
+    const seen = new Uint32Array(last + 1);
+    const strays = new Set<number>();
+    const count = (l: number): void => {
+      if (Number.isInteger(l) && l >= 1 && l <= last && recordAt[l]! > 0) seen[l]!++;
+      else strays.add(l);
+    };
+    for (const l of w.jsonlLines) count(l);
+    for (const l of w.rejectLines) count(l);
+    const missing = input.lines.filter((l) => seen[l] === 0);
+    const doubled = input.lines.filter((l) => seen[l]! > 1);
+    const stray = [...strays].sort((a, b) => a - b);
     const list = (ls: readonly number[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
     if (missing.length > 0) fail(`Line${missing.length === 1 ? "" : "s"} ${list(missing)} of the lexicon ${missing.length === 1 ? "is" : "are"} neither an entry nor a reject.`, missing[0]);
     if (doubled.length > 0) fail(`Line${doubled.length === 1 ? "" : "s"} ${list(doubled)} of the lexicon ${doubled.length === 1 ? "was" : "were"} written more than once.`, doubled[0]);
-    const wordOf = new Map<number, string>(input.lines.map((l, i) => [l, input.words[i]!]));
-    const moved = w.jsonlLines.flatMap((l, i) => (wordOf.has(l) && wordOf.get(l) !== w.jsonlWords?.[i] ? [l] : []));
+    const moved: number[] = [];
+    w.jsonlLines.forEach((l, i) => {
+      const r = Number.isInteger(l) && l >= 1 && l <= last ? recordAt[l]! : 0;
+      if (r > 0 && input.words[r - 1] !== w.jsonlWords?.[i]) moved.push(l);
+    });
     if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved)} of the lexicon ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, moved[0]);
     if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(stray)}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the lexicon.`, stray[0]);
   }

@@ -8,6 +8,7 @@ import { writeFileAtomic } from "../emit/atomic.js";
 import { formatJsonLine } from "../emit/jsonl.js";
 import { writePls, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
+import { ByteChunks } from "../emit/bytes.js";
 import type { Inventory } from "../inventory/types.js";
 import { Channel } from "./channel.js";
 import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
@@ -16,7 +17,7 @@ import type { WorkerPool } from "./pool.js";
 import { readLexicon, writeRejects, type LexiconRow, type RejectedRow } from "./read.js";
 import { EntryKeys } from "./keys.js";
 import { stageFolder } from "./outdir.js";
-import { countInputRecords, countWritten, reconcile } from "./reconcile.js";
+import { countInputRecords, countWritten, reconcile, type InputRecords } from "./reconcile.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
 import { unwritableEntry } from "./writable.js";
 
@@ -32,6 +33,11 @@ export interface RunOptions {
   readonly pool?: WorkerPool;
   /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
   readonly sourceRoot?: string;
+  /**
+   * The lexicon's records counted on their own (`countInputRecords`), when the caller has counted
+   * them already: a build counts them once for all its varieties. Counted here when absent.
+   */
+  readonly inputRecords?: Promise<InputRecords>;
 }
 
 export interface RunSummary {
@@ -86,20 +92,6 @@ const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult =>
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
 export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
 
-/** Lines gathered into one chunk before it is handed to a file writer. */
-class ChunkedPush {
-  private buf = "";
-  constructor(private readonly ch: Channel<string>) {}
-  push(line: string): void {
-    this.buf += line;
-    if (this.buf.length >= 1 << 16) this.flush();
-  }
-  flush(): void {
-    if (this.buf !== "") this.ch.push(this.buf);
-    this.buf = "";
-  }
-}
-
 /** Words per batch sent to a worker thread. */
 const BATCH = 1024;
 
@@ -138,10 +130,10 @@ export async function runLexicon(
     return failedSummary(variety.name, lexiconPath, [], t0, [outputError(outDir, err)]);
   }
   const staged = (name: string): string => join(stage.path, name);
-  const channels: Channel<string>[] = [];
+  const channels: Channel<string | Uint8Array>[] = [];
   const writers: Promise<number>[] = [];
-  const open = (name: string): Channel<string> => {
-    const ch = new Channel<string>();
+  const open = (name: string): Channel<string | Uint8Array> => {
+    const ch = new Channel<string | Uint8Array>();
     files[name] = join(outDir, name);
     channels.push(ch);
     writers.push(writeFileAtomic(staged(name), ch));
@@ -162,10 +154,10 @@ export async function runLexicon(
   const reader = readLexicon(lexiconPath, { inventory });
   let seen = 0;
   const every = opts.progressEvery ?? 1000;
-  // Lines are gathered into chunks of about 64 KiB before they go to a file writer (one hand-over
-  // per chunk, not per line).
-  const tsvOut = tsv !== undefined ? new ChunkedPush(tsv) : undefined;
-  const jsonlOut = jsonl !== undefined ? new ChunkedPush(jsonl) : undefined;
+  // Lines are encoded into chunks of about 1 MiB before they go to a file writer (one hand-over
+  // per chunk, not per line; emit/bytes.ts).
+  const tsvOut = tsv !== undefined ? new ByteChunks((c) => tsv.push(c)) : undefined;
+  const jsonlOut = jsonl !== undefined ? new ByteChunks((c) => jsonl.push(c)) : undefined;
   const wantPls = formats.has("pls");
   // Every entry of a run names the same file or few: its relative path is worked out once per file.
   const relFiles = new Map<string, string>();
@@ -196,7 +188,7 @@ export async function runLexicon(
   };
   // Let the file writers drain (memory stays bounded by the back-log, not the lexicon).
   const drain = async (): Promise<void> => {
-    if ((tsv?.backlog ?? 0) > 16 || (jsonl?.backlog ?? 0) > 16) await new Promise((res) => setImmediate(res));
+    if ((tsv?.backlog ?? 0) > 2 || (jsonl?.backlog ?? 0) > 2) await new Promise((res) => setImmediate(res));
   };
   const pool = opts.pool;
   const keys = new EntryKeys();
@@ -301,7 +293,7 @@ export async function runLexicon(
     }
     files["rejects.csv"] = join(outDir, "rejects.csv");
     await writeRejects(staged("rejects.csv"), rejects.map((r) => ({ ...r, file: relativeTo(root, r.file) })));
-    const input = await countInputRecords(lexiconPath);
+    const input = await (opts.inputRecords ?? countInputRecords(lexiconPath));
     const written = await countWritten({
       ...(formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
       ...(formats.has("jsonl") ? { jsonl: staged("lexicon.jsonl") } : {}),
