@@ -153,7 +153,7 @@ async function buildStages(o: { csv: string; grammar: Grammar; inventory: Invent
   const keys = new EntryKeys();
   const results: EntryResult[] = all.value.map((t, k) => ({ kind: "entry", file: rows[k]!.file, line: rows[k]!.line, word: rows[k]!.word, key: keys.next(rows[k]!.word, rows[k]!.id), input: { pron: rows[k]!.pron, tags: rows[k]!.tags }, ...t! }));
   const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), [tsvHeader(), ...results.map((r) => formatTsvEntry(r))]));
-  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), results.map(entryJsonLine)));
+  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), results.map((r) => entryJsonLine(r))));
   const pls = await time(async () => {
     const lexemes = new Map<string, PlsEntry & { phonemes: string[] }>();
     for (const r of results) {

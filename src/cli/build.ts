@@ -8,7 +8,7 @@ import { InvalidArgumentError, Option, type Command } from "commander";
 import cliProgress from "cli-progress";
 import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
-import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../lexicon/runner.js";
+import { runVarieties, ALL_FORMATS, type OutputFormat, type RunSummary, type VarietyRun } from "../lexicon/runner.js";
 import { countInputRecords } from "../lexicon/reconcile.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
@@ -120,37 +120,63 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const summaries: RunSummary[] = [];
   const records: VarietyRecord[] = [];
   const report: unknown[] = [];
+  // Every variety is compiled (or read from the cache) first; then varieties whose grammars read
+  // pronunciations with the same inventory run together, over one read of the lexicon.
+  type Ready = { variety: (typeof varieties)[number]; loaded: Extract<ReturnType<typeof loadEngine>, { engine: unknown }>; compileMs: number; summary?: RunSummary };
+  const order: ({ variety: (typeof varieties)[number]; failedMs: number } | Ready)[] = [];
+  const groups = new Map<string, Ready[]>();
   for (const variety of varieties) {
     const t0 = performance.now();
     const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
-      held.output.record({ name: variety.name, status: "failed", compileMs: performance.now() - t0, runMs: 0 });
+      order.push({ variety, failedMs: performance.now() - t0 });
       continue;
     }
-    records.push(varietyRecord(dirname(manifest.file), variety, loaded.grammar));
-    const compileMs = performance.now() - t0;
-    const outDir = join(outRoot, manifest.name, variety.name);
-    const bar = tty ? new cliProgress.SingleBar({ format: `${variety.name.padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
+    const record = varietyRecord(dirname(manifest.file), variety, loaded.grammar);
+    records.push(record);
+    const ready: Ready = { variety, loaded, compileMs: performance.now() - t0 };
+    order.push(ready);
+    const key = record.inventory.files.length > 0 ? record.inventory.sha256 : `variety ${variety.name}`;
+    const group = groups.get(key) ?? [];
+    if (group.length === 0) groups.set(key, group);
+    group.push(ready);
+  }
+  for (const group of groups.values()) {
+    const bar = tty ? new cliProgress.SingleBar({ format: `${group.map((r) => r.variety.name).join(", ").padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
     bar?.start(Math.max(1, total - 1), 0);
-    let summary: RunSummary;
-    let pool: WorkerPool | undefined;
+    const pools: WorkerPool[] = [];
     try {
-      if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") });
+      const runs: VarietyRun[] = [];
+      for (const r of group) {
+        const pool = threads > 0
+          ? await WorkerPool.start(threads, { grammar: r.variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") })
+          : undefined;
+        if (pool !== undefined) pools.push(pool);
+        runs.push({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, ...(pool !== undefined ? { pool } : {}) });
       }
-      summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
+      const done = await runVarieties(group[0]!.loaded.inventory, manifest.lexicon, runs, {
         formats,
         sourceRoot: dirname(manifest.file),
         inputRecords,
-        ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
+      group.forEach((r, i) => (r.summary = done[i]));
     } finally {
       bar?.stop();
-      await pool?.close();
+      for (const pool of pools) await pool.close();
     }
+  }
+  for (const entry of order) {
+    const variety = entry.variety;
+    if ("failedMs" in entry) {
+      held.output.record({ name: variety.name, status: "failed", compileMs: entry.failedMs, runMs: 0 });
+      continue;
+    }
+    const { loaded, compileMs } = entry;
+    const summary = entry.summary!;
+    const outDir = join(outRoot, manifest.name, variety.name);
     summaries.push(summary);
     held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
     if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;

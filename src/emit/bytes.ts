@@ -43,6 +43,16 @@ export class ByteChunks {
     this.at += encoder.encodeInto(text, this.buf.subarray(this.at)).written;
   }
 
+  /**
+   * `text` and a line feed. Cheaper than pushing `text + "\n"`: the joined string would be a
+   * rope, which the encoder first copies flat.
+   */
+  pushLine(text: string): void {
+    this.push(text);
+    if (this.at >= this.buf.length) this.flush();
+    this.buf[this.at++] = 10;
+  }
+
   /** Hands on what is gathered (nothing when empty). */
   flush(): void {
     if (this.at === 0) return;

@@ -15,6 +15,7 @@ import { renderIpa, symbolView, type SymbolView } from "./render.js";
 import { VariantTracer, type DerivationStep, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
+import { stepKeys, translateIds, type WalkShare } from "./walk-share.js";
 
 export interface MachineEngineOptions {
   /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
@@ -83,9 +84,25 @@ export class MachineEngine implements Engine {
     return bids === null ? undefined : { ids, bids };
   }
 
-  transcribeWord(symbols: Word, needs: Needs = ALL_NEEDS): Transcription | undefined {
+  /** One identity per step, for sharing the walk with another variety (walk-share.ts); empty: not shared. */
+  stepKeys: readonly string[] = [];
+
+  /** The per-step blocks' step ranges (none without blame machines). */
+  get walkBlocks(): readonly { readonly from: number; readonly to: number }[] {
+    return this.stepwise?.preferredBlocks ?? [];
+  }
+
+  /** Alphabet key of each symbol id ("" for ε, '#' and '.'). */
+  get symbolKeys(): readonly string[] {
+    const keys = new Array<string>(this.compiled.alphabet.size).fill("");
+    for (const s of this.compiled.alphabet.segments) keys[s.id] = s.key;
+    return keys;
+  }
+
+  /** `share`: the walk shared with another variety of the same run (walk-share.ts). */
+  transcribeWord(symbols: Word, needs: Needs = ALL_NEEDS, share?: WalkShare): Transcription | undefined {
     const e = this.encode(symbols);
-    if (e !== undefined) return this.transcribeIds(e.ids, e.bids, needs);
+    if (e !== undefined) return this.transcribeIds(e.ids, e.bids, needs, share);
     return this.widened(symbols)?.transcribeWord(symbols, needs);
   }
 
@@ -108,7 +125,7 @@ export class MachineEngine implements Engine {
   }
 
   /** The work a worker thread does: machines over encoded ids, IPA out. */
-  transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS): Transcription | undefined {
+  transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS, share?: WalkShare): Transcription | undefined {
     const out = this.out;
     out.length = 0;
     const ambiguousBefore = this.compiled.preferred.ambiguities;
@@ -124,7 +141,7 @@ export class MachineEngine implements Engine {
     const wantRules = needs.rules === true && this.stepwise !== null;
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
     const wantDerivation = wantRules && (this.render.derivations ?? true);
-    const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation) : NO_BLAME;
+    const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation, share) : NO_BLAME;
     const ruleList = wantRules ? walk.changed : [];
     const flags = { ...(ambiguous ? { ambiguous: true as const } : {}) };
     if (!wantVariants || walk.single) {
@@ -171,10 +188,10 @@ export class MachineEngine implements Engine {
    * narrow form after each when `forms`, and — when `screen` — whether the screen proved that the
    * entry has exactly one variant.
    */
-  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean): { changed: string[]; derivation: DerivationStep[]; single: boolean } {
+  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean, share?: WalkShare): { changed: string[]; derivation: DerivationStep[]; single: boolean } {
     const sw = this.stepwise!;
-    const changed: string[] = [];
-    const derivation: DerivationStep[] = [];
+    let changed: string[] = [];
+    let derivation: DerivationStep[] = [];
     let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
     const check = screen ? this.screen : null;
@@ -183,8 +200,33 @@ export class MachineEngine implements Engine {
     // unapplied) leaves the preferred string as it is, so it is screened on the current string.
     let unchecked = 0;
     let k = 0;
+    // A follower goes on from the leader's string after the steps they share (walk-share.ts).
+    const r = share?.resume;
+    if (r !== undefined && r.engine === share!.leader && (r.screened || check === null)) {
+      let kb = 0;
+      while (kb < blocks.length && blocks[kb]!.from < r.step) kb++;
+      const resumed = translateIds(r.ids, share!.translate!);
+      if (resumed !== null && (kb === 0 || blocks[kb - 1]!.to <= r.step)) {
+        k = kb;
+        cur = resumed;
+        changed = [...r.changed];
+        derivation = [...r.derivation];
+        if (check !== null) {
+          single = r.single;
+          unchecked = r.unchecked;
+        }
+      }
+    }
+    const snaps = share?.snapAt;
+    let given = 0;
+    const snapshot = (step: number): void => share!.give!({ engine: this, step, ids: Array.from(cur), changed: [...changed], derivation: [...derivation], screened: check !== null, single, unchecked });
     for (; k < blocks.length; k++) {
       const b = blocks[k]!;
+      // A leader records where it stands before each step a follower takes over at.
+      while (snaps !== undefined && given < snaps.length && snaps[given]! <= b.from) {
+        if (k === 0 || blocks[k - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
+        given++;
+      }
       if (single) {
         single = check!.identity(unchecked, b.from + 1, cur) && !check!.branchingIn(b.from + 1, b.to);
         unchecked = b.to;
@@ -199,6 +241,9 @@ export class MachineEngine implements Engine {
         if (forms) derivation.push({ step, form: renderIpa(next, this.view, this.render) });
       }
       cur = next;
+    }
+    if (k === blocks.length) {
+      for (; snaps !== undefined && given < snaps.length; given++) if (blocks.length === 0 || blocks[blocks.length - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
     }
     if (single) single = k === blocks.length && check!.identity(unchecked, Number.MAX_SAFE_INTEGER, cur);
     return { changed, derivation, single };
@@ -236,6 +281,7 @@ export function machineEngine(
   if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
   const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true, derivations: opts.derivations ?? true });
   engine.extras = extraSegments;
+  if (stepwise !== null) engine.stepKeys = stepKeys(grammar);
   engine.extend = (extra) => machineEngine(grammar, inventory, opts, extra).engine;
   return { engine, diagnostics };
 }
