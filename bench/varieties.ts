@@ -54,6 +54,8 @@ export interface FourVarieties {
   readonly fourRss: number | null;
   /** Median of the per-pair ratios (four ÷ one). */
   readonly ratio: number;
+  /** The same of CPU time (user + system), null when unknown. */
+  readonly cpuRatio: number | null;
   readonly failures: readonly string[];
 }
 
@@ -90,14 +92,16 @@ export async function benchFourVarieties(o: { root: string; csv: string; cacheDi
     oneRss: rss(one),
     fourRss: rss(four),
     ratio: median(four.map((r, k) => r.wallMs / one[k]!.wallMs)),
+    cpuRatio: four.every((r, k) => r.cpuMs !== null && one[k]!.cpuMs !== null) ? median(four.map((r, k) => r.cpuMs! / one[k]!.cpuMs!)) : null,
     failures,
   };
   say();
   say(`-- four varieties against one (child processes, whole dictionary, TSV + JSON Lines + PLS, cached machines; median of ${o.reps}) --`);
-  say(textTable(["", "wall", "÷ one variety (pairs)", "peak RSS"], [
-    ["strata build -d general (one variety)", fmtMs(res.oneMs), "1.00×", fmtMB(res.oneRss)],
-    [`strata build, four varieties (${FOUR.join(", ")})`, fmtMs(res.fourMs), `${fmt(res.ratio, 2)}×`, fmtMB(res.fourRss)],
+  const cpu = (rs: readonly ChildRun[]): string => (rs.every((r) => r.cpuMs !== null) ? fmtMs(median(rs.map((r) => r.cpuMs!))) : "n/a");
+  say(textTable(["", "wall", "÷ one variety (pairs)", "CPU", "CPU ÷ one variety", "peak RSS"], [
+    ["strata build -d general (one variety)", fmtMs(res.oneMs), "1.00×", cpu(one), "1.00×", fmtMB(res.oneRss)],
+    [`strata build, four varieties (${FOUR.join(", ")})`, fmtMs(res.fourMs), `${fmt(res.ratio, 2)}×`, cpu(four), res.cpuRatio === null ? "n/a" : `${fmt(res.cpuRatio, 2)}×`, fmtMB(res.fourRss)],
   ]));
-  say("shared: the lexicon is read, parsed, tokenised and counted once for the four; an entry a variety transcribes as the one before it reuses that one's TSV and JSON Lines lines.");
+  say("shared: the lexicon is read, parsed, tokenised and counted once for the four; each of the other three takes over general's walk through the steps it shares with general (the per-step blame and derivation); an entry a variety transcribes as the one before it reuses that one's TSV and JSON Lines lines.");
   return res;
 }
