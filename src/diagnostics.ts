@@ -3,7 +3,8 @@
 
 import { splitLines } from "./lines.js";
 
-export type Severity = "error" | "warning";
+/** "hint": a suggestion (lint's likely unmarked joins); never fails a run, not even with --strict. */
+export type Severity = "error" | "warning" | "hint";
 
 /** A place in a source file. Lines and columns count from 1; columns count Unicode code points. */
 export interface SourcePos {

@@ -4,7 +4,7 @@
 
 import { EPSILON, Fst, FstLimitError, determinise, minimise, trim } from "../fst/index.js";
 import type { Alphabet } from "../compile/index.js";
-import { WORD, SYLL, FIRST_SEGMENT } from "../compile/index.js";
+import { WORD, SYLL, JOIN, FIRST_SEGMENT } from "../compile/index.js";
 import type { Inventory } from "../inventory/types.js";
 
 /** A complete-or-partial DFA: `table[s * size + x]` is the target or -1 (the implicit sink). */
@@ -81,7 +81,7 @@ export function isEmptyDfa(d: Dfa): boolean {
 
 /**
  * The input words every grammar run starts from (DEVELOPERS.md, "The string every stage sees"):
- * `#`, one or more of the inventory's segments with at most one `.` between two of them, `#`;
+ * `#`, one or more of the inventory's segments with at most one `.` or `+` between two of them, `#`;
  * either every nucleus unmarked ([0stress 0primary]) or every nucleus marked (stressed or
  * unstressed) with at least one stressed. Consonants are [0stress 0primary]. Single words only
  * (no phrase-internal `#`).
@@ -107,7 +107,7 @@ export function inputWords(alphabet: Alphabet, inv: Inventory): Dfa {
     if (c === 2) return mode === 0 || mode === 2 ? 2 : mode === 3 ? 3 : -1;
     return mode === 1 ? -1 : 3;
   };
-  // States: 0 start, 1 after the first '#', 2 + mode*2 + (0 after a segment | 1 after '.'), 10 final.
+  // States: 0 start, 1 after the first '#', 2 + mode*2 + (0 after a segment | 1 after '.' or '+'), 10 final.
   const states = 11;
   const table = new Int32Array(states * size).fill(-1);
   const finals = new Uint8Array(states);
@@ -127,6 +127,8 @@ export function inputWords(alphabet: Alphabet, inv: Inventory): Dfa {
   }
   for (let mode = 0; mode < 4; mode++) {
     table[(2 + mode * 2) * size + SYLL] = 3 + mode * 2;
+    // A morpheme join stands between two segments, as a '.' does (lexicon/joins.ts).
+    if (JOIN < size) table[(2 + mode * 2) * size + JOIN] = 3 + mode * 2;
     if (mode !== 2) table[(2 + mode * 2) * size + WORD] = 10;
   }
   return { size, states, start: 0, finals, table };

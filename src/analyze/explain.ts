@@ -6,7 +6,7 @@ import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { freeze, type FrozenFst } from "../fst/index.js";
-import { compileSteps, type Alphabet } from "../compile/index.js";
+import { compileSteps, JOIN, SYLL, WORD, type Alphabet } from "../compile/index.js";
 import { PreferredRunner } from "../compile/cascade.js";
 import type { Word } from "../interp/index.js";
 import { FormWriter, diff } from "./render.js";
@@ -65,7 +65,7 @@ export class Deriver {
   encode(word: Word): number[] | null {
     const ids: number[] = [1];
     for (const s of word) {
-      if (s.kind === "boundary") { ids.push(s.which === "word" ? 1 : 2); continue; }
+      if (s.kind === "boundary") { ids.push(s.which === "word" ? WORD : s.which === "join" ? JOIN : SYLL); continue; }
       const id = this.alphabet.byKey.get(s.bundle.join(""));
       if (id === undefined) return null;
       ids.push(id);

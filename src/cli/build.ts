@@ -19,7 +19,7 @@ import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
-  listOf, loadEngine, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
+  listOf, loadEngine, rootOption, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
 } from "./common.js";
 
 export interface BuildOptions {
@@ -154,7 +154,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
           ? await WorkerPool.start(threads, { grammar: r.variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") })
           : undefined;
         if (pool !== undefined) pools.push(pool);
-        runs.push({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, ...(pool !== undefined ? { pool } : {}) });
+        runs.push({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, ...(pool !== undefined ? { pool } : {}), ...(r.variety.overrides !== undefined ? { overrides: r.variety.overrides } : {}) });
       }
       const done = await runVarieties(group[0]!.loaded.inventory, manifest.lexicon, runs, {
         formats,
@@ -185,7 +185,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     // Rejected rows are in rejects.csv.
     const fileProblems = summary.fileDiagnostics;
     if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
-    printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...summary.outputErrors], { quiet });
+    printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...(summary.overrideDiagnostics ?? []), ...summary.outputErrors], { quiet });
     let check: { compared: number; mismatches: { line: number; word: string; machine: string; interpreter: string }[] } | undefined;
     if (o.check !== undefined) {
       const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
@@ -194,7 +194,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       if (res.mismatches.length > 0) checksFailed = true;
     }
     if (o.json === true) {
-      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
+      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
       if (!quiet) printSummary(summary, compileMs, outDir, o.samples ?? 6);
       if (check !== undefined) {
@@ -238,7 +238,8 @@ function printSummary(s: RunSummary, compileMs: number, outDir: string, samples:
   const rel = relative(process.cwd(), outDir) || ".";
   const w = (line: string) => process.stdout.write(line + "\n");
   w(c.bold(`${s.variety}`) + `  → ${rel}/`);
-  w(`  rows read ${s.rowsRead} = entries ${s.entriesWritten} + rejected ${s.rowsRejected}${s.reconciled ? "" : c.red("  (does not reconcile!)")}`);
+  const replaced = s.rowsReplaced !== undefined ? ` + replaced by overrides ${s.rowsReplaced}` : "";
+  w(`  rows read ${s.rowsRead} = entries ${s.entriesWritten} + rejected ${s.rowsRejected}${replaced}${s.reconciled ? "" : c.red("  (does not reconcile!)")}`);
   w(`  ${plural(s.words, "word")}, ${plural(s.entriesWithVariants, "entry", "entries")} with variants (${plural(s.variantsTotal, "variant")} in all)`);
   w(`  compile ${compileMs.toFixed(0)} ms, run ${(s.seconds * 1000).toFixed(0)} ms`);
   const changed = s.changedBy.filter((x) => x.entries > 0).map((x) => `${x.step} ${x.entries}`);
@@ -279,6 +280,7 @@ export function registerBuild(program: Command): void {
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
     .option("--samples <n>", "sample lines to print per variety", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
+  cmd.addOption(rootOption());
   cacheOptions(cmd);
   commonOptions(cmd);
   examples(cmd, [

@@ -50,8 +50,9 @@ export interface LoadedEngine {
 }
 
 /** Loads and checks a grammar (through the checked-grammar cache when there is a cache folder). */
-export function loadChecked(path: string, cacheDir: string | undefined): ReturnType<typeof loadGrammar> {
-  return cacheDir !== undefined ? loadGrammarCached(path, cacheDir) : loadGrammar(path);
+export function loadChecked(path: string, cacheDir: string | undefined, root?: string): ReturnType<typeof loadGrammar> {
+  const o = root !== undefined ? { root } : {};
+  return cacheDir !== undefined ? loadGrammarCached(path, cacheDir, o) : loadGrammar(path, o);
 }
 
 /** Loads, checks and compiles (or interprets) a grammar; diagnostics are returned, never thrown. */

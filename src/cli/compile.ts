@@ -12,6 +12,7 @@ import {
   openCache, cacheOptions, commonOptions, EXIT, examples, grammarOptions, jsonOption, loadChecked, printOutcome, renderDiagnostics,
   resolveGrammar, useColour, type CommandOutcome,
 } from "./common.js";
+import { runExplainVariety } from "./explain-variety.js";
 
 export type { CommandOutcome } from "./common.js";
 
@@ -23,10 +24,11 @@ export function loadForCompile(
   g: string | undefined,
   variety?: string,
   cacheDir?: string,
+  root?: string,
 ): { grammar: Grammar; inventory: Inventory; path: string; diagnostics: readonly Diagnostic[] } | { diagnostics: readonly Diagnostic[] } {
   const r = resolveGrammar(g, variety);
   if ("diagnostics" in r) return { diagnostics: r.diagnostics };
-  const loaded = loadChecked(r.path, cacheDir);
+  const loaded = loadChecked(r.path, cacheDir, root);
   if (loaded.grammar === undefined || loaded.inventory === undefined || hasErrors(loaded.diagnostics)) return { diagnostics: loaded.diagnostics };
   return { grammar: loaded.grammar, inventory: loaded.inventory, path: r.path, diagnostics: loaded.diagnostics };
 }
@@ -40,6 +42,8 @@ export interface CompileCommandOptions {
   readonly cacheDir?: string;
   readonly maxStates?: number;
   readonly json?: boolean;
+  /** The project root (`--root`). */
+  readonly root?: string;
 }
 
 function table(rows: readonly (readonly string[])[], right: readonly boolean[]): string {
@@ -85,7 +89,7 @@ export function compileReport(path: string, c: Compiled, cacheDir: string | unde
 export function runCompile(g: string | undefined, opts: CompileCommandOptions = {}): CommandOutcome {
   const cache = openCache(opts);
   const cacheDir = cache.dir;
-  const loaded = loadForCompile(g, opts.variety, cacheDir);
+  const loaded = loadForCompile(g, opts.variety, cacheDir, opts.root);
   const warnings = opts.quiet === true ? [] : [...cache.diagnostics, ...loaded.diagnostics.filter((d) => d.severity === "warning")];
   if (!("grammar" in loaded)) return { stdout: "", stderr: renderAll(loaded.diagnostics.filter((d) => d.severity === "error" || opts.quiet !== true)), exitCode: EXIT.badInput };
   const r = compileGrammar(loaded.grammar, loaded.inventory, {
@@ -118,6 +122,8 @@ interface CompileCliOptions {
   maxStates?: number;
   json?: boolean;
   quiet?: boolean;
+  root?: string;
+  explainVariety?: boolean;
 }
 
 export function registerCompile(program: Command): void {
@@ -127,18 +133,25 @@ export function registerCompile(program: Command): void {
   grammarOptions(cmd);
   cacheOptions(cmd);
   jsonOption(cmd, "print the figures as JSON");
+  cmd.option("--explain-variety", "print the resolved steps of the grammar (a variety and its bases) with where each came from; compiles nothing");
   commonOptions(cmd);
   examples(cmd, [
     ["strata compile -g lexicons/en-us", "the default variety (grammar.strata)"],
     ["strata compile -g lexicons/demo -d careful", "a variety by its name in varieties.json"],
     ["strata compile -g lexicons/en-us --no-cache --json", "cold compile, figures as JSON"],
+    ["strata compile -g lexicons/en-us/careful.strata --explain-variety", "each step and where it came from"],
   ]);
   cmd.action(async (o: CompileCliOptions) => {
+    if (o.explainVariety === true) {
+      const e = { json: o.json === true, quiet: o.quiet === true, ...(o.variety !== undefined ? { variety: o.variety } : {}), ...(o.root !== undefined ? { root: o.root } : {}) };
+      return printOutcome(runExplainVariety(o.grammar, e));
+    }
     await printOutcome(runCompile(o.grammar, {
       cache: o.cache, json: o.json === true, quiet: o.quiet === true,
       ...(o.variety !== undefined ? { variety: o.variety } : {}),
       ...(o.cacheDir !== undefined ? { cacheDir: o.cacheDir } : {}),
       ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
+      ...(o.root !== undefined ? { root: o.root } : {}),
     }));
   });
 }

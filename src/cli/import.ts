@@ -11,6 +11,7 @@ import { csvLine } from "../emit/csv.js";
 import { STRESS_POLICIES, importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
 import type { ImportedRow, StressPolicy } from "../lexicon/arpabet.js";
 import { rejectDiagnostic, writeRejects } from "../lexicon/read.js";
+import { JOINS_COUNT, applyJoinOverrides, readJoinOverrides } from "../lexicon/arpabet-joins.js";
 import {
   checkInputFile, checkNotAnInput, checkOutputPath, commonOptions, EXIT, examples, outOption, plural, printOutcome, renderDiagnostics, useColour,
   type CommandOutcome,
@@ -35,6 +36,8 @@ export interface ImportOptions {
   readonly case?: "keep" | "lower";
   /** Stress policies (lexicon/arpabet.ts STRESS_POLICIES). */
   readonly stressPolicy?: readonly StressPolicy[];
+  /** Overrides CSV (word,pron) adding joins to imported pronunciations (lexicon/arpabet-joins.ts). */
+  readonly joins?: string;
 }
 
 /** Exit 0 success; 3 some entries rejected (and not allowed); 1 the import could not run. */
@@ -56,16 +59,24 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
   const render = (ds: readonly Diagnostic[]): string => renderDiagnostics(ds, useColour());
   const fail = (d: Diagnostic): ImportOutcome => ({ stdout: "", stderr: render([d]), exitCode: EXIT.badInput });
   // Paths first: nothing is read or written when an output would land on an input or cannot be made.
-  const inputs = [opts.arpabet, ...(opts.table !== undefined ? [opts.table] : [])];
+  const inputs = [opts.arpabet, ...(opts.table !== undefined ? [opts.table] : []), ...(opts.joins !== undefined ? [opts.joins] : [])];
   const rejectsPath = opts.rejects ?? (opts.out !== undefined ? `${opts.out}.rejects.csv` : undefined);
   const problem =
     checkInputFile(opts.arpabet, ["--arpabet"], "dictionary") ??
     (opts.table !== undefined ? checkInputFile(opts.table, ["--table"], "mapping table") : undefined) ??
+    (opts.joins !== undefined ? checkInputFile(opts.joins, ["--joins"], "overrides file") : undefined) ??
     (opts.out !== undefined ? checkOutputPath(opts.out, ["-o", "--out"], "file") ?? checkNotAnInput({ value: opts.out, flags: ["-o", "--out"] }, inputs) : undefined) ??
     (opts.rejects !== undefined ? checkOutputPath(opts.rejects, ["--rejects"], "file") ?? checkNotAnInput({ value: opts.rejects, flags: ["--rejects"] }, [...inputs, ...(opts.out !== undefined ? [opts.out] : [])]) : undefined);
   if (problem !== undefined) return fail(problem);
   const loaded = loadArpabetTable(opts.table);
   if (loaded.table === undefined) return { stdout: "", stderr: render(loaded.diagnostics), exitCode: EXIT.badInput };
+
+  // Join overrides are read (and must be sound) before anything is imported or written.
+  let overrides: ReturnType<typeof readJoinOverrides> | undefined;
+  if (opts.joins !== undefined) {
+    overrides = readJoinOverrides(await readFile(opts.joins, "utf8"), opts.joins);
+    if (overrides.diagnostics.some((d) => d.severity === "error")) return { stdout: "", stderr: render(overrides.diagnostics), exitCode: EXIT.badInput };
+  }
 
   const file = opts.arpabet === "-" ? "<stdin>" : opts.arpabet;
   let text: string;
@@ -76,7 +87,9 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
     const why = code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : (e as Error).message;
     return fail(diagnostic("error", "import/unreadable", `Cannot read the dictionary: ${why}.`, { file, line: 1, column: 1 }));
   }
-  const result = importArpabetText(text, loaded.table, { file, ...(opts.case !== undefined ? { case: opts.case } : {}), policies: opts.stressPolicy ?? [] });
+  const imported = importArpabetText(text, loaded.table, { file, ...(opts.case !== undefined ? { case: opts.case } : {}), policies: opts.stressPolicy ?? [] });
+  const joined = overrides !== undefined ? applyJoinOverrides(imported.rows, overrides.overrides, opts.joins!) : undefined;
+  const result = joined === undefined ? imported : { ...imported, rows: joined.rows, changed: { ...imported.changed, [JOINS_COUNT]: joined.applied } };
 
   let stdout = "";
   if (opts.out !== undefined && opts.out !== "-") {
@@ -87,8 +100,9 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
   // Written even when empty, so a rejects file from an earlier run never outlives its import.
   if (rejectsPath !== undefined) await writeRejects(rejectsPath, result.rejects);
 
-  // Rejects are errors about rows: printed even with --quiet.
-  let stderr = render(result.rejects.slice(0, SHOWN_REJECTS).map(rejectDiagnostic));
+  // Rejects are errors about rows: printed even with --quiet; unused overrides are warnings.
+  let stderr = opts.quiet === true || joined === undefined ? "" : render(joined.diagnostics);
+  stderr += render(result.rejects.slice(0, SHOWN_REJECTS).map(rejectDiagnostic));
   if (result.rejects.length > SHOWN_REJECTS) {
     stderr += `… and ${plural(result.rejects.length - SHOWN_REJECTS, "more reject")}${rejectsPath !== undefined ? ` (all in ${rejectsPath})` : ""}.\n`;
   } else if (result.rejects.length > 0 && rejectsPath !== undefined && opts.quiet !== true) {
@@ -119,13 +133,15 @@ export function registerImport(program: Command): void {
     .option("--rejects <file>", "where to write rejected entries as CSV (default: <out>.rejects.csv)")
     .option("--allow-rejects", "exit 0 even if some entries were rejected")
     .addOption(new Option("--case <case>", "the spelling's letter case").choices(["keep", "lower"]).default("keep"))
-    .addOption(new Option("--stress-policy <names...>", "stress policies for CMU-style dictionaries (see lexicons/en-us/README.md)").choices([...STRESS_POLICIES]));
+    .addOption(new Option("--stress-policy <names...>", "stress policies for CMU-style dictionaries (see lexicons/en-us/README.md)").choices([...STRESS_POLICIES]))
+    .option("--joins <file>", "CSV (word,pron) of pronunciations with their joins ('+', '#'): each replaces the imported pronunciation it equals without them");
   commonOptions(cmd);
   examples(cmd, [
     ["strata import --arpabet cmudict.dict -o lexicon.csv", "lexicon.csv and lexicon.csv.rejects.csv"],
     ["zcat dict.gz | strata import --arpabet - --case lower > lexicon.csv", "from standard input to standard output"],
+    ["strata import --arpabet cmudict.dict --joins lexicons/en-us/joins.csv -o lexicon.csv", "compounds and prefixes with their joins marked"],
   ]);
-  cmd.action(async (o: { arpabet: string; out?: string; table?: string; rejects?: string; allowRejects?: boolean; quiet?: boolean; case?: "keep" | "lower"; stressPolicy?: StressPolicy[] }) => {
+  cmd.action(async (o: { arpabet: string; out?: string; table?: string; rejects?: string; allowRejects?: boolean; quiet?: boolean; case?: "keep" | "lower"; stressPolicy?: StressPolicy[]; joins?: string }) => {
     await printOutcome(await runImport(o));
   });
 }

@@ -70,7 +70,7 @@ const jsonFinding = (f: LintFinding): LintJson["findings"][number] => ({
 export function lintSummary(r: LintReport): string {
   let s = "";
   for (const [code, n] of Object.entries(r.counts)) s += `  ${String(n).padStart(7)}  ${code}\n`;
-  s += `lint: ${plural(r.rows, "row")} read (${r.rejects} rejected), ${r.rowsWithFindings} with findings: ${plural(r.errors, "error")}, ${plural(r.warnings, "warning")}\n`;
+  s += `lint: ${plural(r.rows, "row")} read (${r.rejects} rejected), ${r.rowsWithFindings} with findings: ${plural(r.errors, "error")}, ${plural(r.warnings, "warning")}${r.hints > 0 ? `, ${plural(r.hints, "hint")}` : ""}\n`;
   return s;
 }
 

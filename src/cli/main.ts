@@ -24,6 +24,7 @@ const COMMANDS: Readonly<Record<string, () => Promise<(program: Command) => void
   accept: async () => (await import("./accept.js")).registerAccept,
   explain: async () => (await import("./explain.js")).registerExplain,
   interactions: async () => (await import("./interactions.js")).registerInteractions,
+  varieties: async () => (await import("./varieties.js")).registerVarieties,
 };
 
 const program = createProgram();

@@ -2,6 +2,7 @@
 // Values are checked by the argument parser (choices, number parsers), so a bad value is reported
 // at its place on the command line before the command runs.
 
+import { statSync } from "node:fs";
 import { resolve } from "node:path";
 import { InvalidArgumentError, Option, type Command } from "commander";
 import type { Diagnostic } from "../diagnostics.js";
@@ -32,11 +33,27 @@ export function listOf<T extends string>(choices: readonly T[]): (value: string,
   };
 }
 
-/** `-g, --grammar` and `-d, --variety` (resolved by `resolveGrammar` in variety.ts). */
+/** `-g, --grammar`, `-d, --variety` (resolved by `resolveGrammar` in variety.ts) and `--root` (the project root, grammar/source.ts). */
 export function grammarOptions(cmd: Command, grammarHelp = "a grammar folder, a .strata file, or a lexicon folder holding varieties.json (default: the current folder)"): Command {
   return cmd
     .option("-g, --grammar <path>", grammarHelp)
-    .option("-d, --variety <name>", "the variety, by its name in varieties.json (in a grammar folder: NAME.strata; 'general' is grammar.strata)");
+    .option("-d, --variety <name>", "the variety, by its name in varieties.json (in a grammar folder: NAME.strata; 'general' is grammar.strata)")
+    .addOption(rootOption());
+}
+
+/** `--root DIR`: the project root every file a grammar names must lie in (grammar/source.ts); set for the command by program.ts. */
+export function rootOption(): Option {
+  return new Option("--root <dir>", "the project root: files a grammar names (includes, bases, inventory) must lie inside it (default: the nearest folder holding .strata-root, else the grammar's folder)")
+    .argParser((value: string) => {
+      let ok = false;
+      try {
+        ok = statSync(value).isDirectory();
+      } catch {
+        ok = false;
+      }
+      if (!ok) throw new InvalidArgumentError(`There is no folder '${value}'.`);
+      return value;
+    });
 }
 
 /** `--cache-dir`, `--no-cache` and `--max-states` for commands that compile. */

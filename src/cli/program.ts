@@ -7,6 +7,7 @@ import { join } from "node:path";
 import { Command, CommanderError } from "commander";
 import { formatDiagnostic, StrataError } from "../diagnostics.js";
 import { PlsError } from "../emit/pls.js";
+import { setProjectRoot } from "../grammar/index.js";
 import { commandLineError, setCommandLine } from "./cmdline.js";
 import { packageRoot } from "./common.js";
 import { EXIT } from "./exit.js";
@@ -30,7 +31,9 @@ export function createProgram(): Command {
     .showSuggestionAfterError(true)
     .exitOverride()
     .configureOutput({ outputError: () => undefined })
-    .hook("preAction", (_top, action) => setColour(action.opts()["color"] as boolean | undefined));
+    .hook("preAction", (_top, action) => setColour(action.opts()["color"] as boolean | undefined))
+    .hook("preAction", (_top, action) => setProjectRoot(action.opts()["root"] as string | undefined))
+    .hook("postAction", () => setProjectRoot(undefined));
   program.addHelpText("after", "\nExit codes: 0 success, 1 bad input, 3 rows rejected, 4 checks failed, 70 internal error.\nRun 'strata COMMAND --help' for a command's options and examples.\n");
   return program;
 }

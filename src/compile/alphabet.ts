@@ -1,4 +1,4 @@
-// The alphabet a grammar compiles over: symbol 0 = ε, 1 = '#', 2 = '.', then every segment the
+// The alphabet a grammar compiles over: symbol 0 = ε, 1 = '#', 2 = '.', 3 = '+', then every segment the
 // inventory lists (with each prosodic variant lexicon input can carry) and every segment a rule
 // can produce from them, each with its feature bundle and its narrow IPA.
 
@@ -10,7 +10,9 @@ import { Lowering, lowerError, type Assignment } from "./lower.js";
 export const EPSILON = 0;
 export const WORD = 1;
 export const SYLL = 2;
-export const FIRST_SEGMENT = 3;
+/** A morpheme join '+' inside a word. */
+export const JOIN = 3;
+export const FIRST_SEGMENT = 4;
 
 /** Prosodic variants a nucleus can carry: primary, secondary, unstressed, not yet assigned. */
 export const NUCLEUS_PROSODY: readonly (readonly [FeatureValue, FeatureValue])[] = [
@@ -26,7 +28,7 @@ export interface AlphabetSymbol {
 }
 
 export interface Alphabet {
-  /** Number of symbol ids, ε, '#' and '.' included. */
+  /** Number of symbol ids, ε, '#', '.' and '+' included. */
   readonly size: number;
   /** Segment symbols; `segments[i].id === i + FIRST_SEGMENT`. */
   readonly segments: readonly AlphabetSymbol[];
@@ -46,6 +48,7 @@ export function symbolText(a: Alphabet, id: number): string {
   if (id === EPSILON) return "ε";
   if (id === WORD) return "#";
   if (id === SYLL) return ".";
+  if (id === JOIN) return "+";
   return a.segments[id - FIRST_SEGMENT]?.text ?? `?${id}`;
 }
 
@@ -54,7 +57,7 @@ export function patternPossible(low: Lowering, p: Pattern, asg: Assignment, bund
   switch (p.kind) {
     case "element": {
       const m = low.element(p.element, asg);
-      return m.word || m.syll || bundles.some(m.seg);
+      return m.word || m.syll || m.join === true || bundles.some(m.seg);
     }
     case "sequence": return p.items.every((q) => patternPossible(low, q, asg, bundles));
     case "optional": return true;
@@ -178,8 +181,8 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
     const key = bundleKey(b);
     const r = realise(inv, b);
     if (!r.ok && inputMade.has(key)) {
-      byKey.set(key, i + 3);
-      return { id: i + 3, bundle: b, key, text: "?" };
+      byKey.set(key, i + FIRST_SEGMENT);
+      return { id: i + FIRST_SEGMENT, bundle: b, key, text: "?" };
     }
     if (!r.ok) {
       const o = origin.get(key);
@@ -187,18 +190,19 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
       const name = o ? o.name : "inventory";
       throw lowerError("compile/unwritable-segment", `Step '${name}' can produce a segment no inventory symbol and declared diacritics can write: ${r.error}`, span);
     }
-    byKey.set(key, i + 3);
-    return { id: i + 3, bundle: b, key, text: r.text };
+    byKey.set(key, i + FIRST_SEGMENT);
+    return { id: i + FIRST_SEGMENT, bundle: b, key, text: r.text };
   });
-  // domains[k]: the ids that can reach step k (existed before it), plus '#' and '.'.
+  // domains[k]: the ids that can reach step k (existed before it), plus '#', '.' and '+'.
   const createdAt = new Map<string, number>();
   bundles.forEach((b, i) => createdAt.set(bundleKey(b), i));
   const domains = reachCounts.map((count) => {
-    const d = new Uint8Array(segments.length + 3);
+    const d = new Uint8Array(segments.length + FIRST_SEGMENT);
     d[WORD] = 1;
     d[SYLL] = 1;
+    d[JOIN] = 1;
     for (const s of segments) if (createdAt.get(s.key)! < count) d[s.id] = 1;
     return d;
   });
-  return { size: segments.length + 3, segments, byKey, domains };
+  return { size: segments.length + FIRST_SEGMENT, segments, byKey, domains };
 }

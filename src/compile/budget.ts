@@ -54,7 +54,7 @@ export function describe(kind: LimitKind, limit: number): string {
     case "cases":
       return `more than ${fmt(limit)} cases (alpha assignments × environments)`;
     case "time":
-      return `the time limit of ${+(limit / 1000).toFixed(1)} s`;
+      return limit < 1000 ? `the time limit of ${Math.round(limit)} ms` : `the time limit of ${+(limit / 1000).toFixed(1)} s`;
     case "memory":
       return `the memory limit of ${Math.round(limit / (1024 * 1024))} MiB`;
   }

@@ -3,7 +3,7 @@
 
 import type { Element, Environment, Pattern, Rule } from "../grammar/ast.js";
 import { bundleKey, type Bundle } from "../inventory/types.js";
-import { type Alphabet, EPSILON, FIRST_SEGMENT, SYLL, WORD } from "./alphabet.js";
+import { type Alphabet, EPSILON, FIRST_SEGMENT, JOIN, SYLL, WORD } from "./alphabet.js";
 import { liveAssignments } from "./alphabet.js";
 import { CompileLimitError, unbounded, type Budget } from "./budget.js";
 import { anySet, ContextTooLargeError, dfaFromRx, dfaProduct, EPS_RX, type Dfa, type Rx, rxIsEmpty, symbolSet } from "./context.js";
@@ -35,6 +35,7 @@ export class SymbolLowering {
     const set = new Uint8Array(this.alphabet.size);
     if (m.word) set[WORD] = 1;
     if (m.syll) set[SYLL] = 1;
+    if (m.join === true) set[JOIN] = 1;
     for (const s of this.alphabet.segments) if (m.seg(s.bundle)) set[s.id] = 1;
     return set;
   }
@@ -138,6 +139,8 @@ export interface LowerRuleOptions {
   readonly asObligatory?: boolean;
   /** Boundary-blind (from the rule as written). */
   readonly blind: boolean;
+  /** The rule never names '+': joins are invisible to it (absent: false). */
+  readonly joinBlind?: boolean;
   /** Input symbols that can reach this step. */
   readonly domain: Uint8Array;
   /** Build the preferred variant: obligatory application, and the first change by key where alpha cases disagree. */
@@ -146,9 +149,9 @@ export interface LowerRuleOptions {
   readonly budget?: Budget;
 }
 
-/** Sort keys of symbol ids, as the interpreter orders changes ('#', '.', or the bundle's key). */
+/** Sort keys of symbol ids, as the interpreter orders changes ('#', '.', 'j+' for '+', or the bundle's key). */
 export function symbolKeys(a: Alphabet): string[] {
-  return ["", "#", ".", ...a.segments.map((s) => s.key)];
+  return ["", "#", ".", "j+", ...a.segments.map((s) => s.key)];
 }
 
 /**
@@ -185,6 +188,8 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
   for (let i = FIRST_SEGMENT; i < size; i++) segSet[i] = 1;
   // Before a segment, before a '.' (rules that see boundaries: a syllable's end), or the final '#'.
   if (!opts.blind) segSet[SYLL] = 1;
+  // Before a '+', in a rule that names joins.
+  if (opts.joinBlind !== true) segSet[JOIN] = 1;
   const siteRx: Rx = { k: "alt", options: [{ k: "seq", items: [{ k: "set", set: segSet }, any] }, { k: "set", set: symbolSet(size, [WORD]) }] };
   const siteDfa = n === 0 ? contextDfa("the insertion sites", siteRx) : null;
 
@@ -302,7 +307,7 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
         ...(excepts.length > 0 ? { excepts } : {}),
         ...(rightAfter !== undefined ? { rightAfter } : {}),
         ...(tail.length > 0 ? { tail } : {}),
-        ...(n > 0 && m > 0 && m !== n && opts.blind ? { dotsAfter: true } : {}),
+        ...(n > 0 && m > 0 && m !== n && (opts.blind || opts.joinBlind === true) ? { dotsAfter: true } : {}),
       });
     }
   }
@@ -313,6 +318,7 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
     preferSmallest: opts.preferred === true,
     keys: opts.preferred === true ? symbolKeys(alphabet) : [],
     blind: opts.blind,
+    joinBlind: opts.joinBlind === true,
     n,
     cases,
     lefts: lefts.dfas,

@@ -246,3 +246,116 @@ export function rxIsEmpty(rx: Rx): boolean {
     }
   }
 }
+
+/**
+ * Symbols whose columns agree in every DFA of `dfas` act alike: `cols` holds one representative
+ * of each class (enough to explore products and refine partitions), `rep[s]` the one of s.
+ */
+function symbolColumns(dfas: readonly Dfa[], size: number): { cols: number[]; rep: Int32Array } {
+  const cols: number[] = [];
+  const rep = new Int32Array(size);
+  const seen = new Map<string, number>();
+  for (let s = 1; s < size; s++) {
+    let key = "";
+    for (const d of dfas) {
+      for (let q = 0; q < d.states; q++) key += `${d.next[q * size + s]},`;
+      key += "|";
+    }
+    const r = seen.get(key);
+    if (r === undefined) { seen.set(key, s); cols.push(s); }
+    rep[s] = r ?? s;
+  }
+  return { cols, rep };
+}
+
+/**
+ * The minimal DFA of `d` (Moore's partition refinement over the reachable states; symbols whose
+ * columns agree are refined once). Complete DFAs stay complete; sink marks are recomputed.
+ */
+export function minimiseDfa(d: Dfa): Dfa {
+  const { size, next } = d;
+  // Reachable states, in breadth-first order from the start.
+  const order: number[] = [d.start];
+  const seen = new Uint8Array(d.states);
+  seen[d.start] = 1;
+  for (let i = 0; i < order.length; i++) {
+    const q = order[i]!;
+    for (let s = 1; s < size; s++) {
+      const t = next[q * size + s]!;
+      if (!seen[t]) { seen[t] = 1; order.push(t); }
+    }
+  }
+  const { cols } = symbolColumns([d], size);
+  let cls = new Int32Array(d.states).fill(-1);
+  for (const q of order) cls[q] = d.accept[q]!;
+  let count = new Set(order.map((q) => cls[q]!)).size;
+  for (;;) {
+    const index = new Map<string, number>();
+    const nc = new Int32Array(d.states).fill(-1);
+    for (const q of order) {
+      let key = `${cls[q]}`;
+      for (const s of cols) key += `,${cls[next[q * size + s]!]}`;
+      let c = index.get(key);
+      if (c === undefined) { c = index.size; index.set(key, c); }
+      nc[q] = c;
+    }
+    cls = nc;
+    if (index.size === count) break;
+    count = index.size;
+  }
+  const table = new Int32Array(count * size);
+  const accept = new Uint8Array(count);
+  for (const q of order) {
+    const c = cls[q]!;
+    accept[c] = d.accept[q]!;
+    table[c * size] = c;
+    for (let s = 1; s < size; s++) table[c * size + s] = cls[next[q * size + s]!]!;
+  }
+  return finish(size, cls[d.start]!, table, accept);
+}
+
+/**
+ * A boolean combination of DFAs over one alphabet, minimised: the product of `dfas` (reachable
+ * tuples only) accepting where `f` holds of the members' acceptance (`acc[i]` for `dfas[i]`).
+ * `limit` bounds the product's states (ContextTooLargeError); `progress` is called per state made.
+ */
+export function dfaBoolean(dfas: readonly Dfa[], f: (acc: readonly boolean[]) => boolean, limit = 20000, progress?: () => void): Dfa {
+  const size = dfas[0]!.size;
+  const k = dfas.length;
+  const { cols, rep } = symbolColumns(dfas, size);
+  const tuples: Int32Array[] = [Int32Array.from(dfas.map((d) => d.start))];
+  const index = new Map<string, number>([[tuples[0]!.join(","), 0]]);
+  const rows: Int32Array[] = [];
+  const accept: number[] = [];
+  const acc: boolean[] = new Array<boolean>(k).fill(false);
+  for (let i = 0; i < tuples.length; i++) {
+    const t = tuples[i]!;
+    for (let j = 0; j < k; j++) acc[j] = dfas[j]!.accept[t[j]!] === 1;
+    accept.push(f(acc) ? 1 : 0);
+    const row = new Int32Array(size);
+    row[0] = i;
+    for (const s of cols) {
+      const u = new Int32Array(k);
+      for (let j = 0; j < k; j++) u[j] = dfas[j]!.next[t[j]! * size + s]!;
+      const key = u.join(",");
+      let id = index.get(key);
+      if (id === undefined) {
+        id = tuples.length;
+        if (id >= limit) throw new ContextTooLargeError(limit);
+        progress?.();
+        index.set(key, id);
+        tuples.push(u);
+      }
+      row[s] = id;
+    }
+    rows.push(row);
+  }
+  // Symbols outside `cols` behave like their representative in every member.
+  const table = new Int32Array(tuples.length * size);
+  for (let i = 0; i < rows.length; i++) {
+    const row = rows[i]!;
+    table[i * size] = i;
+    for (let s = 1; s < size; s++) table[i * size + s] = row[rep[s]!]!;
+  }
+  return minimiseDfa(finish(size, 0, table, Uint8Array.from(accept)));
+}

@@ -2,14 +2,14 @@
 // per step (rules, syllabify, stress), the composed cascades (preferred and variants) and runners.
 
 import type { Grammar, Rule, Step } from "../grammar/ast.js";
-import { desugar as grammarDesugar, isBoundaryBlind } from "../grammar/index.js";
+import { desugar as grammarDesugar, isBoundaryBlind, namesJoin } from "../grammar/index.js";
 import type { Bundle, Inventory } from "../inventory/types.js";
 import { bundleKey } from "../inventory/types.js";
 import type { Sym } from "../interp/index.js";
-import { SYLLABLE_EDGE, WORD_EDGE } from "../interp/index.js";
+import { JOIN_EDGE, SYLLABLE_EDGE, WORD_EDGE } from "../interp/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { FstLimitError, isFunctional, type Fst } from "../fst/index.js";
-import { type Alphabet, computeAlphabet, FIRST_SEGMENT, SYLL, WORD, symbolText } from "./alphabet.js";
+import { type Alphabet, computeAlphabet, FIRST_SEGMENT, JOIN, SYLL, WORD, symbolText } from "./alphabet.js";
 import { Budget, CompileLimitError, describe as describeLimit, type CompileLimits } from "./budget.js";
 import { SymbolLowering, lowerRule } from "./cases.js";
 import { Lowering, LowerError, lowerError } from "./lower.js";
@@ -19,12 +19,12 @@ import { finishMachine, pairNfaToFst } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
 import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
-export { type Alphabet, EPSILON, WORD, SYLL, FIRST_SEGMENT, symbolText } from "./alphabet.js";
+export { type Alphabet, EPSILON, WORD, SYLL, JOIN, FIRST_SEGMENT, symbolText } from "./alphabet.js";
 export type { Block } from "./cascade.js";
 export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
 /** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
-export const COMPILER_VERSION = "strata-compile-2";
+export const COMPILER_VERSION = "strata-compile-3";
 
 export interface CompileOptions {
   /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */
@@ -128,7 +128,7 @@ export function compileStep(
   /** The rule's alignment construction, with its parts named for the limits. */
   const rule = (r: Rule, variant: "variants" | "preferred"): PairNfa => {
     const blind = isBoundaryBlind(r);
-    const lowered = lowerRule(sl, r, { blind, domain, budget, ...(variant === "preferred" ? { preferred: true } : {}) });
+    const lowered = lowerRule(sl, r, { blind, joinBlind: !namesJoin(r), domain, budget, ...(variant === "preferred" ? { preferred: true } : {}) });
     return budget.within(`the alignment construction${variant === "preferred" ? " of its preferred variant" : ""}`, () => buildRule(lowered, budget));
   };
   switch (step.kind) {
@@ -197,7 +197,8 @@ export function compileSteps(
 
 /**
  * The segments of `words` an alphabet lacks, with prosody cleared and each once (key order): what
- * `extraSegments` needs so that the machines accept the words.
+ * `extraSegments` needs so that the machines accept the words. A segment the alphabet has only
+ * because a step makes it (outside the first step's domain) is lacking too.
  */
 export function segmentsOutside(alphabet: Alphabet, inv: Inventory, words: readonly (readonly Sym[])[]): Bundle[] {
   const si = inv.featureIndex.get("stress");
@@ -205,7 +206,9 @@ export function segmentsOutside(alphabet: Alphabet, inv: Inventory, words: reado
   const found = new Map<string, Bundle>();
   for (const w of words) {
     for (const s of w) {
-      if (s.kind !== "segment" || alphabet.byKey.has(bundleKey(s.bundle))) continue;
+      if (s.kind !== "segment") continue;
+      const id = alphabet.byKey.get(bundleKey(s.bundle));
+      if (id !== undefined && (alphabet.domains[0] === undefined || alphabet.domains[0][id] === 1)) continue;
       const b = [...s.bundle];
       if (si !== undefined) b[si] = "0";
       if (pi !== undefined) b[pi] = "0";
@@ -369,12 +372,14 @@ function assemble(
 ): Compiled {
   const preferred = new PreferredRunner(preferredBlocks, kinds, frozen, budget);
   const variantsRunner = new VariantsRunner(variantBlocks);
+  // A segment only a step makes (not in the first step's domain) is outside what the machines read.
+  const first = alphabet.domains[0];
   const encode = (word: readonly Sym[]): number[] | null => {
     const out: number[] = [];
     for (const s of word) {
-      if (s.kind === "boundary") { out.push(s.which === "word" ? WORD : SYLL); continue; }
+      if (s.kind === "boundary") { out.push(s.which === "word" ? WORD : s.which === "join" ? JOIN : SYLL); continue; }
       const id = alphabet.byKey.get(bundleKey(s.bundle));
-      if (id === undefined) return null;
+      if (id === undefined || (first !== undefined && first[id] !== 1)) return null;
       out.push(id);
     }
     return out;
@@ -385,6 +390,7 @@ function assemble(
       const id = ids[i]!;
       if (id === WORD) out.push(WORD_EDGE);
       else if (id === SYLL) out.push(SYLLABLE_EDGE);
+      else if (id === JOIN) out.push(JOIN_EDGE);
       else {
         const seg = alphabet.segments[id - FIRST_SEGMENT];
         if (seg === undefined) throw new Error(`decode: no symbol ${id} (${symbolText(alphabet, id)})`);

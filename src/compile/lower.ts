@@ -11,10 +11,11 @@ import { resolveSymbol } from "../interp/index.js";
 /** Values of the alpha variables of one case: a feature variable has one value (+ or -), a node variable one value per node feature. */
 export type Assignment = ReadonlyMap<string, readonly FeatureValue[]>;
 
-/** What an element matches: `#`, `.`, and segments whose bundle satisfies `seg`. */
+/** What an element matches: `#`, `.`, `+`, and segments whose bundle satisfies `seg`. */
 export interface ElementMatch {
   readonly word: boolean;
   readonly syll: boolean;
+  readonly join?: boolean;
   readonly seg: (b: Bundle) => boolean;
 }
 
@@ -215,6 +216,7 @@ export class Lowering {
         return { word: ms.some((m) => m.word), syll: ms.some((m) => m.syll), seg: (b) => ms.some((m) => m.seg(b)) };
       }
       case "boundary":
+        if (e.which === "join") return { word: false, syll: false, join: true, seg: () => false };
         return e.which === "word" ? { word: true, syll: false, seg: () => false } : { word: true, syll: true, seg: () => false };
       default: {
         const never: never = e;

@@ -5,8 +5,8 @@
 
 import type { Grammar, StressStep } from "../grammar/ast.js";
 import type { Bundle } from "../inventory/types.js";
-import { resolveClusters } from "../interp/index.js";
-import { type Alphabet, EPSILON, FIRST_SEGMENT, SYLL, WORD } from "./alphabet.js";
+import { cutCluster, resolveClusters } from "../interp/index.js";
+import { type Alphabet, EPSILON, FIRST_SEGMENT, JOIN, SYLL, WORD } from "./alphabet.js";
 import { anySet, dfaFromRx, type Rx } from "./context.js";
 import type { SymbolLowering } from "./cases.js";
 import { lowerError, type Lowering } from "./lower.js";
@@ -38,6 +38,15 @@ class PairBuilder {
  * fixes the set of onsets Y for which cut(X·Y) = |X|, computed on a representative by the same
  * procedure as the interpreter; the following consonants must spell one of them before the next
  * nucleus. Since legal clusters are finite, the signatures are finitely many.
+ *
+ * Joins (`+`, the grammar's `joins` mode). A cluster state also carries `lo`, the lowest cut the
+ * joins read so far allow (0 without a closing join); the signature then looks only at the part of
+ * X after `lo` (the suffixes and the onset-prefix state inside it) plus whether X is a prefix of a
+ * legal coda, which is all the cut can depend on (see `cutCluster`). "through": a join is copied
+ * and changes nothing. "closed": a join sets lo = |X|, and an onset never holds one.
+ * "closed-before-consonant": a join is pending until the next symbol — a consonant closes it (lo
+ * = |X|), a nucleus leaves it open; inside an onset a join may stand only right before the nucleus.
+ * A '.' at a join is written after it (the interpreter's order), so an onset never starts with '+'.
  */
 export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alphabet, domain: Uint8Array): PairNfa {
   const inv = low.inventory;
@@ -78,12 +87,9 @@ export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alph
   const key = (xs: readonly number[]): string => xs.join(",");
   const legalO = (xs: readonly number[]): boolean => xs.length === 0 || O === null || O.has(key(xs));
   const legalK = (xs: readonly number[]): boolean => xs.length === 0 || K === null || K.has(key(xs));
-  /** The interpreter's cut of an inter-nucleus cluster (src/interp/prosody.ts, syllabifyRegion). */
-  const cut = (c: readonly number[]): number => {
-    for (let j = 0; j <= c.length; j++) if (legalO(c.slice(j)) && legalK(c.slice(0, j))) return j;
-    for (let j = 0; j < c.length; j++) if (legalO(c.slice(j))) return j;
-    return c.length - 1;
-  };
+  /** The interpreter's cut of an inter-nucleus cluster (src/interp/prosody.ts, cutCluster), at or after `lo`. */
+  const cut = (c: readonly number[], lo = 0): number => cutCluster(c, lo, legalO, legalK).cut;
+  const mode = grammar.joins ?? "through";
   const prefixesOf = (set: Set<string> | null): Set<string> => {
     const out = new Set<string>([""]);
     if (set) for (const s of set) { const p = s.split(","); for (let i = 1; i <= p.length; i++) out.add(p.slice(0, i).join(",")); }
@@ -102,58 +108,77 @@ export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alph
   for (const c of consonants) if (!candSeen.has(String(c))) { candSeen.add(String(c)); candidates.push([c]); }
 
   /** Signature of a cluster (see the method note): a right congruence that fixes the valid onsets. */
-  const sigOf = (x: readonly number[]): string => {
-    if (O === null) return x.length === 0 ? "e" : "n"; // every cut is at 0
+  const sigOf = (x: readonly number[], lo = 0): string => {
     const xk = key(x);
     const trie = K === null ? "U" : kPrefixes.has(xk) ? `T${xk}` : "N";
+    const flag = lo === x.length ? "J" : "";
+    if (O === null) {
+      // Every onset is legal: the cut is the first j ≥ lo whose coda is legal (else lo).
+      if (lo === 0) return x.length === 0 ? "e" : "n"; // every cut is at 0
+      let hit = false;
+      for (let j = lo; j < x.length && !hit; j++) hit = legalK(x.slice(0, j));
+      return `o|${trie}|${flag}|${hit ? 1 : 0}`;
+    }
+    const room = x.length - lo;
     const zs: string[] = [];
-    for (let l = 1; l <= Math.min(maxO, x.length); l++) {
+    for (let l = 1; l <= Math.min(maxO, room); l++) {
       const z = key(x.slice(x.length - l));
       if (oPrefixes.has(z) && legalK(x.slice(0, x.length - l))) zs.push(z);
     }
     let star = "";
-    for (let l = Math.min(maxO, x.length); l >= 1; l--) {
+    for (let l = Math.min(maxO, room); l >= 1; l--) {
       const z = key(x.slice(x.length - l));
       if (oProper.has(z)) { star = z; break; }
     }
-    return `${trie}|${zs.join(";")}|${star}`;
+    return `${trie}|${zs.join(";")}|${star}${lo > 0 ? `|${flag}` : ""}`;
   };
-  const validOnsets = (x: readonly number[]): string[] | "any" => {
-    if (O === null) return x.length === 0 ? "any" : [];
+  /** The onsets y for which the cut of x·y (no onset before `lo`) falls at |x|; `open`: a join pending at |x| that a nucleus leaves open. */
+  const validOnsets = (x: readonly number[], lo = 0, open = false): string[] | "any" => {
+    if (O === null && lo === 0) return x.length === 0 ? "any" : [];
     const out: string[] = [];
-    for (const y of candidates) if (cut([...x, ...y]) === x.length) out.push(key(y));
+    for (const y of candidates) {
+      const l = open && y.length > 0 ? x.length : lo;
+      if (cut([...x, ...y], l) === x.length) out.push(key(y));
+    }
+    if (O === null) {
+      // Candidates hold the single consonants only; with every onset legal, longer onsets follow the same cut.
+      const any = out.includes("") && consonants.every((c) => out.includes(String(c)));
+      if (any) return "any";
+    }
     return out;
   };
 
   const b = new PairBuilder();
   const R = b.add();
   b.finals.push(R);
+  // X states: a cluster after a nucleus, with the lowest cut its joins allow and (mode
+  // closed-before-consonant) whether a join was just read.
   const xState = new Map<string, number>();
-  const xRep: number[][] = [];
-  const xIds: number[] = [];
-  const internX = (x: number[]): number => {
-    const s = sigOf(x);
+  const xWork: { rep: number[]; lo: number; pending: boolean; id: number }[] = [];
+  const internX = (x: number[], lo = 0, pending = false): number => {
+    const s = `${pending ? "P" : ""}${sigOf(x, lo)}`;
     let id = xState.get(s);
     if (id === undefined) {
       id = b.add();
       xState.set(s, id);
-      xRep.push(x);
-      xIds.push(id);
+      xWork.push({ rep: x, lo, pending, id });
       b.finals.push(id);
     }
     return id;
   };
-  // Y states: (valid-onset set, onset prefix read so far).
+  // Y states: (valid-onset set, onset prefix read so far, whether a consonant was read, whether a
+  // join was just read). "any+": every non-empty onset.
+  type YSet = Set<string> | "any" | "any+";
   const yState = new Map<string, number>();
-  const yWork: { set: Set<string> | "any"; setKey: string; y: number[]; id: number }[] = [];
+  const yWork: { set: YSet; setKey: string; y: number[]; started: boolean; joined: boolean; id: number }[] = [];
   const yPrefixSets = new Map<string, Set<string>>();
-  const internY = (set: Set<string> | "any", setKey: string, y: number[]): number => {
-    const k = `${setKey}#${key(y)}`;
+  const internY = (set: YSet, setKey: string, y: number[], started: boolean, joined: boolean): number => {
+    const k = `${setKey}#${key(y)}#${started ? 1 : 0}${joined ? 1 : 0}`;
     let id = yState.get(k);
     if (id === undefined) {
       id = b.add();
       yState.set(k, id);
-      yWork.push({ set, setKey, y, id });
+      yWork.push({ set, setKey, y, started, joined, id });
     }
     return id;
   };
@@ -165,35 +190,49 @@ export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alph
   const nucleusIds = ids((x) => nucleus[x] === 1);
   const consIds = ids((x) => nucleus[x] === 0);
   const x0 = internX([]);
-  // R: the region's initial cluster (no boundary), until the first nucleus.
+  // R: the region's initial cluster (no boundary), until the first nucleus; joins change nothing there.
   for (const c of consIds) b.arc(R, c, c, R);
   for (const v of nucleusIds) b.arc(R, v, v, x0);
   b.arc(R, WORD, WORD, R);
-  for (let i = 0; i < xIds.length; i++) {
-    const id = xIds[i]!;
-    const rep = xRep[i]!;
-    for (const c of consIds) b.arc(id, c, c, internX([...rep, classOf[c]!]));
+  b.arc(R, JOIN, JOIN, R);
+  for (let i = 0; i < xWork.length; i++) {
+    const { rep, lo, pending, id } = xWork[i]!;
+    // A pending join closes when a consonant follows it.
+    const loOn = pending ? rep.length : lo;
+    for (const c of consIds) b.arc(id, c, c, internX([...rep, classOf[c]!], loOn));
     b.arc(id, WORD, WORD, R);
-    const valid = validOnsets(rep);
+    if (mode === "through") b.arc(id, JOIN, JOIN, id);
+    else if (mode === "closed") b.arc(id, JOIN, JOIN, internX(rep, rep.length));
+    else b.arc(id, JOIN, JOIN, internX(rep, lo, true));
+    const valid = validOnsets(rep, lo, pending);
     if (valid !== "any" && valid.length === 0) continue;
-    const setKey = valid === "any" ? "any" : valid.join(";");
-    let set: Set<string> | "any" = "any";
+    let setKey: string = valid === "any" ? "any" : valid.join(";");
+    let set: YSet = "any";
     if (valid !== "any") {
-      set = new Set(valid);
-      if (!yPrefixSets.has(setKey)) yPrefixSets.set(setKey, prefixesOf(set));
+      if (O === null) { set = "any+"; setKey = "any+"; } // every non-empty onset (validOnsets tried the single consonants)
+      else {
+        set = new Set(valid);
+        if (!yPrefixSets.has(setKey)) yPrefixSets.set(setKey, prefixesOf(set));
+      }
     }
-    b.arc(id, EPSILON, SYLL, internY(set, setKey, []));
+    b.arc(id, EPSILON, SYLL, internY(set, setKey, [], false, false));
   }
   for (let i = 0; i < yWork.length; i++) {
-    const { set, setKey, y, id } = yWork[i]!;
-    const prefixes = set === "any" ? null : yPrefixSets.get(setKey)!;
-    for (const c of consIds) {
-      // With every onset legal ("any"), what was read does not matter: stay in one state.
-      const ny = prefixes ? [...y, classOf[c]!] : [];
-      if (prefixes && !prefixes.has(key(ny))) continue;
-      b.arc(id, c, c, internY(set, setKey, ny));
+    const { set, setKey, y, started, joined, id } = yWork[i]!;
+    const prefixes = typeof set === "string" ? null : yPrefixSets.get(setKey)!;
+    // After a join inside an onset (closed-before-consonant), only the nucleus may follow.
+    if (!(joined && mode === "closed-before-consonant")) {
+      for (const c of consIds) {
+        // With every onset legal ("any"), what was read does not matter: stay in one state.
+        const ny = prefixes ? [...y, classOf[c]!] : [];
+        if (prefixes && !prefixes.has(key(ny))) continue;
+        b.arc(id, c, c, internY(set, setKey, ny, true, false));
+      }
     }
-    if (set === "any" || set.has(key(y))) for (const v of nucleusIds) b.arc(id, v, v, x0);
+    // A join inside an onset: never first (a '.' at a join follows it), never in mode "closed".
+    if (started && mode !== "closed") b.arc(id, JOIN, JOIN, internY(set, setKey, y, true, true));
+    const ok = set === "any" || (set === "any+" ? started : set.has(key(y)));
+    if (ok) for (const v of nucleusIds) b.arc(id, v, v, x0);
   }
   // Every '.' of the input is deleted, wherever it stands.
   for (let s = 0; s < b.states; s++) b.arc(s, SYLL, EPSILON, s);
@@ -313,6 +352,11 @@ export function buildStress(step: StressStep, grammar: Grammar, sl: SymbolLoweri
       }
       if (x === SYLL) {
         b.arc(id, x, x, intern({ ...s, rh: s.mode === 2 ? closeRhyme(s.rh) : -1 }));
+        continue;
+      }
+      // A join neither closes a rhyme nor counts in its shape (interp/prosody.ts, assignStress).
+      if (x === JOIN) {
+        b.arc(id, x, x, id);
         continue;
       }
       if (!isNuc[x]) {

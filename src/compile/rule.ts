@@ -15,15 +15,16 @@
 // (left-to-right, as Mohri & Sproat's l1/l2 placed after the replacement); right-to-left is the
 // mirror image (left context Σ*·λ·τ on the input at the chunk's end, right context ρ·Σ* on the
 // output after it). Boundary-blind rules project '.' to ε in every context and target check and
-// copy it through without a decision (the paper's "ignore" operation). Exceptions (`unless`,
+// copy it through without a decision (the paper's "ignore" operation); a rule that never names '+'
+// treats joins the same way. Exceptions (`unless`,
 // `longest-first`) need no new filter: where a case's left context holds, the right check it
 // spawns is its right context minus those of the exceptions whose left context holds too. Each decision token then
 // maps to its input:output pairs, giving an acceptor over pair-symbols that the cascade
 // determinises and minimises (pairs.ts).
 
 import type { ApplicationMode } from "../grammar/ast.js";
-import { dfaProduct, type Dfa } from "./context.js";
-import { EPSILON, SYLL, WORD } from "./alphabet.js";
+import { ContextTooLargeError, dfaBoolean, dfaProduct, type Dfa } from "./context.js";
+import { EPSILON, FIRST_SEGMENT, JOIN, SYLL, WORD } from "./alphabet.js";
 import { CompileLimitError, unbounded, type Budget } from "./budget.js";
 
 /** One alpha-variable assignment × environment of a rule, over symbol ids. */
@@ -42,7 +43,7 @@ export interface RuleCase {
   readonly rightAfter?: number;
   /** A literal change longer than its target: the extra segments, written after the last target segment. */
   readonly tail?: readonly number[];
-  /** A literal change of another length in a boundary-blind rule: the '.' inside the target go after the change. */
+  /** A literal change of another length in a rule blind to '.' or '+': the hidden boundaries inside the target go after the change, in order. */
   readonly dotsAfter?: boolean;
   /**
    * Exceptions (`unless`, longer `longest-first` expansions): the case's site does not hold where
@@ -57,6 +58,8 @@ export interface LoweredRule {
   /** False: obligatory (copy forbidden where a site holds). */
   readonly optional: boolean;
   readonly blind: boolean;
+  /** The rule never names '+': joins are copied through without a decision, like '.' in a boundary-blind rule (absent: false). */
+  readonly joinBlind?: boolean;
   /** Target length (0 = insertion). */
   readonly n: number;
   readonly cases: readonly RuleCase[];
@@ -86,6 +89,9 @@ export interface PairNfa {
 
 interface Pending { b: number; q: number; pos: boolean }
 
+/** No check: the decision has no case to judge. */
+const NONE = -1;
+
 /**
  * Builds the rule's relation as an NFA over input:output pairs (ε-free on neither side in general:
  * deletions are x:ε, insertions ε:y). Deterministic in the decision tokens; several tokens may
@@ -97,6 +103,11 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
   const maxStates = budget.limits.ruleStates;
   const tooLarge = (): CompileLimitError => new CompileLimitError("states", budget.part, maxStates);
   const { size, n, cases, lefts, blind, mode } = r;
+  /** Boundaries the rule cannot see: '.' when boundary-blind, '+' when it never names '+'. */
+  const hidden = new Uint8Array(size);
+  if (blind) hidden[SYLL] = 1;
+  if (r.joinBlind === true) hidden[JOIN] = 1;
+  const anyHidden = blind || r.joinBlind === true;
   /** The rule's right-context checkers, then the exception-reduced ones made on demand (see `eff`). */
   const rights: Dfa[] = [...r.rights];
   const obligatory = !r.optional;
@@ -134,7 +145,8 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
   // cases d whose left context held at the chunk's start and whose target matches so far, each
   // with how d's change compares with c's so far (0 equal, 1 d sorts first). At the chunk's end
   // every d that sorts first must not hold (its right context is then checked as a negative).
-  // d: '.' held back inside a chunk whose change has another length (written after the change).
+  // d: hidden boundaries held back inside a chunk whose change has another length (written after
+  // the change, in order): their symbol ids as base-4 digits, the first held back the most significant.
   type State = { s: number; p: Int32Array; v: Pending[]; cmp: readonly number[]; d: number };
   const keyOf = (st: State): string => {
     let k = `${st.s}|${st.d}|${st.p.join(",")}|${st.cmp.join(",")}|`;
@@ -155,7 +167,7 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     return id;
   };
 
-  const project = (sym: number): number => (sym === EPSILON || (blind && sym === SYLL) ? EPSILON : sym);
+  const project = (sym: number): number => (sym === EPSILON || hidden[sym] === 1 ? EPSILON : sym);
 
   /** Advances a working state over one pair; returns false if it died. */
   const stepPair = (p: Int32Array, v: Pending[], inp: number, outp: number): Pending[] | null => {
@@ -186,6 +198,56 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     return true;
   };
 
+  /** Adds a check that may be NONE (no case: a positive check fails, a negative one holds). */
+  const spawnAt = (v: Pending[], b: number, pos: boolean): boolean => (b === NONE ? !pos : spawn(v, b, pos));
+
+  // Combined checks. Where several cases are judged at one decision, their right checks become
+  // one DFA (a boolean combination of theirs, minimised; made once per combination), so a state
+  // carries at most one new pending check per position instead of one per case.
+  const comboIndex = new Map<string, number>();
+  const combine = (kind: string, groups: readonly (readonly number[])[], f: (any: readonly boolean[]) => boolean): number => {
+    const sorted = groups.map((g) => [...new Set(g)].sort((a, b) => a - b));
+    const key = `${kind}|${sorted.map((g) => g.join(",")).join("|")}`;
+    let i = comboIndex.get(key);
+    if (i === undefined) {
+      const members = [...new Set(sorted.flat())].sort((a, b) => a - b);
+      const at = sorted.map((g) => g.map((b) => members.indexOf(b)));
+      const limit = budget.limits.contextStates;
+      let d: Dfa;
+      try {
+        d = dfaBoolean(members.map((b) => rights[b]!), (acc) => f(at.map((g) => g.some((j) => acc[j]))), limit, budget.tick);
+      } catch (e) {
+        if (e instanceof ContextTooLargeError) throw new CompileLimitError("states", `the right contexts combined by ${budget.part}`, limit);
+        throw e;
+      }
+      i = rights.length;
+      rights.push(d);
+      comboIndex.set(key, i);
+    }
+    return i;
+  };
+  /** Some of the checks holds. */
+  const anyOf = (bs: readonly number[]): number => {
+    const u = [...new Set(bs)];
+    return u.length === 0 ? NONE : u.length === 1 ? u[0]! : combine("or", [u], (g) => g[0]!);
+  };
+  /** Some of `bs` holds and none of `not`. */
+  const anyBut = (bs: readonly number[], not: readonly number[]): number =>
+    not.length === 0 ? anyOf(bs) : combine("but", [bs, not], (g) => g[0]! && !g[1]!);
+  /**
+   * The negative check of a pair x:x that is both a copy and a rewrite to x: it is written where no
+   * case holds (`all`) or where a case with output x holds (`same`) and none sorting first (`better`).
+   */
+  const keepOrCopy = (all: readonly number[], same: readonly number[], better: readonly number[]): number =>
+    combine("keep", [all, same, better], (g) => g[0]! && !(g[1]! && !g[2]!));
+  /** The left-context states after reading input symbol x. */
+  const advanceLeft = (p: Int32Array, x: number): Int32Array => {
+    const q = Int32Array.from(p);
+    const l = project(x);
+    if (l !== EPSILON) for (let i = 0; i < nl; i++) q[i] = lefts[i]!.next[q[i]! * size + l]!;
+    return q;
+  };
+
   const leftHolds = (p: Int32Array, c: RuleCase): boolean => lefts[c.left]!.accept[p[c.left]!] === 1;
 
   // Exceptions. Where a case's left context holds, its site holds iff its right context does and no
@@ -211,11 +273,8 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     return i;
   };
 
-  /** Negative checks for a copy decision: no case's site may hold here. */
-  const forbidSites = (p: Int32Array, v: Pending[]): boolean => {
-    for (const c of cases) if (leftHolds(p, c) && !spawn(v, eff(c, p), false)) return false;
-    return true;
-  };
+  /** The negative check for a copy decision: no case's site may hold here. */
+  const forbidSites = (p: Int32Array, v: Pending[]): boolean => spawnAt(v, anyOf(cases.filter((c) => leftHolds(p, c)).map((c) => eff(c, p))), false);
 
   // Subsumption among pending checks: for negative checks only the largest languages matter (the
   // path fails if any accepts), for positive ones only the smallest (all must accept); a positive
@@ -333,42 +392,83 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     const lastPairs = (c: RuleCase, x: number, y: number, dots: number): number[] => {
       const out = [x, y];
       for (const t of c.tail ?? []) out.push(EPSILON, t);
-      for (let i = 0; i < dots; i++) out.push(EPSILON, SYLL);
+      for (const h of heldBack(dots)) out.push(EPSILON, h);
       return out;
     };
 
-    if (st.s === 0) {
-      // Copy decisions (and '.' passed through by boundary-blind rules).
+    if (st.s === 0 && n === 1) {
+      // One-segment targets: one decision per output pair. The cases that could rewrite x here
+      // are judged together: rewriting to y needs some case with that output to hold (one
+      // positive check, the union of their right contexts) and, in the preferred variant, no
+      // case with an output that sorts first; a copy needs no case to hold (one negative check).
+      // A rewrite to x itself is the same pair as the copy and is folded into it.
       for (const x of domain) {
         nextS = 0;
-        if (blind && x === SYLL) { go([x, x], none); continue; }
-        if (!obligatory) { go([x, x], none); continue; }
-        if (n === 0) {
-          go([x, x], (k, p, v) => (k === 0 ? forbidSites(p, v) : true));
-        } else if (rtl) {
-          go([x, x], (k, p, v) => (k === 1 ? forbidSites(p, v) : true));
-        } else {
-          go([x, x], (k, p, v) => (k === 0 ? forbidSites(p, v) : true));
+        nextD = 0;
+        nextCmp = [];
+        if (hidden[x] === 1) { go([x, x], none); continue; }
+        // Left contexts are judged before x, or after it when they include the target (right-to-left).
+        const pl = rtl ? advanceLeft(st.p, x) : st.p;
+        const holding = cases.filter((c) => c.target[0]![x] === 1 && leftHolds(pl, c));
+        const all = holding.map((c) => eff(c, pl));
+        const groups = new Map<string, { pairs: number[]; y: number; rights: number[] }>();
+        for (const c of holding) {
+          const y = c.out[0]![x]!;
+          if (y < 0) continue;
+          const pairs = lastPairs(c, x, y, 0);
+          const key = pairs.join(",");
+          let g = groups.get(key);
+          if (g === undefined) { g = { pairs, y, rights: [] }; groups.set(key, g); }
+          g.rights.push(eff(c, pl));
+        }
+        let copyCheck = obligatory ? anyOf(all) : NONE;
+        for (const g of groups.values()) {
+          const better = prefer
+            ? holding.filter((d) => { const o = d.out[0]![x]!; return o >= 0 && keys[o]! < keys[g.y]!; }).map((d) => eff(d, pl))
+            : [];
+          if (g.pairs.length === 2 && g.y === x) {
+            if (obligatory) copyCheck = keepOrCopy(all, g.rights, better);
+            continue;
+          }
+          const check = anyBut(g.rights, better);
+          const end = g.pairs.length / 2;
+          go(g.pairs, (k, _p, v) => (k === (rtl ? end : 0) ? spawnAt(v, check, true) : true));
+        }
+        go([x, x], (k, _p, v) => (k === (rtl ? 1 : 0) ? spawnAt(v, copyCheck, false) : true));
+      }
+    } else if (st.s === 0 && n === 0) {
+      // Insertions: a copy needs no case to hold; an insertion needs some case with that string
+      // to hold (one check per decision, as above).
+      const holding = cases.filter((c) => leftHolds(st.p, c));
+      const forbid = obligatory ? anyOf(holding.map((c) => eff(c, st.p))) : NONE;
+      for (const x of domain) {
+        nextS = 0;
+        go([x, x], (k, _p, v) => (k === 0 && hidden[x] === 0 ? spawnAt(v, forbid, false) : true));
+      }
+      const groups = new Map<string, { ins: number[]; rights: number[] }>();
+      for (const c of holding) {
+        const key = c.insert.join(",");
+        let g = groups.get(key);
+        if (g === undefined) { g = { ins: c.insert.flatMap((y) => [EPSILON, y]), rights: [] }; groups.set(key, g); }
+        g.rights.push(eff(c, st.p));
+      }
+      for (const g of groups.values()) {
+        const check = anyOf(g.rights);
+        const m = g.ins.length / 2;
+        for (const x of domain) {
+          if (!(x === WORD || x >= FIRST_SEGMENT || ((x === SYLL || x === JOIN) && hidden[x] === 0))) continue;
+          nextS = 0;
+          go([...g.ins, x, x], (k, _p, v) => (k === (rtl ? m : 0) ? spawnAt(v, check, true) : true));
         }
       }
-      // Rewrite decisions.
-      cases.forEach((c) => {
-        if (n === 0) {
-          if (!rtl && !leftHolds(st.p, c)) return;
-          if (rtl && !leftHolds(st.p, c)) return;
-          const ins: number[] = [];
-          for (const y of c.insert) ins.push(EPSILON, y);
-          const m = c.insert.length;
-          for (const x of domain) {
-            if (!(x === WORD || x >= 3 || (x === SYLL && !blind))) continue;
-            nextS = 0;
-            go([...ins, x, x], (k, p, v) => {
-              if (rtl ? k === m : k === 0) return spawn(v, eff(c, p), true);
-              return true;
-            });
-          }
-          return;
-        }
+    } else if (st.s === 0) {
+      // Targets of several segments: a copy needs no case to hold; a rewrite starts a chunk of one case.
+      for (const x of domain) {
+        nextS = 0;
+        if (hidden[x] === 1 || !obligatory) { go([x, x], none); continue; }
+        go([x, x], (k, p, v) => (k === (rtl ? 1 : 0) ? forbidSites(p, v) : true));
+      }
+      cases.forEach((c, ci) => {
         if (!rtl && !leftHolds(st.p, c)) return;
         const t0 = c.target[0]!;
         const o0 = c.out[0]!;
@@ -376,39 +476,30 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
           if (!t0[x]) continue;
           const y = o0[x]!;
           if (y < 0) continue;
-          nextS = n === 1 ? 0 : 1 + cases.indexOf(c) * n + 1;
+          nextS = 1 + ci * n + 1;
           nextCmp = preferLong ? compareStep(cases.flatMap((d, di) => (d !== c && (rtl || leftHolds(st.p, d)) ? [di, 0, rtl ? -1 : eff(d, st.p, true)] : [])), c, 0, x) : [];
-          // Cases whose change on x sorts before this one must not hold here (preferred variant).
-          const better = prefer ? cases.filter((d) => d !== c && d.target[0]![x] && d.out[0]![x]! >= 0 && keys[d.out[0]![x]!]! < keys[y]!) : [];
-          const excludeBetter = (p: Int32Array, v: Pending[]): boolean => {
-            for (const d of better) if (leftHolds(p, d) && !spawn(v, eff(d, p), false)) return false;
-            return true;
-          };
-          const pairs = n === 1 ? lastPairs(c, x, y, 0) : [x, y];
-          const end = pairs.length / 2;
           nextD = 0;
-          go(pairs, (k, p, v) => {
-            if (!rtl) return k === 0 ? spawn(v, eff(c, p), true) && excludeBetter(p, v) : true;
-            if (n === 1 && k === end) return leftHolds(p, c) && spawn(v, eff(c, p), true) && excludeBetter(p, v);
-            return true;
-          });
+          go([x, y], (k, p, v) => (!rtl && k === 0 ? spawnAt(v, eff(c, p), true) : true));
         }
       });
     } else {
       const ci = Math.floor((st.s - 1) / n);
       const j = (st.s - 1) % n;
       const c = cases[ci]!;
-      if (blind) {
-        nextS = st.s;
-        nextCmp = st.cmp;
-        // Dots inside the target: copied in place, or held back (at most 8) after a change of another length.
-        if (c.dotsAfter !== true) { nextD = st.d; go([SYLL, SYLL], none); }
-        else if (st.d < 8) { nextD = st.d + 1; go([SYLL, EPSILON], none); }
+      if (anyHidden) {
+        // Hidden boundaries inside the target: copied in place, or held back (at most 8) after a change of another length.
+        for (const h of [SYLL, JOIN]) {
+          if (hidden[h] === 0) continue;
+          nextS = st.s;
+          nextCmp = st.cmp;
+          if (c.dotsAfter !== true) { nextD = st.d; go([h, h], none); }
+          else if (heldBack(st.d).length < 8) { nextD = st.d * 4 + h; go([h, EPSILON], none); }
+        }
       }
       const tj = c.target[j]!;
       const oj = c.out[j]!;
       for (const x of domain) {
-        if (!tj[x] || (blind && x === SYLL)) continue;
+        if (!tj[x] || hidden[x] === 1) continue;
         const y = oj[x]!;
         if (y < 0) continue;
         nextS = j + 1 === n ? 0 : st.s + 1;
@@ -440,6 +531,13 @@ export function buildRule(r: LoweredRule, budget: Budget = unbounded()): PairNfa
     if (arcs[i + 3]! < 0) arcs[i + 3] = base - arcs[i + 3]!;
   }
   return { states: states.length + mids, start: 0, finals, arcs: Int32Array.from(arcs) };
+}
+
+/** The boundaries held back in a chunk, in order (the base-4 digits of `d`; see State.d). */
+function heldBack(d: number): number[] {
+  const out: number[] = [];
+  for (let x = d; x > 0; x = Math.floor(x / 4)) out.unshift(x % 4);
+  return out;
 }
 
 /** The mirror image of a pair NFA (arcs reversed, start and finals swapped through a fresh start). */

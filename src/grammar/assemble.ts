@@ -3,7 +3,7 @@
 
 import * as path from "node:path";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import type { ClassDef, Cluster, Grammar, NodeDef, Pattern, Span, Step } from "./ast.js";
+import type { ClassDef, Cluster, Grammar, JoinMode, NodeDef, Pattern, Span, Step } from "./ast.js";
 
 /** One top-level statement after parsing, in file order (includes are expanded by the loader). */
 export type TopItem =
@@ -14,11 +14,12 @@ export type TopItem =
   | { readonly kind: "class"; readonly def: ClassDef; readonly implicit: boolean }
   | { readonly kind: "onsets" | "codas"; readonly clusters: readonly Cluster[]; readonly span: Span }
   | { readonly kind: "heavy"; readonly patterns: readonly Pattern[]; readonly span: Span }
+  | { readonly kind: "joins"; readonly mode: JoinMode; readonly span: Span }
   | { readonly kind: "step"; readonly step: Step };
 
 /**
  * Builds a Grammar from items in order (includes already expanded or ignored). Reports a second
- * `inventory`, `diacritics`, `onsets`, `codas` or `heavy`, and a node or class defined twice.
+ * `inventory`, `diacritics`, `onsets`, `codas`, `heavy` or `joins`, and a node or class defined twice.
  * Steps other than rules are named by their keyword, numbered from the second on (`stress-2`).
  */
 export function assembleGrammar(
@@ -34,6 +35,8 @@ export function assembleGrammar(
   let onsets: readonly Cluster[] | null = null;
   let codas: readonly Cluster[] | null = null;
   let heavy: readonly Pattern[] | null = null;
+  let joins: JoinMode | null = null;
+  let joinsSpan: Span | null = null;
   const steps: Step[] = [];
   const seen = new Map<string, Span>();
   const once = (what: string, span: Span): boolean => {
@@ -80,6 +83,9 @@ export function assembleGrammar(
       case "heavy":
         if (once("heavy", it.span)) heavy = it.patterns;
         break;
+      case "joins":
+        if (once("joins", it.span)) { joins = it.mode; joinsSpan = it.span; }
+        break;
       case "step": {
         const s = it.step;
         if (s.kind === "rule") steps.push(s);
@@ -96,8 +102,13 @@ export function assembleGrammar(
       }
     }
   }
+  // A closing join needs the onsets to decide what stays after it (with codas but no onsets the
+  // syllabifier would have to weigh every longer coda across the join).
+  if (joins !== null && joins !== "through" && joinsSpan !== null && onsets === null && codas !== null) {
+    diagnostics.push(diagnostic("error", "grammar/joins-without-onsets", `'joins = ${joins}' needs an 'onsets' list when 'codas' is declared`, joinsSpan));
+  }
   return {
-    grammar: { file, inventory, diacritics, nodes, classes, onsets, codas, heavy: heavy ?? [], steps, files },
+    grammar: { file, inventory, diacritics, nodes, classes, onsets, codas, heavy: heavy ?? [], ...(joins !== null ? { joins } : {}), steps, files },
     diagnostics,
   };
 }

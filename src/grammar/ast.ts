@@ -22,8 +22,8 @@ export type Element =
   | { readonly kind: "segment"; readonly symbol: string; readonly span: Span }
   /** A named class (`C`, `V`, `Stop`): defined by `class NAME = ...`. */
   | { readonly kind: "class"; readonly name: string; readonly span: Span }
-  /** `#` word boundary; `$` (or `.`) syllable boundary, which also matches `#`. */
-  | { readonly kind: "boundary"; readonly which: "word" | "syllable"; readonly span: Span };
+  /** `#` word boundary; `$` (or `.`) syllable boundary, which also matches `#`; `+` morpheme join (matches only `+`). */
+  | { readonly kind: "boundary"; readonly which: "word" | "syllable" | "join"; readonly span: Span };
 
 /** A regular expression over elements, in SPE notation. */
 export type Pattern =
@@ -138,6 +138,15 @@ export interface Cluster {
   readonly span: Span;
 }
 
+/**
+ * `joins = through | closed | closed-before-consonant` (DEVELOPERS.md, "Syllabification and its
+ * fallback"): "through" — the syllabifier reads through `+` as if it were not there; "closed" —
+ * no onset crosses a `+` (the consonants before it stay in the coda, as at `#`);
+ * "closed-before-consonant" — an onset crosses a `+` only when a nucleus follows it directly.
+ */
+export type JoinMode = "through" | "closed" | "closed-before-consonant";
+export const JOIN_MODES: readonly JoinMode[] = ["through", "closed", "closed-before-consonant"];
+
 export interface Grammar {
   /** The main grammar file. */
   readonly file: string;
@@ -151,6 +160,8 @@ export interface Grammar {
   readonly codas: readonly Cluster[] | null;
   /** Rhyme shapes that make a syllable heavy (for weight-sensitive stress). */
   readonly heavy: readonly Pattern[];
+  /** How syllabification treats a morpheme join `+` (the `joins` statement; absent: "through"). */
+  readonly joins?: JoinMode;
   /** The ordered steps: rules, syllabification, default stress. */
   readonly steps: readonly Step[];
   /** Every file read (main and included), for cache keys. */

@@ -8,6 +8,7 @@ import * as path from "node:path";
 import { fileURLToPath } from "node:url";
 import type { Grammar } from "./ast.js";
 import { loadGrammar, type LoadedGrammar } from "./load.js";
+import { projectRoot } from "./source.js";
 import { loadInventory } from "../inventory/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { fsReason, writeFileAtomicSync } from "../tempfile.js";
@@ -83,10 +84,12 @@ const cacheWarning = (file: string, message: string): Diagnostic => diagnostic("
  * the same text and the front end's code is the same. A damaged entry is loaded afresh and
  * rewritten, with a warning; a cache that cannot be written is a warning too, never an error.
  */
-export function loadGrammarCached(p: string, cacheDir: string): LoadedGrammar {
+export function loadGrammarCached(p: string, cacheDir: string, opts: { readonly root?: string } = {}): LoadedGrammar {
   let main = path.resolve(p);
   if (existsSync(main) && !main.endsWith(".strata")) main = path.join(main, "grammar.strata");
-  const index = path.join(cacheDir, `grammar-${sha(main).slice(0, 32)}.json`);
+  // The project root decides which files may be read: a grammar loaded under another root is another entry.
+  const root = projectRoot(main, opts.root);
+  const index = path.join(cacheDir, `grammar-${sha(`${main}\u0000${root}`).slice(0, 32)}.json`);
   const warnings: Diagnostic[] = [];
   const e = readEntry(index);
   if (e !== "missing" && "bad" in e) {
@@ -101,7 +104,7 @@ export function loadGrammarCached(p: string, cacheDir: string): LoadedGrammar {
       // A well-formed entry of an unexpected shape: load afresh below.
     }
   }
-  const loaded = loadGrammar(p);
+  const loaded = loadGrammar(p, { root });
   const g = loaded.grammar;
   if (g !== undefined && loaded.inventory !== undefined && !loaded.diagnostics.some((d) => d.severity === "error") && g.inventory !== null) {
     const dia = diacriticsOf(g);

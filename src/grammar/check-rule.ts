@@ -7,6 +7,7 @@ import { checkElement, checkPattern, kindText } from "./check-names.js";
 import { conditionsSatisfiable } from "./desugar.js";
 import { elementText } from "./parse-patterns.js";
 import { checkNotation } from "./check-notation.js";
+import { namesJoin } from "./joins.js";
 
 /** Every rule: duplicate names, then its shape; a rule with errors is marked broken. */
 export function checkRules(c: CheckContext): void {
@@ -37,6 +38,11 @@ function ruleShape(c: CheckContext, r: Rule): void {
     checkPattern(c, env.left, new Map(bound));
     checkPattern(c, env.right, new Map(bound));
   }
+  // `where` conditions are read on the string with every '.' visible but no '+' (desugar.ts):
+  // a rule that names '+' writes its contexts out instead.
+  const withWhere = [...r.environments, ...(r.unless ?? [])].find((e) => e.conditions.length > 0);
+  if (withWhere !== undefined && namesJoin(r))
+    c.error("grammar/join-with-where", "a rule that names the morpheme join '+' cannot use 'where' shorthands; write the contexts out", withWhere.conditions[0]!.span);
   const used: VariableUses = new Map();
   for (const ch of r.change) checkElement(c, ch, used);
   for (const [v, u] of used) {

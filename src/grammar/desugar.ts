@@ -239,6 +239,8 @@ type Requirement = { kind: "boundary"; which: "word" | "syllable"; span: Span } 
 function intersect(e: Element, r: Requirement, ctx: DesugarContext | undefined, depth = 0): P {
   if (r.kind === "boundary") {
     if (e.kind !== "boundary") return null;
+    // A join is no syllable or word boundary: a condition's edge never meets it.
+    if (e.which === "join") return null;
     return el({ kind: "boundary", which: e.which === "word" || r.which === "word" ? "word" : "syllable", span: e.span });
   }
   switch (e.kind) {

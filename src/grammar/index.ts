@@ -6,5 +6,9 @@ export { parseGrammarText, STATEMENT_KEYWORDS, PROSODIC_CONDITIONS, elementText,
 export { loadGrammar, splitLiterals, GRAMMAR_FILE, type LoadedGrammar } from "./load.js";
 export { checkGrammar } from "./check.js";
 export { loadGrammarCached } from "./cache.js";
+export { defaultRoot, namedProjectRoot, projectRoot, setProjectRoot, ROOT_MARKER } from "./source.js";
+export type { StepOrigin, OmittedStep, Where } from "./inherit.js";
+export type { VarietyOrigins, LoadOptions } from "./load.js";
 export { expandEnvironments, hasEnvironmentNotation, mirrorImages, parenthesisExpansions, MAX_EXPANSIONS, TooManyExpansions } from "./expand.js";
+export { namesJoin, environmentNamesJoin } from "./joins.js";
 export { desugar, insertedBundlesAsSegments, isBoundaryBlind, conditionsSatisfiable, type DesugarContext } from "./desugar.js";

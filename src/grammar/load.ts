@@ -1,4 +1,5 @@
-// Loading a grammar from disk: follows `include` (confined to the main grammar's folder), loads the
+// Loading a grammar from disk: reads its files (source.ts: includes, a variety's base chain, all
+// confined to the project root), loads the
 // inventory it names, splits IPA literals into single segments with the tokeniser, and checks it.
 
 import * as fs from "node:fs";
@@ -9,8 +10,8 @@ import { FILE_LIMITS, isInside, readTextFile, realPath } from "../files.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
 import { checkGrammar } from "./check.js";
-import { assembleGrammar, type TopItem } from "./assemble.js";
-import { parseFile } from "./parser.js";
+import type { OmittedStep, StepOrigin } from "./inherit.js";
+import { projectRoot, readSource } from "./source.js";
 
 /** The file a grammar folder is read from. */
 export const GRAMMAR_FILE = "grammar.strata";
@@ -22,11 +23,27 @@ export interface LoadOptions {
   readonly maxInventoryBytes?: number;
   /** Most diagnostics kept per file; the rest are counted in one more (default MAX_DIAGNOSTICS_PER_FILE). */
   readonly maxDiagnosticsPerFile?: number;
+  /** The project root every file the grammar names must lie in (default: `defaultRoot`, source.ts). */
+  readonly root?: string;
+}
+
+/** Where a loaded grammar's steps came from (every grammar has it; a plain grammar's steps are all its own). */
+export interface VarietyOrigins {
+  /** Per step of `grammar.steps`: where it is written, whether a variety added it, the edits that changed it. */
+  readonly origins: readonly StepOrigin[];
+  /** Base steps left out by the chain's varieties. */
+  readonly omitted: readonly OmittedStep[];
+  /** The grammar files from the main one down to the plain grammar at the bottom of the chain. */
+  readonly chain: readonly string[];
+  /** The project root every file was confined to. */
+  readonly root: string;
 }
 
 export interface LoadedGrammar {
   readonly grammar?: Grammar;
   readonly inventory?: Inventory;
+  /** Where each step came from, the chain of variety files (main first) and the project root used. */
+  readonly variety?: VarietyOrigins;
   readonly diagnostics: Diagnostic[];
 }
 
@@ -55,57 +72,20 @@ function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
       diagnostics.push(mainRead.diagnostic);
       return { diagnostics };
     }
-    const mainText = mainRead.text;
-    const root = realPath(path.dirname(main));
-    const files: string[] = [];
-    const items: TopItem[] = [];
-    const done = new Set<string>();
-    const expand = (file: string, text: string, stack: readonly string[]): void => {
-      files.push(file);
-      done.add(real(file));
-      const parsed = parseFile(text, file);
-      diagnostics.push(...parsed.diagnostics);
-      for (const it of parsed.items) {
-        if (it.kind !== "include") {
-          items.push(it);
-          continue;
-        }
-        const target = it.path;
-        if (!isInside(root, target)) {
-          diagnostics.push(
-            diagnostic("error", "grammar/include-outside", `'${it.written}' is outside the grammar's folder (${root}); includes must stay inside it`, it.span),
-          );
-          continue;
-        }
-        const cycleAt = stack.indexOf(real(target));
-        if (cycleAt >= 0) {
-          const chain = [...stack.slice(cycleAt), real(target)].map((f) => path.relative(root, f) || path.basename(f));
-          diagnostics.push(diagnostic("error", "grammar/include-cycle", `include cycle: ${chain.join(" → ")}`, it.span));
-          continue;
-        }
-        if (done.has(real(target))) continue; // included already (each file is read once)
-        const sub = readTextFile(target, { what: "included file", limit: grammarLimit, code: "grammar/include-missing", at: it.span });
-        if (!sub.ok) {
-          diagnostics.push(sub.diagnostic);
-          continue;
-        }
-        expand(target, sub.text, [...stack, real(target)]);
-      }
-    };
-    expand(main, mainText, [real(main)]);
-    const assembled = assembleGrammar(main, items, files);
-    diagnostics.push(...assembled.diagnostics);
-    let grammar = assembled.grammar;
-    if (grammar.inventory === null) {
-      diagnostics.push(diagnostic("error", "grammar/no-inventory", 'the grammar names no inventory (inventory "segments.csv")', startOf(main)));
-      return { grammar, diagnostics };
+    const root = projectRoot(main, opts.root);
+    if (!isInside(root, main)) {
+      diagnostics.push(diagnostic("error", "grammar/file-outside", `The grammar '${path.basename(main)}' is outside the project root (${root}).`, startOf(main)));
+      return { diagnostics };
     }
-    const declared = (kind: "inventory" | "diacritics"): Span | undefined => {
-      for (const i of items) if (i.kind === kind) return i.span;
-      return undefined;
-    };
-    const invItem = { span: declared("inventory") };
-    const diaItem = { span: declared("diacritics") };
+    const source = readSource(main, mainRead.text, root, grammarLimit, diagnostics);
+    const variety = { origins: source.origins, omitted: source.omitted, chain: source.chain, root };
+    let grammar = source.grammar;
+    if (grammar.inventory === null) {
+      if (source.failed !== true) diagnostics.push(diagnostic("error", "grammar/no-inventory", 'the grammar names no inventory (inventory "segments.csv")', startOf(main)));
+      return { grammar, variety, diagnostics };
+    }
+    const invItem = { span: source.declared.inventory };
+    const diaItem = { span: source.declared.diacritics };
     // Every file the grammar names stays inside its folder, as includes do (symbolic links resolved).
     const defaultDiacritics = path.join(path.dirname(grammar.inventory), "diacritics.csv");
     const named: [string, Span | undefined, string][] = [[grammar.inventory, invItem.span, "inventory"]];
@@ -114,17 +94,17 @@ function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
     for (const [file, span, what] of named)
       if (!isInside(root, file)) {
         diagnostics.push(
-          diagnostic("error", "grammar/file-outside", `The ${what} '${path.basename(file)}' is outside the grammar's folder (${root}); files a grammar names must stay inside it.`, span ?? startOf(main)),
+          diagnostic("error", "grammar/file-outside", `The ${what} '${path.basename(file)}' is outside the project root (${root}); files a grammar names must stay inside it.`, span ?? startOf(main)),
         );
-        return { grammar, diagnostics };
+        return { grammar, variety, diagnostics };
       }
     if (!fs.existsSync(grammar.inventory)) {
       diagnostics.push(diagnostic("error", "grammar/inventory-missing", `the inventory file ${grammar.inventory} does not exist`, invItem?.span ?? startOf(main)));
-      return { grammar, diagnostics };
+      return { grammar, variety, diagnostics };
     }
     if (grammar.diacritics !== null && !fs.existsSync(grammar.diacritics)) {
       diagnostics.push(diagnostic("error", "grammar/inventory-missing", `the diacritics file ${grammar.diacritics} does not exist`, diaItem?.span ?? startOf(main)));
-      return { grammar, diagnostics };
+      return { grammar, variety, diagnostics };
     }
     const inv = loadInventory(grammar.inventory, grammar.diacritics ?? undefined, {
       ...(opts.maxInventoryBytes !== undefined ? { limit: opts.maxInventoryBytes } : {}),
@@ -132,14 +112,14 @@ function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
       ...(diaItem.span !== undefined ? { diacriticsAt: diaItem.span } : {}),
     });
     diagnostics.push(...inv.diagnostics);
-    if (inv.inventory === undefined) return { grammar, diagnostics };
+    if (inv.inventory === undefined) return { grammar, variety, diagnostics };
     const split = splitLiterals(grammar, inv.inventory);
     diagnostics.push(...split.diagnostics);
     grammar = split.grammar;
     // The checker re-reads literals; a place the splitter already reported is not reported twice.
     const reported = new Set(diagnostics.map(place));
     diagnostics.push(...checkGrammar(grammar, inv.inventory).filter((d) => !reported.has(place(d))));
-    return { grammar, inventory: inv.inventory, diagnostics };
+    return { grammar, inventory: inv.inventory, variety, diagnostics };
   } catch (e) {
     diagnostics.push(
       diagnostic("error", "grammar/internal", `internal error while loading the grammar: ${e instanceof Error ? e.message : String(e)}`, startOf(p)),
@@ -155,8 +135,6 @@ function isDirectory(p: string): boolean {
     return false;
   }
 }
-
-const real = realPath;
 
 /**
  * Splits every IPA literal (segments in patterns, targets, changes, class members, clusters) into

@@ -211,9 +211,10 @@ export class PatternParser {
   private simpleAtom(ctx: PatternContext | "class", start: number, c: string | undefined): Item {
     const sc = this.sc;
     if (c === "[") return { kind: "element", element: this.bundle() };
-    if (c === "#" || c === "$" || c === ".") {
+    // `+` before a letter is a feature value written outside a bundle (an error below), not a join.
+    if (c === "#" || c === "$" || c === "." || (c === "+" && !/^[A-Za-z]$/.test(sc.peek(1) ?? ""))) {
       sc.next();
-      return { kind: "element", element: { kind: "boundary", which: c === "#" ? "word" : "syllable", span: sc.spanFrom(start) } };
+      return { kind: "element", element: { kind: "boundary", which: c === "#" ? "word" : c === "+" ? "join" : "syllable", span: sc.spanFrom(start) } };
     }
     if (c === "∅" || (c === "0" && !isDigit(sc.peek(1)))) {
       sc.next();
@@ -341,7 +342,7 @@ export function elementText(e: Element): string {
     case "class":
       return e.name;
     case "boundary":
-      return e.which === "word" ? "#" : "$";
+      return e.which === "word" ? "#" : e.which === "join" ? "+" : "$";
     case "bundle":
       return `[${e.specs.map(specText).join(" ")}]`;
   }

@@ -55,11 +55,7 @@ export class RuleParser extends PatternParser {
         if (expansion !== null) dup("'longest-first'", sc.spanFrom(os));
         expansion = "longest-first";
       } else if (sc.eatWord("prefer")) {
-        sc.skipSpace();
-        let p: "applied" | "unapplied";
-        if (sc.eatWord("applied")) p = "applied";
-        else if (sc.eatWord("unapplied")) p = "unapplied";
-        else this.expected("'applied' or 'unapplied' after 'prefer'");
+        const p = this.preferred();
         if (prefer !== null) dup("'prefer'", sc.spanFrom(os));
         prefer = p;
       } else {
@@ -97,6 +93,14 @@ export class RuleParser extends PatternParser {
       ...(expansion !== null ? { expansion } : {}),
     };
     this.items.push({ kind: "step", step: rule });
+  }
+
+  /** `applied` or `unapplied` after the word `prefer`. */
+  preferred(): "applied" | "unapplied" {
+    this.sc.skipSpace();
+    if (this.sc.eatWord("applied")) return "applied";
+    if (this.sc.eatWord("unapplied")) return "unapplied";
+    return this.expected("'applied' or 'unapplied' after 'prefer'");
   }
 
   /** TARGET up to the arrow: fixed-length elements, or ∅. A `{a | b}` of single elements becomes an implicit class. */

@@ -5,6 +5,7 @@
 import * as path from "node:path";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import type { Cluster, Element, Grammar, Pattern, Span } from "./ast.js";
+import { JOIN_MODES } from "./ast.js";
 import { assembleGrammar, type TopItem } from "./assemble.js";
 import { isAsciiUpper, isIdentChar, isIdentStart, isIpaChar, isDigit, isSpace, splitStatements, type Statement } from "./lexer.js";
 import { Abort, coverSpan, itemSpan } from "./parse-patterns.js";
@@ -24,6 +25,7 @@ export const STATEMENT_KEYWORDS = [
   "onsets",
   "codas",
   "heavy",
+  "joins",
   "syllabify",
   "stress",
   "rule",
@@ -90,7 +92,7 @@ export function parseGrammarText(text: string, file: string): { grammar: Grammar
 }
 
 /** Parses one statement; pushes its item(s) to `items`. Throws Abort (caught by parseFile) on an error. */
-class StatementParser extends RuleParser {
+export class StatementParser extends RuleParser {
   keyword: string | null = null;
 
   constructor(
@@ -148,6 +150,9 @@ class StatementParser extends RuleParser {
         break;
       case "heavy":
         this.heavy(kwSpan);
+        break;
+      case "joins":
+        this.joins(kwSpan);
         break;
       case "syllabify":
         this.end();
@@ -277,6 +282,16 @@ class StatementParser extends RuleParser {
       this.expected("'|' or the end of the statement");
     }
     this.items.push({ kind: "heavy", patterns, span: kwSpan });
+  }
+
+  // joins = through | closed | closed-before-consonant
+  joins(kwSpan: Span): void {
+    const sc = this.sc;
+    this.equals();
+    const mode = JOIN_MODES.find((m) => sc.eatWord(m));
+    if (mode === undefined) this.expected(JOIN_MODES.map((m) => `'${m}'`).join(", ").replace(/, ([^,]*)$/, " or $1"));
+    this.end();
+    this.items.push({ kind: "joins", mode, span: kwSpan });
   }
 
   // stress from left|right N [if heavy else M]

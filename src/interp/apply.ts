@@ -10,7 +10,7 @@ import type { Change, CondAlt, PreparedEnv, PreparedRule, RuleContext } from "./
 import { assertNever, prepareRule } from "./prepare.js";
 import { segmentalWidth } from "./segments.js";
 import type { Sym, Word } from "./types.js";
-import { isSegment, isSyllableEdge, isWordEdge, toKey, wordKey } from "./types.js";
+import { isJoin, isSegment, isSyllableEdge, isWordEdge, toKey, wordKey } from "./types.js";
 
 /** Every output of one rule on one word, and the preferred one (DEVELOPERS.md, "optional"). */
 export interface RuleOutputs {
@@ -33,9 +33,10 @@ export function applyRuleDetailed(rule: Rule, ctx: RuleContext, word: Word): Rul
 }
 
 /**
- * The word as a rule sees it. For a boundary-blind rule every `.` is taken out (`view`) and
- * remembered as the number of `.` standing before each view symbol (`dots[k]`) and after the
- * last (`trailing`); they are copied back in those places, so an insertion lands after them.
+ * The word as a rule sees it. For a boundary-blind rule every `.` is taken out (`view`), and
+ * every `+` for a rule that does not name `+`; they are remembered, in order, as the hidden
+ * symbols standing before each view symbol (`dots[k]`) and after the last (`trailing`), and copied
+ * back in those places, so an insertion lands after them.
  */
 interface View {
   readonly view: readonly Sym[];
@@ -43,13 +44,13 @@ interface View {
   readonly trailing: readonly Sym[];
 }
 
-function makeView(word: Word, blind: boolean): View {
-  if (!blind) return { view: word, dots: word.map(() => []), trailing: [] };
+function makeView(word: Word, blind: boolean, joinBlind: boolean): View {
+  if (!blind && !joinBlind) return { view: word, dots: word.map(() => []), trailing: [] };
   const view: Sym[] = [];
   const dots: Sym[][] = [];
   let pending: Sym[] = [];
   for (const s of word) {
-    if (isSyllableEdge(s)) pending.push(s);
+    if ((blind && isSyllableEdge(s)) || (joinBlind && isJoin(s))) pending.push(s);
     else {
       view.push(s);
       dots.push(pending);
@@ -66,7 +67,7 @@ function makeView(word: Word, blind: boolean): View {
  */
 function isInsertionSite(view: readonly Sym[], k: number): boolean {
   const s = view[k] as Sym;
-  return isSegment(s) || isSyllableEdge(s) || (k === view.length - 1 && isWordEdge(s));
+  return isSegment(s) || isSyllableEdge(s) || isJoin(s) || (k === view.length - 1 && isWordEdge(s));
 }
 
 /**
@@ -75,7 +76,7 @@ function isInsertionSite(view: readonly Sym[], k: number): boolean {
  * among those kept, and `capped` says the search stopped at the limit (outputs may be missing).
  */
 export function applyPrepared(p: PreparedRule, word: Word, limit = Number.POSITIVE_INFINITY): RuleOutputs & { readonly capped: boolean } {
-  const v = makeView(word, p.blind);
+  const v = makeView(word, p.blind, p.joinBlind);
   const results = new Map<string, Sym[]>();
   let preferred: Sym[] | null = null;
   let capped = false;

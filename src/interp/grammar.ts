@@ -4,7 +4,7 @@
 import type { Diagnostic } from "../diagnostics.js";
 import { diagnostic } from "../diagnostics.js";
 import type { Bundle, Inventory } from "../inventory/types.js";
-import type { Grammar, Step } from "../grammar/ast.js";
+import type { Grammar, JoinMode, Step } from "../grammar/ast.js";
 import { applyPrepared } from "./apply.js";
 import type { Pat, PreparedRule, RuleContext } from "./prepare.js";
 import { isBoundaryBlind, preparePattern, prepareRule } from "./prepare.js";
@@ -60,7 +60,7 @@ export interface PreparedGrammar {
 
 type PreparedStep =
   | { readonly kind: "rule"; readonly name: string; readonly rule: PreparedRule | null }
-  | { readonly kind: "syllabify"; readonly name: string; readonly onsets: ClusterList; readonly codas: ClusterList }
+  | { readonly kind: "syllabify"; readonly name: string; readonly onsets: ClusterList; readonly codas: ClusterList; readonly joins: JoinMode }
   | { readonly kind: "stress"; readonly name: string; readonly step: Extract<Step, { kind: "stress" }>; readonly heavy: readonly Pat[] };
 
 export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOptions = {}): PreparedGrammar {
@@ -75,7 +75,7 @@ export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOp
     for (const u of r.unknown) diagnostics.push(diagnostic("error", "interp/unknown-segment", `${what}: '${u.symbol}' is not a segment of the inventory`, u.cluster.span));
     return r.list;
   };
-  let syllabification: { onsets: ClusterList; codas: ClusterList } | null = null;
+  let syllabification: { onsets: ClusterList; codas: ClusterList; joins: JoinMode } | null = null;
   let heavy: Pat[] | null = null;
   const steps: PreparedStep[] = grammar.steps.map((s): PreparedStep => {
     switch (s.kind) {
@@ -85,7 +85,7 @@ export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOp
         return { kind: "rule", name: s.name, rule: r.rule };
       }
       case "syllabify":
-        syllabification ??= { onsets: clusters(grammar.onsets, "onsets"), codas: clusters(grammar.codas, "codas") };
+        syllabification ??= { onsets: clusters(grammar.onsets, "onsets"), codas: clusters(grammar.codas, "codas"), joins: grammar.joins ?? "through" };
         return { kind: "syllabify", name: s.name, ...syllabification };
       case "stress": {
         if (heavy === null) {
@@ -140,7 +140,7 @@ export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory,
           break;
         }
         case "syllabify": {
-          const r = syllabify(v.word, step.onsets, step.codas, g.inv);
+          const r = syllabify(v.word, step.onsets, step.codas, g.inv, step.joins);
           if (v.preferred) lints.push(...r.problems);
           results = [{ word: r.word, preferred: v.preferred }];
           break;

@@ -4,7 +4,7 @@
 import type { Bundle, FeatureValue, Inventory, PronToken } from "../inventory/types.js";
 import { realiseBundle } from "./segments.js";
 import type { Sym, Word } from "./types.js";
-import { WORD_EDGE, isSegment, isSyllableEdge, isWordEdge } from "./types.js";
+import { JOIN_EDGE, WORD_EDGE, isJoin, isSegment, isSyllableEdge, isWordEdge } from "./types.js";
 
 /**
  * DEVELOPERS.md, "The string every stage sees": bracket the entry with `#`, put `#` between the
@@ -26,6 +26,9 @@ export function wordFromTokens(tokens: readonly PronToken[], inv: Inventory): Sy
         pending = t.level;
         break;
       case "syllable":
+        break;
+      case "join":
+        out.push(JOIN_EDGE);
         break;
       case "word":
         if (!isWordEdge(out[out.length - 1] as Sym)) out.push(WORD_EDGE);
@@ -54,6 +57,8 @@ export function wordFromTokens(tokens: readonly PronToken[], inv: Inventory): Sy
 export interface IpaOptions {
   /** Write `.` between unstressed syllables (stress marks are written either way). */
   readonly syllables: boolean;
+  /** Write each morpheme join `+` (the broad form); narrow forms leave joins out. */
+  readonly joins?: boolean;
   /** How to write one bundle (default: the interpreter's own writer over the inventory). */
   readonly realise?: (bundle: Bundle) => string | null;
 }
@@ -61,7 +66,8 @@ export interface IpaOptions {
 /**
  * Narrow IPA (IPA Handbook 1999 conventions): `ˈ`/`ˌ` at the start of a primary/secondary
  * stressed syllable, in place of the `.` that would stand there; `.` between other syllables
- * when `syllables` is set; `#` at the edges dropped, `#` inside → a space. A syllable is a
+ * when `syllables` is set; `#` at the edges dropped, `#` inside → a space; `+` written only with
+ * `joins` (a stress mark then follows it). A syllable is a
  * stretch between boundaries; in a stretch holding several nuclei (not syllabified), the mark
  * goes before the stressed nucleus, or at the stretch's start for its first nucleus.
  * A bundle no inventory symbol and diacritics can write is shown as `?`.
@@ -96,6 +102,7 @@ export function symsToIpa(word: Word, inv: Inventory, opts: IpaOptions): string 
     stretch.forEach((s, k) => {
       if (k !== nuclei[0] && nucleus(s)) text += mark(s);
       if (isSegment(s)) text += write(s.bundle) ?? "?";
+      else if (opts.joins === true && isJoin(s)) text += "+";
     });
     if (j >= to) break;
     opener = isWordEdge(word[j] as Sym) ? "word" : "syllable";

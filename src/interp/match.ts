@@ -74,7 +74,8 @@ export function matchElem(inv: Inventory, e: Elem, s: Sym, b: Bindings): Binding
   switch (e.kind) {
     case "boundary":
       if (s.kind !== "boundary") return [];
-      // `$` matches `.` and `#`; `#` matches only `#`.
+      // `$` matches `.` and `#`; `#` matches only `#`; `+` matches only `+`.
+      if (e.which === "join" || s.which === "join") return e.which === s.which ? [b] : [];
       return e.which === "syllable" || s.which === "word" ? [b] : [];
     case "specs": {
       if (s.kind !== "segment") return [];

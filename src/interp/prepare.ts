@@ -7,7 +7,7 @@ import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
 import type {
   ApplicationMode, ChangeElement, ClassDef, Element, Environment, FeatureSpec, Grammar, NodeDef, Pattern, ProsodicCondition, Rule, Span,
 } from "../grammar/ast.js";
-import { desugar, expandEnvironments, hasEnvironmentNotation, insertedBundlesAsSegments, isBoundaryBlind } from "../grammar/index.js";
+import { desugar, expandEnvironments, hasEnvironmentNotation, insertedBundlesAsSegments, isBoundaryBlind, namesJoin } from "../grammar/index.js";
 import { resolveSymbol } from "./segments.js";
 
 /** What a rule needs from its grammar to be applied. */
@@ -36,7 +36,7 @@ export type Spec =
 
 /** An element matching one symbol. `literal` compares non-prosodic features only. */
 export type Elem =
-  | { readonly kind: "boundary"; readonly which: "word" | "syllable" }
+  | { readonly kind: "boundary"; readonly which: "word" | "syllable" | "join" }
   | { readonly kind: "specs"; readonly specs: readonly Spec[] }
   | { readonly kind: "literal"; readonly bundle: Bundle }
   | { readonly kind: "any"; readonly options: readonly Elem[] };
@@ -81,6 +81,8 @@ export interface PreparedRule {
   readonly change: readonly Change[];
   readonly envs: readonly PreparedEnv[];
   readonly blind: boolean;
+  /** The rule never names `+`: every join is invisible to it (copied through like a `.` in a boundary-blind rule). */
+  readonly joinBlind: boolean;
   readonly inv: Inventory;
   /** Every variable of the rule and what it ranges over. */
   readonly variables: ReadonlyMap<string, VarKind>;
@@ -206,7 +208,7 @@ class Preparer {
     if (this.diags.some((d) => d.severity === "error")) return { rule: null, diagnostics: this.diags };
     const prepared: PreparedRule = {
       name: r.name, optional: r.optional, mode: r.mode, prefer: r.prefer,
-      target, change, envs, blind: this.ctx.boundaryBlind, inv: this.inv,
+      target, change, envs, blind: this.ctx.boundaryBlind, joinBlind: !namesJoin(r), inv: this.inv,
       variables: this.variables, syllabic, stress, primary,
     };
     return { rule: prepared, diagnostics: this.diags };

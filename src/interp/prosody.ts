@@ -2,12 +2,12 @@
 // Principle within declared onsets and codas, and default stress (fixed or weight-sensitive).
 
 import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
-import type { Cluster, StressStep } from "../grammar/ast.js";
+import type { Cluster, JoinMode, StressStep } from "../grammar/ast.js";
 import { matchAt, EMPTY_BINDINGS } from "./match.js";
 import type { Pat } from "./prepare.js";
 import { realiseBundle, resolveSymbol, sameSegment } from "./segments.js";
 import type { Lint, Sym, Word } from "./types.js";
-import { SYLLABLE_EDGE, isSegment, isSyllableEdge, isWordEdge } from "./types.js";
+import { SYLLABLE_EDGE, isJoin, isSegment, isSyllableEdge, isWordEdge } from "./types.js";
 
 /** Legal clusters read into bundles; `null` means the grammar declared none (anything is legal). */
 export type ClusterList = readonly (readonly Bundle[])[] | null;
@@ -52,21 +52,25 @@ function clusterText(inv: Inventory, cluster: readonly Bundle[]): string {
  * `[+syllabic]` segment (syllabic consonants and diphthongs written as one segment included);
  * two adjacent nuclei are two syllables. Between two nuclei, the boundary goes where the onset
  * is longest while both the onset and the coda left behind are declared legal (an empty onset or
- * coda is always legal). Fallbacks, each reported as a lint naming the cluster, never an error:
+ * coda is always legal). Morpheme joins `+` inside the cluster act as `joins` says (`through`:
+ * not at all; `closed`: the boundary goes at or after the last join, so no onset crosses one;
+ * `closed-before-consonant`: the same for the last join that a consonant follows), and a
+ * boundary that falls where a join stands goes after the join (`s + . p`). Fallbacks, each
+ * reported as a lint naming the cluster, never an error:
  * - no split leaves a legal coda: the longest legal onset is taken anyway (`interp/illegal-coda`);
  * - no consonant of the cluster can start a legal onset: the boundary goes before the last
- *   consonant (`interp/no-legal-split`);
+ *   consonant (`interp/no-legal-split`), or at the join when it must not come earlier;
  * - a word-initial cluster that is not a legal onset stays the onset (`interp/illegal-onset`);
  * - a word-final cluster that is not a legal coda stays the coda (`interp/illegal-coda`);
  * - a word without a nucleus gets no boundaries (`interp/no-nucleus`).
  * `Lint.at` is the index in the returned word where the cluster starts.
  */
-export function syllabify(word: Word, onsets: ClusterList, codas: ClusterList, inv: Inventory): { word: Sym[]; problems: Lint[] } {
+export function syllabify(word: Word, onsets: ClusterList, codas: ClusterList, inv: Inventory, joins: JoinMode = "through"): { word: Sym[]; problems: Lint[] } {
   const out: Sym[] = [];
   const problems: Lint[] = [];
   let region: Sym[] = [];
   const flush = (): void => {
-    syllabifyRegion(region, onsets, codas, inv, out, problems);
+    syllabifyRegion(region, onsets, codas, inv, joins, out, problems);
     region = [];
   };
   for (const s of word) {
@@ -80,12 +84,48 @@ export function syllabify(word: Word, onsets: ClusterList, codas: ClusterList, i
   return { word: out, problems };
 }
 
-function syllabifyRegion(seg: readonly Sym[], onsets: ClusterList, codas: ClusterList, inv: Inventory, out: Sym[], problems: Lint[]): void {
+/**
+ * The cut of an inter-nucleus cluster `c` (consonants only): the number of consonants left in the
+ * coda, never below `lo` (the position no onset may reach back past), and whether the fallback was
+ * taken ("coda": the coda left is not declared; "split": no consonant starts a declared onset).
+ * With lo = 0 this is exactly the procedure without joins. The compiler's syllabifier calls it too.
+ */
+export function cutCluster<T>(c: readonly T[], lo: number, legalOnset: (xs: readonly T[]) => boolean, legalCoda: (xs: readonly T[]) => boolean): { cut: number; fallback?: "coda" | "split" } {
+  for (let j = lo; j <= c.length; j++) if (legalOnset(c.slice(j)) && legalCoda(c.slice(0, j))) return { cut: j };
+  for (let j = lo; j < c.length; j++) if (legalOnset(c.slice(j))) return { cut: j, fallback: "coda" };
+  if (lo >= c.length) return { cut: c.length, fallback: "coda" };
+  return { cut: c.length - 1, fallback: "split" };
+}
+
+/**
+ * The lowest cut the joins allow in a cluster of `length` consonants, given the positions of its
+ * joins (a join at k stands before consonant k; k = length: right before the next nucleus).
+ */
+export function lowestCut(joinsAt: readonly number[], length: number, mode: JoinMode): number {
+  let lo = 0;
+  for (const k of joinsAt) {
+    if (mode === "closed" || (mode === "closed-before-consonant" && k < length)) lo = Math.max(lo, k);
+  }
+  return lo;
+}
+
+function syllabifyRegion(seg: readonly Sym[], onsets: ClusterList, codas: ClusterList, inv: Inventory, joins: JoinMode, out: Sym[], problems: Lint[]): void {
   const base = out.length;
-  const bundles = seg.map((s) => (isSegment(s) ? s.bundle : []));
-  const nuclei: number[] = [];
+  // The region without its joins (`segs`, indices into `seg`), and where each join stands.
+  const segs: number[] = [];
+  const joinBefore: number[] = []; // per segment index: joins right before it
   seg.forEach((s, i) => {
-    if (isNucleus(inv, s)) nuclei.push(i);
+    if (isSegment(s)) segs.push(i);
+  });
+  let k = 0;
+  for (let i = 0; i < seg.length; i++) {
+    if (isSegment(seg[i] as Sym)) k++;
+    else if (isJoin(seg[i] as Sym)) joinBefore.push(k);
+  }
+  const bundles = segs.map((i) => (seg[i] as { bundle: Bundle }).bundle);
+  const nuclei: number[] = [];
+  segs.forEach((i, n) => {
+    if (isNucleus(inv, seg[i] as Sym)) nuclei.push(n);
   });
   const lint = (code: string, what: string, at: number, cluster: readonly Bundle[]): void => {
     problems.push({ code, message: `${what} '${clusterText(inv, cluster)}'`, at, cluster });
@@ -95,9 +135,9 @@ function syllabifyRegion(seg: readonly Sym[], onsets: ClusterList, codas: Cluste
     out.push(...seg);
     return;
   }
-  /** Boundary positions (a boundary stands before seg[b]). */
-  const cuts: number[] = [];
-  /** Where each reported cluster starts, in region indices, to turn into output indices later. */
+  /** Boundary positions in segment indices (a boundary stands before segment b, after any join there). */
+  const cuts = new Set<number>();
+  /** Where each reported cluster starts, in segment indices, to turn into output indices later. */
   const pending: { code: string; what: string; start: number; cluster: readonly Bundle[] }[] = [];
   const first = nuclei[0] as number;
   const initial = bundles.slice(0, first);
@@ -106,38 +146,28 @@ function syllabifyRegion(seg: readonly Sym[], onsets: ClusterList, codas: Cluste
     const from = (nuclei[n] as number) + 1;
     const to = nuclei[n + 1] as number;
     const c = bundles.slice(from, to);
-    let cut = -1;
-    for (let j = 0; j <= c.length; j++) {
-      if (legal(inv, onsets, c.slice(j)) && legal(inv, codas, c.slice(0, j))) {
-        cut = j;
-        break;
-      }
-    }
-    if (cut < 0) {
-      for (let j = 0; j < c.length; j++) {
-        if (legal(inv, onsets, c.slice(j))) {
-          cut = j;
-          break;
-        }
-      }
-      if (cut >= 0) pending.push({ code: "interp/illegal-coda", what: "no legal split: the coda left by the longest legal onset is not declared:", start: from, cluster: c.slice(0, cut) });
-      else {
-        cut = c.length - 1;
-        pending.push({ code: "interp/no-legal-split", what: "no consonant of the cluster starts a declared onset; boundary put before its last consonant:", start: from, cluster: c });
-      }
-    }
-    cuts.push(from + cut);
+    const inCluster = joinBefore.filter((j) => j >= from && j <= to).map((j) => j - from);
+    const lo = lowestCut(inCluster, c.length, joins);
+    const r = cutCluster(c, lo, (xs) => legal(inv, onsets, xs), (xs) => legal(inv, codas, xs));
+    if (r.fallback === "coda") pending.push({ code: "interp/illegal-coda", what: "no legal split: the coda left by the longest legal onset is not declared:", start: from, cluster: c.slice(0, r.cut) });
+    else if (r.fallback === "split") pending.push({ code: "interp/no-legal-split", what: "no consonant of the cluster starts a declared onset; boundary put before its last consonant:", start: from, cluster: c });
+    cuts.add(from + r.cut);
   }
   const last = nuclei[nuclei.length - 1] as number;
   const final = bundles.slice(last + 1);
   if (!legal(inv, codas, final)) pending.push({ code: "interp/illegal-coda", what: "word-final cluster is not a declared coda:", start: last + 1, cluster: final });
-  // Region index i lands at output index base + i + (number of cuts at or before i).
-  const outIndex = (i: number): number => base + i + cuts.filter((c) => c <= i).length;
-  seg.forEach((s, i) => {
-    if (cuts.includes(i)) out.push(SYLLABLE_EDGE);
+  // Write the region: a boundary before segment b goes after every join standing before b.
+  const outIndexOf: number[] = [];
+  let n = 0;
+  for (const s of seg) {
+    if (isSegment(s)) {
+      if (cuts.has(n)) out.push(SYLLABLE_EDGE);
+      outIndexOf.push(out.length);
+      n++;
+    }
     out.push(s);
-  });
-  for (const p of pending) lint(p.code, p.what, outIndex(p.start), p.cluster);
+  }
+  for (const p of pending) lint(p.code, p.what, outIndexOf[p.start] ?? out.length, p.cluster);
 }
 
 /**
@@ -185,7 +215,8 @@ function stressRegion(out: Sym[], from: number, to: number, step: Pick<StressSte
     const at = nuclei[n] as number;
     let end = at + 1;
     while (end < to && !isSyllableEdge(out[end] as Sym) && !isNucleus(inv, out[end] as Sym)) end++;
-    const rhyme = out.slice(at, end);
+    // Joins are not part of a rhyme's shape: `heavy` patterns read the rhyme without them.
+    const rhyme = out.slice(at, end).filter((s) => !isJoin(s));
     return heavy.some((h) => !matchAt(inv, h, rhyme, 0, EMPTY_BINDINGS).next().done);
   };
   let chosen = index(step.position);

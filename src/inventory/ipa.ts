@@ -14,6 +14,8 @@ export const ASCII_PRIMARY = "'";
 export const ASCII_SECONDARY = ",";
 export const SYLLABLE_BREAK = ".";
 export const WORD_BREAK = "#";
+/** A morpheme join inside a word (SPE '+'); a compound's parts are joined by WORD_BREAK. */
+export const MORPHEME_JOIN = "+";
 export const RESERVED: ReadonlySet<string> = new Set([
   PRIMARY_STRESS,
   SECONDARY_STRESS,
@@ -21,6 +23,7 @@ export const RESERVED: ReadonlySet<string> = new Set([
   ASCII_SECONDARY,
   SYLLABLE_BREAK,
   WORD_BREAK,
+  MORPHEME_JOIN,
 ]);
 
 const MARK = /^\p{M}$/u;

@@ -14,6 +14,7 @@ import {
   SECONDARY_STRESS,
   SYLLABLE_BREAK,
   WORD_BREAK,
+  MORPHEME_JOIN,
 } from "./ipa.js";
 
 /**
@@ -70,7 +71,8 @@ function suggest(inv: Inventory, cps: readonly string[], i: number): string[] {
  * - Input is compared in NFD with tie bars (U+0361, U+035C) removed and ASCII g read as ɡ, so
  *   `t͡ʃ` and `tʃ`, NFC and NFD, g and ɡ all mean the same.
  * - `ˈ` (or ASCII `'`) primary stress, `ˌ` (or ASCII `,`) secondary stress, `.` syllable break,
- *   `#` word break; white space between segments is ignored.
+ *   `#` word break (between the words of a phrase or the parts of a compound), `+` morpheme join;
+ *   white space between segments is ignored. Where joins may stand is the lexicon reader's check.
  * - A segment token's `text` is what was read, NFC, without tie bars; `column` is
  *   `pos.column` plus the code-point offset in `ipa`.
  * An unknown character (or a diacritic with no segment before it) is one error diagnostic with its
@@ -110,6 +112,11 @@ export function tokenise(
     }
     if (c === WORD_BREAK) {
       tokens.push({ kind: "word", column: column(i) });
+      i++;
+      continue;
+    }
+    if (c === MORPHEME_JOIN) {
+      tokens.push({ kind: "join", column: column(i) });
       i++;
       continue;
     }

@@ -61,7 +61,8 @@ export type PronToken =
   | { readonly kind: "segment"; readonly bundle: Bundle; readonly text: string; readonly column: number }
   | { readonly kind: "stress"; readonly level: "primary" | "secondary"; readonly column: number }
   | { readonly kind: "syllable"; readonly column: number } // '.'
-  | { readonly kind: "word"; readonly column: number }; // '#' between words of a phrase (spaces between segments are ignored)
+  | { readonly kind: "word"; readonly column: number } // '#' between words of a phrase or parts of a compound (spaces between segments are ignored)
+  | { readonly kind: "join"; readonly column: number }; // '+' a morpheme join inside a word
 
 export type TokeniseResult =
   | { readonly ok: true; readonly tokens: readonly PronToken[] }

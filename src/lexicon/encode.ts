@@ -3,7 +3,7 @@
 // stress), so the key is built once per distinct bundle, not once per symbol of every entry.
 
 import type { Compiled } from "../compile/index.js";
-import { SYLL, WORD } from "../compile/index.js";
+import { JOIN, SYLL, WORD } from "../compile/index.js";
 import { bundleKey, type Bundle } from "../inventory/types.js";
 import type { Word } from "../interp/index.js";
 
@@ -30,7 +30,7 @@ export class SymbolEncoder {
     for (let i = 0; i < word.length; i++) {
       const s = word[i]!;
       let id: number;
-      if (s.kind === "boundary") id = s.which === "word" ? WORD : SYLL;
+      if (s.kind === "boundary") id = s.which === "word" ? WORD : s.which === "join" ? JOIN : SYLL;
       else {
         id = this.idOf(s.bundle);
         if (id < 0) return null;

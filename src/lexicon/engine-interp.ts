@@ -14,11 +14,13 @@ export function prosodyOnly(grammar: Grammar): Grammar {
 
 export class InterpreterEngine implements Engine {
   readonly steps: readonly string[];
+  readonly writesSyllables: boolean;
   private readonly full: PreparedGrammar;
   private readonly broadOnly: PreparedGrammar;
 
   constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16, private readonly syllables = true) {
     this.steps = grammar.steps.map((s) => s.name);
+    this.writesSyllables = syllables;
     this.full = prepareGrammar(grammar, inventory);
     this.broadOnly = prepareGrammar(prosodyOnly(grammar), inventory);
   }
@@ -34,7 +36,7 @@ export class InterpreterEngine implements Engine {
     const others = run.variants.filter((v) => wordKey(v.word) !== prefKey);
     const variants = [narrow, ...others.map((v) => ipa(v.word))];
     const rules = preferred?.changedBy ?? [];
-    return { narrow, broad: ipa(broadRun.preferred), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
+    return { narrow, broad: symsToIpa(broadRun.preferred, this.inventory, { syllables: this.syllables, joins: true }), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
   }
 
   /** The preferred word step by step: each step of the prepared grammar alone, on the previous step's preferred output. */

@@ -11,7 +11,7 @@ import { compileGrammar, segmentsOutside, type Compiled } from "../compile/index
 import type { Bundle } from "../inventory/types.js";
 import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
-import { renderIpa, symbolView, type SymbolView } from "./render.js";
+import { renderIpa, symbolView, type RenderOptions, type SymbolView } from "./render.js";
 import { VariantTracer, type DerivationStep, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
@@ -34,6 +34,8 @@ export interface MachineEngineOptions {
 
 export class MachineEngine implements Engine {
   readonly steps: readonly string[];
+  readonly writesSyllables: boolean;
+  private readonly broadRender: RenderOptions;
   private readonly view: SymbolView;
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
@@ -63,6 +65,8 @@ export class MachineEngine implements Engine {
     private readonly render: { readonly syllables: boolean; readonly derivations?: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
+    this.writesSyllables = render.syllables;
+    this.broadRender = { ...render, joins: true };
     this.view = symbolView(compiled.alphabet, inventory);
     this.broadView = symbolView(broad.alphabet, inventory);
     this.enc = new SymbolEncoder(compiled);
@@ -135,7 +139,8 @@ export class MachineEngine implements Engine {
     const bout = this.bout;
     bout.length = 0;
     if (!this.broad.preferred.run(bids, bout)) return undefined;
-    const broadText = renderIpa(bout, this.broadView, this.render);
+    // The broad form keeps the entry's joins (rendered with `joins`, options made once).
+    const broadText = renderIpa(bout, this.broadView, this.broadRender);
     // One walk through the steps gives the blame, the derivation's forms (JSON Lines) and tells the
     // screen whether variants can exist.
     const wantRules = needs.rules === true && this.stepwise !== null;

@@ -67,6 +67,8 @@ export const NARROW_ONLY: Needs = { variants: false, rules: false };
 export interface Engine {
   /** Step names in grammar order (rules, syllabify and stress steps). */
   readonly steps: readonly string[];
+  /** Whether narrow forms carry '.' between unstressed syllables (a compound's parts are joined the same way; default true). */
+  readonly writesSyllables?: boolean;
   /** Undefined when a symbol of the word is outside the compiled alphabet. */
   transcribeWord(symbols: Word, needs?: Needs): Transcription | undefined;
 }

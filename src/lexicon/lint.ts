@@ -3,7 +3,9 @@
 
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, Severity } from "../diagnostics.js";
-import type { Grammar } from "../grammar/ast.js";
+import type { Grammar, JoinMode } from "../grammar/ast.js";
+import { isCompound } from "./compound.js";
+import { joinHints } from "./lint-joins.js";
 import { tokenise } from "../inventory/index.js";
 import type { Inventory, PronToken } from "../inventory/types.js";
 import { realiseBundle, resolveClusters, syllabify } from "../interp/index.js";
@@ -24,6 +26,7 @@ import type { LexiconRow, RejectedRow } from "./read.js";
  *   interp/illegal-onset    warning  word-initial cluster not a declared onset     (the syllabify step's own codes)
  *   interp/illegal-coda     warning  final cluster, or the coda every split leaves, not a declared coda
  *   interp/no-legal-split   warning  no consonant of a medial cluster starts a declared onset
+ *   lint/unmarked-join      hint     a word-internal cluster no split makes legal, where a join ('#' or '+') likely belongs (lint-joins.ts)
  *
  * The syllabify step's `interp/no-nucleus` is reported as `lint/no-nucleus` (one code per fact).
  */
@@ -41,6 +44,8 @@ export interface LintContext {
   readonly inventory: Inventory;
   readonly onsets: ClusterList;
   readonly codas: ClusterList;
+  /** How syllabification treats a morpheme join (the grammar's `joins`; absent: through). */
+  readonly joins?: JoinMode;
   /** Whether the grammar has a `stress` step (so unmarked entries get default stress). */
   readonly assignsStress: boolean;
 }
@@ -51,6 +56,7 @@ export function lintContext(grammar: Grammar, inventory: Inventory): LintContext
     inventory,
     onsets: resolveClusters(grammar.onsets, inventory).list,
     codas: resolveClusters(grammar.codas, inventory).list,
+    ...(grammar.joins !== undefined ? { joins: grammar.joins } : {}),
     assignsStress: grammar.steps.some((s) => s.kind === "stress"),
   };
 }
@@ -81,17 +87,18 @@ export function lintRow(row: LexiconRow, ctx: LintContext): LintFinding[] {
   const segTokens = tokens.filter((x): x is Extract<PronToken, { kind: "segment" }> => x.kind === "segment");
   const wholePron = { column: row.pronColumn, length: cpLength(row.pron) };
 
-  // Stress, per word of a phrase: at most one primary mark.
+  // Stress, per word of a phrase (a compound is one stress domain): at most one primary mark.
+  const compound = isCompound(row);
   let primaries: Extract<PronToken, { kind: "stress" }>[] = [];
   const checkWord = (): void => {
     if (primaries.length > 1) {
       const second = primaries[1]!;
-      at("error", "lint/many-primary", `${primaries.length} primary stress marks in one word (the first at column ${primaries[0]!.column}).`, second.column, 1);
+      at("error", "lint/many-primary", `${primaries.length} primary stress marks in one ${compound ? "compound" : "word"} (the first at column ${primaries[0]!.column}).`, second.column, 1);
     }
     primaries = [];
   };
   for (const tok of tokens) {
-    if (tok.kind === "word") checkWord();
+    if (tok.kind === "word" && !compound) checkWord();
     else if (tok.kind === "stress" && tok.level === "primary") primaries.push(tok);
   }
   checkWord();
@@ -105,7 +112,7 @@ export function lintRow(row: LexiconRow, ctx: LintContext): LintFinding[] {
   }
 
   // Syllabification under the declared onsets and codas, on the entry as written.
-  const syl = syllabify(row.symbols, ctx.onsets, ctx.codas, inv);
+  const syl = syllabify(row.symbols, ctx.onsets, ctx.codas, inv, ctx.joins);
   for (const p of syl.problems) {
     // `p.at` indexes the syllabified word; the segments before it say which token starts the cluster.
     const ordinal = countSegments(syl.word, p.at);
@@ -119,6 +126,13 @@ export function lintRow(row: LexiconRow, ctx: LintContext): LintFinding[] {
     } else {
       at(SYLLABIFY_SEVERITY[p.code] ?? "warning", p.code, `${p.message}.`, column, length, cluster);
     }
+  }
+  for (const h of joinHints(row.symbols, inv, ctx.onsets, ctx.codas)) {
+    const first = segTokens[h.segment];
+    const last = segTokens[h.segment + h.length - 1];
+    const column = first?.column ?? wholePron.column;
+    const length = first !== undefined && last !== undefined ? last.column + cpLength(last.text) - first.column : wholePron.length;
+    at("hint", "lint/unmarked-join", `no legal split of '${h.cluster}' inside one word: if the word is a compound or has a prefix, mark the join ('${h.before}#${h.after}' or '${h.before}+${h.after}').`, column, length, h.cluster);
   }
   return out.sort((a, b) => a.column - b.column);
 }
@@ -146,6 +160,8 @@ export interface LintReport {
   readonly rowsWithFindings: number;
   readonly errors: number;
   readonly warnings: number;
+  /** Suggestions (lint/unmarked-join); they never fail a run. */
+  readonly hints: number;
   /** Set when the file could not be read at all (unreadable, no header, missing column): nothing was linted. */
   readonly fatal: boolean;
 }
@@ -178,6 +194,7 @@ export async function lintLexicon(source: string | NodeJS.ReadableStream, ctx: L
     rowsWithFindings,
     errors: all.filter((f) => f.severity === "error").length,
     warnings: all.filter((f) => f.severity === "warning").length,
+    hints: all.filter((f) => f.severity === "hint").length,
     fatal: reader.diagnostics.some((d) => d.severity === "error"),
   };
 }

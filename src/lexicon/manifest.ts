@@ -5,7 +5,7 @@
 import { existsSync, readFileSync, statSync } from "node:fs";
 import { basename, dirname, join, resolve } from "node:path";
 import { findNodeAtLocation, getNodeValue, parseTree, type Node, type ParseError } from "jsonc-parser";
-import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import { diagnostic, type Diagnostic, type SourcePos } from "../diagnostics.js";
 import { positionAt } from "../lines.js";
 
 export const MANIFEST_NAME = "varieties.json";
@@ -17,6 +17,8 @@ export interface Variety {
   readonly lang: string;
   /** Absolute path of the variety's grammar file. */
   readonly grammar: string;
+  /** Absolute path of the variety's override CSV (rows that replace the lexicon's rows of their words in this variety only), when it has one. */
+  readonly overrides?: string;
 }
 
 export interface Manifest {
@@ -61,6 +63,29 @@ function isLanguageTag(tag: string): boolean {
   } catch {
     return false;
   }
+}
+
+/**
+ * A variety's optional `"overrides"`: a CSV file (relative to the manifest's folder) with the lexicon's
+ * columns, other than the lexicon file itself. Problems are pushed onto `ds` at `pos`.
+ */
+function overridesOf(o: Record<string, unknown>, dir: string, lexicon: string, name: string, pos: SourcePos, ds: Diagnostic[]): string | undefined {
+  if (!("overrides" in o)) return undefined;
+  const v = o["overrides"];
+  if (typeof v !== "string" || v === "") {
+    ds.push(diagnostic("error", "manifest/overrides", `Variety '${name}': "overrides" must name a CSV file of override rows (relative to this folder).`, pos));
+    return undefined;
+  }
+  const path = resolve(dir, v);
+  if (!existsSync(path) || !statSync(path).isFile()) {
+    ds.push(diagnostic("error", "manifest/overrides-missing", `Variety '${name}': the override file ${path} does not exist or is not a file.`, pos));
+    return undefined;
+  }
+  if (path === lexicon) {
+    ds.push(diagnostic("error", "manifest/overrides", `Variety '${name}': the override file is the lexicon itself; overrides go in a file of their own.`, pos));
+    return undefined;
+  }
+  return path;
 }
 
 /** Reads `DIR/varieties.json` (or the manifest file itself). A BOM at its start is allowed. */
@@ -149,7 +174,8 @@ export function loadManifest(dirOrFile: string): { manifest?: Manifest; diagnost
       if (!existsSync(g)) {
         ds.push(diagnostic("error", "manifest/grammar-missing", `Variety '${name}': the grammar ${g} does not exist.`, at(node("varieties", i, "grammar"))));
       }
-      varieties.push({ name, lang: typeof lang === "string" ? lang : "", grammar: g });
+      const overrides = overridesOf(o, dir, lexicon, name, at(node("varieties", i, "overrides") ?? node("varieties", i)), ds);
+      varieties.push({ name, lang: typeof lang === "string" ? lang : "", grammar: g, ...(overrides !== undefined ? { overrides } : {}) });
     });
   }
   if (ds.some((d) => d.severity === "error")) return { diagnostics: ds };

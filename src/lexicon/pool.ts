@@ -5,6 +5,7 @@
 import { Worker } from "node:worker_threads";
 import { fileURLToPath } from "node:url";
 import { existsSync } from "node:fs";
+import { namedProjectRoot } from "../grammar/index.js";
 import type { Transcription } from "./engine.js";
 import type { WorkerBatch, WorkerReply, WorkerSetup } from "./worker.js";
 
@@ -36,7 +37,7 @@ export class WorkerPool {
     await Promise.all(
       Array.from({ length: n }, () =>
         new Promise<void>((resolve, reject) => {
-          const w = new Worker(script, { workerData: setup });
+          const w = new Worker(script, { workerData: { ...setup, ...(namedProjectRoot() !== undefined ? { root: namedProjectRoot() } : {}) } satisfies WorkerSetup });
           pool.workers.push(w);
           let ready = false;
           w.on("message", (m: WorkerReply) => {

@@ -7,8 +7,8 @@
 
 import { lookup } from "../inventory/lookup.js";
 import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
-import { ASCII_PRIMARY, ASCII_SECONDARY, PRIMARY_STRESS, RESERVED, SECONDARY_STRESS, SYLLABLE_BREAK, TIE_BARS, WORD_BREAK } from "../inventory/ipa.js";
-import { SYLLABLE_EDGE, WORD_EDGE, segment, type Sym } from "../interp/types.js";
+import { ASCII_PRIMARY, ASCII_SECONDARY, MORPHEME_JOIN, PRIMARY_STRESS, RESERVED, SECONDARY_STRESS, SYLLABLE_BREAK, TIE_BARS, WORD_BREAK } from "../inventory/ipa.js";
+import { JOIN_EDGE, SYLLABLE_EDGE, WORD_EDGE, segment, type Sym } from "../interp/types.js";
 
 /** One distinct segment as read (symbol plus diacritics), with its symbol per stress setting, made on demand. */
 interface SegmentType {
@@ -27,6 +27,7 @@ const PRIMARY = 4;
 const SECONDARY = 5;
 const SYLLABLE = 6;
 const WORDBREAK = 7;
+const JOIN = 9; // '+', a morpheme join
 const GENERAL = 8; // needs the general path: ASCII g, tie bars, surrogates, characters NFD changes
 
 const IS_MARK = /^\p{M}$/u;
@@ -38,6 +39,7 @@ function classify(code: number): number {
   if (c === SECONDARY_STRESS || c === ASCII_SECONDARY) return SECONDARY;
   if (c === SYLLABLE_BREAK) return SYLLABLE;
   if (c === WORD_BREAK) return WORDBREAK;
+  if (c === MORPHEME_JOIN) return JOIN;
   if (code >= 0xd800 && code <= 0xdfff) return GENERAL;
   if (c === "g" || TIE_BARS.has(c) || c.normalize("NFD") !== c) return GENERAL;
   if (IS_SPACE.test(c)) return SPACE;
@@ -137,12 +139,26 @@ export class PronReader {
     let pending = 0; // 0 none, 1 primary, 2 secondary
     let wordHasSegment = false;
     let sawWordBreak = false;
+    // A join must follow a segment and be followed by a segment or a stress mark (joins.ts);
+    // anything else takes the general path, which writes the error.
+    let afterJoin = false;
     let i = 0;
     while (i < n) {
       const k = this.classes[pron.charCodeAt(i)]!;
       if (k === SPACE) {
         i++;
         continue;
+      }
+      if (k === JOIN) {
+        if (afterJoin || pending !== 0 || out.length === 0 || out[out.length - 1]!.kind !== "segment") return undefined;
+        afterJoin = true;
+        out.push(JOIN_EDGE);
+        i++;
+        continue;
+      }
+      if (afterJoin && k !== PRIMARY && k !== SECONDARY) {
+        if (k === SYLLABLE || k === WORDBREAK) return undefined;
+        afterJoin = false;
       }
       if (k === PRIMARY || k === SECONDARY) {
         if (pending !== 0) return undefined;
@@ -191,7 +207,7 @@ export class PronReader {
       } else out.push(this.sym(t, 0));
       i = j;
     }
-    if (pending !== 0) return undefined;
+    if (pending !== 0 || afterJoin) return undefined;
     if (!wordHasSegment && sawWordBreak) return undefined;
     return { symbols: out, marked };
   }

@@ -51,31 +51,49 @@ const SOURCE = Buffer.from('"source":{"file":"');
 const LINE = Buffer.from(',"line":');
 const WORD = Buffer.from('"word":"');
 
-/** JSON Lines read back: the line count, and each record's `source.line` (0 when absent) and `word` ("" when absent). */
-export async function readBackJsonl(path: string): Promise<{ count: number; lines: number[]; words: string[] }> {
+/**
+ * JSON Lines read back: the line count, and each record's `source.line` (0 when absent),
+ * `source.file` ("" when absent) and `word` ("" when absent).
+ */
+export async function readBackJsonl(path: string): Promise<{ count: number; lines: number[]; files: string[]; words: string[] }> {
   const lines: number[] = [];
+  const files: string[] = [];
   const words: string[] = [];
   const source = new Finder(SOURCE);
   const word = new Finder(WORD);
+  // Every record of a run names one file or two: its JSON string is decoded once per change.
+  let lastRaw = "";
+  let lastFile = "";
   await eachLineBytes(path, (buf, start, end) => {
-    lines.push(sourceLine(buf, start, end, source));
+    const s = sourceOf(buf, start, end, source);
+    lines.push(s === undefined ? 0 : s.line);
+    if (s === undefined) files.push("");
+    else {
+      const raw = buf.toString("latin1", s.open, s.close);
+      if (raw !== lastRaw) (lastRaw = raw), (lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string);
+      files.push(lastFile);
+    }
     words.push(wordOf(buf, start, end, word));
   });
-  return { count: lines.length, lines, words };
+  return { count: lines.length, lines, files, words };
 }
 
-/** `"source":{"file":"…","line":N}` — the first such match in the line, as /"source":\{"file":"(?:[^"\\]|\\.)*","line":(\d+)\}/. */
-function sourceLine(buf: Buffer, start: number, end: number, finder: Finder): number {
+/**
+ * `"source":{"file":"…","line":N}` — the first such match in the line, as
+ * /"source":\{"file":("(?:[^"\\]|\\.)*"),"line":(\d+)\}/: the line, and where the file's JSON string lies.
+ */
+function sourceOf(buf: Buffer, start: number, end: number, finder: Finder): { line: number; open: number; close: number } | undefined {
   for (let at = finder.find(buf, start, end); at >= 0; at = finder.find(buf, at + 1, end)) {
-    const close = stringEnd(buf, at + SOURCE.length, end);
+    const open = at + SOURCE.length - 1;
+    const close = stringEnd(buf, open + 1, end);
     if (close < 0 || buf.compare(LINE, 0, LINE.length, close, close + LINE.length) !== 0) continue;
     let i = close + LINE.length;
     let n = 0;
     const digits = i;
     while (i < end && buf[i]! >= 48 && buf[i]! <= 57) n = n * 10 + (buf[i++]! - 48);
-    if (i > digits && i < end && buf[i] === 125 /* } */) return n;
+    if (i > digits && i < end && buf[i] === 125 /* } */) return { line: n, open, close };
   }
-  return 0;
+  return undefined;
 }
 
 /** The first `"word":"…"` of the line, decoded, as /"word":("(?:[^"\\]|\\.)*")/ then JSON.parse. */

@@ -171,18 +171,22 @@ export interface WrittenCounts {
   readonly tsvWords?: number;
   /** Lines of lexicon.jsonl, when written. */
   readonly jsonl?: number;
-  /** The `source.line` and `word` of every JSONL record, when written. */
+  /** The `source.line`, `source.file` and `word` of every JSONL record, when written. */
   readonly jsonlLines?: readonly number[];
+  readonly jsonlFiles?: readonly string[];
   readonly jsonlWords?: readonly string[];
   /** `lexeme` elements of lexicon.pls, when written. */
   readonly plsLexemes?: number;
-  /** Records of rejects.csv (header excluded) and their `line` column. */
+  /** Records of rejects.csv (header excluded) and their `line` and `file` columns. */
   readonly rejects: number;
   readonly rejectLines: readonly number[];
+  readonly rejectFiles: readonly string[];
+  /** Records of replaced.csv (a variety with overrides): file, line and word of each lexicon row replaced. */
+  readonly replaced?: readonly { readonly file: string; readonly line: number; readonly word: string }[];
 }
 
 /** Reads back the files of one variety's staging folder (each path given is a file that was written; readback.ts reads them on bytes). */
-export async function countWritten(files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string }): Promise<WrittenCounts> {
+export async function countWritten(files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string; readonly replaced?: string }): Promise<WrittenCounts> {
   let tsv: number | undefined;
   let tsvWords: number | undefined;
   if (files.tsv !== undefined) {
@@ -193,11 +197,13 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
   let jsonl: number | undefined;
   let jsonlLines: number[] | undefined;
   let jsonlWords: string[] | undefined;
+  let jsonlFiles: string[] | undefined;
   if (files.jsonl !== undefined) {
     const j = await readBackJsonl(files.jsonl);
     jsonl = j.count;
     jsonlLines = j.lines;
     jsonlWords = j.words;
+    jsonlFiles = j.files;
   }
   let plsLexemes: number | undefined;
   if (files.pls !== undefined) {
@@ -212,34 +218,51 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
     }
   }
   const rej = csvRecords(await readFile(files.rejects, "utf8")).slice(1);
+  const replaced = files.replaced === undefined ? undefined : csvRecords(await readFile(files.replaced, "utf8")).slice(1).map((r) => ({ file: r[0] ?? "", line: Number(r[1]), word: r[3] ?? "" }));
   return {
     ...(tsv !== undefined ? { tsv, tsvWords } : {}),
-    ...(jsonl !== undefined ? { jsonl, jsonlLines, jsonlWords } : {}),
+    ...(jsonl !== undefined ? { jsonl, jsonlLines, jsonlFiles, jsonlWords } : {}),
     ...(plsLexemes !== undefined ? { plsLexemes } : {}),
     rejects: rej.length,
     rejectLines: rej.map((r) => Number(r[1])),
+    rejectFiles: rej.map((r) => r[0] ?? ""),
+    ...(replaced !== undefined ? { replaced } : {}),
   };
 }
 
 const rows = (n: number): string => `${n} ${n === 1 ? "row" : "rows"}`;
 const entries = (n: number): string => `${n} ${n === 1 ? "entry" : "entries"}`;
 
+/** A variety's override file, for reconciliation: the lexicon's and its names as the outputs write them, and its records. */
+export interface OverrideInput {
+  /** The lexicon file as outputs name it (relative to the lexicon folder). */
+  readonly lexicon: string;
+  /** The override file as outputs name it. */
+  readonly overrides: string;
+  readonly input: InputRecords;
+}
+
 /**
  * Compares the input's records with what was written: each output format holds entries for
  * exactly the records that were not rejected, and (with JSON Lines, which names every entry's
  * line) every record's line is in exactly one of lexicon.jsonl and rejects.csv, and each entry's
  * word is the word of the record on its line (so rows shifted between lines are caught even when
- * the counts come out even). Returns the errors
- * (code `run/unreconciled`), positioned at the first line that is missing or doubled when known.
+ * the counts come out even). With an override file (`over`), its records are input too, and a
+ * lexicon record may instead be one row of replaced.csv, holding the same word; lines are then
+ * told apart by file. Returns the errors (code `run/unreconciled`), positioned at the first line
+ * that is missing or doubled when known.
  */
-export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts): Diagnostic[] {
+export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts, over?: OverrideInput): Diagnostic[] {
   const out: Diagnostic[] = [];
   const fail = (message: string, line = 1): void => {
     out.push(diagnostic("error", "run/unreconciled", `${message} This is a bug in Strata; please report it with the lexicon.`, { file: lexicon, line, column: 1 }));
   };
+  const replaced = w.replaced ?? [];
+  const total = input.count + (over?.input.count ?? 0);
   const check = (name: string, n: number | undefined): void => {
-    if (n !== undefined && n + w.rejects !== input.count) {
-      fail(`The lexicon has ${rows(input.count)} but ${name} holds ${entries(n)} and rejects.csv ${rows(w.rejects)}.`);
+    if (n !== undefined && n + w.rejects + replaced.length !== total) {
+      const more = over === undefined ? "" : ` and replaced.csv ${rows(replaced.length)}`;
+      fail(`The ${over === undefined ? "lexicon has" : "lexicon and its override file have"} ${rows(total)} but ${name} holds ${entries(n)}, rejects.csv ${rows(w.rejects)}${more}.`);
     }
   };
   check("lexicon.tsv", w.tsv);
@@ -247,34 +270,33 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
   if (w.plsLexemes !== undefined && w.tsvWords !== undefined && w.plsLexemes !== w.tsvWords) {
     fail(`lexicon.pls holds ${w.plsLexemes} lexemes but lexicon.tsv ${w.tsvWords} distinct words.`);
   }
-  if (w.jsonlLines !== undefined) {
-    // Per line of the lexicon (typed arrays: a whole dictionary has over a hundred thousand):
-    // the record on it (index + 1, 0 for none) and how often an entry or reject names it.
-    let last = 0;
-    for (const l of input.lines) if (l > last) last = l;
-    const recordAt = new Int32Array(last + 1);
-    input.lines.forEach((l, i) => (recordAt[l] = i + 1));
-    const seen = new Uint32Array(last + 1);
-    const strays = new Set<number>();
-    const count = (l: number): void => {
-      if (Number.isInteger(l) && l >= 1 && l <= last && recordAt[l]! > 0) seen[l]!++;
-      else strays.add(l);
-    };
-    for (const l of w.jsonlLines) count(l);
-    for (const l of w.rejectLines) count(l);
-    const missing = input.lines.filter((l) => seen[l] === 0);
-    const doubled = input.lines.filter((l) => seen[l]! > 1);
-    const stray = [...strays].sort((a, b) => a - b);
-    const list = (ls: readonly number[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
-    if (missing.length > 0) fail(`Line${missing.length === 1 ? "" : "s"} ${list(missing)} of the lexicon ${missing.length === 1 ? "is" : "are"} neither an entry nor a reject.`, missing[0]);
-    if (doubled.length > 0) fail(`Line${doubled.length === 1 ? "" : "s"} ${list(doubled)} of the lexicon ${doubled.length === 1 ? "was" : "were"} written more than once.`, doubled[0]);
-    const moved: number[] = [];
-    w.jsonlLines.forEach((l, i) => {
-      const r = Number.isInteger(l) && l >= 1 && l <= last ? recordAt[l]! : 0;
-      if (r > 0 && input.words[r - 1] !== w.jsonlWords?.[i]) moved.push(l);
-    });
-    if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved)} of the lexicon ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, moved[0]);
-    if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(stray)}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the lexicon.`, stray[0]);
-  }
+  if (w.jsonlLines === undefined) return out;
+  // Records are told apart by line alone without an override file (one input), by file and line with one.
+  const tag = (file: string, line: number): string => (over === undefined ? String(line) : `${file}\n${line}`);
+  const shown = (t: string): string => (over === undefined ? t : t.replace("\n", " line "));
+  const inputs: { tag: string; line: number; word: string }[] = input.lines.map((l, i) => ({ tag: tag(over?.lexicon ?? "", l), line: l, word: input.words[i]! }));
+  if (over !== undefined) over.input.lines.forEach((l, i) => inputs.push({ tag: tag(over.overrides, l), line: l, word: over.input.words[i]! }));
+  const seen = new Map<string, number>();
+  const add = (t: string): void => void seen.set(t, (seen.get(t) ?? 0) + 1);
+  const jsonlTags = w.jsonlLines.map((l, i) => tag(w.jsonlFiles?.[i] ?? "", l));
+  jsonlTags.forEach(add);
+  w.rejectLines.forEach((l, i) => add(tag(w.rejectFiles[i] ?? "", l)));
+  replaced.forEach((r) => add(tag(r.file, r.line)));
+  const missing = inputs.filter((r) => (seen.get(r.tag) ?? 0) === 0);
+  const doubled = inputs.filter((r) => (seen.get(r.tag) ?? 0) > 1);
+  const known = new Set(inputs.map((r) => r.tag));
+  const stray = [...seen.keys()].filter((t) => !known.has(t));
+  const list = (ls: readonly string[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
+  const names = (rs: readonly { tag: string }[]): string => list(rs.map((r) => shown(r.tag)));
+  if (missing.length > 0) fail(`Line${missing.length === 1 ? "" : "s"} ${names(missing)} of the ${over === undefined ? "lexicon" : "input"} ${missing.length === 1 ? "is" : "are"} neither an entry nor a reject${over === undefined ? "" : " nor replaced"}.`, missing[0]!.line);
+  if (doubled.length > 0) fail(`Line${doubled.length === 1 ? "" : "s"} ${names(doubled)} of the ${over === undefined ? "lexicon" : "input"} ${doubled.length === 1 ? "was" : "were"} written more than once.`, doubled[0]!.line);
+  const wordOf = new Map<string, string>(inputs.map((r) => [r.tag, r.word]));
+  const moved = [
+    ...jsonlTags.flatMap((t, i) => (wordOf.has(t) && wordOf.get(t) !== w.jsonlWords?.[i] ? [t] : [])),
+    ...replaced.flatMap((r) => { const t = tag(r.file, r.line); return wordOf.has(t) && wordOf.get(t) !== r.word ? [t] : []; }),
+  ];
+  if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved.map(shown))} of the ${over === undefined ? "lexicon" : "input"} ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, Number(moved[0]!.split("\n").pop()));
+  const strayLines = stray.map((t) => Number(t.split("\n").pop())).sort((a, b) => a - b);
+  if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(over === undefined ? strayLines.map(String) : stray.map(shown))}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the ${over === undefined ? "lexicon" : "input"}.`, strayLines[0]);
   return out;
 }

@@ -4,12 +4,12 @@
 
 import type { Inventory } from "../inventory/types.js";
 import type { Alphabet } from "../compile/alphabet.js";
-import { FIRST_SEGMENT, SYLL, WORD } from "../compile/alphabet.js";
+import { FIRST_SEGMENT, JOIN, SYLL, WORD } from "../compile/alphabet.js";
 
 /** Flat per-id tables, built once per alphabet, read for every symbol of every entry. */
 export interface SymbolView {
   readonly texts: readonly string[];
-  /** 0 ε, 1 '#', 2 '.', 3 segment. */
+  /** 0 ε, 1 '#', 2 '.', 3 segment, 4 '+'. */
   readonly kind: Uint8Array;
   /** 1 primary, 2 secondary, 0 anything else (unstressed, unassigned, non-nucleus). */
   readonly stress: Uint8Array;
@@ -30,8 +30,10 @@ export function symbolView(alphabet: Alphabet, inventory: Inventory): SymbolView
   const nucleusOf = new Uint8Array(n);
   kind[WORD] = 1;
   kind[SYLL] = 2;
+  kind[JOIN] = 4;
   texts[WORD] = "#";
   texts[SYLL] = ".";
+  texts[JOIN] = "+";
   const iStress = inventory.featureIndex.get("stress");
   const iPrimary = inventory.featureIndex.get("primary");
   const iSyllabic = inventory.featureIndex.get("syllabic");
@@ -52,6 +54,8 @@ export function symbolView(alphabet: Alphabet, inventory: Inventory): SymbolView
 export interface RenderOptions {
   /** Write '.' between unstressed syllables (default true); stress marks are always written. */
   readonly syllables?: boolean;
+  /** Write each morpheme join '+' (the broad form; default false: narrow forms leave joins out). */
+  readonly joins?: boolean;
 }
 
 /**
@@ -63,6 +67,7 @@ export interface RenderOptions {
  */
 export function renderIpa(ids: ArrayLike<number>, view: SymbolView, opts: RenderOptions = {}): string {
   const dots = opts.syllables ?? true;
+  const joins = opts.joins ?? false;
   const { kind, texts, stress } = view;
   let from = 0;
   let to = ids.length;
@@ -73,7 +78,7 @@ export function renderIpa(ids: ArrayLike<number>, view: SymbolView, opts: Render
   let opener = 0; // 0 start, 1 word, 2 syllable
   while (i <= to) {
     let j = i;
-    while (j < to && kind[ids[j]!] === 3) j++;
+    while (j < to && kind[ids[j]!]! >= 3) j++;
     let firstNucleus = -1;
     let firstMark = 0;
     for (let k = i; k < j; k++) {
@@ -89,6 +94,10 @@ export function renderIpa(ids: ArrayLike<number>, view: SymbolView, opts: Render
     else if (opener === 2 && dots) text += ".";
     for (let k = i; k < j; k++) {
       const id = ids[k]!;
+      if (kind[id] === 4) {
+        if (joins) text += "+";
+        continue;
+      }
       if (k !== firstNucleus && view.nucleus[id] === 1) {
         const st = stress[id];
         if (st === 1) text += PRIMARY_MARK;

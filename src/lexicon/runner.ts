@@ -16,6 +16,7 @@ import { unwritableEntry } from "./writable.js";
 import { VarietyOutput, type SharedLines, type VarietyRun } from "./variety-out.js";
 import { MachineEngine } from "./engine-machine.js";
 import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
+import { asCompound } from "./compound.js";
 
 export type { VarietyRun } from "./variety-out.js";
 
@@ -36,6 +37,8 @@ export interface RunOptions {
    * them already: a build counts them once for all its varieties. Counted here when absent.
    */
   readonly inputRecords?: Promise<InputRecords>;
+  /** The variety's override CSV (overrides.ts): its rows replace the lexicon's rows of their words (runLexicon; runVarieties takes one per variety). */
+  readonly overrides?: string;
 }
 
 export interface RunSummary {
@@ -66,6 +69,9 @@ export interface RunSummary {
   readonly seconds: number;
   /** The written files account for every input record exactly once (lexicon/reconcile.ts). */
   readonly reconciled: boolean;
+  /** With an override file: lexicon rows replaced by it (in replaced.csv), and its warnings and problems. */
+  readonly rowsReplaced?: number;
+  readonly overrideDiagnostics?: readonly Diagnostic[];
 }
 
 /** A row the machine cannot take: a reject. */
@@ -95,8 +101,9 @@ export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.varia
 
 /** `key`: the entry key (see keys.ts; an EntryKeys gives them in file order). */
 export function transcribeRow(engine: Engine, row: LexiconRow, key: string, needs?: Needs, share?: WalkShare): EntryResult | RejectedRow {
-  const t = share !== undefined && engine instanceof MachineEngine ? engine.transcribeWord(row.symbols, needs, share) : engine.transcribeWord(row.symbols, needs);
-  if (t === undefined) return outsideAlphabet(row);
+  const t0 = share !== undefined && engine instanceof MachineEngine ? engine.transcribeWord(row.symbols, needs, share) : engine.transcribeWord(row.symbols, needs);
+  if (t0 === undefined) return outsideAlphabet(row);
+  const t = asCompound(row, t0, engine.writesSyllables ?? true);
   const bad = unwritableEntry(row, t);
   if (bad !== undefined) return bad;
   return entryOf(row, key, t);
@@ -117,7 +124,7 @@ export async function runLexicon(
   variety: { readonly name: string; readonly lang: string },
   opts: RunOptions = {},
 ): Promise<RunSummary> {
-  const [summary] = await runVarieties(inventory, lexiconPath, [{ engine, outDir, variety, ...(opts.pool !== undefined ? { pool: opts.pool } : {}) }], opts);
+  const [summary] = await runVarieties(inventory, lexiconPath, [{ engine, outDir, variety, ...(opts.pool !== undefined ? { pool: opts.pool } : {}), ...(opts.overrides !== undefined ? { overrides: opts.overrides } : {}) }], opts);
   return summary!;
 }
 
@@ -132,7 +139,7 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   const t0 = performance.now();
   const formats = new Set(opts.formats ?? ALL_FORMATS);
   const root = opts.sourceRoot ?? dirname(lexiconPath);
-  const opened = await Promise.all(runs.map((r) => VarietyOutput.open(r, formats, lexiconPath, root, t0)));
+  const opened = await Promise.all(runs.map((r) => VarietyOutput.open(r, inventory, formats, lexiconPath, root, t0)));
   const live = opened.filter((o): o is VarietyOutput => o instanceof VarietyOutput);
   // The first variety leads: the others take over its walk through the steps they share with it.
   const leader = live[0]?.run.engine;

@@ -2,7 +2,8 @@
 // stress (DEVELOPERS.md, "The string every stage sees").
 
 import type { Bundle, FeatureValue, Inventory, PronToken } from "../inventory/types.js";
-import { SYLLABLE_EDGE, WORD_EDGE, segment } from "../interp/types.js";
+import { JOIN_EDGE, SYLLABLE_EDGE, WORD_EDGE, segment } from "../interp/types.js";
+import { checkJoins } from "./joins.js";
 import type { Sym, Word } from "../interp/types.js";
 
 export type StressResult =
@@ -23,6 +24,8 @@ export function applyStress(inv: Inventory, tokens: readonly PronToken[]): Stres
     const missing = syllabic === undefined ? "syllabic" : stressF === undefined ? "stress" : "primary";
     return { ok: false, column: tokens[0]?.column ?? 1, code: "lexicon/no-feature", reason: `The inventory has no feature '${missing}', needed to place stress.` };
   }
+  const joinProblem = checkJoins(tokens);
+  if (joinProblem !== undefined) return { ok: false, ...joinProblem };
   const marked = tokens.some((t) => t.kind === "stress");
   const out: Sym[] = [];
   let pending: { level: "primary" | "secondary"; column: number } | undefined;
@@ -56,6 +59,9 @@ export function applyStress(inv: Inventory, tokens: readonly PronToken[]): Stres
       }
       case "syllable":
         out.push(SYLLABLE_EDGE);
+        break;
+      case "join":
+        out.push(JOIN_EDGE);
         break;
       case "word":
         if (pending !== undefined) return noVowel(pending);

@@ -21,6 +21,7 @@ export function summaryJson(s: RunSummary, root: string): string {
     rowsRead: s.rowsRead,
     entriesWritten: s.entriesWritten,
     rowsRejected: s.rowsRejected,
+    ...(s.rowsReplaced !== undefined ? { rowsReplaced: s.rowsReplaced } : {}),
     words: s.words,
     entriesWithVariants: s.entriesWithVariants,
     variantsTotal: s.variantsTotal,

@@ -16,7 +16,10 @@ import { MachineEngine } from "./engine-machine.js";
 import type { WorkerPool } from "./pool.js";
 import { writeRejects, type LexiconItem, type LexiconRow, type RejectedRow } from "./read.js";
 import { stageFolder } from "./outdir.js";
-import { countWritten, reconcile, type InputRecords } from "./reconcile.js";
+import { countInputRecords, countWritten, reconcile, type InputRecords } from "./reconcile.js";
+import { Overrides, writeReplaced } from "./overrides.js";
+import { asCompound } from "./compound.js";
+import type { Inventory } from "../inventory/types.js";
 import { entryJsonRecord, entryOf, entryPhonemes, failedSummary, outsideAlphabet, transcribeRow, type OutputFormat, type RunSummary } from "./runner.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
 import { unwritableEntry } from "./writable.js";
@@ -32,6 +35,8 @@ export interface VarietyRun {
   readonly variety: { readonly name: string; readonly lang: string };
   /** Worker threads running this variety's machines (output identical to one thread). */
   readonly pool?: WorkerPool;
+  /** The variety's override CSV (overrides.ts): its rows replace the lexicon's rows of their words. */
+  readonly overrides?: string;
 }
 
 /**
@@ -83,6 +88,7 @@ export class VarietyOutput {
 
   private constructor(
     readonly run: VarietyRun,
+    private readonly ov: Overrides | undefined,
     private readonly stage: Awaited<ReturnType<typeof stageFolder>>,
     private readonly formats: ReadonlySet<OutputFormat>,
     private readonly lexiconPath: string,
@@ -102,9 +108,14 @@ export class VarietyOutput {
   }
 
   /** Opens the variety's staging folder; a folder that cannot be made is the variety's failed summary. */
-  static async open(run: VarietyRun, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number): Promise<VarietyOutput | RunSummary> {
+  static async open(run: VarietyRun, inventory: Inventory, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number): Promise<VarietyOutput | RunSummary> {
+    // The override file is read whole first: a file that cannot be read stops the variety before anything is written.
+    const ov = run.overrides !== undefined ? await Overrides.read(run.overrides, inventory) : undefined;
+    if (ov?.failed === true) {
+      return { ...failedSummary(run.variety.name, lexiconPath, [], t0, ov.diagnostics.filter((d) => d.severity === "error")), overrideDiagnostics: ov.diagnostics.filter((d) => d.severity !== "error") };
+    }
     try {
-      return new VarietyOutput(run, await stageFolder(run.outDir), formats, lexiconPath, root, t0);
+      return new VarietyOutput(run, ov, await stageFolder(run.outDir), formats, lexiconPath, root, t0);
     } catch (err) {
       return failedSummary(run.variety.name, lexiconPath, [], t0, [outputError(run.outDir, err)]);
     }
@@ -179,7 +190,8 @@ export class VarietyOutput {
     if (pool === undefined || !(engine instanceof MachineEngine)) {
       for (let i = 0; i < batch.length; i++) {
         const item = batch[i]!;
-        this.emit(item.kind === "row" ? transcribeRow(engine, item, keys[i]!, undefined, share?.(i)) : item, shared, i);
+        if (item.kind !== "row") this.emit(item);
+        else if (this.ov?.replaced(item, keys[i]!) !== true) this.emit(transcribeRow(engine, item, keys[i]!, undefined, share?.(i)), shared, i);
       }
       await this.drain();
       return;
@@ -188,6 +200,8 @@ export class VarietyOutput {
     for (let i = 0; i < batch.length; i++) {
       const item = batch[i]!;
       if (item.kind === "row") {
+        // A row an override replaces in this variety is not written.
+        if (this.ov?.replaced(item, keys[i]!) === true) continue;
         const e = engine.encode(item.symbols);
         if (e === undefined) {
           // Segments the workers' machines lack: this thread's engine widens its alphabet.
@@ -221,7 +235,7 @@ export class VarietyOutput {
       }
       const t = results[k++];
       const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-      this.emit(bad ?? entryOf(item, head.keys[i]!, t!));
+      this.emit(bad ?? entryOf(item, head.keys[i]!, asCompound(item, t!, this.run.engine.writesSyllables ?? true)));
     });
     await this.drain();
   }
@@ -230,6 +244,8 @@ export class VarietyOutput {
   async finishRows(): Promise<void> {
     if (this.run.pool !== undefined && this.pending.items.length > 0) this.submit(this.run.pool);
     while (this.queue.length > 0) await this.drainOne();
+    // The override rows (and their rejects) after the lexicon's own entries.
+    if (this.ov !== undefined) for (const t of this.ov.tail()) this.emit(t.kind === "row" ? transcribeRow(this.run.engine, t.row, t.key) : t);
   }
 
   /** Fails the file writers (their temporary files go) and removes the staging folder. */
@@ -278,15 +294,23 @@ export class VarietyOutput {
       }
       files["rejects.csv"] = join(outDir, "rejects.csv");
       await writeRejects(staged("rejects.csv"), this.rejects.map((r) => ({ ...r, file: relativeTo(this.root, r.file) })));
+      const ov = this.ov;
+      const overrides = this.run.overrides;
+      if (ov !== undefined) {
+        files["replaced.csv"] = join(outDir, "replaced.csv");
+        await writeReplaced(staged("replaced.csv"), ov.replacedRows, (f) => this.relFile(f));
+      }
       const counted = await input;
       const written = await countWritten({
         ...(this.formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
         ...(this.formats.has("jsonl") ? { jsonl: staged("lexicon.jsonl") } : {}),
         ...(this.formats.has("pls") ? { pls: staged("lexicon.pls") } : {}),
         rejects: staged("rejects.csv"),
+        ...(ov !== undefined ? { replaced: staged("replaced.csv") } : {}),
       });
-      rowsRead = counted.count;
-      reconcileErrors = reconcile(lexiconPath, counted, written);
+      const overInput = overrides !== undefined ? await countInputRecords(overrides) : undefined;
+      rowsRead = counted.count + (overInput?.count ?? 0);
+      reconcileErrors = reconcile(lexiconPath, counted, written, overInput !== undefined ? { lexicon: this.relFile(lexiconPath), overrides: this.relFile(overrides!), input: overInput } : undefined);
     } catch (err) {
       return failWrite(err);
     }
@@ -311,6 +335,7 @@ export class VarietyOutput {
       diagnostics: [...diagnostics, ...outputErrors, ...this.rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
       seconds: (performance.now() - t0) / 1000,
       reconciled: true,
+      ...(this.ov !== undefined ? { rowsReplaced: this.ov.replacedRows.length, overrideDiagnostics: this.ov.diagnostics } : {}),
     };
     files["summary.json"] = join(outDir, "summary.json");
     try {

@@ -2,13 +2,15 @@
 // main thread has just filled) and transcribes batches of encoded words, in the order received.
 
 import { parentPort, workerData } from "node:worker_threads";
-import { loadGrammar, loadGrammarCached } from "../grammar/index.js";
+import { loadGrammar, loadGrammarCached, setProjectRoot } from "../grammar/index.js";
 import { machineEngine } from "./engine-machine.js";
 import type { Transcription } from "./engine.js";
 
 export interface WorkerSetup {
   readonly grammar: string;
   readonly cacheDir?: string;
+  /** The project root the main thread was given (`--root`); absent: the default. */
+  readonly root?: string;
   readonly maxStates?: number;
   readonly blame: boolean;
   readonly syllables: boolean;
@@ -30,6 +32,7 @@ export type WorkerReply =
 
 const setup = workerData as WorkerSetup;
 const port = parentPort!;
+setProjectRoot(setup.root);
 const g = setup.cacheDir !== undefined ? loadGrammarCached(setup.grammar, setup.cacheDir) : loadGrammar(setup.grammar);
 const built = g.grammar !== undefined && g.inventory !== undefined
   ? machineEngine(g.grammar, g.inventory, {

@@ -18,16 +18,45 @@ td.num { text-align: right; font-variant-numeric: tabular-nums; }
 a.rule { color: #1f4ea3; cursor: pointer; text-decoration: underline; }
 `;
 
-export const HTML_SCRIPT = `
-(function () {
-  "use strict";
-  var data = JSON.parse(document.getElementById("data").textContent);
-  function el(tag, attrs, children) {
+/**
+ * The pages' helpers, shared with the varieties report: `el` (an element with attributes, `text`
+ * setting its text, and children); `diffText` and `diffSpan` (one side of a segment diff
+ * `[[text, 0 same | 1 first only | 2 second only], …]`, leaving out the parts marked `hide`, as text
+ * or as a span with the differing parts marked); `sortOnClick` (a click on a `th[data-sort]` of
+ * the table sorts by that key, again the other way; `state` holds `key` and `dir`).
+ */
+export const HTML_HELPERS = `function el(tag, attrs, children) {
     var e = document.createElement(tag);
     if (attrs) for (var k in attrs) { if (k === "text") e.textContent = attrs[k]; else e.setAttribute(k, attrs[k]); }
     (children || []).forEach(function (c) { e.appendChild(typeof c === "string" ? document.createTextNode(c) : c); });
     return e;
   }
+  function diffText(diff, hide) { return diff.filter(function (p) { return p[1] !== hide; }).map(function (p) { return p[0]; }).join(""); }
+  function diffSpan(diff, hide) {
+    var span = el("span", { "class": "ipa" });
+    diff.forEach(function (p) {
+      if (p[1] === hide) return;
+      span.appendChild(p[1] === 0 ? document.createTextNode(p[0]) : el("span", { "class": p[1] === 1 ? "d-old" : "d-new", text: p[0] }));
+    });
+    return span;
+  }
+  function sortOnClick(table, state, render) {
+    document.querySelectorAll("#" + table + " th[data-sort]").forEach(function (th) {
+      th.addEventListener("click", function () {
+        var k = th.getAttribute("data-sort");
+        state.dir = state.key === k ? -state.dir : 1; state.key = k;
+        document.querySelectorAll("#" + table + " th").forEach(function (h) { h.classList.remove("asc", "desc"); });
+        th.classList.add(state.dir > 0 ? "asc" : "desc");
+        render();
+      });
+    });
+  }`;
+
+export const HTML_SCRIPT = `
+(function () {
+  "use strict";
+  var data = JSON.parse(document.getElementById("data").textContent);
+  ${HTML_HELPERS}
   // Summary counts.
   var sbody = document.querySelector("#summary tbody");
   data.varieties.forEach(function (v) {
@@ -60,24 +89,16 @@ export const HTML_SCRIPT = `
   var rules = {};
   all.forEach(function (r) { if (r.rule) rules[r.rule] = true; });
   Object.keys(rules).sort().forEach(function (r) { fr.appendChild(el("option", { value: r, text: r })); });
-  var sortKey = "", sortDir = 1, LIMIT = 5000;
-  function formText(r, side) { return r.diff.filter(function (p) { return p[1] !== (side === "old" ? 2 : 1); }).map(function (p) { return p[0]; }).join(""); }
-  function form(r, side) {
-    var span = el("span", { "class": "ipa" });
-    r.diff.forEach(function (p) {
-      if (p[1] === (side === "old" ? 2 : 1)) return;
-      span.appendChild(p[1] === 0 ? document.createTextNode(p[0]) : el("span", { "class": p[1] === 1 ? "d-old" : "d-new", text: p[0] }));
-    });
-    return span;
-  }
-  function value(r, k) { return k === "old" || k === "new" ? formText(r, k) : String(r[k] || ""); }
+  var sort = { key: "", dir: 1 }, LIMIT = 5000;
+  function form(r, side) { return diffSpan(r.diff, side === "old" ? 2 : 1); }
+  function value(r, k) { return k === "old" || k === "new" ? diffText(r.diff, k === "old" ? 2 : 1) : String(r[k] || ""); }
   function render() {
     var text = ft.value.trim().toLowerCase();
     var rows = all.filter(function (r) {
       return (!fv.value || r.variety === fv.value) && (!fr.value || r.rule === fr.value) && (!fc.value || r.cause === fc.value) &&
         (!text || r.word.toLowerCase().indexOf(text) >= 0 || r.key.toLowerCase().indexOf(text) >= 0);
     });
-    if (sortKey) rows.sort(function (a, b) { var x = value(a, sortKey), y = value(b, sortKey); return x < y ? -sortDir : x > y ? sortDir : 0; });
+    if (sort.key) rows.sort(function (a, b) { var x = value(a, sort.key), y = value(b, sort.key); return x < y ? -sort.dir : x > y ? sort.dir : 0; });
     var tbody = document.querySelector("#changes tbody");
     tbody.textContent = "";
     rows.slice(0, LIMIT).forEach(function (r) {
@@ -109,15 +130,7 @@ export const HTML_SCRIPT = `
   function setFilter(variety, rule) { fv.value = variety; fr.value = rule; render(); document.getElementById("changes").scrollIntoView(); }
   [fv, fr, fc].forEach(function (s) { s.addEventListener("change", render); });
   ft.addEventListener("input", render);
-  document.querySelectorAll("#changes th[data-sort]").forEach(function (th) {
-    th.addEventListener("click", function () {
-      var k = th.getAttribute("data-sort");
-      sortDir = sortKey === k ? -sortDir : 1; sortKey = k;
-      document.querySelectorAll("#changes th").forEach(function (h) { h.classList.remove("asc", "desc"); });
-      th.classList.add(sortDir > 0 ? "asc" : "desc");
-      render();
-    });
-  });
+  sortOnClick("changes", sort, render);
   render();
   // Pinned expectations.
   var ex = document.getElementById("expectations");

@@ -39,20 +39,29 @@ function pageData(c: Comparison) {
   };
 }
 
-/** The whole report page. */
-export function formatHtml(c: Comparison): string {
-  const title = `Strata comparison: ${c.lexicon}`;
+/** A whole self-contained page: the style sheet, the body (after the title), the data as JSON in #data and the script that renders it. */
+export function htmlPage(title: string, style: string, body: string, data: unknown, script: string): string {
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
 <meta charset="utf-8">
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <title>${escapeHtml(title)}</title>
-<style>${HTML_STYLE}</style>
+<style>${style}</style>
 </head>
 <body>
 <header><h1>${escapeHtml(title)}</h1>
-<p class="paths">old <code>${escapeHtml(c.old)}</code> → new <code>${escapeHtml(c.new)}</code></p>
+${body}<script type="application/json" id="data">${scriptJson(data)}</script>
+<script>${script}</script>
+</body>
+</html>
+`;
+}
+
+/** The whole report page. */
+export function formatHtml(c: Comparison): string {
+  const title = `Strata comparison: ${c.lexicon}`;
+  return htmlPage(title, HTML_STYLE, `<p class="paths">old <code>${escapeHtml(c.old)}</code> → new <code>${escapeHtml(c.new)}</code></p>
 <p id="verdict" class="${c.unexpected === 0 && c.failedExpectations === 0 ? "ok" : "bad"}">${c.unexpected} unexpected change${c.unexpected === 1 ? "" : "s"}, ${c.failedExpectations} failed expectation${c.failedExpectations === 1 ? "" : "s"}</p>
 </header>
 <section><h2>Summary</h2><table id="summary"><thead><tr><th>variety</th><th>old</th><th>new</th><th>changed</th><th>input</th><th>grammar</th><th>variants</th><th>added</th><th>removed</th><th>unchanged</th><th>unexpected</th><th>failed expectations</th></tr></thead><tbody></tbody></table></section>
@@ -69,9 +78,5 @@ export function formatHtml(c: Comparison): string {
 <div id="derivation" hidden></div>
 </section>
 <section><h2>Pinned expectations</h2><div id="expectations"></div></section>
-<script type="application/json" id="data">${scriptJson(pageData(c))}</script>
-<script>${HTML_SCRIPT}</script>
-</body>
-</html>
-`;
+`, pageData(c), HTML_SCRIPT);
 }

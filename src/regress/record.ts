@@ -10,6 +10,7 @@ import { COMPILER_VERSION } from "../compile/index.js";
 import type { Grammar } from "../grammar/ast.js";
 import type { Manifest, Variety } from "../lexicon/manifest.js";
 import { writeFileAtomic } from "../emit/atomic.js";
+import { stepHashes } from "./step-hash.js";
 
 /** The build folder format this code writes and reads (older builds lack keys and derivations). */
 export const BUILD_FORMAT = 2;
@@ -30,6 +31,10 @@ export interface VarietyRecord {
   readonly inventory: { readonly sha256: string; readonly files: readonly FileHash[] };
   /** The grammar's steps in order (rules, syllabify, stress): what blame calls new or removed. */
   readonly steps: readonly string[];
+  /** Parallel to `steps`: each step's fingerprint (step-hash.ts); absent in builds made before it was recorded. */
+  readonly stepHashes?: readonly string[];
+  /** The variety's override file (relative to the lexicon folder) and its SHA-256, when it has one. */
+  readonly overrides?: FileHash;
 }
 
 export interface BuildRecord {
@@ -73,6 +78,8 @@ export function varietyRecord(root: string, variety: Variety, grammar: Grammar):
     grammar: { files },
     inventory: { sha256: all.digest("hex"), files: inv },
     steps: grammar.steps.map((s) => s.name),
+    stepHashes: stepHashes(grammar),
+    ...(variety.overrides !== undefined ? { overrides: { path: relativePosix(root, variety.overrides), sha256: sha256File(variety.overrides) } } : {}),
   };
 }
 

@@ -103,12 +103,12 @@ describe("every command", () => {
     if (!["classes", "explain", "interactions"].includes(name)) expect([...byLong.keys()]).toEqual(expect.arrayContaining(["--cache-dir", "--no-cache"]));
   });
 
-  it("-o/--out means one thing: a file for one-file outputs, a folder for build and init's argument", () => {
+  it("-o/--out means one thing: a file for one-file outputs, a folder for the commands that write several (build, varieties) and init's argument", () => {
     for (const c of commands) {
       const o = c.options.find((x) => x.long === "--out");
       if (o === undefined) continue;
       expect(o.short).toBe("-o");
-      expect(o.flags).toBe(c.name() === "build" ? "-o, --out <dir>" : "-o, --out <file>");
+      expect(o.flags).toBe(["build", "varieties"].includes(c.name()) ? "-o, --out <dir>" : "-o, --out <file>");
     }
     expect(commands.find((c) => c.name() === "import")!.options.some((o) => o.long === "--output")).toBe(false);
   });

@@ -18,11 +18,12 @@ import { registerLint } from "../../src/cli/lint.js";
 import { registerTranscribe } from "../../src/cli/transcribe.js";
 import { registerExplain } from "../../src/cli/explain.js";
 import { registerInteractions } from "../../src/cli/interactions.js";
+import { registerVarieties } from "../../src/cli/varieties.js";
 
 /** The program with every command of main.ts. */
 export function program(): Command {
   const p = createProgram();
-  for (const register of [registerInit, registerClasses, registerImport, registerBuild, registerTranscribe, registerCompile, registerGraph, registerLint, registerClusters, registerExplain, registerInteractions]) register(p);
+  for (const register of [registerInit, registerClasses, registerImport, registerBuild, registerTranscribe, registerCompile, registerGraph, registerLint, registerClusters, registerExplain, registerInteractions, registerVarieties]) register(p);
   return p;
 }
 

@@ -191,6 +191,7 @@ describe("the process: broken pipes, half documents, exit codes (compiled CLI)",
     expect(files).toContain("dist/src/cli/main.js");
     expect(files).toContain("lexicons/en-us/grammar.strata");
     expect(files).toContain("lexicons/demo/varieties.json");
+    expect(files).toContain("lexicons/.strata-root"); // the project root of the shipped grammars (varieties across folders)
     expect(files.filter((f) => /^(tests|bench|src|dist\/bench)\//.test(f) || f.endsWith(".ts") || f.endsWith(".map"))).toEqual([]);
   });
 });

@@ -2,10 +2,10 @@
 // compiler against the reference interpreter (fast-check arbitraries).
 
 import fc from "fast-check";
-import type { ChangeElement, Element, Environment, Pattern, Rule } from "../../src/grammar/ast.js";
+import type { ChangeElement, Element, Environment, JoinMode, Pattern, Rule } from "../../src/grammar/ast.js";
 import type { FeatureValue } from "../../src/inventory/types.js";
 import type { Sym } from "../../src/interp/index.js";
-import { SYLLABLE_EDGE, WORD_EDGE } from "../../src/interp/index.js";
+import { JOIN_EDGE, SYLLABLE_EDGE, WORD_EDGE } from "../../src/interp/index.js";
 import { SPAN, bun, cls, seg, WB, SB, pat } from "../support/ast.js";
 import { tinyBundle } from "../support/tiny-inventory.js";
 
@@ -28,6 +28,9 @@ const bundleEl = (vars: boolean): fc.Arbitrary<Element> =>
 
 const segEl: fc.Arbitrary<Element> = fc.constantFrom(...SEGMENTS).map(seg);
 
+/** The morpheme join `+` in a pattern: a rule naming it sees every join. */
+const JB: Element = { kind: "boundary", which: "join", span: SPAN };
+
 const element = (vars: boolean, boundaries: boolean): fc.Arbitrary<Element> =>
   fc.oneof(
     { weight: 4, arbitrary: bundleEl(vars) },
@@ -35,6 +38,7 @@ const element = (vars: boolean, boundaries: boolean): fc.Arbitrary<Element> =>
     { weight: 1, arbitrary: fc.constant(cls("V")) },
     { weight: boundaries ? 1 : 0, arbitrary: fc.constant(WB) },
     { weight: boundaries ? 1 : 0, arbitrary: fc.constant(SB) },
+    { weight: boundaries ? 1 : 0, arbitrary: fc.constant(JB) },
   );
 
 const pattern = (vars: boolean): fc.Arbitrary<Pattern> =>
@@ -87,12 +91,13 @@ export const ruleArb: fc.Arbitrary<Rule> = fc
 
 const segSym = (s: string, stress: FeatureValue, primary: FeatureValue): Sym => ({ kind: "segment", bundle: tinyBundle(s, stress, primary) });
 
-/** A random word: 0–7 segments with '.' between some, bracketed by '#', sometimes two words. */
+/** A random word: 0–7 segments with '.' and '+' between some, bracketed by '#', sometimes two words (any order of boundaries: rules may leave joins anywhere). */
 export const wordArb: fc.Arbitrary<Sym[]> = fc
   .array(
     fc.oneof(
       { weight: 18, arbitrary: fc.tuple(fc.constantFrom(...SEGMENTS), fc.constantFrom<[FeatureValue, FeatureValue]>(["+", "+"], ["+", "-"], ["-", "-"], ["0", "0"])).map(([s, [a, b]]) => (VOWELS.has(s) ? segSym(s, a, b) : segSym(s, "0", "0"))) },
       { weight: 3, arbitrary: fc.constant(SYLLABLE_EDGE) },
+      { weight: 3, arbitrary: fc.constant(JOIN_EDGE) },
       { weight: 1, arbitrary: fc.constant(WORD_EDGE) },
     ),
     { maxLength: 7 },
@@ -117,3 +122,10 @@ export const stressArb = fc.record({
   position: fc.integer({ min: 1, max: 3 }),
   otherwise: fc.option(fc.integer({ min: 1, max: 3 }), { freq: 2 }),
 });
+
+/** How syllabification treats `+` (the grammar's `joins` statement); `undefined` is the default (through). */
+export const joinModeArb: fc.Arbitrary<JoinMode | undefined> = fc.constantFrom<JoinMode | undefined>(undefined, "through", "closed", "closed-before-consonant");
+
+/** The `joins` field for a grammar: a closing mode needs an onsets list when codas are declared (grammar/joins-without-onsets). */
+export const joinsField = (mode: JoinMode | undefined, onsets: unknown, codas: unknown): { joins?: JoinMode } =>
+  mode === undefined || (mode !== "through" && onsets === null && codas !== null) ? {} : { joins: mode };

@@ -1,7 +1,7 @@
 // DEVELOPERS.md's example grammar ("The grammar language") loads against the shipped en-us
 // inventory: the block is extracted from the guide itself, so the guide cannot drift from the parser.
 
-import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { copyFileSync, cpSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, test } from "vitest";
@@ -31,5 +31,21 @@ describe("DEVELOPERS.md example grammar", () => {
     const r = loadGrammar(dir);
     expect(r.diagnostics.map((d) => `${d.line}:${d.column} ${d.severity} ${d.code} ${d.message}`)).toEqual([]);
     expect(r.grammar?.steps.length).toBeGreaterThan(3);
+  });
+});
+
+describe("DEVELOPERS.md example variety", () => {
+  test("loads as lexicons/demo/announcer.strata in a copy of the shipped lexicons without errors or warnings", () => {
+    const example = blocksOf("The grammar language").find((b) => b.includes('base "../en-us/grammar.strata"'));
+    expect(example).toBeDefined();
+    const dir = mkdtempSync(join(tmpdir(), "strata-devguide-"));
+    cpSync(join(root, "lexicons"), join(dir, "lexicons"), { recursive: true });
+    writeFileSync(join(dir, "lexicons", "demo", "announcer.strata"), example!);
+    const r = loadGrammar(join(dir, "lexicons", "demo", "announcer.strata"));
+    expect(r.diagnostics.map((d) => `${d.line}:${d.column} ${d.severity} ${d.code} ${d.message}`)).toEqual([]);
+    const names = r.grammar!.steps.map((s) => s.name);
+    expect(names).not.toContain("glottal-stop");
+    expect(names.slice(names.indexOf("flapping"), names.indexOf("flapping") + 3)).toEqual(["flapping", "final-glottal", "final-release"]);
+    expect(names[names.indexOf("schwa-deletion") + 1]).toBe("syllabify-2");
   });
 });

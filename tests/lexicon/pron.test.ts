@@ -38,6 +38,7 @@ const piece = fc.oneof(
   { weight: 3, arbitrary: fc.constantFrom(...marks) },
   { weight: 3, arbitrary: fc.constantFrom("ˈ", "ˌ", "'", ",") },
   { weight: 2, arbitrary: fc.constantFrom(".", "#", " ", "\t", "  ") },
+  { weight: 2, arbitrary: fc.constant("+") },
   { weight: 1, arbitrary: fc.constantFrom("g", "t\u0361ʃ", "d\u035Cʒ", "ĩ", "i\u0303", "ã", "x", "\u0303\u0325", "\u0325\u0303", "é", "😀", "\u00a0", "\u2028") },
 );
 const pron = fc.array(piece, { minLength: 1, maxLength: 12 }).map((p) => p.join(""));

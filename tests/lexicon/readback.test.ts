@@ -14,18 +14,22 @@ import { readBackJsonl, readBackTsv } from "../../src/lexicon/readback.js";
 const dir = mkdtempSync(join(tmpdir(), "strata-readback-"));
 
 // The reading the byte version replaced (reconcile.ts before it): text lines and two regular expressions.
-const SOURCE_LINE = /"source":\{"file":"(?:[^"\\]|\\.)*","line":(\d+)\}/;
+const SOURCE_LINE = /"source":\{"file":("(?:[^"\\]|\\.)*"),"line":(\d+)\}/;
 const WORD = /"word":("(?:[^"\\]|\\.)*")/;
 function textLines(text: string): string[] {
   const lines = text.split("\n").map((l) => (l.endsWith("\r") ? l.slice(0, -1) : l));
   if (lines[lines.length - 1] === "") lines.pop();
   return lines;
 }
-function byText(text: string): { count: number; lines: number[]; words: string[] } {
+function byText(text: string): { count: number; lines: number[]; files: string[]; words: string[] } {
   const ls = textLines(text);
   return {
     count: ls.length,
-    lines: ls.map((l) => Number(SOURCE_LINE.exec(l)?.[1] ?? 0)),
+    lines: ls.map((l) => Number(SOURCE_LINE.exec(l)?.[2] ?? 0)),
+    files: ls.map((l) => {
+      const m = SOURCE_LINE.exec(l);
+      return m === null ? "" : (JSON.parse(m[1]!) as string);
+    }),
     words: ls.map((l) => {
       const w = WORD.exec(l);
       return w === null ? "" : (JSON.parse(w[1]!) as string);

@@ -209,8 +209,9 @@ describe("syllabification by the Maximal Onset Principle", () => {
     expect(narrow("constrain")).toBe("kʰə̃nˈstɹeɪ̃n");
   });
   test("tl is not an English onset; ŋ never starts a syllable", () => {
-    // Giegerich 1992 ch. 6; Hammond 1999 (from memory): "atlas" æt.ləs, "singer" sɪŋ.ɚ
-    expect(narrow("atlas")).toBe("ˈæt.ləs");
+    // Giegerich 1992 ch. 6; Hammond 1999 (from memory): "atlas" æt.ləs, "singer" sɪŋ.ɚ (the t, in the
+    // coda, is glottalised in casual speech: the other variant keeps it)
+    expect(variants("atlas")).toEqual(["ˈæt.ləs", "ˈæʔ.ləs"]);
     expect(narrow("singer")).toBe("ˈsɪ̃ŋ.ɚ");
   });
 });
@@ -225,14 +226,14 @@ describe("stress placement", () => {
   });
   test("default stress for unmarked entries: penult if heavy, else antepenult", () => {
     // Chomsky & Halle 1968; Hayes 1982 (from memory): "agenda" (closed penult), "aroma" (tense penult), "America", "cinema" (light penult)
-    expect(derive(general(), "ədʒɛndə").preferred).toBe("əˈdʒɛ̃n.də");
+    expect(derive(general(), "ədʒɛndə").preferred).toBe("əˈdʒɛ̃ːn.də");
     expect(derive(general(), "əɹoʊmə").preferred).toBe("əˈɹoʊ.mə");
     expect(derive(general(), "əmɛɹɪkə").preferred).toBe("əˈmɛ.ɹɪ.kə");
     expect(derive(general(), "sɪnəmə").preferred).toBe("ˈsɪ.nə.mə");
   });
   test("default stress does not touch marked entries", () => {
     // Common practice, no source: the lexicon's own stress wins ("cigarette" with final stress)
-    expect(derive(general(), "ˌsɪɡəˈɹɛt").preferred).toBe("ˌsɪ.ɡəˈɹɛt");
+    expect(derive(general(), "ˌsɪɡəˈɹɛt").preferred).toBe("ˌsɪː.ɡəˈɹɛt");
   });
 });
 
@@ -244,11 +245,37 @@ describe("phonetician's review fixes (each with its source)", () => {
   test("aspiration only where a vowel or a sonorant follows the stop", () => {
     // Common practice, no source: the aspiration of p t k is the voicing lag before a following voiced
     // sound, so the t of "tsetse" and "tsar", and the p of "pshaw", are plain
-    expect(narrow("tsetse")).toBe("ˈtsit.si");
+    expect(narrow("tsetse")).toMatch(/^ˈtsi[tʔ]\.si$/);
     expect(derive(general(), cmu("tsar(2)")).preferred).toBe("ˈtsɑɹ");
     expect(narrow("pshaw")).toBe("ˈpʃaʊ");
     // and still before a vowel or approximant (Kahn 1976, from memory)
     expect(narrow("twin")).toBe("ˈtʰw̥ɪ̃n");
+  });
+  test("stressed vowels are long before a voiced obstruent that starts the next, unstressed syllable", () => {
+    // Peterson & Lehiste 1960; Ladefoged & Johnson ch. 4; Kahn 1976 on ambisyllabic consonants (from
+    // memory): as in "bead" and "rider", also before b v ð z ɡ dʒ at the flapping site ("father",
+    // "driver", "yoga"), after one sonorant consonant as in "change" ("organization", "changes",
+    // "shoulder"), and before an obstruent + glide onset ("figure")
+    expect(narrow("father")).toBe("ˈfɑː.ðɚ");
+    expect(narrow("driver")).toBe("ˈdɹaɪː.vɚ");
+    expect(narrow("yoga")).toBe("ˈjoʊː.ɡə");
+    expect(narrow("organization")).toMatch(/^ˌɔːɹ\.ɡə/);
+    expect(narrow("changes")).toBe("ˈtʃeɪ̃ːn.dʒəz");
+    expect(narrow("shoulder")).toBe("ˈʃoʊːɫ.dɚ");
+    expect(narrow("figure")).toBe("ˈfɪː.ɡjɚ");
+    // not before a voiceless one, not before a stressed syllable
+    expect(narrow("offer")).toBe("ˈɔ.fɚ");
+    expect(narrow("cigar")).toBe("sɪˈɡɑɹ");
+    expect(narrow("winter")).not.toContain("ː");
+  });
+  test("t glottalised before a consonant that starts the next syllable (casual; optional, glottal stop preferred)", () => {
+    // Ladefoged & Johnson ch. 3; Wells 1982 vol. 3 (from memory): "greatly", "atlas", "outside", "football"
+    expect(variants("greatly")).toEqual(["ˈɡɹeɪt.li", "ˈɡɹeɪʔ.li"]);
+    expect(narrow("outside")).toBe("ˈaʊʔˈsaɪːd"); // the dictionary marks two primary stresses
+    expect(narrow("football")).toBe("ˈfʊʔˌbɔɫ");
+    // a t in the onset, or after an obstruent, stays ("mattress" tɹ, "after")
+    expect(narrow("mattress")).toBe("ˈmæ.tɹəs");
+    expect(narrow("after")).toBe("ˈæf.tɚ");
   });
   test("t glottalised before a nasal that starts the next syllable (optional, glottal stop preferred)", () => {
     // Wells 1982 vol. 3; Ladefoged & Johnson, ch. 3 (from memory): "fitness", "lightning", "partner"

@@ -1,7 +1,8 @@
 // The comparison's reports on a deliberate rule change (flapping removed from the demo's general
 // grammar): exit codes, the terminal summary with and without colour, JUnit XML validated against
 // our schema, and the HTML report driven in headless Chromium (Debian's chromium package through
-// playwright-core): counts shown, filtering by a rule, the derivation on click, a screenshot.
+// playwright-core): counts shown, filtering by a rule, the derivation on click, a screenshot; and the
+// report of strata varieties, built on the same page code, driven the same way.
 
 import { existsSync, mkdirSync, mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -11,6 +12,7 @@ import { chromium, type BrowserContext } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runCompare, type Outcome } from "../../src/regress/run.js";
 import { formatJunit } from "../../src/regress/junit.js";
+import { runVarieties } from "../../src/varieties/run.js";
 import { build, copyLexicons, edit, ROOT } from "./support.js";
 import { junitSchemaErrors } from "./junit-schema.js";
 
@@ -96,11 +98,10 @@ describe("the HTML report in headless Chromium", () => {
     await browser?.close();
   });
 
-  it("shows the counts, filters by a rule, shows a derivation on click, loads nothing from the network", async () => {
-    const file = join(out, "report.html");
+  /** Opens a report file: it names nothing on the network, and loads without a script error; the requests it makes are recorded. */
+  async function openReport(file: string) {
     expect(existsSync(file)).toBe(true);
-    const html = readFileSync(file, "utf8");
-    expect(html).not.toMatch(/(src|href)=["']?(https?:)?\/\//);
+    expect(readFileSync(file, "utf8")).not.toMatch(/(src|href)=["']?(https?:)?\/\//);
     const page = await browser.newPage();
     const requests: string[] = [];
     page.on("request", (r) => requests.push(r.url()));
@@ -108,6 +109,11 @@ describe("the HTML report in headless Chromium", () => {
     page.on("pageerror", (e) => errors.push(String(e)));
     await page.goto(pathToFileURL(file).href);
     expect(errors).toEqual([]);
+    return { page, requests };
+  }
+
+  it("shows the counts, filters by a rule, shows a derivation on click, loads nothing from the network", async () => {
+    const { page, requests } = await openReport(join(out, "report.html"));
     const count = (variety: string, what: string) => page.textContent(`#summary tr[data-variety="${variety}"] td[data-count="${what}"]`);
     expect(await count("general", "changed")).toBe("33");
     expect(await count("general", "grammar")).toBe("33");
@@ -143,6 +149,35 @@ describe("the HTML report in headless Chromium", () => {
     expect(words).toEqual([...words].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0)));
     mkdirSync(join(ROOT, "build"), { recursive: true });
     await page.screenshot({ path: join(ROOT, "build", "regress-report.png"), fullPage: true });
+    expect(requests.every((u) => u.startsWith("file:"))).toBe(true);
+    await page.close();
+  }, 60_000);
+  it("the varieties report (strata varieties -o) on the same page code: counts, a rule filter, both derivations on click, the sets", async () => {
+    const v = await runVarieties(join(root, "old", "demo"), { format: "table", examples: 3, out: join(root, "varieties"), quiet: true, color: false });
+    expect(v.exitCode).toBe(0);
+    const { page, requests } = await openReport(join(root, "varieties", "report.html"));
+    const pair = v.comparison!.pairs[0]!;
+    const count = (what: string) => page.textContent(`#summary tr[data-pair="general|careful"] td[data-count="${what}"]`);
+    expect(await count("differ")).toBe(String(pair.counts.differ));
+    expect(await count("mergers")).toBe("0");
+    expect(await page.locator("table.rules[data-pair='general|careful'] tbody tr").count()).toBe(pair.rules.length);
+    expect(await page.locator("#differences tbody tr").count()).toBe(pair.counts.differ);
+    // A click on a rule filters the entries to those it is responsible for.
+    await page.click("table.rules a.rule[data-rule=glottal-stop]");
+    const shown = await page.locator("#differences tbody tr").evaluateAll((rows) => rows.map((r) => r.getAttribute("data-rules")));
+    expect(shown.length).toBe(pair.differences.filter((d) => d.rules.includes("glottal-stop")).length);
+    expect(shown.every((r) => (r ?? "").split(", ").includes("glottal-stop"))).toBe(true);
+    await page.selectOption("#filter-rule", "");
+    await page.fill("#filter-text", "thirty");
+    expect(await page.locator("#differences tbody tr").count()).toBe(1);
+    expect(await page.textContent("#differences tbody tr td:nth-child(4) .d-old")).toBe("ɾ");
+    expect(await page.textContent("#differences tbody tr td:nth-child(5) .d-new")).toBe("t");
+    await page.click("#differences tbody tr");
+    const derivation = await page.textContent("#derivation");
+    expect(derivation).toContain("flapping: ˈθɝ.ɾi");
+    expect(derivation).toContain("careful");
+    expect(await page.textContent("#sets")).toContain("general ↔ careful: 0 mergers, 0 splits");
+    await page.screenshot({ path: join(ROOT, "build", "varieties-report.png"), fullPage: true });
     expect(requests.every((u) => u.startsWith("file:"))).toBe(true);
     await page.close();
   }, 60_000);

@@ -5,10 +5,10 @@ import type { FeatureValue, Inventory } from "../../src/inventory/types.js";
 import { resolveSymbol } from "../../src/interp/segments.js";
 import { symsToIpa } from "../../src/interp/io.js";
 import type { Sym, Word } from "../../src/interp/types.js";
-import { SYLLABLE_EDGE, WORD_EDGE } from "../../src/interp/types.js";
+import { JOIN_EDGE, SYLLABLE_EDGE, WORD_EDGE } from "../../src/interp/types.js";
 
 /**
- * Read `text` into symbols: `#`, `.`, `ˈ`/`ˌ` (or `'`/`,`) and segments (longest run that the
+ * Read `text` into symbols: `#`, `.`, `+`, `ˈ`/`ˌ` (or `'`/`,`) and segments (longest run that the
  * inventory reads, diacritics included; spaces are ignored). The word is bracketed with `#` if
  * it is not already. Nuclei take the stress convention of the lexicon reader: with any mark,
  * marked nuclei are [+stress ±primary] and the others [-stress -primary]; with none, [0 0].
@@ -27,6 +27,7 @@ export function symsOf(text: string, inv: Inventory): Sym[] {
     if (c === " ") { i++; continue; }
     if (c === "#") { out.push(WORD_EDGE); i++; continue; }
     if (c === ".") { out.push(SYLLABLE_EDGE); i++; continue; }
+    if (c === "+") { out.push(JOIN_EDGE); i++; continue; }
     if (c === "ˈ" || c === "'") { pending = "primary"; i++; continue; }
     if (c === "ˌ" || c === ",") { pending = "secondary"; i++; continue; }
     let found = false;
