@@ -196,9 +196,10 @@ export class VarietyOutput {
       await this.drain();
       return;
     }
-    const p = this.pending;
     for (let i = 0; i < batch.length; i++) {
       const item = batch[i]!;
+      // The batch being gathered (a new one after each submit).
+      const p = this.pending;
       if (item.kind === "row") {
         // A row an override replaces in this variety is not written.
         if (this.ov?.replaced(item, keys[i]!) === true) continue;
