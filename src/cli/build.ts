@@ -1,14 +1,15 @@
 // `strata build [DIR]`: compile every variety a lexicon folder declares (cached), run the lexicon
 // through each, write TSV, JSON Lines, PLS, rejects and a summary under build/<lexicon>/<variety>/.
 
-import { createReadStream, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
 import { availableParallelism } from "node:os";
 import { InvalidArgumentError, Option, type Command } from "commander";
 import cliProgress from "cli-progress";
 import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
-import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../lexicon/runner.js";
+import { runVarieties, ALL_FORMATS, type OutputFormat, type RunSummary, type VarietyRun } from "../lexicon/runner.js";
+import { countInputRecords } from "../lexicon/reconcile.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
@@ -53,16 +54,6 @@ export interface BuildOptions {
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
 const WORKERS_FROM_ROWS = 20_000;
-
-/** Counts data lines cheaply (for the progress bar's total). */
-async function countLines(path: string): Promise<number> {
-  let n = 0;
-  for await (const chunk of createReadStream(path)) {
-    const b = chunk as Buffer;
-    for (let i = 0; i < b.length; i++) if (b[i] === 10) n++;
-  }
-  return n;
-}
 
 /** `--workers`: auto or a whole number. */
 function workersArg(value: string): string {
@@ -119,7 +110,10 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const cacheDir = cache.dir;
   const tty = process.stderr.isTTY === true && !quiet && o.json !== true;
   const c = colours(process.stdout);
-  const lines = await countLines(manifest.lexicon);
+  // The lexicon's records, counted once for every variety (the reconciliation checks each
+  // variety's outputs against them; a file that cannot be read is reported by the reader).
+  const inputRecords = countInputRecords(manifest.lexicon);
+  const lines = await inputRecords.then((r) => r.count + 1, () => 0);
   const total = tty ? lines : 0;
   // Worker threads besides the main thread (which reads, tokenises and writes): auto leaves one
   // core to the main thread, from 4 cores (peak memory grows by ~85 MB per worker). On 2 cores a
@@ -135,39 +129,64 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const summaries: RunSummary[] = [];
   const records: VarietyRecord[] = [];
   const report: unknown[] = [];
+  // Every variety is compiled (or read from the cache) first; then varieties whose grammars read
+  // pronunciations with the same inventory run together, over one read of the lexicon.
+  type Ready = { variety: (typeof varieties)[number]; loaded: Extract<ReturnType<typeof loadEngine>, { engine: unknown }>; compileMs: number; summary?: RunSummary };
+  const order: ({ variety: (typeof varieties)[number]; failedMs: number } | Ready)[] = [];
+  const groups = new Map<string, Ready[]>();
   for (const variety of varieties) {
     const t0 = performance.now();
     const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
-      held.output.record({ name: variety.name, status: "failed", compileMs: performance.now() - t0, runMs: 0 });
+      order.push({ variety, failedMs: performance.now() - t0 });
       continue;
     }
-    records.push(varietyRecord(dirname(manifest.file), variety, loaded.grammar));
-    const compileMs = performance.now() - t0;
-    const outDir = join(outRoot, manifest.name, variety.name);
-    const bar = tty ? new cliProgress.SingleBar({ format: `${variety.name.padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
+    const record = varietyRecord(dirname(manifest.file), variety, loaded.grammar);
+    records.push(record);
+    const ready: Ready = { variety, loaded, compileMs: performance.now() - t0 };
+    order.push(ready);
+    const key = record.inventory.files.length > 0 ? record.inventory.sha256 : `variety ${variety.name}`;
+    const group = groups.get(key) ?? [];
+    if (group.length === 0) groups.set(key, group);
+    group.push(ready);
+  }
+  for (const group of groups.values()) {
+    const bar = tty ? new cliProgress.SingleBar({ format: `${group.map((r) => r.variety.name).join(", ").padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
     bar?.start(Math.max(1, total - 1), 0);
-    let summary: RunSummary;
-    let pool: WorkerPool | undefined;
+    const pools: WorkerPool[] = [];
     try {
-      if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true });
+      const runs: VarietyRun[] = [];
+      for (const r of group) {
+        const pool = threads > 0
+          ? await WorkerPool.start(threads, { grammar: r.variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true })
+          : undefined;
+        if (pool !== undefined) pools.push(pool);
+        runs.push({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, assignsStress: r.loaded.grammar.steps.some((s) => s.kind === "stress"), ...(pool !== undefined ? { pool } : {}), ...(r.variety.overrides !== undefined ? { overrides: r.variety.overrides } : {}) });
       }
-      summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
+      const done = await runVarieties(group[0]!.loaded.inventory, manifest.lexicon, runs, {
         formats,
         sourceRoot: dirname(manifest.file),
-        assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress"),
         ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
-        ...(variety.overrides !== undefined ? { overrides: variety.overrides } : {}),
-        ...(pool !== undefined ? { pool } : {}),
+        inputRecords,
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
+      group.forEach((r, i) => (r.summary = done[i]));
     } finally {
       bar?.stop();
-      await pool?.close();
+      for (const pool of pools) await pool.close();
     }
+  }
+  for (const entry of order) {
+    const variety = entry.variety;
+    if ("failedMs" in entry) {
+      held.output.record({ name: variety.name, status: "failed", compileMs: entry.failedMs, runMs: 0 });
+      continue;
+    }
+    const { loaded, compileMs } = entry;
+    const summary = entry.summary!;
+    const outDir = join(outRoot, manifest.name, variety.name);
     summaries.push(summary);
     held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
     if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;
