@@ -8,6 +8,7 @@ import { removeInputEpsilons, type StrArc } from "./epsilon.js";
 import { isFunctional } from "./equivalence.js";
 import { Fst, type Label } from "./fst.js";
 import { COPY, inputClasses, outputCode, outputKey, stringPool } from "./frozen.js";
+import { packBimachine, type PackedBimachine } from "./bimachine.js";
 
 /**
  * Runs a functional transducer deterministically in two passes over the input w (Schützenberger's
@@ -57,6 +58,21 @@ export class FunctionalRunner {
   }
 
   private maxOut = -1;
+  private fast: PackedBimachine | null | undefined;
+
+  /**
+   * The same machine as two one-load tables (bimachine.ts), made on first use; null when they do
+   * not fit, and the loops below run instead.
+   */
+  packed(): PackedBimachine | null {
+    if (this.maxOut < 0) {
+      const b = this.outBound();
+      this.maxOut = b.arc;
+      this.maxFinal = b.final;
+    }
+    if (this.fast === undefined) this.fast = packBimachine(this, this.maxOut, this.maxFinal);
+    return this.fast;
+  }
 
   /** Longest output one arc or one final state writes (sizes `runBatch`'s output room). */
   private outBound(): { arc: number; final: number } {
@@ -80,11 +96,8 @@ export class FunctionalRunner {
    * room for the next entry and returns how many entries were done (the caller grows `out`).
    */
   runBatch(input: Int32Array, at: Int32Array, out: Int32Array, outAt: Int32Array, ok: Uint8Array, from = 0): number {
-    if (this.maxOut < 0) {
-      const b = this.outBound();
-      this.maxOut = b.arc;
-      this.maxFinal = b.final;
-    }
+    const fast = this.packed();
+    if (fast !== null) return fast.runBatch(input, at, out, outAt, ok, from);
     const K = this.classes;
     const { classOf, rNext, rBits, words, rowFirst, arcTarget, arcOut, pool, finalAt, maxOut, maxFinal } = this;
     const nc = classOf.length;
@@ -156,6 +169,13 @@ export class FunctionalRunner {
 
   /** Runs `input`; appends its output to `out` and returns true, or returns false when the input is not in the domain. */
   run(input: ArrayLike<Label>, out: Label[]): boolean {
+    const fast = this.packed();
+    if (fast !== null) return fast.run(input, out);
+    return this.runSearching(input, out);
+  }
+
+  /** `run` without the packed tables: the arc is found by testing targets against the set. */
+  runSearching(input: ArrayLike<Label>, out: Label[]): boolean {
     const n = input.length;
     const K = this.classes;
     const { classOf, rNext, rBits, words, rowFirst, arcTarget, arcOut, pool } = this;
