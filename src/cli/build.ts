@@ -17,6 +17,8 @@ import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from
 import { checkBuildPins, readPins } from "../regress/pinned.js";
 import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
+import { STRESS_REPORT, stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
   listOf, loadEngine, rootOption, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
@@ -41,6 +43,12 @@ export interface BuildOptions {
   cacheDir?: string;
   /** The summaries as one JSON document on stdout instead of the text report. */
   json?: boolean;
+  /** Exit 4 when any stress problem is found (after writing every output). */
+  strict?: boolean;
+  /** Tie bars between the letters of one segment (t͡ʃ, a͡ɪ) in every IPA written. */
+  tieBars?: boolean;
+  /** What lexicon.pls phonemes hold: every narrow variant (default) or the broad form. */
+  plsPhonemes?: PlsPhonemes;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
@@ -129,7 +137,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const report: unknown[] = [];
   for (const variety of varieties) {
     const t0 = performance.now();
-    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
+    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
@@ -145,11 +153,13 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     let pool: WorkerPool | undefined;
     try {
       if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") });
+        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true });
       }
       summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
         formats,
         sourceRoot: dirname(manifest.file),
+        assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress"),
+        ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
         ...(variety.overrides !== undefined ? { overrides: variety.overrides } : {}),
         ...(pool !== undefined ? { pool } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
@@ -167,6 +177,11 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     const fileProblems = summary.fileDiagnostics;
     if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
     printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...(summary.overrideDiagnostics ?? []), ...summary.outputErrors], { quiet });
+    // Stress hygiene: one line per variety on stderr; --strict fails on any problem.
+    if (summary.stress !== undefined) {
+      if (!quiet) process.stderr.write(`strata: ${variety.name}: ${stressLine(summary.stress, STRESS_REPORT)}\n`);
+      if (o.strict === true && stressTotal(summary.stress) > 0) checksFailed = true;
+    }
     let check: { compared: number; mismatches: { line: number; word: string; machine: string; interpreter: string }[] } | undefined;
     if (o.check !== undefined) {
       const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
@@ -175,7 +190,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       if (res.mismatches.length > 0) checksFailed = true;
     }
     if (o.json === true) {
-      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
+      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, ...(summary.stress !== undefined ? { stress: summary.stress } : {}), entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
       if (!quiet) printSummary(summary, compileMs, outDir, varieties.length > 1 ? 0 : (o.samples ?? 6));
       if (check !== undefined) {
@@ -269,9 +284,12 @@ export function registerBuild(program: Command): void {
     .option("-d, --variety <name>", "build only this variety (its name in varieties.json)")
     .option("--format <formats>", `outputs to write, comma-separated or repeated (${ALL_FORMATS.join(", ")}; default: all)`, listOf(ALL_FORMATS))
     .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .option("--strict", `exit 4 when an entry has a stress problem (listed in each variety's ${STRESS_REPORT}); every output is still written`)
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
     .option("--check <n>", "also compare the first N entries with the reference interpreter (exit 4 when they differ)", positiveInt)
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
+    .option("--tie-bars", "write tie bars on affricates and diphthongs (t͡ʃ, d͡ʒ, a͡ɪ) in every output, for consumers that parse IPA")
+    .addOption(new Option("--pls-phonemes <form>", "what lexicon.pls phonemes hold: every narrow variant, or the broad form alone (for engines with limited IPA)").choices(PLS_PHONEMES).default("narrow"))
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
     .option("--samples <n>", "sample lines to print: entries whose narrow forms differ between the varieties (per variety when only one is built)", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
@@ -282,6 +300,8 @@ export function registerBuild(program: Command): void {
     ["strata build", "the shipped demo → build/demo/<variety>/"],
     ["strata build lexicons/demo -d careful --format tsv,pls", "one variety, two outputs"],
     ["strata build my-voice -o out --allow-rejects -q", "errors only; rejects do not fail the run"],
+    ["strata build my-voice --strict", "exit 4 when stress.csv lists any stress problem"],
+    ["strata build my-voice --pls-phonemes broad --tie-bars", "broad forms in PLS; tie bars everywhere"],
   ]);
   cmd.action(async (dir: string | undefined, opts: BuildCliOptions) => {
     process.exitCode = await runBuild(dir, opts);

@@ -12,6 +12,7 @@ import type { Bundle } from "../inventory/types.js";
 import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type SymbolView } from "./render.js";
+import { tiedView } from "./ties.js";
 import { preferredDerivation, VariantTracer } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
@@ -27,6 +28,8 @@ export interface MachineEngineOptions {
   readonly blame?: boolean;
   /** Write '.' between unstressed syllables (default true; stress marks are always written). */
   readonly syllables?: boolean;
+  /** Write tie bars between the letters of one segment (t͡ʃ, a͡ɪ; inventory/diphthong.ts; default false). */
+  readonly ties?: boolean;
   /** Record each entry's derivation (forms after each step) and each variant's steps (default true; the JSON Lines output needs them). */
   readonly derivations?: boolean;
 }
@@ -60,12 +63,12 @@ export class MachineEngine implements Engine {
     private readonly inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
-    private readonly render: { readonly syllables: boolean; readonly derivations?: boolean } = { syllables: true },
+    private readonly render: { readonly syllables: boolean; readonly derivations?: boolean; readonly ties?: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
     this.writesSyllables = render.syllables;
-    this.view = symbolView(compiled.alphabet, inventory);
-    this.broadView = symbolView(broad.alphabet, inventory);
+    this.view = tiedView(symbolView(compiled.alphabet, inventory), render.ties === true);
+    this.broadView = tiedView(symbolView(broad.alphabet, inventory), render.ties === true);
     this.enc = new SymbolEncoder(compiled);
     this.benc = new SymbolEncoder(broad);
     this.screen = stepwise !== null && compiled.hasVariants ? VariantScreen.of(stepwise) : null;
@@ -217,7 +220,7 @@ export function machineEngine(
   }
   const broad = compileGrammar(prosodyOnly(grammar), inventory, common);
   if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
-  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true, derivations: opts.derivations ?? true });
+  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true, derivations: opts.derivations ?? true, ties: opts.ties ?? false });
   engine.extras = extraSegments;
   engine.extend = (extra) => machineEngine(grammar, inventory, opts, extra).engine;
   return { engine, diagnostics };

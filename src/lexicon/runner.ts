@@ -20,6 +20,9 @@ import { stageFolder } from "./outdir.js";
 import { countInputRecords, countWritten, reconcile } from "./reconcile.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
 import { unwritableEntry } from "./writable.js";
+import { StressHygiene, STRESS_REPORT, type StressSummary } from "./hygiene.js";
+import { reconcileStressReport } from "./reconcile-stress.js";
+import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
 import { asCompound } from "./compound.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
@@ -34,6 +37,10 @@ export interface RunOptions {
   readonly pool?: WorkerPool;
   /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
   readonly sourceRoot?: string;
+  /** Whether the grammar has a `stress` step (default: the engine has a step named `stress`); for the stress checks. */
+  readonly assignsStress?: boolean;
+  /** What PLS phonemes hold: every narrow variant (default) or the broad form alone (ipa-options.ts). */
+  readonly plsPhonemes?: PlsPhonemes;
   /** The variety's override CSV (overrides.ts): its rows replace the lexicon's rows of their words. */
   readonly overrides?: string;
 }
@@ -66,6 +73,8 @@ export interface RunSummary {
   readonly seconds: number;
   /** The written files account for every input record exactly once (lexicon/reconcile.ts). */
   readonly reconciled: boolean;
+  /** Stress problems and policies (lexicon/hygiene.ts); absent when the run failed. */
+  readonly stress?: StressSummary;
   /** With an override file: lexicon rows replaced by it (in replaced.csv), and its warnings and problems. */
   readonly rowsReplaced?: number;
   readonly overrideDiagnostics?: readonly Diagnostic[];
@@ -91,7 +100,7 @@ const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult =>
 });
 
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
-export const entryPhonemes = (r: EntryResult): string[] => [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+export const entryPhonemes = (r: EntryResult): string[] => plsPhonemes(r, "narrow");
 
 /** Lines gathered into one chunk before it is handed to a file writer. */
 class ChunkedPush {
@@ -187,7 +196,10 @@ export async function runLexicon(
     if (r === undefined) relFiles.set(f, (r = relativeTo(root, f)));
     return r;
   };
-  const emitOne = (r: EntryResult | RejectedRow): void => {
+  // Stress hygiene of every entry written, in output order (lexicon/hygiene.ts).
+  const hygiene = new StressHygiene({ inventory, assignsStress: opts.assignsStress ?? engine.steps.includes("stress") }, relFile);
+  const emitOne = (r: EntryResult | RejectedRow, row?: LexiconRow | RejectedRow | EntryResult): void => {
+    if (r.kind === "entry" && row?.kind === "row") hygiene.observe(row, r.key);
     if (r.kind === "reject") {
       rejects.push(r);
       return;
@@ -202,7 +214,7 @@ export async function runLexicon(
     jsonlOut?.push(entryJsonLine({ ...r, file: relFile(r.file) }));
     if (wantPls) {
       const lx = lexemes.get(r.word);
-      const mine = entryPhonemes(r);
+      const mine = plsPhonemes(r, opts.plsPhonemes);
       if (lx === undefined) lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
       else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
     }
@@ -227,7 +239,7 @@ export async function runLexicon(
           if (item.kind !== "row") emitOne(item);
           else {
             const key = baseKey(item);
-            if (key !== undefined) emitOne(transcribeRow(engine, item, key));
+            if (key !== undefined) emitOne(transcribeRow(engine, item, key), item);
           }
         }
         await drain();
@@ -238,20 +250,22 @@ export async function runLexicon(
       let items: (LexiconRow | RejectedRow | EntryResult)[] = [];
       let words: { ids: number[]; bids: number[] }[] = [];
       const rowKeys = new Map<LexiconRow, string>();
+      // Entries transcribed on this thread, with their rows (for the stress checks at emit time).
+      const rowOf = new WeakMap<LexiconRow | RejectedRow | EntryResult, LexiconRow>();
       const drainOne = async (): Promise<void> => {
         const head = queue.shift()!;
         const results = await head.done;
         let k = 0;
         for (const item of head.items) {
           if (item.kind !== "row") {
-            emitOne(item);
+            emitOne(item, rowOf.get(item));
             continue;
           }
           const t = results[k++];
           const key = rowKeys.get(item)!;
           rowKeys.delete(item);
           const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-          emitOne(bad ?? entryOf(item, key, asCompound(item, t!, engine.writesSyllables ?? true)));
+          emitOne(bad ?? entryOf(item, key, asCompound(item, t!, engine.writesSyllables ?? true)), item);
         }
         await drain();
       };
@@ -269,7 +283,9 @@ export async function runLexicon(
           const e = engine.encode(item.symbols);
           if (e === undefined) {
             // Segments the workers' machines lack: this thread's engine widens its alphabet.
-            items.push(transcribeRow(engine, item, key));
+            const r = transcribeRow(engine, item, key);
+            rowOf.set(r, item);
+            items.push(r);
             continue;
           }
           words.push(e);
@@ -283,7 +299,7 @@ export async function runLexicon(
       while (queue.length > 0) await drainOne();
     }
     // The override rows (and their rejects) after the lexicon's own entries.
-    if (ov !== undefined) for (const t of ov.tail()) emitOne(t.kind === "row" ? transcribeRow(engine, t.row, t.key) : t);
+    if (ov !== undefined) for (const t of ov.tail()) emitOne(t.kind === "row" ? transcribeRow(engine, t.row, t.key) : t, t.kind === "row" ? t.row : undefined);
   } catch (err) {
     for (const ch of channels) ch.fail(err);
     await Promise.allSettled(writers);
@@ -330,6 +346,8 @@ export async function runLexicon(
       files["replaced.csv"] = join(outDir, "replaced.csv");
       await writeReplaced(staged("replaced.csv"), ov.replacedRows, relFile);
     }
+    files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
+    await writeFileAtomic(staged(STRESS_REPORT), hygiene.report());
     const input = await countInputRecords(lexiconPath);
     const written = await countWritten({
       ...(formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
@@ -341,6 +359,9 @@ export async function runLexicon(
     const overInput = opts.overrides !== undefined ? await countInputRecords(opts.overrides) : undefined;
     rowsRead = input.count + (overInput?.count ?? 0);
     reconcileErrors = reconcile(lexiconPath, input, written, overInput !== undefined ? { lexicon: relFile(lexiconPath), overrides: relFile(opts.overrides!), input: overInput } : undefined);
+    const sources = [{ file: relFile(lexiconPath), input }, ...(overInput !== undefined ? [{ file: relFile(opts.overrides!), input: overInput }] : [])];
+    const notEntries = [...written.rejectLines.map((line, i) => ({ file: written.rejectFiles[i] ?? "", line })), ...(written.replaced ?? []).map((r) => ({ file: r.file, line: r.line }))];
+    reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), hygiene.total, sources, notEntries)));
   } catch (err) {
     return failWrite(err);
   }
@@ -364,6 +385,7 @@ export async function runLexicon(
     diagnostics: [...diagnostics, ...outputErrors, ...rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
     seconds: (performance.now() - t0) / 1000,
     reconciled: true,
+    stress: hygiene.summary(),
     ...(ov !== undefined ? { rowsReplaced: ov.replacedRows.length, overrideDiagnostics: ov.diagnostics } : {}),
   };
   files["summary.json"] = join(outDir, "summary.json");
