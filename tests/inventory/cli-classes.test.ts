@@ -74,7 +74,7 @@ describe("strata classes", () => {
     registerClasses(program);
     const cmd = program.commands.find((c) => c.name() === "classes")!;
     expect(cmd).toBeDefined();
-    expect(cmd.options.map((o) => o.long)).toEqual(["--grammar", "--variety", "--json", "--quiet", "--color", "--no-color"]);
+    expect(cmd.options.map((o) => o.long)).toEqual(["--grammar", "--variety", "--root", "--json", "--quiet", "--color", "--no-color"]);
     const writes: string[] = [];
     const orig = process.stdout.write.bind(process.stdout);
     process.stdout.write = ((chunk: string) => {
