@@ -26,7 +26,7 @@ const RAISING: readonly Fact[] = [
   ["knife", "ˈnʌɪf", CHAMBERS],
   ["knives", "ˈnaɪːvz", CHAMBERS],
   ["house", "ˈhʌʊs", CHAMBERS],
-  ["housing", "ˈhaʊ.zɪ̃ŋ", CHAMBERS],
+  ["housing", "ˈhaʊː.zɪ̃ŋ", CHAMBERS],
   ["about", "əˈbʌʊt", CHAMBERS],
   ["loud", "ˈlaʊːd", CHAMBERS],
   ["ice", "ˈʌɪs", CHAMBERS],
