@@ -76,6 +76,7 @@ describe("r dropping, pre-R breaking and linking r (reference interpreter)", () 
   test("father and farther: homophones in the accent, not here (the base does not tell PALM from LOT)", () => {
     // Wells 1982 vol. 3, New England (from memory): father = farther [ˈfaːðə]. The General American base
     // writes PALM ("father") with the LOT vowel ɑ, so only farther gets the START vowel; README, "Left out".
+    // (Both are long: the base lengthens the vowel before the voiced ð.)
     expect(derive(nonRhotic(), cmu("farther")).preferred).toBe("ˈfaː.ðə");
     expect(derive(nonRhotic(), cmu("father")).preferred).toBe("ˈfɑː.ðə");
   });
