@@ -21,7 +21,8 @@ export class FormWriter {
   /**
    * Tokens of a '#'-bracketed form, exactly as `renderIpa` writes it: each stretch between
    * boundaries opens with ˈ / ˌ when its first nucleus is stressed, else with '.' after a syllable
-   * boundary; a later stressed nucleus of the same stretch gets its mark right before it.
+   * boundary; a later stressed nucleus of the same stretch gets its mark right before it. Unlike
+   * the narrow form, a morpheme join is written ('+').
    */
   tokens(ids: readonly number[]): Token[] {
     const { kind, texts, stress, nucleus } = this.view;
@@ -36,17 +37,26 @@ export class FormWriter {
     const mark = (st: number): string => (st === 1 ? PRIMARY_MARK : st === 2 ? SECONDARY_MARK : "");
     while (i <= to) {
       let j = i;
-      while (j < to && kind[ids[j]!] === 3) j++;
+      // A morpheme join '+' (kind 4) stays inside its stretch and is shown: explain shows the string the rules see.
+      while (j < to && kind[ids[j]!]! >= 3) j++;
       let first = -1;
       for (let k = i; k < j; k++) if (nucleus[ids[k]!] === 1) { first = k; break; }
       const firstMark = first >= 0 ? stress[ids[first]!]! : 0;
       if (opener === 1) out.push({ text: " ", at: openerAt });
       if (firstMark !== 0) out.push({ text: mark(firstMark), at: opener === 2 ? openerAt : -1 });
       else if (opener === 2) out.push({ text: ".", at: openerAt });
+      // In a stretch not yet syllabified, a later stressed nucleus's mark goes right after a join
+      // that stands before it (as the lexicon writes it: mɪs+ˈpleɪs), else right before the nucleus.
+      let joinAt = -1;
       for (let k = i; k < j; k++) {
         const id = ids[k]!;
+        if (kind[id] === 4) joinAt = out.length;
         const m = k !== first && nucleus[id] === 1 ? mark(stress[id]!) : "";
-        out.push({ text: m + texts[id]!, at: k });
+        if (m !== "" && joinAt >= 0) {
+          out.splice(joinAt + 1, 0, { text: m, at: -1 });
+          out.push({ text: texts[id]!, at: k });
+        } else out.push({ text: m + texts[id]!, at: k });
+        if (nucleus[id] === 1) joinAt = -1;
       }
       if (j >= to) break;
       opener = kind[ids[j]!] === 1 ? 1 : 2;

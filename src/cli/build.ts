@@ -12,6 +12,7 @@ import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
+import { differingSamples, narrowTable } from "../lexicon/samples.js";
 import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from "../regress/record.js";
 import { checkBuildPins, readPins } from "../regress/pinned.js";
 import { openBuild } from "../regress/folder.js";
@@ -176,7 +177,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     if (o.json === true) {
       report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
-      if (!quiet) printSummary(summary, compileMs, outDir, o.samples ?? 6);
+      if (!quiet) printSummary(summary, compileMs, outDir, varieties.length > 1 ? 0 : (o.samples ?? 6));
       if (check !== undefined) {
         const line = `check: ${plural(check.compared, "entry", "entries")} compared with the reference interpreter, ${check.mismatches.length} differ`;
         process.stdout.write((check.mismatches.length === 0 ? line : c.red(line)) + "\n");
@@ -197,6 +198,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     }
   }
   if (o.json === true) process.stdout.write(JSON.stringify({ lexicon: manifest.name, varieties: report }, null, 2) + "\n");
+  else if (!quiet && summaries.length > 1) printDiffering(summaries, o.samples ?? 6);
   const rejected = summaries.reduce((k, s) => k + s.rowsRejected, 0);
   if (rejected > 0) {
     const msg = `${plural(rejected, "row")} rejected (see rejects.csv in each variety's folder)`;
@@ -241,6 +243,19 @@ function printSummary(s: RunSummary, compileMs: number, outDir: string, samples:
   }
 }
 
+/** With several varieties, the sample lines are entries whose narrow forms differ between them. */
+function printDiffering(summaries: readonly RunSummary[], samples: number): void {
+  const tables = summaries.flatMap((s) => (s.files["lexicon.tsv"] !== undefined ? [narrowTable(s.variety, readFileSync(s.files["lexicon.tsv"], "utf8"))] : []));
+  if (samples === 0 || tables.length < 2) return;
+  const d = differingSamples(tables, samples);
+  const w = (line: string) => process.stdout.write(line + "\n");
+  w(`where the varieties differ: ${d.differing} of ${plural(d.compared, "entry", "entries")}${d.samples.length > 0 ? ", for example" : ""}`);
+  if (d.samples.length === 0) return;
+  const width = tables.map((t, i) => Math.max(stringWidth(t.variety), ...d.samples.map((x) => stringWidth(x.narrow[i] ?? ""))) + 2);
+  w(`    ${padTo("", 22)} ${tables.map((t, i) => padTo(t.variety, width[i]!)).join("").trimEnd()}`);
+  for (const x of d.samples) w(`    ${padTo(x.word, 22)} ${x.narrow.map((n, i) => padTo(n ?? "", width[i]!)).join("").trimEnd()}`);
+}
+
 interface BuildCliOptions extends Omit<BuildOptions, "workers"> {
   workers: string;
 }
@@ -258,7 +273,7 @@ export function registerBuild(program: Command): void {
     .option("--check <n>", "also compare the first N entries with the reference interpreter (exit 4 when they differ)", positiveInt)
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
-    .option("--samples <n>", "sample lines to print per variety", wholeNumber, 6);
+    .option("--samples <n>", "sample lines to print: entries whose narrow forms differ between the varieties (per variety when only one is built)", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
   cmd.addOption(rootOption());
   cacheOptions(cmd);

@@ -1,5 +1,5 @@
 // `strata init DIR`: a new lexicon folder (varieties.json, an empty lexicon.csv with its header, a
-// grammar that includes a copy of a shipped one), ready for `strata build DIR`.
+// grammar that is a variety of a copy of a shipped one), ready for `strata build DIR`.
 
 import { existsSync, readdirSync } from "node:fs";
 import { relative } from "node:path";
@@ -28,7 +28,7 @@ export function runInit(dir: string, o: InitOptions = {}): CommandOutcome {
   if (r.diagnostics.length > 0) return { stdout: "", stderr: render(r.diagnostics), exitCode: EXIT.badInput };
   const rel = relative(process.cwd(), dir) || ".";
   const stdout = o.quiet === true ? "" :
-    `Created ${rel}/: varieties.json (variety '${variety}'), lexicon.csv (header only), grammar.strata (includes a copy of the shipped en-us grammar).\n` +
+    `Created ${rel}/: varieties.json (variety '${variety}'), lexicon.csv (header only), grammar.strata (a variety of a copy of the shipped en-us grammar).\n` +
     `Next: add rows to ${rel}/lexicon.csv, then run 'strata build ${rel}'.\n`;
   return { stdout, stderr: "", exitCode: EXIT.ok };
 }

@@ -42,6 +42,8 @@ export interface LintJson {
   readonly rowsWithFindings: number;
   readonly errors: number;
   readonly warnings: number;
+  /** Suggestions (lint/unmarked-join): never fail the run. */
+  readonly hints: number;
   readonly counts: Readonly<Record<string, number>>;
   readonly findings: readonly {
     readonly line: number;
@@ -109,6 +111,7 @@ export async function runLint(file: string | undefined, opts: LintOptions): Prom
       rowsWithFindings: report.rowsWithFindings,
       errors: report.errors,
       warnings: report.warnings,
+      hints: report.hints,
       counts: report.counts,
       findings: report.findings.map(jsonFinding),
     };

@@ -22,6 +22,8 @@ export interface VarietyExplanation {
     readonly edits: readonly { readonly kind: "replaced" | "adjusted"; readonly file: string; readonly line: number }[];
   }[];
   readonly omitted: readonly { readonly name: string; readonly defined: Where; readonly omittedAt: Where }[];
+  /** Declarations (classes, onsets, …) the varieties of the chain replaced, added, extended or reduced. */
+  readonly declarations: readonly { readonly what: string; readonly how: string; readonly file: string; readonly line: number }[];
 }
 
 /** The explanation of a loaded grammar; `v` is `LoadedGrammar.variety`. */
@@ -43,12 +45,13 @@ export function explainVariety(g: Grammar, v: VarietyOrigins): VarietyExplanatio
       };
     }),
     omitted: v.omitted.map((o) => ({ name: o.name, defined: where(o.defined), omittedAt: where(o.omittedAt) })),
+    declarations: v.declarations.map((d) => ({ what: d.what, how: d.how, ...where(d.at) })),
   };
 }
 
 const place = (w: Where): string => `${w.file}:${w.line}`;
 
-/** The explanation as an aligned table, then the omitted steps. */
+/** The explanation as an aligned table, then the omitted steps and the declarations changed. */
 export function varietyReport(e: VarietyExplanation, width: (s: string) => number = (s) => [...s].length): string {
   const rows: string[][] = [["#", "step", "kind", "written at", "how"]];
   for (const s of e.steps) {
@@ -61,6 +64,10 @@ export function varietyReport(e: VarietyExplanation, width: (s: string) => numbe
   if (e.omitted.length > 0) {
     out.push("", "omitted:");
     for (const o of e.omitted) out.push(`  ${o.name} (written at ${place(o.defined)}), omitted at ${place(o.omittedAt)}`);
+  }
+  if (e.declarations.length > 0) {
+    out.push("", "declarations:");
+    for (const d of e.declarations) out.push(`  ${d.what} ${d.how} at ${d.file}:${d.line}`);
   }
   return out.join("\n") + "\n";
 }

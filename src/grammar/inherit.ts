@@ -33,6 +33,13 @@ export interface OmittedStep {
   readonly omittedAt: Where;
 }
 
+/** A declaration a variety replaced, added, extended or reduced (`class Stop`, `onsets`, …). */
+export interface DeclarationEdit {
+  readonly what: string;
+  readonly how: "replaced" | "added" | "extended" | "reduced";
+  readonly at: Where;
+}
+
 const at = (s: Span): Where => ({ file: s.file, line: s.line });
 const where = (s: Span): string => `${path.basename(s.file)}:${s.line}:${s.column}`;
 
@@ -51,7 +58,7 @@ export function applyVariety(
   baseOrigins: readonly StepOrigin[],
   v: VarietyFile,
   files: readonly string[],
-): { grammar: Grammar; origins: StepOrigin[]; omitted: OmittedStep[]; diagnostics: Diagnostic[] } {
+): { grammar: Grammar; origins: StepOrigin[]; omitted: OmittedStep[]; declarations: DeclarationEdit[]; diagnostics: Diagnostic[] } {
   const diagnostics: Diagnostic[] = [];
   const err = (code: string, message: string, span: Span): void => void diagnostics.push(diagnostic("error", code, message, span));
   const baseNames = new Map<string, number>();
@@ -68,6 +75,10 @@ export function applyVariety(
   for (const e of v.edits) {
     if (e.kind !== "omit" && e.kind !== "replace" && e.kind !== "adjust") continue;
     const i = baseNames.get(e.target.name);
+    if (i === undefined && v.edits.some((a) => a.kind === "add" && a.step.name === e.target.name)) {
+      err("grammar/unknown-step", `'${e.target.name}' is added by this variety, not a step of the base; write its body and options in its 'add' statement.`, e.target.span);
+      continue;
+    }
     if (i === undefined) { unknown(e.target); continue; }
     const first = editOf.get(e.target.name);
     if (first !== undefined) {
@@ -178,6 +189,7 @@ export function applyVariety(
     grammar: { ...decl, file: v.file, steps: outSteps, files },
     origins: outOrigins,
     omitted,
+    declarations: declarationEdits(base, v),
     diagnostics,
   };
 }
@@ -232,4 +244,26 @@ function declarations(base: Grammar, v: VarietyFile, err: (code: string, message
     }
   }
   return { ...g, classes, onsets, codas };
+}
+
+/** What the variety's declarations did to the base's, in file order (implicit `{a | b}` classes left out). */
+function declarationEdits(base: Grammar, v: VarietyFile): DeclarationEdit[] {
+  const out: DeclarationEdit[] = [];
+  for (const e of v.edits) {
+    if (e.kind !== "declare" && e.kind !== "extend" && e.kind !== "remove") continue;
+    const it = e.item;
+    if (it.kind === "class" && it.implicit) continue;
+    const def = "def" in it ? (it.def as { readonly name: string; readonly span: Span }) : undefined;
+    const what = def !== undefined ? `${it.kind} ${def.name}` : it.kind;
+    const span = def?.span ?? (it as { readonly span: Span }).span;
+    let how: DeclarationEdit["how"] = e.kind === "extend" ? "extended" : e.kind === "remove" ? "reduced" : "added";
+    if (e.kind === "declare") {
+      const had = def !== undefined
+        ? (it.kind === "node" ? base.nodes : base.classes).some((x) => x.name === def.name)
+        : ((x: unknown) => x !== null && x !== undefined && !(Array.isArray(x) && x.length === 0))((base as unknown as Record<string, unknown>)[it.kind]);
+      if (had) how = "replaced";
+    }
+    out.push({ what, how, at: at(span) });
+  }
+  return out;
 }

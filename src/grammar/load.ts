@@ -10,7 +10,7 @@ import { FILE_LIMITS, isInside, readTextFile, realPath } from "../files.js";
 import { loadInventory, tokenise, type Inventory } from "../inventory/index.js";
 import type { ChangeElement, ClassDef, Cluster, Element, Environment, Grammar, Pattern, Rule, Span, Step } from "./ast.js";
 import { checkGrammar } from "./check.js";
-import type { OmittedStep, StepOrigin } from "./inherit.js";
+import type { DeclarationEdit, OmittedStep, StepOrigin } from "./inherit.js";
 import { projectRoot, readSource } from "./source.js";
 
 /** The file a grammar folder is read from. */
@@ -33,6 +33,8 @@ export interface VarietyOrigins {
   readonly origins: readonly StepOrigin[];
   /** Base steps left out by the chain's varieties. */
   readonly omitted: readonly OmittedStep[];
+  /** Declarations the chain's varieties replaced, added, extended or reduced. */
+  readonly declarations: readonly DeclarationEdit[];
   /** The grammar files from the main one down to the plain grammar at the bottom of the chain. */
   readonly chain: readonly string[];
   /** The project root every file was confined to. */
@@ -78,7 +80,7 @@ function loadUncapped(p: string, opts: LoadOptions): LoadedGrammar {
       return { diagnostics };
     }
     const source = readSource(main, mainRead.text, root, grammarLimit, diagnostics);
-    const variety = { origins: source.origins, omitted: source.omitted, chain: source.chain, root };
+    const variety = { origins: source.origins, omitted: source.omitted, declarations: source.declarations, chain: source.chain, root };
     let grammar = source.grammar;
     if (grammar.inventory === null) {
       if (source.failed !== true) diagnostics.push(diagnostic("error", "grammar/no-inventory", 'the grammar names no inventory (inventory "segments.csv")', startOf(main)));

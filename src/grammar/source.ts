@@ -8,7 +8,7 @@ import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { isInside, readTextFile, realPath } from "../files.js";
 import type { Grammar, Span } from "./ast.js";
 import { assembleGrammar, type TopItem } from "./assemble.js";
-import { applyVariety, plainOrigins, type OmittedStep, type StepOrigin } from "./inherit.js";
+import { applyVariety, plainOrigins, type DeclarationEdit, type OmittedStep, type StepOrigin } from "./inherit.js";
 import { parseFile } from "./parser.js";
 import { isVarietyText, parseVarietyFile } from "./parse-variety.js";
 
@@ -54,6 +54,8 @@ export interface Source {
   readonly origins: readonly StepOrigin[];
   /** Base steps the varieties of the chain left out (the base's own variety first). */
   readonly omitted: readonly OmittedStep[];
+  /** Declarations the chain's varieties replaced, added, extended or reduced (the base's own variety first). */
+  readonly declarations: readonly DeclarationEdit[];
   /** Where `inventory` and `diacritics` are declared (for errors about those files). */
   readonly declared: { readonly inventory?: Span; readonly diacritics?: Span };
   /** The chain of variety files from the main file down to the plain grammar at its bottom. */
@@ -89,7 +91,7 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
   ctx.diagnostics.push(...v.diagnostics);
   const failed = (): Source => {
     const empty = assembleGrammar(file, [], [file]).grammar;
-    return { grammar: empty, origins: [], omitted: [], declared: {}, chain: [file], failed: true };
+    return { grammar: empty, origins: [], omitted: [], declarations: [], declared: {}, chain: [file], failed: true };
   };
   if (v.base === null) return failed(); // a malformed `base`, reported by the parser
   const { written, span } = v.base;
@@ -117,7 +119,7 @@ function read(ctx: Context, file: string, text: string, stack: readonly string[]
   const declared = { ...base.declared };
   for (const e of v.edits)
     if (e.kind === "declare" && (e.item.kind === "inventory" || e.item.kind === "diacritics")) declared[e.item.kind] = e.item.span;
-  return { grammar: r.grammar, origins: r.origins, omitted: [...base.omitted, ...r.omitted], declared, chain: [file, ...base.chain], ...(base.failed === true ? { failed: true } : {}) };
+  return { grammar: r.grammar, origins: r.origins, omitted: [...base.omitted, ...r.omitted], declarations: [...base.declarations, ...r.declarations], declared, chain: [file, ...base.chain], ...(base.failed === true ? { failed: true } : {}) };
 }
 
 /** A plain grammar: its includes expanded in place (each file read once), then assembled. */
@@ -161,5 +163,5 @@ function readPlain(ctx: Context, main: string, mainText: string): Source {
   diagnostics.push(...assembled.diagnostics);
   const declared: { inventory?: Span; diacritics?: Span } = {};
   for (const i of items) if ((i.kind === "inventory" || i.kind === "diacritics") && declared[i.kind] === undefined) declared[i.kind] = i.span;
-  return { grammar: assembled.grammar, origins: plainOrigins(assembled.grammar), omitted: [], declared, chain: [main] };
+  return { grammar: assembled.grammar, origins: plainOrigins(assembled.grammar), omitted: [], declarations: [], declared, chain: [main] };
 }

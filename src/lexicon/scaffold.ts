@@ -1,6 +1,7 @@
 // A new lexicon folder in one step (`strata init`): varieties.json naming one variety, an empty
-// lexicon.csv with its header, and a grammar that includes a copy of a shipped one. The copy lives
-// inside the new folder because a grammar's includes and inventory must stay inside its own folder.
+// lexicon.csv with its header, and a grammar that is a variety of a copy of a shipped one (its base,
+// edited by rule name). The copy lives inside the new folder, the project root of a folder without a
+// .strata-root, so the base and its inventory are inside it.
 
 import { copyFileSync, existsSync, mkdirSync, readdirSync, renameSync, rmdirSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { basename, dirname, join, resolve } from "node:path";
@@ -44,11 +45,13 @@ export function scaffoldLexicon(dir: string, o: ScaffoldOptions): { files: strin
       if (statSync(src).isFile()) copyFileSync(src, join(temp, shipped, f));
     }
     const grammar =
-      `-- The grammar of the variety '${o.variety}': the shipped ${shipped}/${o.base} (a copy in ${shipped}/,\n` +
-      `-- yours to edit), then this voice's own rules, which run after the shipped ones.\n` +
-      `-- The language is described in the Strata developer guide (DEVELOPERS.md, "The grammar language").\n\n` +
-      `include "${shipped}/${o.base}"\n\n` +
-      `-- rule my-rule:\n--   [+syllabic] -> [+long] / _ [+voice -sonorant]\n`;
+      `-- The grammar of the variety '${o.variety}': the shipped ${shipped}/${o.base} (a copy in ${shipped}/)\n` +
+      `-- as its base, and this voice's edits of it by rule name: omit, replace, adjust, add … before/after.\n` +
+      `-- The language is described in the Strata developer guide (DEVELOPERS.md, "The grammar language"\n` +
+      `-- and "Varieties"); 'strata compile -g . --explain-variety' lists the steps and where each comes from.\n\n` +
+      `base "${shipped}/${o.base}"\n\n` +
+      `-- adjust syllabic-l obligatory\n` +
+      `-- add rule my-rule after aspiration:\n--   [+syllabic] -> [+long] / _ [+voice -sonorant]\n`;
     const manifest = { lexicon: "lexicon.csv", varieties: [{ name: o.variety, lang: o.lang, grammar: "grammar.strata" }] };
     writeFileSync(join(temp, MANIFEST_NAME), JSON.stringify(manifest, null, 2) + "\n");
     writeFileSync(join(temp, "lexicon.csv"), EMPTY_LEXICON);

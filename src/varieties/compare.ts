@@ -7,7 +7,7 @@ import { BuildFolderError, openBuild, type BuildFolder } from "../regress/folder
 import { BUILD_RECORD } from "../regress/record.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { diagnostic } from "../diagnostics.js";
-import { loadVariety, type VarietyEntries, type VarietyEntry } from "./load.js";
+import { derivationOf, loadVariety, type VarietyEntries, type VarietyEntry } from "./load.js";
 import { homophonesHereOnly, type HomophoneSet } from "./homophones.js";
 import { stepDifference, type StepDifference } from "./steps.js";
 
@@ -99,7 +99,7 @@ export interface CompareVarietiesOptions {
   readonly examples?: number;
 }
 
-const side = (e: VarietyEntry): EntrySide => ({ narrow: e.narrow, broad: e.broad, pron: e.pron, file: e.file, derivation: e.derivation });
+const side = (e: VarietyEntry): EntrySide => ({ narrow: e.narrow, broad: e.broad, pron: e.pron, file: e.file, derivation: derivationOf(e) });
 
 /** The pairs to compare: in the order the varieties were named, else in the build's order. */
 function pairsOf(all: readonly string[], chosen: readonly string[] | undefined): [string, string][] {
@@ -130,8 +130,8 @@ export function comparePair(a: VarietyEntries, b: VarietyEntries, examples = 5):
   /** The differing steps that changed an entry, `a`'s then `b`'s, each name once. */
   const responsible = (ea: VarietyEntry, eb: VarietyEntry): string[] => {
     const out: string[] = [];
-    for (const d of ea.derivation) if (diffA.has(d.step) && !out.includes(d.step)) out.push(d.step);
-    for (const d of eb.derivation) if (diffB.has(d.step) && !out.includes(d.step)) out.push(d.step);
+    for (const step of ea.steps) if (diffA.has(step) && !out.includes(step)) out.push(step);
+    for (const step of eb.steps) if (diffB.has(step) && !out.includes(step)) out.push(step);
     return out;
   };
   const differences: EntryDifference[] = [];

@@ -16,9 +16,17 @@ export interface VarietyEntry {
   readonly pron: string;
   /** The input file the row came from (relative to the lexicon folder). */
   readonly file: string;
-  /** Each step that changed the preferred variant, with the form after it. */
-  readonly derivation: readonly { readonly step: string; readonly form: string }[];
+  /** The steps that changed the preferred variant, in order (one shared array per distinct list). */
+  readonly steps: readonly string[];
+  /** The form after each of those steps, joined by U+0001 (`derivationOf` rebuilds the derivation). */
+  readonly forms: string;
 }
+
+/** Each step that changed the entry's preferred variant, with the form after it. */
+export const derivationOf = (e: VarietyEntry): { step: string; form: string }[] => {
+  const forms = e.forms.split("\u0001");
+  return e.steps.map((step, i) => ({ step, form: forms[i] ?? "" }));
+};
 
 /** One variety's entries by key, in file order. */
 export interface VarietyEntries {
@@ -29,11 +37,22 @@ export interface VarietyEntries {
 /** Reads one variety's lexicon.jsonl whole (a truncated file is an error naming it, as in `compare`). */
 export async function loadVariety(build: BuildFolder, record: VarietyRecord): Promise<VarietyEntries> {
   const entries = new Map<string, VarietyEntry>();
+  // Entries are held for the whole comparison: the few distinct step lists and file names are
+  // shared, and the forms kept as one string, so memory is a few strings per entry.
+  const shared = new Map<string, readonly string[]>();
+  const files = new Map<string, string>();
   for await (const e of readEntries(build, record.name)) {
     const raw = e as typeof e & { source?: { file?: unknown } };
+    const names = e.derivation.map((d) => d.step);
+    const id = names.join("\u0001");
+    let steps = shared.get(id);
+    if (steps === undefined) shared.set(id, (steps = names));
+    const f = typeof raw.source?.file === "string" ? raw.source.file : "";
+    let file = files.get(f);
+    if (file === undefined) files.set(f, (file = f));
     entries.set(e.key, {
       key: e.key, word: e.word, narrow: e.narrow, broad: e.broad, pron: e.input?.pron ?? e.broad,
-      file: typeof raw.source?.file === "string" ? raw.source.file : "", derivation: e.derivation,
+      file, steps, forms: e.derivation.map((d) => d.form).join("\u0001"),
     });
   }
   const stated = summaryCount(build, record.name);

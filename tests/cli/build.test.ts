@@ -188,7 +188,7 @@ describe("build's command line", () => {
     expect(readdirSync(join(out, "demo")).filter((f) => !f.endsWith(".json"))).toEqual(["careful"]); // beside run.json
     const unknown = await cliRun(["build", DEMO, "--variety", "casual", "-o", out]);
     expect(unknown.exitCode).toBe(1);
-    expect(unknown.stderr).toMatch(/^command line:1:\d+: error: There is no variety 'casual' in demo's varieties\.json; its varieties are general, careful\. \[cli\/unknown-variety\]/);
+    expect(unknown.stderr).toMatch(/^command line:1:\d+: error: There is no variety 'casual' in demo's varieties\.json; its varieties are general, careful, regional\. \[cli\/unknown-variety\]/);
   });
 
   it("a folder after --format is the folder, not another format (it was swallowed before)", async () => {

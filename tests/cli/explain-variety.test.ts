@@ -16,7 +16,7 @@ function project(): string {
   const lex = join(dir, "lexicons");
   cpSync(LEXICONS, lex, { recursive: true });
   writeFileSync(join(lex, "demo", "mid.strata"), 'base "../en-us/grammar.strata"\nomit glottal-stop\nadd rule final-glottal after flapping optional:\n  t -> ʔ / Vowel _ #\n');
-  writeFileSync(join(lex, "demo", "top.strata"), 'base "mid.strata"\nadjust final-glottal prefer unapplied\nreplace flapping:\n  t -> ɾ / Vowel _ [+syllabic -stress -nasal]\n');
+  writeFileSync(join(lex, "demo", "top.strata"), 'base "mid.strata"\nadjust final-glottal prefer unapplied\nreplace flapping:\n  t -> ɾ / Vowel _ [+syllabic -stress -nasal]\nclass DentalTarget = t d n\nclass Liquid = l ɹ\nadd onsets = ʃt\nremove codas = ŋɡz\n');
   return lex;
 }
 
@@ -31,7 +31,8 @@ describe("strata compile --explain-variety", () => {
     expect(line("flapping")).toMatch(/^\d+ flapping rule en-us\/reductions\.strata:\d+ from the base; replaced at demo\/top\.strata:3$/);
     expect(line("final-glottal")).toMatch(/^\d+ final-glottal rule \(optional\) demo\/mid\.strata:3 added; adjusted at demo\/top\.strata:2$/);
     expect(line("aspiration")).toMatch(/^\d+ aspiration rule en-us\/coarticulation\.strata:\d+ from the base$/);
-    expect(r.stdout).toMatch(/omitted:\n {2}glottal-stop \(written at en-us\/reductions\.strata:\d+\), omitted at demo\/mid\.strata:2\n$/);
+    expect(r.stdout).toMatch(/omitted:\n {2}glottal-stop \(written at en-us\/reductions\.strata:\d+\), omitted at demo\/mid\.strata:2\n\n/);
+    expect(r.stdout).toMatch(/\ndeclarations:\n {2}class DentalTarget replaced at demo\/top\.strata:5\n {2}class Liquid added at demo\/top\.strata:6\n {2}onsets extended at demo\/top\.strata:7\n {2}codas reduced at demo\/top\.strata:8\n$/);
   });
 
   it("--json gives the same as data", async () => {

@@ -6,6 +6,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { runInit } from "../../src/cli/init.js";
+import { loadGrammar } from "../../src/grammar/index.js";
 import { cli } from "./helpers.js";
 
 const WORK = mkdtempSync(join(tmpdir(), "strata-init-"));
@@ -23,7 +24,7 @@ describe("strata init", () => {
       varieties: [{ name: "announcer", lang: "en-GB", grammar: "grammar.strata" }],
     });
     expect(readFileSync(join(dir, "lexicon.csv"), "utf8").split("\n")[0]).toBe("word,pron");
-    expect(readFileSync(join(dir, "grammar.strata"), "utf8")).toMatch(/^include "en-us\/grammar\.strata"$/m);
+    expect(readFileSync(join(dir, "grammar.strata"), "utf8")).toMatch(/^base "en-us\/grammar\.strata"$/m);
 
     const out = join(WORK, "out");
     const empty = await cli(["build", dir, "-o", out, "--cache-dir", CACHE, "-q"]);
@@ -42,7 +43,13 @@ describe("strata init", () => {
   it("starts from the careful grammar with --from careful", async () => {
     const dir = join(WORK, "careful-voice");
     expect((await cli(["init", dir, "--from", "careful", "-q"])).exitCode).toBe(0);
-    expect(readFileSync(join(dir, "grammar.strata"), "utf8")).toMatch(/^include "en-us\/careful\.strata"$/m);
+    expect(readFileSync(join(dir, "grammar.strata"), "utf8")).toMatch(/^base "en-us\/careful\.strata"$/m);
+    // The example edits in the scaffold load once their comment marks are taken away.
+    const uncommented = readFileSync(join(dir, "grammar.strata"), "utf8").replace(/^-- (adjust|add|  )/gm, "$1");
+    writeFileSync(join(dir, "grammar.strata"), uncommented);
+    const loaded = loadGrammar(join(dir, "grammar.strata"));
+    expect(loaded.diagnostics.filter((d) => d.severity === "error")).toEqual([]);
+    expect(loaded.grammar!.steps.map((s) => s.name)).toContain("my-rule");
     const bad = await cli(["init", join(WORK, "x"), "--from", "casual"]);
     expect(bad.exitCode).toBe(1);
     expect(bad.stderr).toMatch(/^command line:1:\d+: error: Option --from does not take 'casual'\. It must be one of general, careful\./);

@@ -21,7 +21,7 @@ base "common.strata"
 omit schwa-deletion
 replace dark-l left-to-right:
   l -> ɫ / _ C₀ $ where coda
-adjust syllabic-l obligatory prefer unapplied
+adjust syllabic-l obligatory right-to-left
 adjust dental-place union
 add rule extra before syllabic-n optional:
   t -> ʔ / Vowel _ #

@@ -49,3 +49,17 @@ describe("DEVELOPERS.md example variety", () => {
     expect(names[names.indexOf("schwa-deletion") + 1]).toBe("syllabify-2");
   });
 });
+
+describe("README.md example variety", () => {
+  test("loads in a copy of the shipped lexicons without errors or warnings", () => {
+    const md = readFileSync(join(root, "README.md"), "utf8");
+    const example = [...md.matchAll(/```[a-z]*\n([\s\S]*?)```/g)].map((m) => m[1]!).find((b) => b.includes('base "../en-us/grammar.strata"'));
+    expect(example).toBeDefined();
+    const dir = mkdtempSync(join(tmpdir(), "strata-readme-"));
+    cpSync(join(root, "lexicons"), join(dir, "lexicons"), { recursive: true });
+    writeFileSync(join(dir, "lexicons", "demo", "announcer.strata"), example!);
+    const r = loadGrammar(join(dir, "lexicons", "demo", "announcer.strata"));
+    expect(r.diagnostics.map((d) => `${d.line}:${d.column} ${d.severity} ${d.code} ${d.message}`)).toEqual([]);
+    expect(r.grammar!.steps.map((s) => s.name)).toContain("final-glottal");
+  });
+});

@@ -68,7 +68,7 @@ export function showElement(e: Element): string {
     case "class":
       return e.name;
     case "boundary":
-      return e.which === "word" ? "#" : "$";
+      return e.which === "word" ? "#" : e.which === "join" ? "+" : "$";
     case "bundle":
       return `[${e.specs.map((s) => (s.kind === "value" ? `${s.value}${s.feature}` : `${s.negated ? "-" : ""}${s.variable}${s.feature}`)).join(" ")}]`;
   }

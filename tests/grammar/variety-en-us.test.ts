@@ -65,6 +65,15 @@ describe("varieties of the shipped grammar", () => {
     expect(compared).toBeGreaterThan(100);
   });
 
+  test("a declaration the base makes (joins) is replaced by the variety's", () => {
+    const lex = shippedCopy();
+    writeFileSync(join(lex, "demo", "joins.strata"), 'base "../en-us/grammar.strata"\njoins = closed\n');
+    const v = loadGrammar(join(lex, "demo", "joins.strata"));
+    expect(errors(v)).toEqual([]);
+    expect(loadGrammar(join(lex, "en-us", "grammar.strata")).grammar!.joins).toBe("closed-before-consonant");
+    expect(v.grammar!.joins).toBe("closed");
+  });
+
   test("an added rule runs where it is placed (interpreter)", () => {
     const lex = shippedCopy();
     // An invented demo edit: flapping made to apply to /t/ only.

@@ -192,6 +192,9 @@ describe("errors in a variety are positioned at the edit", () => {
       ["grammar/unknown-step", "v.strata:4:18"],
     ]);
     expect(v("omit voicng\n").diagnostics[0]!.message).toContain("did you mean 'voicing'");
+    const own = v("add rule x after voicing:\n  a -> i\nadjust x optional\n");
+    expect(errors(own)).toEqual([["grammar/unknown-step", "v.strata:4:8"]]);
+    expect(own.diagnostics[0]!.message).toContain("added by this variety");
   });
 
   test("two edits of one rule", () => {

@@ -277,7 +277,7 @@ describe("reproducible outputs", () => {
     }
     const run = JSON.parse(read(join(outs[0]!, "run.json")));
     expect(run.source).toBe(join(copies[0]!, "some", "lexicons", "demo"));
-    expect(run.varieties.map((v: { name: string; status: string }) => [v.name, v.status])).toEqual([["general", "written"], ["careful", "written"]]);
+    expect(run.varieties.map((v: { name: string; status: string }) => [v.name, v.status])).toEqual([["general", "written"], ["careful", "written"], ["regional", "written"]]);
     expect(typeof run.varieties[0].runMs).toBe("number");
     expect(read(join(outs[0]!, "run.json")).endsWith("\n")).toBe(true);
     const summary = read(join(outs[0]!, "general", "summary.json"));

@@ -6,7 +6,8 @@ import { loadManifest } from "../../src/lexicon/manifest.js";
 import { readLexicon, type LexiconRow, type RejectedRow } from "../../src/lexicon/read.js";
 import { WORD_EDGE, type Sym } from "../../src/interp/index.js";
 import { applyGrammar } from "../../src/interp/index.js";
-import { DEMO, EN_US, derive, ipaOf, variety } from "./harness.js";
+import { DEMO, EN_US, derive, grammarAt, ipaOf, variety, type Variety } from "./harness.js";
+import { CANADIAN } from "./variety-build.js";
 
 async function readDemo(): Promise<{ rows: LexiconRow[]; rejects: RejectedRow[]; diagnostics: readonly unknown[] }> {
   const reader = readLexicon(DEMO + "lexicon.csv", { inventory: variety("grammar.strata").inventory });
@@ -20,13 +21,14 @@ async function readDemo(): Promise<{ rows: LexiconRow[]; rejects: RejectedRow[];
 }
 
 describe("the demo manifest", () => {
-  test("names the lexicon and the two varieties with their grammars", () => {
+  test("names the lexicon and the three varieties with their grammars", () => {
     const { manifest, diagnostics } = loadManifest(DEMO);
     expect(diagnostics).toEqual([]);
     expect(manifest?.lexicon).toBe(DEMO + "lexicon.csv");
     expect(manifest?.varieties.map((v) => [v.name, v.lang, v.grammar])).toEqual([
       ["general", "en-US", EN_US + "grammar.strata"],
       ["careful", "en-US", EN_US + "careful.strata"],
+      ["regional", "en-CA", CANADIAN],
     ]);
   });
 });
@@ -50,9 +52,14 @@ describe("the demo lexicon", () => {
     expect(rows.filter((r) => !r.stressMarked).map((r) => r.word).sort()).toEqual(["Caddow", "Dovrenny", "Keswin", "Odalie", "Tallowmere", "Wendaby"]);
   });
 
-  for (const file of ["grammar.strata", "careful.strata"] as const) {
+  const VARIETIES: [string, () => Variety][] = [
+    ["grammar.strata", () => variety("grammar.strata")],
+    ["careful.strata", () => variety("careful.strata")],
+    ["the regional (Canadian) grammar", () => grammarAt(CANADIAN)],
+  ];
+  for (const [file, load] of VARIETIES) {
     test(`every entry runs through ${file}: no diagnostics, no lints, no cap, every segment writable`, async () => {
-      const v = variety(file);
+      const v = load();
       const { rows } = await readDemo();
       const problems: string[] = [];
       for (const r of rows) {
@@ -72,8 +79,8 @@ describe("the demo lexicon", () => {
 
   test("every step of each variety has work to do in the demo lexicon", async () => {
     const { rows } = await readDemo();
-    for (const file of ["grammar.strata", "careful.strata"] as const) {
-      const v = variety(file);
+    for (const [file, load] of VARIETIES) {
+      const v = load();
       const used = new Set<string>();
       for (const r of rows) {
         const run = applyGrammar(v.prepared, v.inventory, [WORD_EDGE, ...r.symbols, WORD_EDGE]);

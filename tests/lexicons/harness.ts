@@ -25,9 +25,14 @@ const loaded = new Map<string, Variety>();
 
 /** Loads `lexicons/en-us/<file>` once per test file; throws with every diagnostic if it has errors. */
 export function variety(file: "grammar.strata" | "careful.strata"): Variety {
+  return grammarAt(EN_US + file);
+}
+
+/** Loads the grammar at an absolute path once per test file (the other shipped varieties). */
+export function grammarAt(file: string): Variety {
   const hit = loaded.get(file);
   if (hit !== undefined) return hit;
-  const r = loadGrammar(EN_US + file);
+  const r = loadGrammar(file);
   const errors = r.diagnostics.filter((d) => d.severity === "error");
   if (r.grammar === undefined || r.inventory === undefined || errors.length > 0) {
     throw new Error(`${file} does not load:\n${r.diagnostics.map(formatDiagnostic).join("\n")}`);

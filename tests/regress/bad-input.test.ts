@@ -55,7 +55,7 @@ describe("compare refuses builds it cannot compare, naming the file, writing not
       r.varieties = r.varieties.slice(0, 1);
       writeFileSync(p, JSON.stringify(r));
     });
-    await refuse(good, fewer, /fewer\/demo\/build\.json$/, /different variety lists \(general, careful in .*; general here\)/);
+    await refuse(good, fewer, /fewer\/demo\/build\.json$/, /different variety lists \(general, careful, regional in .*; general here\)/);
     expect((await runCompare(good, fewer, { ...opts, variety: "general" })).exitCode).toBe(0);
     const o = await runCompare(good, fewer, { ...opts, variety: "careful" });
     expect(o.exitCode).toBe(1);
@@ -105,8 +105,8 @@ describe("accept", () => {
     const baseline = join(root, "lexicons", "demo", "baseline");
     const r = await acceptBuild(good, baseline);
     expect(r.diagnostics).toEqual([]);
-    expect(r.varieties).toEqual([{ name: "general", entries: 391 }, { name: "careful", entries: 391 }]);
-    expect(readdirSync(baseline).sort()).toEqual(["build.json", "careful", "general"]);
+    expect(r.varieties).toEqual([{ name: "general", entries: 391 }, { name: "careful", entries: 391 }, { name: "regional", entries: 391 }]);
+    expect(readdirSync(baseline).sort()).toEqual(["build.json", "careful", "general", "regional"]);
     expect(readdirSync(join(baseline, "general")).sort()).toEqual(["lexicon.jsonl", "lexicon.tsv", "pinned.json", "summary.json"]);
     const o = await runCompare(baseline, good, opts);
     expect(o.exitCode).toBe(0);

@@ -75,7 +75,8 @@ describe("a rule removed (flapping, from the file both varieties' general gramma
   });
 
   it("counts the changes as unexpected unless the rule is named, and reports the failed pins", async () => {
-    expect(s.comparison.unexpected).toBe(v(s, "general").counts.changed);
+    // the regional (Canadian) variety's grammar has the base's flapping too
+    expect(s.comparison.unexpected).toBe(v(s, "general").counts.changed + v(s, "regional").counts.changed);
     expect(v(s, "general").failedExpectations).toBe(4);
     const again = await compareBuilds(join(s.root, "old", "demo"), join(s.root, "new", "demo"), { expect: ["flapping"] });
     expect(again.comparison!.unexpected).toBe(0);

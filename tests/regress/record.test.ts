@@ -31,7 +31,7 @@ describe("build.json", () => {
     expect(text.endsWith("\n")).toBe(true);
     const rec = JSON.parse(text);
     expect(rec).toMatchObject({ format: 2, compiler: COMPILER_VERSION, lexicon: { name: "demo", file: "lexicon.csv", sha256: sha(join(demo, "lexicon.csv")) } });
-    expect(rec.varieties.map((v: { name: string }) => v.name)).toEqual(["general", "careful"]);
+    expect(rec.varieties.map((v: { name: string }) => v.name)).toEqual(["general", "careful", "regional"]);
     const general = rec.varieties[0];
     expect(general.grammar.files.map((f: { path: string }) => f.path)).toEqual([
       "../en-us/grammar.strata", "../en-us/common.strata", "../en-us/reductions.strata", "../en-us/coarticulation.strata", "../en-us/nasal-flap.strata",

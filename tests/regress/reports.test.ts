@@ -49,8 +49,8 @@ describe("exit codes and the terminal summary", () => {
     expect(t).not.toMatch(/\u001b\[/);
     const coloured = await runCompare(join(root, "old", "demo"), join(root, "new", "demo"), { ...base, color: true });
     expect(coloured.stdout).toMatch(/\u001b\[/);
-    // The examples limit: 3 per rule here.
-    expect(t.split("\n").filter((l) => l.includes("(unexpected)")).length).toBe(3);
+    // The examples limit: 3 per rule here, in general and in regional (whose base has the same flapping).
+    expect(t.split("\n").filter((l) => l.includes("(unexpected)")).length).toBe(6);
   });
 
   it("--json prints the whole comparison, every change included", async () => {
@@ -68,7 +68,9 @@ describe("JUnit XML", () => {
     expect(junitSchemaErrors(xml)).toEqual([]);
     const suites = [...xml.matchAll(/<testsuite name="([^"]+)" tests="(\d+)" failures="(\d+)"/g)].map((m) => [m[1], Number(m[2]), Number(m[3])]);
     // general: 33 pins + 1 class (grammar:flapping) + "no unexpected changes"; failures: 4 pins, the class, the summary case.
-    expect(suites).toEqual([["demo.general", 35, 6], ["demo.careful", 31, 0]]);
+    // regional (the Canadian voice, whose base has the same flapping): 35 pins + the class + the summary case;
+    // failures: its flapping pin (thirty), the class, the summary case.
+    expect(suites).toEqual([["demo.general", 35, 6], ["demo.careful", 31, 0], ["demo.regional", 37, 3]]);
     expect(xml).toContain('<testcase classname="demo.general.changes" name="grammar:flapping">');
     expect(xml).toMatch(/<failure message="Expected thirty to be ˈθɝ\.ɾi; ct0022 is ˈθɝ\.ti\." type="expectation">/);
     expect(xml).toContain("derivation of ct0022:\n  syllabify: ˈθɝ.ti");
@@ -121,16 +123,16 @@ describe("the HTML report in headless Chromium", () => {
     expect(await count("careful", "changed")).toBe("0");
     expect(await count("general", "failed")).toBe("4");
     expect(await page.locator("table.blame[data-variety=general] tbody tr").count()).toBe(1);
-    expect(await page.locator("#changes tbody tr").count()).toBe(33);
+    expect(await page.locator("#changes tbody tr").count()).toBe(66); // general and regional
 
     // Filter by the rule: every row left is blamed on it; by a cause no change has: none left.
     await page.selectOption("#filter-rule", "flapping");
     const rules = await page.locator("#changes tbody tr").evaluateAll((rows) => rows.map((r) => r.getAttribute("data-rule")));
-    expect(rules.length).toBe(33);
+    expect(rules.length).toBe(66);
     expect(new Set(rules)).toEqual(new Set(["flapping"]));
     await page.fill("#filter-text", "thirty");
-    expect(await page.locator("#changes tbody tr").count()).toBe(1);
-    expect(await page.textContent("#shown")).toBe("1 of 33 entries");
+    expect(await page.locator("#changes tbody tr").count()).toBe(2); // general and regional
+    expect(await page.textContent("#shown")).toBe("2 of 66 entries");
     // The differing segment is marked on both sides.
     expect(await page.textContent("#changes tbody tr td:nth-child(4) .d-old")).toBe("ɾ");
     expect(await page.textContent("#changes tbody tr td:nth-child(5) .d-new")).toBe("t");

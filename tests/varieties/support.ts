@@ -21,12 +21,12 @@ export function cmuRows(words: readonly string[], every = 0): string[] {
   return [...named, ...slice];
 }
 
-/** A lexicon folder under `root/lexicons/` (beside the copied en-us grammars) with these rows and varieties (name → grammar file in en-us). */
+/** A lexicon folder under `root/lexicons/` (beside the copied grammars) with these rows and varieties (name → grammar file, relative to lexicons/ when it holds a slash, else in en-us/). */
 export function lexiconFolder(root: string, name: string, rows: readonly string[], varieties: Readonly<Record<string, string>>): string {
   const dir = join(root, "lexicons", name);
   mkdirSync(dir, { recursive: true });
   writeFileSync(join(dir, "lexicon.csv"), ["word,pron", ...rows, ""].join("\n"));
-  writeFileSync(join(dir, "varieties.json"), JSON.stringify({ lexicon: "lexicon.csv", varieties: Object.entries(varieties).map(([n, g]) => ({ name: n, lang: "en-US", grammar: `../en-us/${g}` })) }, null, 2));
+  writeFileSync(join(dir, "varieties.json"), JSON.stringify({ lexicon: "lexicon.csv", varieties: Object.entries(varieties).map(([n, g]) => ({ name: n, lang: "en-US", grammar: g.includes("/") ? `../${g}` : `../en-us/${g}` })) }, null, 2));
   return dir;
 }
 

@@ -46,7 +46,7 @@ describe("normal forms", () => {
 });
 
 describe("homophone sets by hashing = by enumerating all pairs", () => {
-  const entry = (key: string, broad: string, narrow: string): VarietyEntry => ({ key, word: key, broad, narrow, pron: broad, file: "x.csv", derivation: [] });
+  const entry = (key: string, broad: string, narrow: string): VarietyEntry => ({ key, word: key, broad, narrow, pron: broad, file: "x.csv", steps: [], forms: "" });
   // Small alphabets, so that homophones are frequent.
   const form = fc.array(fc.constantFrom("a", "b", ".", "ˈ"), { minLength: 1, maxLength: 3 }).map((x) => x.join(""));
   const lexicon = fc.array(fc.tuple(form, form, form), { maxLength: 14 });
