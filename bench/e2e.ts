@@ -18,7 +18,8 @@ import { PronReader } from "../src/lexicon/pron.js";
 import { readLexicon, writeRejects, type LexiconRow } from "../src/lexicon/read.js";
 import { countInputRecords, countWritten, reconcile } from "../src/lexicon/reconcile.js";
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
-import { entryJsonLine, entryPhonemes } from "../src/lexicon/runner.js";
+import { entryJsonRecord, entryPhonemes } from "../src/lexicon/runner.js";
+import { ByteChunks } from "../src/emit/bytes.js";
 import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
 
 export interface EndToEnd {
@@ -31,6 +32,12 @@ export interface EndToEnd {
   /** Medians of the per-pair ratios. */
   readonly transcribeRatio: number;
   readonly buildRatio: number;
+  /** The same ratios of CPU time (user + system; null when unknown): steadier on a shared machine. */
+  readonly transcribeCpuRatio: number | null;
+  readonly buildCpuRatio: number | null;
+  readonly inhouseCpuMs: number | null;
+  readonly transcribeCpuMs: number | null;
+  readonly buildCpuMs: number | null;
   readonly stages: readonly { readonly name: string; readonly ms: number }[];
   readonly failures: readonly string[];
 }
@@ -80,19 +87,25 @@ export async function benchEndToEnd(o: {
     }
   }
   const pairRatio = (a: readonly ChildRun[]): number => median(a.map((r, k) => r.wallMs / runs.inhouse[k]!.wallMs));
+  const cpuRatio = (a: readonly ChildRun[]): number | null =>
+    a.every((r, k) => r.cpuMs !== null && runs.inhouse[k]!.cpuMs !== null) ? median(a.map((r, k) => r.cpuMs! / runs.inhouse[k]!.cpuMs!)) : null;
+  const cpu = (a: readonly ChildRun[]): number | null => (a.every((r) => r.cpuMs !== null) ? median(a.map((r) => r.cpuMs!)) : null);
   const res = {
     inhouseMs: median(runs.inhouse.map((r) => r.wallMs)),
     transcribeMs: median(runs.transcribe.map((r) => r.wallMs)),
     buildMs: median(runs.build.map((r) => r.wallMs)),
     inhouseRss: maxRss(runs.inhouse), transcribeRss: maxRss(runs.transcribe), buildRss: maxRss(runs.build),
     transcribeRatio: pairRatio(runs.transcribe), buildRatio: pairRatio(runs.build),
+    transcribeCpuRatio: cpuRatio(runs.transcribe), buildCpuRatio: cpuRatio(runs.build),
+    inhouseCpuMs: cpu(runs.inhouse), transcribeCpuMs: cpu(runs.transcribe), buildCpuMs: cpu(runs.build),
   };
+  const cpuText = (ms: number | null, ratio: number | null): string => (ms === null ? "n/a" : `${fmtMs(ms)} (${ratio === null ? "n/a" : `${fmt(ratio, 2)}×`})`);
   say();
   say(`-- end to end against the in-house script (child processes, same CSV, in turn; median of ${o.reps}) --`);
-  say(textTable(["", "wall", "÷ in-house (pairs)", "peak RSS"], [
-    ["in-house script: csv-parse + 5 regexes → TSV (stdout)", fmtMs(res.inhouseMs), "1.00×", fmtMB(res.inhouseRss)],
-    ["strata transcribe → TSV (stdout), cached machines", fmtMs(res.transcribeMs), `${fmt(res.transcribeRatio, 2)}×`, fmtMB(res.transcribeRss)],
-    ["strata build → TSV + JSON Lines + PLS, cached machines", fmtMs(res.buildMs), `${fmt(res.buildRatio, 2)}×`, fmtMB(res.buildRss)],
+  say(textTable(["", "wall", "÷ in-house (pairs)", "CPU (÷ in-house)", "peak RSS"], [
+    ["in-house script: csv-parse + 5 regexes → TSV (stdout)", fmtMs(res.inhouseMs), "1.00×", cpuText(res.inhouseCpuMs, 1), fmtMB(res.inhouseRss)],
+    ["strata transcribe → TSV (stdout), cached machines", fmtMs(res.transcribeMs), `${fmt(res.transcribeRatio, 2)}×`, cpuText(res.transcribeCpuMs, res.transcribeCpuRatio), fmtMB(res.transcribeRss)],
+    ["strata build → TSV + JSON Lines + PLS, cached machines", fmtMs(res.buildMs), `${fmt(res.buildRatio, 2)}×`, cpuText(res.buildCpuMs, res.buildCpuRatio), fmtMB(res.buildRss)],
   ]));
 
   const stages = await buildStages(o, join(o.work, "stages"), failures);
@@ -152,8 +165,21 @@ async function buildStages(o: { csv: string; grammar: Grammar; inventory: Invent
   const all = await time(() => encoded.map((e) => engine.transcribeIds(e.ids, e.bids, ALL_NEEDS)));
   const keys = new EntryKeys();
   const results: EntryResult[] = all.value.map((t, k) => ({ kind: "entry", file: rows[k]!.file, line: rows[k]!.line, word: rows[k]!.word, key: keys.next(rows[k]!.word, rows[k]!.id), input: { pron: rows[k]!.pron, tags: rows[k]!.tags }, ...t! }));
-  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), [tsvHeader(), ...results.map((r) => formatTsvEntry(r))]));
-  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), results.map(entryJsonLine)));
+  // Each writer as the build runs it: lines encoded into 1 MiB chunks (emit/bytes.ts), the file written whole.
+  const chunked = (fill: (b: ByteChunks) => void): Uint8Array[] => {
+    const parts: Uint8Array[] = [];
+    const b = new ByteChunks((c) => void parts.push(c));
+    fill(b);
+    b.flush();
+    return parts;
+  };
+  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), chunked((b) => {
+    b.push(tsvHeader());
+    for (const r of results) b.push(formatTsvEntry(r));
+  })));
+  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), chunked((b) => {
+    for (const r of results) b.pushLine(entryJsonRecord(r));
+  })));
   const pls = await time(async () => {
     const lexemes = new Map<string, PlsEntry & { phonemes: string[] }>();
     for (const r of results) {

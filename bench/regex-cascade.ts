@@ -56,11 +56,12 @@ const VOICELESS: Readonly<Record<string, string>> = { l: "l\u0325", ɫ: "ɫ\u032
 /**
  * vowel nasalisation: `[+syllabic -consonantal] -> [+nasal] / _ [+nasal -syllabic] where nucleus`
  * — a nucleus right before m n ŋ (no boundary between). U+0303 COMBINING TILDE goes after the
- * whole nucleus symbol; i and u have precomposed NFC forms (U+0129, U+0169).
+ * nucleus symbol, after a diphthong's first letter (ãɪ, as Strata's writer puts it:
+ * src/inventory/diphthong.ts); i, u, a, e, o have precomposed NFC forms (ĩ ũ ã ẽ õ).
  */
 const NASALISE = /(eɪ|oʊ|aɪ|aʊ|ɔɪ|[iɪɛæɑɔʊuʌəɚɝ])(?=[mnŋ])/g;
 const NASAL: Readonly<Record<string, string>> = Object.fromEntries(
-  ["eɪ", "oʊ", "aɪ", "aʊ", "ɔɪ", "i", "ɪ", "ɛ", "æ", "ɑ", "ɔ", "ʊ", "u", "ʌ", "ə", "ɚ", "ɝ"].map((v) => [v, (v + "\u0303").normalize("NFC")]),
+  ["eɪ", "oʊ", "aɪ", "aʊ", "ɔɪ", "i", "ɪ", "ɛ", "æ", "ɑ", "ɔ", "ʊ", "u", "ʌ", "ə", "ɚ", "ɝ"].map((v) => [v, (v.length === 2 ? v[0] + "\u0303" + v[1] : v + "\u0303").normalize("NFC")]),
 );
 
 /** The cascade, in the en-us grammar's order: dark-l, flapping, aspiration, approximant devoicing, nasalisation. */

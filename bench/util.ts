@@ -71,6 +71,11 @@ export interface ChildRun {
   readonly wallMs: number;
   /** Peak resident set size of the child in bytes (from `process.resourceUsage().maxRSS`), null when unknown. */
   readonly maxRssBytes: number | null;
+  /**
+   * CPU time of the child (user + system, worker threads included) in milliseconds, null when
+   * unknown: on a shared machine steadier than the wall time, which counts the time others ran.
+   */
+  readonly cpuMs: number | null;
 }
 
 /**
@@ -100,14 +105,17 @@ export function runChild(rssWrapper: string, script: string, args: readonly stri
     child.on("close", (code) => {
       const wallMs = performance.now() - t0;
       let maxRssBytes: number | null = null;
+      let cpuMs: number | null = null;
       try {
-        // Node reports maxRSS in kilobytes (libuv uv_getrusage, ru_maxrss on Linux).
-        maxRssBytes = Number(readFileSync(rssFile, "utf8").trim()) * 1024;
+        // Node reports maxRSS in kilobytes (libuv uv_getrusage, ru_maxrss on Linux), CPU time in µs.
+        const [rss, cpu] = readFileSync(rssFile, "utf8").trim().split(" ");
+        maxRssBytes = Number(rss) * 1024;
+        cpuMs = cpu !== undefined ? Number(cpu) / 1000 : null;
       } catch {
         maxRssBytes = null;
       }
       rmSync(dir, { recursive: true, force: true });
-      resolve({ code, stdout, stderr, wallMs, maxRssBytes });
+      resolve({ code, stdout, stderr, wallMs, maxRssBytes, cpuMs });
     });
   });
 }

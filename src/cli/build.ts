@@ -1,14 +1,15 @@
 // `strata build [DIR]`: compile every variety a lexicon folder declares (cached), run the lexicon
 // through each, write TSV, JSON Lines, PLS, rejects and a summary under build/<lexicon>/<variety>/.
 
-import { createReadStream, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
 import { availableParallelism } from "node:os";
 import { InvalidArgumentError, Option, type Command } from "commander";
 import cliProgress from "cli-progress";
 import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
-import { runLexicon, ALL_FORMATS, type OutputFormat, type RunSummary } from "../lexicon/runner.js";
+import { runVarieties, ALL_FORMATS, type OutputFormat, type RunSummary, type VarietyRun } from "../lexicon/runner.js";
+import { countInputRecords } from "../lexicon/reconcile.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { WorkerPool } from "../lexicon/pool.js";
@@ -17,6 +18,8 @@ import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from
 import { checkBuildPins, readPins } from "../regress/pinned.js";
 import { openBuild } from "../regress/folder.js";
 import { openBuildOutput, type BuildOutput } from "../lexicon/buildout.js";
+import { STRESS_REPORT, stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
 import {
   openCache, cacheOptions, checkInputFolder, checkOutputPath, colours, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples, jsonOption,
   listOf, loadEngine, rootOption, packageRoot, plural, positiveInt, printDiagnostics, wholeNumber, type EngineKind,
@@ -41,20 +44,16 @@ export interface BuildOptions {
   cacheDir?: string;
   /** The summaries as one JSON document on stdout instead of the text report. */
   json?: boolean;
+  /** Exit 4 when any stress problem is found (after writing every output). */
+  strict?: boolean;
+  /** Tie bars between the letters of one segment (t͡ʃ, a͡ɪ) in every IPA written. */
+  tieBars?: boolean;
+  /** What lexicon.pls phonemes hold: every narrow variant (default) or the broad form. */
+  plsPhonemes?: PlsPhonemes;
 }
 
 /** Lexicons at least this long are spread over worker threads when --workers is auto. */
 const WORKERS_FROM_ROWS = 20_000;
-
-/** Counts data lines cheaply (for the progress bar's total). */
-async function countLines(path: string): Promise<number> {
-  let n = 0;
-  for await (const chunk of createReadStream(path)) {
-    const b = chunk as Buffer;
-    for (let i = 0; i < b.length; i++) if (b[i] === 10) n++;
-  }
-  return n;
-}
 
 /** `--workers`: auto or a whole number. */
 function workersArg(value: string): string {
@@ -111,7 +110,10 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const cacheDir = cache.dir;
   const tty = process.stderr.isTTY === true && !quiet && o.json !== true;
   const c = colours(process.stdout);
-  const lines = await countLines(manifest.lexicon);
+  // The lexicon's records, counted once for every variety (the reconciliation checks each
+  // variety's outputs against them; a file that cannot be read is reported by the reader).
+  const inputRecords = countInputRecords(manifest.lexicon);
+  const lines = await inputRecords.then((r) => r.count + 1, () => 0);
   const total = tty ? lines : 0;
   // Worker threads besides the main thread (which reads, tokenises and writes): auto leaves one
   // core to the main thread, from 4 cores (peak memory grows by ~85 MB per worker). On 2 cores a
@@ -127,37 +129,64 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const summaries: RunSummary[] = [];
   const records: VarietyRecord[] = [];
   const report: unknown[] = [];
+  // Every variety is compiled (or read from the cache) first; then varieties whose grammars read
+  // pronunciations with the same inventory run together, over one read of the lexicon.
+  type Ready = { variety: (typeof varieties)[number]; loaded: Extract<ReturnType<typeof loadEngine>, { engine: unknown }>; compileMs: number; summary?: RunSummary };
+  const order: ({ variety: (typeof varieties)[number]; failedMs: number } | Ready)[] = [];
+  const groups = new Map<string, Ready[]>();
   for (const variety of varieties) {
     const t0 = performance.now();
-    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
+    const loaded = loadEngine(variety.grammar, { kind: engine, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}) });
     printDiagnostics(loaded.diagnostics, { quiet });
     if (!("engine" in loaded)) {
       failed = true;
-      held.output.record({ name: variety.name, status: "failed", compileMs: performance.now() - t0, runMs: 0 });
+      order.push({ variety, failedMs: performance.now() - t0 });
       continue;
     }
-    records.push(varietyRecord(dirname(manifest.file), variety, loaded.grammar));
-    const compileMs = performance.now() - t0;
-    const outDir = join(outRoot, manifest.name, variety.name);
-    const bar = tty ? new cliProgress.SingleBar({ format: `${variety.name.padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
+    const record = varietyRecord(dirname(manifest.file), variety, loaded.grammar);
+    records.push(record);
+    const ready: Ready = { variety, loaded, compileMs: performance.now() - t0 };
+    order.push(ready);
+    const key = record.inventory.files.length > 0 ? record.inventory.sha256 : `variety ${variety.name}`;
+    const group = groups.get(key) ?? [];
+    if (group.length === 0) groups.set(key, group);
+    group.push(ready);
+  }
+  for (const group of groups.values()) {
+    const bar = tty ? new cliProgress.SingleBar({ format: `${group.map((r) => r.variety.name).join(", ").padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
     bar?.start(Math.max(1, total - 1), 0);
-    let summary: RunSummary;
-    let pool: WorkerPool | undefined;
+    const pools: WorkerPool[] = [];
     try {
-      if (threads > 0) {
-        pool = await WorkerPool.start(threads, { grammar: variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl") });
+      const runs: VarietyRun[] = [];
+      for (const r of group) {
+        const pool = threads > 0
+          ? await WorkerPool.start(threads, { grammar: r.variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true })
+          : undefined;
+        if (pool !== undefined) pools.push(pool);
+        runs.push({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, assignsStress: r.loaded.grammar.steps.some((s) => s.kind === "stress"), ...(pool !== undefined ? { pool } : {}), ...(r.variety.overrides !== undefined ? { overrides: r.variety.overrides } : {}) });
       }
-      summary = await runLexicon(loaded.engine, loaded.inventory, manifest.lexicon, outDir, variety, {
+      const done = await runVarieties(group[0]!.loaded.inventory, manifest.lexicon, runs, {
         formats,
         sourceRoot: dirname(manifest.file),
-        ...(variety.overrides !== undefined ? { overrides: variety.overrides } : {}),
-        ...(pool !== undefined ? { pool } : {}),
+        ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
+        inputRecords,
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
+      group.forEach((r, i) => (r.summary = done[i]));
     } finally {
       bar?.stop();
-      await pool?.close();
+      for (const pool of pools) await pool.close();
     }
+  }
+  for (const entry of order) {
+    const variety = entry.variety;
+    if ("failedMs" in entry) {
+      held.output.record({ name: variety.name, status: "failed", compileMs: entry.failedMs, runMs: 0 });
+      continue;
+    }
+    const { loaded, compileMs } = entry;
+    const summary = entry.summary!;
+    const outDir = join(outRoot, manifest.name, variety.name);
     summaries.push(summary);
     held.output.record({ name: variety.name, status: summary.reconciled ? "written" : "failed", compileMs, runMs: summary.seconds * 1000 });
     if (summary.outputErrors.some((d) => d.code === "run/unreconciled")) internal = true;
@@ -167,6 +196,11 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     const fileProblems = summary.fileDiagnostics;
     if (!summary.reconciled || fileProblems.some((d) => d.severity === "error") || summary.outputErrors.length > 0) failed = true;
     printDiagnostics([...(summaries.length === 1 ? fileProblems : []), ...(summary.overrideDiagnostics ?? []), ...summary.outputErrors], { quiet });
+    // Stress hygiene: one line per variety on stderr; --strict fails on any problem.
+    if (summary.stress !== undefined) {
+      if (!quiet) process.stderr.write(`strata: ${variety.name}: ${stressLine(summary.stress, STRESS_REPORT)}\n`);
+      if (o.strict === true && stressTotal(summary.stress) > 0) checksFailed = true;
+    }
     let check: { compared: number; mismatches: { line: number; word: string; machine: string; interpreter: string }[] } | undefined;
     if (o.check !== undefined) {
       const interp = new InterpreterEngine(loaded.grammar, loaded.inventory);
@@ -175,7 +209,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
       if (res.mismatches.length > 0) checksFailed = true;
     }
     if (o.json === true) {
-      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
+      report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, ...(summary.stress !== undefined ? { stress: summary.stress } : {}), entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
       if (!quiet) printSummary(summary, compileMs, outDir, varieties.length > 1 ? 0 : (o.samples ?? 6));
       if (check !== undefined) {
@@ -269,9 +303,12 @@ export function registerBuild(program: Command): void {
     .option("-d, --variety <name>", "build only this variety (its name in varieties.json)")
     .option("--format <formats>", `outputs to write, comma-separated or repeated (${ALL_FORMATS.join(", ")}; default: all)`, listOf(ALL_FORMATS))
     .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .option("--strict", `exit 4 when an entry has a stress problem (listed in each variety's ${STRESS_REPORT}); every output is still written`)
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
     .option("--check <n>", "also compare the first N entries with the reference interpreter (exit 4 when they differ)", positiveInt)
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
+    .option("--tie-bars", "write tie bars on affricates and diphthongs (t͡ʃ, d͡ʒ, a͡ɪ) in every output, for consumers that parse IPA")
+    .addOption(new Option("--pls-phonemes <form>", "what lexicon.pls phonemes hold: every narrow variant, or the broad form alone (for engines with limited IPA)").choices(PLS_PHONEMES).default("narrow"))
     .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
     .option("--samples <n>", "sample lines to print: entries whose narrow forms differ between the varieties (per variety when only one is built)", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
@@ -282,6 +319,8 @@ export function registerBuild(program: Command): void {
     ["strata build", "the shipped demo → build/demo/<variety>/"],
     ["strata build lexicons/demo -d careful --format tsv,pls", "one variety, two outputs"],
     ["strata build my-voice -o out --allow-rejects -q", "errors only; rejects do not fail the run"],
+    ["strata build my-voice --strict", "exit 4 when stress.csv lists any stress problem"],
+    ["strata build my-voice --pls-phonemes broad --tie-bars", "broad forms in PLS; tie bars everywhere"],
   ]);
   cmd.action(async (dir: string | undefined, opts: BuildCliOptions) => {
     process.exitCode = await runBuild(dir, opts);

@@ -58,14 +58,14 @@ export function loadChecked(path: string, cacheDir: string | undefined, root?: s
 /** Loads, checks and compiles (or interprets) a grammar; diagnostics are returned, never thrown. */
 export function loadEngine(
   path: string,
-  opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean; derivations?: boolean } = {},
+  opts: { kind?: EngineKind; cacheDir?: string; maxStates?: number; blame?: boolean; syllables?: boolean; derivations?: boolean; ties?: boolean } = {},
 ): LoadedEngine | { readonly diagnostics: readonly Diagnostic[] } {
   const g = loadChecked(path, opts.cacheDir);
   if (g.grammar === undefined || g.inventory === undefined || g.diagnostics.some((d) => d.severity === "error")) {
     return { diagnostics: g.diagnostics };
   }
   if (opts.kind === "interpreter") {
-    return { grammar: g.grammar, inventory: g.inventory, engine: new InterpreterEngine(g.grammar, g.inventory, 16, opts.syllables ?? true), diagnostics: g.diagnostics };
+    return { grammar: g.grammar, inventory: g.inventory, engine: new InterpreterEngine(g.grammar, g.inventory, 16, opts.syllables ?? true, opts.ties ?? false), diagnostics: g.diagnostics };
   }
   const m = machineEngine(g.grammar, g.inventory, {
     ...(opts.cacheDir !== undefined ? { cacheDir: opts.cacheDir } : {}),
@@ -73,6 +73,7 @@ export function loadEngine(
     ...(opts.blame !== undefined ? { blame: opts.blame } : {}),
     ...(opts.syllables !== undefined ? { syllables: opts.syllables } : {}),
     ...(opts.derivations !== undefined ? { derivations: opts.derivations } : {}),
+    ...(opts.ties === true ? { ties: true } : {}),
   });
   if (m.engine === undefined) return { diagnostics: [...g.diagnostics, ...m.diagnostics] };
   return { grammar: g.grammar, inventory: g.inventory, engine: m.engine, diagnostics: [...g.diagnostics, ...m.diagnostics] };

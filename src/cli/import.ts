@@ -9,7 +9,7 @@ import type { Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { csvLine } from "../emit/csv.js";
 import { STRESS_POLICIES, importArpabetText, loadArpabetTable } from "../lexicon/arpabet.js";
-import type { ImportedRow, StressPolicy } from "../lexicon/arpabet.js";
+import type { ImportedRow, ImportResult, StressPolicy } from "../lexicon/arpabet.js";
 import { rejectDiagnostic, writeRejects } from "../lexicon/read.js";
 import { JOINS_COUNT, applyJoinOverrides, readJoinOverrides } from "../lexicon/arpabet-joins.js";
 import {
@@ -30,6 +30,8 @@ export interface ImportOptions {
   readonly table?: string;
   /** Rejects CSV (written even when empty); `<output>.rejects.csv` when absent and an output file is given. */
   readonly rejects?: string;
+  /** The import's counts as JSON (every mapping rule and stress policy with its count); `<output>.summary.json` when absent and an output file is given. */
+  readonly summary?: string;
   /** Exit 0 even when some entries were rejected. */
   readonly allowRejects?: boolean;
   /** The spelling's case: keep (default) or lower. */
@@ -54,6 +56,15 @@ export function* importedCsv(rows: readonly ImportedRow[]): Generator<string> {
   for (const r of rows) yield csvLine(tags ? [r.word, r.pron, (r.tags ?? []).join(" "), r.note ?? ""] : [r.word, r.pron, r.note ?? ""]);
 }
 
+/**
+ * The import's summary file: counts only (lines read = entries + rejects + comments + blanks), and
+ * every mapping rule and stress policy that can change entries with the entries it changed; the
+ * policies also tag each entry they changed (lexicon/arpabet.ts), for the build's summary.
+ */
+export function importSummaryJson(r: ImportResult): string {
+  return JSON.stringify({ lines: r.lines, entries: r.rows.length, rejected: r.rejects.length, comments: r.comments, blanks: r.blanks, changed: r.changed }, null, 2) + "\n";
+}
+
 /** Runs the import without touching the process (the command prints the outcome and sets the exit code). */
 export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
   const render = (ds: readonly Diagnostic[]): string => renderDiagnostics(ds, useColour());
@@ -61,12 +72,14 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
   // Paths first: nothing is read or written when an output would land on an input or cannot be made.
   const inputs = [opts.arpabet, ...(opts.table !== undefined ? [opts.table] : []), ...(opts.joins !== undefined ? [opts.joins] : [])];
   const rejectsPath = opts.rejects ?? (opts.out !== undefined ? `${opts.out}.rejects.csv` : undefined);
+  const summaryPath = opts.summary ?? (opts.out !== undefined ? `${opts.out}.summary.json` : undefined);
   const problem =
     checkInputFile(opts.arpabet, ["--arpabet"], "dictionary") ??
     (opts.table !== undefined ? checkInputFile(opts.table, ["--table"], "mapping table") : undefined) ??
     (opts.joins !== undefined ? checkInputFile(opts.joins, ["--joins"], "overrides file") : undefined) ??
     (opts.out !== undefined ? checkOutputPath(opts.out, ["-o", "--out"], "file") ?? checkNotAnInput({ value: opts.out, flags: ["-o", "--out"] }, inputs) : undefined) ??
-    (opts.rejects !== undefined ? checkOutputPath(opts.rejects, ["--rejects"], "file") ?? checkNotAnInput({ value: opts.rejects, flags: ["--rejects"] }, [...inputs, ...(opts.out !== undefined ? [opts.out] : [])]) : undefined);
+    (opts.rejects !== undefined ? checkOutputPath(opts.rejects, ["--rejects"], "file") ?? checkNotAnInput({ value: opts.rejects, flags: ["--rejects"] }, [...inputs, ...(opts.out !== undefined ? [opts.out] : [])]) : undefined) ??
+    (opts.summary !== undefined ? checkOutputPath(opts.summary, ["--summary"], "file") ?? checkNotAnInput({ value: opts.summary, flags: ["--summary"] }, [...inputs, ...(opts.out !== undefined ? [opts.out] : []), ...(rejectsPath !== undefined ? [rejectsPath] : [])]) : undefined);
   if (problem !== undefined) return fail(problem);
   const loaded = loadArpabetTable(opts.table);
   if (loaded.table === undefined) return { stdout: "", stderr: render(loaded.diagnostics), exitCode: EXIT.badInput };
@@ -99,6 +112,7 @@ export async function runImport(opts: ImportOptions): Promise<ImportOutcome> {
   }
   // Written even when empty, so a rejects file from an earlier run never outlives its import.
   if (rejectsPath !== undefined) await writeRejects(rejectsPath, result.rejects);
+  if (summaryPath !== undefined) await writeFileAtomic(summaryPath, importSummaryJson(result));
 
   // Rejects are errors about rows: printed even with --quiet; unused overrides are warnings.
   let stderr = opts.quiet === true || joined === undefined ? "" : render(joined.diagnostics);
@@ -131,17 +145,19 @@ export function registerImport(program: Command): void {
   cmd
     .option("--table <file>", "ARPAbet → IPA mapping table (default: the shipped lexicons/en-us/arpabet.csv)")
     .option("--rejects <file>", "where to write rejected entries as CSV (default: <out>.rejects.csv)")
+    .option("--summary <file>", "where to write the counts as JSON, each mapping rule and stress policy with the entries it changed (default: <out>.summary.json)")
     .option("--allow-rejects", "exit 0 even if some entries were rejected")
     .addOption(new Option("--case <case>", "the spelling's letter case").choices(["keep", "lower"]).default("keep"))
     .addOption(new Option("--stress-policy <names...>", "stress policies for CMU-style dictionaries (see lexicons/en-us/README.md)").choices([...STRESS_POLICIES]))
     .option("--joins <file>", "CSV (word,pron) of pronunciations with their joins ('+', '#'): each replaces the imported pronunciation it equals without them");
   commonOptions(cmd);
   examples(cmd, [
-    ["strata import --arpabet cmudict.dict -o lexicon.csv", "lexicon.csv and lexicon.csv.rejects.csv"],
+    ["strata import --arpabet cmudict.dict -o lexicon.csv", "lexicon.csv, lexicon.csv.rejects.csv and lexicon.csv.summary.json"],
+    ["strata import --arpabet cmudict.dict -o lexicon.csv --stress-policy weak-forms demote-second-primary", "each policy tags the entries it changed"],
     ["zcat dict.gz | strata import --arpabet - --case lower > lexicon.csv", "from standard input to standard output"],
     ["strata import --arpabet cmudict.dict --joins lexicons/en-us/joins.csv -o lexicon.csv", "compounds and prefixes with their joins marked"],
   ]);
-  cmd.action(async (o: { arpabet: string; out?: string; table?: string; rejects?: string; allowRejects?: boolean; quiet?: boolean; case?: "keep" | "lower"; stressPolicy?: StressPolicy[]; joins?: string }) => {
+  cmd.action(async (o: { arpabet: string; out?: string; table?: string; rejects?: string; summary?: string; allowRejects?: boolean; quiet?: boolean; case?: "keep" | "lower"; stressPolicy?: StressPolicy[]; joins?: string }) => {
     await printOutcome(await runImport(o));
   });
 }

@@ -7,7 +7,8 @@ import { checkEntry, isWellFormedLanguageTag, PlsError, plsChunks, type PlsEntry
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
-import { entryJsonLine, entryPhonemes, transcribeRow } from "../lexicon/runner.js";
+import { entryJsonLine, transcribeRow } from "../lexicon/runner.js";
+import { pickLanguage, plsPhonemes, PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
 import { EntryKeys } from "../lexicon/keys.js";
 import { Channel } from "../lexicon/channel.js";
 import { InvalidArgumentError } from "commander";
@@ -17,6 +18,7 @@ import {
 } from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
+import { StressHygiene, stressLine, stressTotal } from "../lexicon/hygiene.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
 
@@ -24,7 +26,7 @@ export interface TranscribeOptions {
   grammar?: string;
   variety?: string;
   format?: (typeof TRANSCRIBE_FORMATS)[number];
-  /** xml:lang for PLS (default: the variety's lang in varieties.json, else `und`). */
+  /** xml:lang for PLS (default: the variety's lang in varieties.json, else the grammar's `language`, else `und`). */
   lang?: string;
   allowRejects?: boolean;
   engine?: EngineKind;
@@ -36,6 +38,14 @@ export interface TranscribeOptions {
   quiet?: boolean;
   /** Standard input when the file is `-` or absent (default: process.stdin). */
   input?: NodeJS.ReadableStream;
+  /** Exit 4 when any stress problem is found (after writing the output). */
+  strict?: boolean;
+  /** Tie bars between the letters of one segment (t͡ʃ, a͡ɪ). */
+  tieBars?: boolean;
+  /** What PLS phonemes hold: the narrow forms (default) or the broad form. */
+  plsPhonemes?: PlsPhonemes;
+  /** Where to write the stress problems as CSV (lexicon/hygiene.ts); none when absent. */
+  stressReport?: string;
 }
 
 /** A BCP 47 tag for `--lang` (RFC 5646 well-formedness, as PLS xml:lang needs). */
@@ -52,11 +62,12 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     printDiagnostics(resolved.diagnostics);
     return EXIT.badInput;
   }
-  const lang = o.lang ?? resolved.lang ?? "und";
+  const manifestLang = o.lang ?? resolved.lang;
   const paths =
     (fromStdin ? undefined : checkInputFile(file, [], "lexicon")) ??
     (o.out !== undefined ? checkOutputPath(o.out, ["-o", "--out"], "file") ?? checkNotAnInput({ value: o.out, flags: ["-o", "--out"] }, fromStdin ? [] : [file]) : undefined) ??
-    (!isWellFormedLanguageTag(lang) ? commandLineError("cli/bad-language-tag", `The variety's language tag '${lang}' is not a well-formed BCP 47 tag; give --lang.`, o.variety, ["-d", "--variety"]) : undefined);
+    (o.stressReport !== undefined ? checkOutputPath(o.stressReport, ["--stress-report"], "file") ?? checkNotAnInput({ value: o.stressReport, flags: ["--stress-report"] }, [...(fromStdin ? [] : [file]), ...(o.out !== undefined ? [o.out] : [])]) : undefined) ??
+    (manifestLang !== undefined && !isWellFormedLanguageTag(manifestLang) ? commandLineError("cli/bad-language-tag", `The variety's language tag '${manifestLang}' is not a well-formed BCP 47 tag; give --lang.`, o.variety, ["-d", "--variety"]) : undefined);
   if (paths !== undefined) {
     printDiagnostics([paths]);
     return EXIT.badInput;
@@ -71,9 +82,17 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     // The per-step machines give JSON Lines its rules and let PLS skip enumerating most variants.
     blame: format !== "tsv",
     syllables: o.syllableBreaks ?? true,
+    ties: o.tieBars === true,
   });
   printDiagnostics(loaded.diagnostics, { quiet: o.quiet === true });
   if (!("engine" in loaded)) return EXIT.badInput;
+  // PLS xml:lang: --lang, the variety's lang in varieties.json, the grammar's `language`, else und.
+  const chosen = pickLanguage(manifestLang, loaded.grammar, format === "pls");
+  if ("diagnostic" in chosen) {
+    printDiagnostics([chosen.diagnostic]);
+    return EXIT.badInput;
+  }
+  const lang = chosen.lang;
   const sourceName = fromStdin ? "<stdin>" : file;
   const reader = readLexicon(fromStdin ? (o.input ?? process.stdin) : file, { inventory: loaded.inventory, file: sourceName });
 
@@ -102,9 +121,11 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     pending = undefined;
   };
   // Only what the format prints: TSV neither variants nor blame, PLS the variants, JSON Lines both.
-  const needs: Needs = format === "tsv" ? NARROW_ONLY : format === "pls" ? { variants: true, rules: false } : ALL_NEEDS;
+  const needs: Needs = format === "tsv" ? NARROW_ONLY : format === "pls" ? (o.plsPhonemes === "broad" ? NARROW_ONLY : { variants: true, rules: false }) : ALL_NEEDS;
   if (format === "tsv") await write(tsvHeader());
   const keys = new EntryKeys();
+  // Stress hygiene of every entry written (the checks strata lint makes; lexicon/hygiene.ts).
+  const hygiene = new StressHygiene({ inventory: loaded.inventory, assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress") });
   try {
     for await (const batch of reader.batches()) {
       for (const item of batch) {
@@ -117,7 +138,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
           const w = write(format === "tsv" ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
           if (w !== undefined) await w;
         } else {
-          const mine = entryPhonemes(r);
+          const mine = plsPhonemes(r, o.plsPhonemes);
           try {
             checkEntry({ word: r.word, phonemes: mine, preferred: 0, source: { file: r.file, line: r.line, column: 1 } }, 0, r.file);
           } catch (err) {
@@ -132,6 +153,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
             pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
           }
         }
+        if (item.kind === "row") hygiene.observe(item, r.key);
         entries++;
       }
       // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.
@@ -150,9 +172,13 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   printDiagnostics(reader.diagnostics, { quiet: o.quiet === true });
   const failed = reader.diagnostics.some((d) => d.severity === "error");
   if (!failed && chunks.length > 0) await writeFileAtomic(o.out!, chunks);
+  if (!failed && o.stressReport !== undefined) await writeFileAtomic(o.stressReport, hygiene.report());
   const stats = reader.stats;
   if (o.quiet !== true) process.stderr.write(`strata: ${plural(stats.dataLines, "row")} read = ${entries} written + ${rejects} rejected\n`);
+  const stress = hygiene.summary();
+  if (o.quiet !== true && !failed) process.stderr.write(`strata: ${stressLine(stress, o.stressReport)}\n`);
   if (failed) return EXIT.badInput;
+  if (o.strict === true && stressTotal(stress) > 0) return EXIT.checksFailed;
   if (rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
   return EXIT.ok;
 }
@@ -165,8 +191,12 @@ export function registerTranscribe(program: Command): void {
   grammarOptions(cmd);
   cmd
     .addOption(new Option("--format <format>", "what to write").choices(TRANSCRIBE_FORMATS).default("tsv"))
-    .option("--lang <tag>", "BCP 47 tag for PLS xml:lang (default: the variety's lang in varieties.json, else und)", languageTag)
+    .option("--lang <tag>", "BCP 47 tag for PLS xml:lang (default: the variety's lang in varieties.json, else the grammar's language statement, else und)", languageTag)
+    .addOption(new Option("--pls-phonemes <form>", "what PLS phonemes hold: every narrow variant, or the broad form alone (for engines with limited IPA)").choices(PLS_PHONEMES).default("narrow"))
+    .option("--tie-bars", "write tie bars on affricates and diphthongs (t͡ʃ, d͡ʒ, a͡ɪ) for consumers that parse IPA")
     .option("--allow-rejects", "exit 0 even when some rows were rejected")
+    .option("--strict", "exit 4 when an entry has a stress problem (the checks of strata lint); the output is still written")
+    .option("--stress-report <file>", "write the stress problems as CSV, one line each (file, line, column, key, word, severity, code, message)")
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)");
   outOption(cmd, "file");
@@ -176,6 +206,8 @@ export function registerTranscribe(program: Command): void {
     ["strata transcribe -g lexicons/en-us lexicons/demo/lexicon.csv", "TSV on standard output"],
     ["strata transcribe -g lexicons/demo -d careful --format pls -o careful.pls words.csv", "a variety's PLS, written whole"],
     ["printf 'word,pron\\nkettle,ˈkɛtəl\\n' | strata transcribe -g lexicons/en-us --format jsonl", "from standard input"],
+    ["strata transcribe -g lexicons/en-us --strict --stress-report stress.csv words.csv", "exit 4 on stress problems, listed in stress.csv"],
+    ["strata transcribe -g lexicons/en-us --format pls --pls-phonemes broad --tie-bars words.csv", "PLS with broad forms and tie bars"],
   ]);
   cmd.action(async (file: string | undefined, o: TranscribeOptions) => {
     process.exitCode = await runTranscribe(file, o);

@@ -173,6 +173,10 @@ export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alph
   const yWork: { set: YSet; setKey: string; y: number[]; started: boolean; joined: boolean; id: number }[] = [];
   const yPrefixSets = new Map<string, Set<string>>();
   const internY = (set: YSet, setKey: string, y: number[], started: boolean, joined: boolean): number => {
+    // Only what can matter is kept apart: `started` where y does not show it (an "any" set), and
+    // `joined` only in mode closed-before-consonant (elsewhere a join inside an onset changes nothing).
+    if (mode !== "closed-before-consonant") joined = false;
+    if (typeof set !== "string") started = y.length > 0;
     const k = `${setKey}#${key(y)}#${started ? 1 : 0}${joined ? 1 : 0}`;
     let id = yState.get(k);
     if (id === undefined) {
@@ -230,7 +234,8 @@ export function buildSyllabifier(grammar: Grammar, low: Lowering, alphabet: Alph
       }
     }
     // A join inside an onset: never first (a '.' at a join follows it), never in mode "closed".
-    if (started && mode !== "closed") b.arc(id, JOIN, JOIN, internY(set, setKey, y, true, true));
+    if (started && mode === "through") b.arc(id, JOIN, JOIN, id);
+    else if (started && mode === "closed-before-consonant") b.arc(id, JOIN, JOIN, internY(set, setKey, y, true, true));
     const ok = set === "any" || (set === "any+" ? started : set.has(key(y)));
     if (ok) for (const v of nucleusIds) b.arc(id, v, v, x0);
   }

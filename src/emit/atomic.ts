@@ -5,12 +5,10 @@ import { mkdir, open, rename, unlink } from "node:fs/promises";
 import type { FileHandle } from "node:fs/promises";
 import { dirname } from "node:path";
 import { tempPath } from "../tempfile.js";
+import { ByteChunks, utf8Bytes } from "./bytes.js";
 
-/** What can be written: one string or buffer, or a (possibly asynchronous) sequence of string chunks. */
-export type AtomicData = string | Uint8Array | Iterable<string> | AsyncIterable<string>;
-
-/** Chunks smaller than this are gathered before a write call (fewer system calls for line-by-line output). */
-const FLUSH_BYTES = 1 << 16;
+/** What can be written: one string or buffer, or a (possibly asynchronous) sequence of string or byte chunks. */
+export type AtomicData = string | Uint8Array | Iterable<string | Uint8Array> | AsyncIterable<string | Uint8Array>;
 
 /**
  * Writes `data` to `path` atomically and returns the number of bytes written.
@@ -31,26 +29,29 @@ export async function writeFileAtomic(path: string, data: AtomicData): Promise<n
     handle = await open(temp, "wx");
     const h = handle;
     if (typeof data === "string" || data instanceof Uint8Array) {
-      const buf = typeof data === "string" ? Buffer.from(data, "utf8") : data;
+      const buf = typeof data === "string" ? utf8Bytes(data) : data;
       await writeAll(h, buf);
       bytes = buf.byteLength;
     } else {
-      let pending: string[] = [];
-      let pendingLength = 0;
-      const flush = async (): Promise<void> => {
-        if (pending.length === 0) return;
-        const buf = Buffer.from(pending.join(""), "utf8");
-        pending = [];
-        pendingLength = 0;
-        await writeAll(h, buf);
-        bytes += buf.byteLength;
+      // Strings are encoded into chunks of about 1 MiB (emit/bytes.ts); byte chunks are written as they are.
+      const full: Uint8Array[] = [];
+      const chunks = new ByteChunks((c) => void full.push(c));
+      const drain = async (): Promise<void> => {
+        for (const c of full.splice(0)) {
+          await writeAll(h, c);
+          bytes += c.byteLength;
+        }
       };
-      for await (const chunk of data as AsyncIterable<string>) {
-        pending.push(chunk);
-        pendingLength += chunk.length;
-        if (pendingLength >= FLUSH_BYTES) await flush();
+      for await (const chunk of data as AsyncIterable<string | Uint8Array>) {
+        if (typeof chunk === "string") chunks.push(chunk);
+        else {
+          chunks.flush();
+          full.push(chunk);
+        }
+        if (full.length > 0) await drain();
       }
-      await flush();
+      chunks.flush();
+      await drain();
     }
     await h.sync();
     await h.close();

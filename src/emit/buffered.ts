@@ -1,26 +1,33 @@
 // Output gathered into large chunks before it reaches a stream (stdout of `strata transcribe`):
-// one write call per ~64 KiB instead of one per line, with the stream's back-pressure respected.
+// text is encoded into UTF-8 chunks of about 1 MiB (emit/bytes.ts: a stream given a string encodes
+// it on a slow path) and written one chunk per call, with the stream's back-pressure respected.
 
-/** Characters gathered before a write (UTF-16 units; about 64–128 KiB of UTF-8). */
-const CHUNK = 1 << 16;
+import { ByteChunks } from "./bytes.js";
 
 export class BufferedWriter {
-  private buf = "";
+  private readonly ready: Uint8Array[] = [];
+  private readonly chunks: ByteChunks;
 
-  constructor(private readonly stream: NodeJS.WritableStream, private readonly chunk = CHUNK) {}
+  constructor(private readonly stream: NodeJS.WritableStream, chunk?: number) {
+    this.chunks = new ByteChunks((c) => void this.ready.push(c), chunk);
+  }
 
   /** Adds text; returns a promise only when a full chunk had to wait for the stream to drain. */
   write(text: string): Promise<void> | undefined {
-    this.buf += text;
-    return this.buf.length >= this.chunk ? this.flush() : undefined;
+    this.chunks.push(text);
+    return this.ready.length > 0 ? this.send() : undefined;
   }
 
   /** Writes what is gathered; resolves when the stream can take more. */
   flush(): Promise<void> | undefined {
-    if (this.buf === "") return undefined;
-    const text = this.buf;
-    this.buf = "";
-    if (this.stream.write(text)) return undefined;
+    this.chunks.flush();
+    return this.ready.length > 0 ? this.send() : undefined;
+  }
+
+  private send(): Promise<void> | undefined {
+    let more = true;
+    for (const c of this.ready.splice(0)) more = this.stream.write(c);
+    if (more) return undefined;
     return new Promise((res) => this.stream.once("drain", () => res()));
   }
 }

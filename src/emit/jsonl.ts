@@ -39,21 +39,27 @@ export interface JsonlEntry {
  * never contains a raw line break.
  */
 export function formatJsonLine(e: JsonlEntry): string {
+  return formatJsonRecord(e) + "\n";
+}
+
+/** `formatJsonLine` without its line feed (one flat string, for writers that add the line end themselves). */
+export function formatJsonRecord(e: JsonlEntry): string {
   const o: Record<string, unknown> = {};
   if (e.key !== undefined) o["key"] = e.key;
   o["word"] = e.word;
   o["narrow"] = e.narrow;
   o["broad"] = e.broad;
-  o["variants"] = [...e.variants];
-  o["rules"] = [...e.rules];
+  // Arrays are written as they are (JSON.stringify gives the same text for a copy).
+  o["variants"] = e.variants;
+  o["rules"] = e.rules;
   if (e.id !== undefined) o["id"] = e.id;
   if (e.source !== undefined) o["source"] = { file: e.source.file, line: e.source.line };
   if (e.derivation !== undefined) o["derivation"] = e.derivation.map((d) => ({ step: d.step, form: d.form }));
-  if (e.variantSteps !== undefined) o["variantSteps"] = e.variantSteps.map((s) => [...s]);
-  if (e.input !== undefined) o["input"] = { pron: e.input.pron, ...(e.input.pos !== undefined ? { pos: e.input.pos } : {}), tags: [...e.input.tags] };
+  if (e.variantSteps !== undefined) o["variantSteps"] = e.variantSteps;
+  if (e.input !== undefined) o["input"] = e.input.pos !== undefined ? { pron: e.input.pron, pos: e.input.pos, tags: e.input.tags } : { pron: e.input.pron, tags: e.input.tags };
   if (e.capped === true) o["capped"] = true;
   if (e.ambiguous === true) o["ambiguous"] = true;
   const json = JSON.stringify(o);
-  if (json.indexOf("\u2028") < 0 && json.indexOf("\u2029") < 0) return json + "\n";
-  return json.replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029")) + "\n";
+  if (json.indexOf("\u2028") < 0 && json.indexOf("\u2029") < 0) return json;
+  return json.replace(/[\u2028\u2029]/g, (c) => (c === "\u2028" ? "\\u2028" : "\\u2029"));
 }

@@ -15,11 +15,13 @@ export type TopItem =
   | { readonly kind: "onsets" | "codas"; readonly clusters: readonly Cluster[]; readonly span: Span }
   | { readonly kind: "heavy"; readonly patterns: readonly Pattern[]; readonly span: Span }
   | { readonly kind: "joins"; readonly mode: JoinMode; readonly span: Span }
-  | { readonly kind: "step"; readonly step: Step };
+  | { readonly kind: "step"; readonly step: Step }
+  /** `language "en-US"`: the variety's language tag (PLS xml:lang when no varieties.json names one). */
+  | { readonly kind: "language"; readonly tag: string; readonly span: Span };
 
 /**
  * Builds a Grammar from items in order (includes already expanded or ignored). Reports a second
- * `inventory`, `diacritics`, `onsets`, `codas`, `heavy` or `joins`, and a node or class defined twice.
+ * `inventory`, `diacritics`, `language`, `onsets`, `codas`, `heavy` or `joins`, and a node or class defined twice.
  * Steps other than rules are named by their keyword, numbered from the second on (`stress-2`).
  */
 export function assembleGrammar(
@@ -35,6 +37,7 @@ export function assembleGrammar(
   let onsets: readonly Cluster[] | null = null;
   let codas: readonly Cluster[] | null = null;
   let heavy: readonly Pattern[] | null = null;
+  let language: Grammar["language"];
   let joins: JoinMode | null = null;
   let joinsSpan: Span | null = null;
   const steps: Step[] = [];
@@ -83,6 +86,9 @@ export function assembleGrammar(
       case "heavy":
         if (once("heavy", it.span)) heavy = it.patterns;
         break;
+      case "language":
+        if (once("language", it.span)) language = { tag: it.tag, span: it.span };
+        break;
       case "joins":
         if (once("joins", it.span)) { joins = it.mode; joinsSpan = it.span; }
         break;
@@ -108,7 +114,7 @@ export function assembleGrammar(
     diagnostics.push(diagnostic("error", "grammar/joins-without-onsets", `'joins = ${joins}' needs an 'onsets' list when 'codas' is declared`, joinsSpan));
   }
   return {
-    grammar: { file, inventory, diacritics, nodes, classes, onsets, codas, heavy: heavy ?? [], ...(joins !== null ? { joins } : {}), steps, files },
+    grammar: { file, inventory, diacritics, nodes, classes, onsets, codas, heavy: heavy ?? [], ...(joins !== null ? { joins } : {}), steps, files, ...(language !== undefined ? { language } : {}) },
     diagnostics,
   };
 }

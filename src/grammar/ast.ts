@@ -166,4 +166,6 @@ export interface Grammar {
   readonly steps: readonly Step[];
   /** Every file read (main and included), for cache keys. */
   readonly files: readonly string[];
+  /** `language "TAG"`: the language tag the grammar declares (BCP 47, checked where it is used), if any. */
+  readonly language?: { readonly tag: string; readonly span: Span };
 }

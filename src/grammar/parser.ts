@@ -19,6 +19,7 @@ export { elementText, patternSpan, specText } from "./parse-patterns.js";
 export const STATEMENT_KEYWORDS = [
   "inventory",
   "diacritics",
+  "language",
   "include",
   "node",
   "class",
@@ -133,6 +134,9 @@ export class StatementParser extends RuleParser {
         this.items.push({ kind: kw, path: p.resolved, span: p.span });
         break;
       }
+      case "language":
+        this.language();
+        break;
       case "include": {
         const p = this.pathArgument();
         this.items.push({ kind: "include", path: p.resolved, written: p.written, span: p.span });
@@ -187,6 +191,21 @@ export class StatementParser extends RuleParser {
     this.end();
     const resolved = path.isAbsolute(text) ? path.normalize(text) : path.join(path.dirname(this.file), text);
     return { written: text, resolved, span };
+  }
+
+  // language "TAG" (a BCP 47 tag; its form is checked where it is used, e.g. PLS xml:lang)
+  language(): void {
+    const sc = this.sc;
+    this.space();
+    const start = sc.index;
+    if (!sc.eat('"')) this.expected('a quoted language tag ("en-US")');
+    let tag = "";
+    while (!sc.atEnd() && sc.peek() !== '"' && sc.peek() !== "\n") tag += sc.next();
+    if (!sc.eat('"')) this.fail("grammar/unterminated-string", "this quoted language tag has no closing '\"'", sc.spanFrom(start));
+    const span = sc.spanFrom(start);
+    if (tag.length === 0) this.fail("grammar/empty-language", "the language tag is empty", span);
+    this.end();
+    this.items.push({ kind: "language", tag, span });
   }
 
   equals(): void {

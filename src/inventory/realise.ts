@@ -6,6 +6,7 @@ import { baseKey, lookup } from "./lookup.js";
 import { describeBundle } from "./bundles.js";
 import { tokenise } from "./tokenise.js";
 import { isCombining } from "./ipa.js";
+import { letters, marksOnFirstLetter, withMarksAfterFirst } from "./diphthong.js";
 
 /**
  * Letters with a descender. Handbook of the IPA (1999), notes to the diacritics chart (from
@@ -80,7 +81,8 @@ function cover(base: Bundle, target: Bundle, nBase: number, diacritics: readonly
  * elsewhere). Choice, deterministic: an inventory segment with exactly these values; otherwise the
  * base segment needing the fewest diacritics, the earliest in the inventory on a tie; combining
  * marks before modifier letters, each group in declared order (the customary order, which agrees
- * with Unicode canonical ordering so NFC keeps it). Output is NFC (W3C Character Model: NFC for
+ * with Unicode canonical ordering so NFC keeps it), after the first letter of a diphthong
+ * (inventory/diphthong.ts) and after the whole symbol otherwise. Output is NFC (W3C Character Model: NFC for
  * content; never NFKC, which would turn ʰ into h). Memoised per inventory by the bundle's key.
  *
  * Round trip: the text is read back with `tokenise` before it is returned, so
@@ -117,8 +119,10 @@ function compute(inv: Inventory, bundle: Bundle, key: string): RealiseResult {
   // Combining marks first (one written after a modifier letter would sit on that letter), then by declared order.
   const rank = (d: Diacritic): number => (isCombining(Array.from(d.mark)[0]!) ? 0 : 1);
   const base = inv.segments[best.seg]!.symbol;
-  const marks = [...best.marks].sort((a, b) => rank(a) - rank(b) || a.order - b.order).map((d) => placedMark(base, d));
-  const text = (base + marks.join("")).normalize("NFC");
+  // A diphthong's marks go after its first letter (diphthong.ts names the convention).
+  const split = marksOnFirstLetter(inv, base, inv.segments[best.seg]!.bundle);
+  const marks = [...best.marks].sort((a, b) => rank(a) - rank(b) || a.order - b.order).map((d) => placedMark(split ? letters(base)[0]! : base, d));
+  const text = split ? withMarksAfterFirst(base, marks) : (base + marks.join("")).normalize("NFC");
   const back = tokenise(inv, text);
   const t = back.ok && back.tokens.length === 1 ? back.tokens[0]! : undefined;
   if (!t || t.kind !== "segment" || baseKey(t.bundle, lk.nBase) !== key) {

@@ -4,6 +4,7 @@
 import { diagnostic } from "../diagnostics.js";
 import type { Bundle, Diacritic, FeatureValue, Inventory, PronToken, TokeniseResult } from "./types.js";
 import { lookup } from "./lookup.js";
+import { splitTable } from "./diphthong.js";
 import {
   ASCII_PRIMARY,
   ASCII_SECONDARY,
@@ -73,6 +74,8 @@ function suggest(inv: Inventory, cps: readonly string[], i: number): string[] {
  * - `ˈ` (or ASCII `'`) primary stress, `ˌ` (or ASCII `,`) secondary stress, `.` syllable break,
  *   `#` word break (between the words of a phrase or the parts of a compound), `+` morpheme join;
  *   white space between segments is ignored. Where joins may stand is the lexicon reader's check.
+ * - A symbol of several syllabic letters (a diphthong) is also read with its diacritics after its
+ *   first letter, as the writer puts them (`ãɪ`, `aːɪ`; inventory/diphthong.ts).
  * - A segment token's `text` is what was read, NFC, without tie bars; `column` is
  *   `pos.column` plus the code-point offset in `ipa`.
  * An unknown character (or a diacritic with no segment before it) is one error diagnostic with its
@@ -126,6 +129,7 @@ export function tokenise(
       segIndex = lk.symbolByKey.get(len === 1 ? c : len === 2 ? c + cps[i + 1]! : cps.slice(i, i + len).join(""));
       if (segIndex !== undefined) break;
     }
+    if (segIndex === undefined && matchSplit(inv, lk, cps, i) !== undefined) segIndex = -1;
     if (segIndex === undefined) {
       const where = { file: pos.file, line: pos.line, column: column(i), length: 1 };
       const stray = matchDiacritic(lk.diacriticByKey, lk.maxDiacriticLength, cps, i);
@@ -138,9 +142,18 @@ export function tokenise(
       const after = isCombining(c) && tokens.length > 0 && i > 0 ? " is not a declared diacritic" : " is not in the inventory";
       return { ok: false, error: diagnostic("error", "ipa/unknown-symbol", `Unknown symbol: ${shown}${after}${hint}.`, where) };
     }
-    const seg = inv.segments[segIndex]!;
-    let bundle: Bundle = seg.bundle;
-    let j = i + len;
+    // A diphthong written with its marks after its first letter (diphthong.ts): taken when it is
+    // a longer symbol than the plain longest match (ãɪ is nasal aɪ, not nasal a then ɪ).
+    const split = matchSplit(inv, lk, cps, i);
+    let bundle: Bundle;
+    let j: number;
+    if (split !== undefined && split.length > len) {
+      bundle = split.bundle;
+      j = split.end;
+    } else {
+      bundle = inv.segments[segIndex]!.bundle;
+      j = i + len;
+    }
     for (;;) {
       const m = matchDiacritic(lk.diacriticByKey, lk.maxDiacriticLength, cps, j);
       if (!m) break;
@@ -153,6 +166,40 @@ export function tokenise(
     i = j;
   }
   return { ok: true, tokens };
+}
+
+/**
+ * A symbol of several letters read with diacritics after its first letter (`ãɪ`, `aːɪ`): the first
+ * letter, one or more declared diacritics, then the rest of the symbol. Returns the bundle with
+ * those diacritics applied, the index after the rest, and the symbol's own length in code points.
+ */
+function matchSplit(inv: Inventory, lk: ReturnType<typeof lookup>, cps: readonly string[], at: number): { bundle: Bundle; end: number; length: number } | undefined {
+  const table = splitTable(inv);
+  if (table.byHead.size === 0) return undefined;
+  for (let h = Math.min(table.maxHeadLength, cps.length - at - 1); h > 0; h--) {
+    const cands = table.byHead.get(h === 1 ? cps[at]! : cps.slice(at, at + h).join(""));
+    if (cands === undefined) continue;
+    let j = at + h;
+    const marks: Diacritic[] = [];
+    for (;;) {
+      const m = matchDiacritic(lk.diacriticByKey, lk.maxDiacriticLength, cps, j);
+      if (!m) break;
+      marks.push(m.d);
+      j += m.length;
+    }
+    if (marks.length === 0) continue;
+    for (const c of cands) {
+      if (cps.slice(j, j + c.restLength).join("") !== c.rest) continue;
+      let bundle: Bundle = inv.segments[c.segment]!.bundle;
+      for (const d of marks) {
+        const next: FeatureValue[] = bundle.slice();
+        for (const [f, v] of d.sets) next[f] = v;
+        bundle = next;
+      }
+      return { bundle, end: j + c.restLength, length: c.length };
+    }
+  }
+  return undefined;
 }
 
 function matchDiacritic(

@@ -19,7 +19,11 @@ export interface ImportedRow {
   readonly pron: string;
   /** A trailing `# comment` of the entry, if any. */
   readonly note?: string;
-  /** Tags for the lexicon's `tags` column (`weak` from the weak-forms policy). */
+  /**
+   * Tags for the lexicon's `tags` column: the name of every stress policy that changed the entry
+   * (`weak-forms`, `demote-second-primary`), so a build can count them (lexicon/hygiene.ts), and
+   * `weak` from the weak-forms policy (the reader's instruction: every vowel unstressed).
+   */
   readonly tags?: readonly string[];
   /** 1-based line of the entry in the source. */
   readonly line: number;
@@ -50,7 +54,8 @@ export interface ImportOptions {
   /** The spelling's letter case: as written (default) or lower case. */
   readonly case?: "keep" | "lower";
   /**
-   * Stress policies, each counted in `changed`:
+   * Stress policies, each counted in `changed`, each tagging the entries it changed with its own
+   * name (a build counts those tags in summary.json):
    * - `weak-forms`: an entry whose vowels all carry 0 is tagged `weak`, so that the lexicon reader
    *   leaves every vowel unstressed instead of letting the grammar's default stress stress one
    *   (function words such as "the" DH AH0, "of" AH0 V);
@@ -109,9 +114,10 @@ export function convertArpabet(phones: string, table: ArpabetTable, policies: re
       first = false;
     }
     changed.push("demote-second-primary");
+    tags.push("demote-second-primary");
   }
   if (policies.includes("weak-forms") && vowels.length > 0 && vowels.every((p) => p.digit === "0")) {
-    tags.push("weak");
+    tags.push("weak", "weak-forms");
     changed.push("weak-forms");
   }
   let beforeVowel = false;

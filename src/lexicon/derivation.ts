@@ -1,9 +1,11 @@
-// An entry's derivation from the one-step-per-block compilation of a grammar: the steps that changed
-// the preferred variant with the narrow form after each, and the steps behind every other variant.
+// An entry's variants traced through the one-step-per-block compilation of a grammar: every output
+// with the steps that changed it on its way (the JSON Lines `variantSteps`). The preferred variant's
+// derivation (each step that changed it and the form after it) comes from the engine's walk
+// through the preferred blocks (engine-machine.ts, `blame`).
 
 import type { Compiled } from "../compile/index.js";
 import { freeze, type FrozenFst } from "../fst/index.js";
-import { renderIpa, type RenderOptions, type SymbolView } from "./render.js";
+import { functionSteps } from "./variants.js";
 
 /** One step that changed the entry, and the narrow IPA right after it. */
 export interface DerivationStep {
@@ -17,37 +19,16 @@ function sameIds(a: readonly number[], b: readonly number[]): boolean {
   return true;
 }
 
-/**
- * Runs the preferred blocks of `stepwise` (one step each) one after another on `ids`: the names of
- * the steps that changed the word, in order, and (when `view` is given) the form after each.
- */
-export function preferredDerivation(
-  stepwise: Compiled,
-  stepNames: readonly string[],
-  ids: readonly number[],
-  view?: SymbolView,
-  render?: RenderOptions,
-): { rules: string[]; derivation: DerivationStep[] } {
-  const rules: string[] = [];
-  const derivation: DerivationStep[] = [];
-  let cur: number[] = ids as number[];
-  const blocks = stepwise.preferredBlocks;
-  for (let k = 0; k < blocks.length; k++) {
-    const next: number[] = [];
-    if (!stepwise.preferred.runBlock(k, cur, next)) break;
-    if (!sameIds(cur, next)) {
-      const step = stepNames[blocks[k]!.from]!;
-      rules.push(step);
-      if (view !== undefined) derivation.push({ step, form: renderIpa(next, view, render) });
-    }
-    cur = next;
-  }
-  return { rules, derivation };
-}
-
 interface Path {
   readonly ids: number[];
   readonly steps: number[];
+}
+
+/** Every output of a trace, in the order of their keys (ids joined with ','), with the names of the steps behind each. */
+export interface TracedOutputs {
+  readonly paths: readonly { readonly ids: readonly number[]; readonly steps: readonly string[] }[];
+  /** More than the cap were alive after some step (or a step's search was cut): some outputs are missing. */
+  readonly capped: boolean;
 }
 
 /** Lexicographic order of step-index lists, shorter first: which of two paths to one output is kept. */
@@ -60,30 +41,69 @@ function fewerSteps(a: readonly number[], b: readonly number[]): number {
 /**
  * Every output of the variants blocks of `stepwise` (one step each), with the steps that changed
  * it on its way. When two paths reach the same output, the one with fewer steps (then the earlier
- * steps) is kept. At most `cap` outputs survive each step (smallest ids first, like the composed
- * variants runner). Returns output ids (joined with ',') → step names.
+ * steps) is kept. At most `cap` outputs survive each step (smallest keys first, like the composed
+ * variants runner). A block that is one step which cannot branch (its variants machine is its
+ * preferred machine: a function) runs through the preferred runner, one output per path; only the
+ * steps that can branch search for every output.
  */
 export class VariantTracer {
   private frozen: FrozenFst[] | undefined;
-  constructor(private readonly stepwise: Compiled, private readonly stepNames: readonly string[]) {}
+  /** Per variants block: the preferred block that runs the same single step as a function, or -1. */
+  private readonly asFunction: Int32Array;
 
-  run(ids: readonly number[], cap = 16): Map<string, string[]> {
-    this.frozen ??= this.stepwise.variantBlocks.map((b) => freeze(b.machine));
+  constructor(private readonly stepwise: Compiled, private readonly stepNames: readonly string[]) {
+    const preferredOf = new Map<number, number>();
+    stepwise.preferredBlocks.forEach((b, k) => {
+      if (b.to === b.from + 1) preferredOf.set(b.from, k);
+    });
+    const fn = functionSteps(stepwise);
+    this.asFunction = Int32Array.from(stepwise.variantBlocks, (b) => {
+      const k = preferredOf.get(b.from);
+      return b.to === b.from + 1 && k !== undefined && fn[b.from] === true ? k : -1;
+    });
+  }
+
+  trace(input: ArrayLike<number>, cap = 16): TracedOutputs {
+    this.frozen ??= this.stepwise.variantBlocks.map((b, k) => (this.asFunction[k]! >= 0 ? (undefined as unknown as FrozenFst) : freeze(b.machine)));
     const blocks = this.stepwise.variantBlocks;
-    let live: Path[] = [{ ids: [...ids], steps: [] }];
-    for (let k = 0; k < this.frozen.length; k++) {
+    const preferred = this.stepwise.preferred;
+    let live: Path[] = [{ ids: Array.from(input), steps: [] }];
+    let capped = false;
+    for (let k = 0; k < blocks.length; k++) {
+      const step = blocks[k]!.from;
+      const fn = this.asFunction[k]!;
+      if (fn >= 0) {
+        // A function: each path has one output (or none); distinct inputs may meet in one output.
+        const next = new Map<string, Path>();
+        for (const p of live) {
+          const o: number[] = [];
+          if (!preferred.runBlock(fn, p.ids, o)) continue;
+          keep(next, o, sameIds(o, p.ids) ? p.steps : [...p.steps, step]);
+        }
+        live = sorted(next);
+        continue;
+      }
       const next = new Map<string, Path>();
       for (const p of live) {
         const r = this.frozen[k]!.applyAll(p.ids, cap);
-        for (const o of r.outputs) {
-          const steps = sameIds(o, p.ids) ? p.steps : [...p.steps, blocks[k]!.from];
-          const key = o.join(",");
-          const prior = next.get(key);
-          if (prior === undefined || fewerSteps(steps, prior.steps) < 0) next.set(key, { ids: o, steps });
-        }
+        if (r.capped) capped = true;
+        for (const o of r.outputs) keep(next, o, sameIds(o, p.ids) ? p.steps : [...p.steps, step]);
       }
-      live = [...next.keys()].sort().slice(0, cap).map((key) => next.get(key)!);
+      if (next.size > cap) capped = true;
+      live = sorted(next).slice(0, cap);
     }
-    return new Map(live.map((p) => [p.ids.join(","), p.steps.map((s) => this.stepNames[s]!)]));
+    return { paths: live.map((p) => ({ ids: p.ids, steps: p.steps.map((s) => this.stepNames[s]!) })), capped };
   }
+}
+
+/** Adds a path to its output, keeping the one with fewer (then earlier) steps when two meet. */
+function keep(next: Map<string, Path>, ids: number[], steps: number[]): void {
+  const key = ids.join(",");
+  const prior = next.get(key);
+  if (prior === undefined || fewerSteps(steps, prior.steps) < 0) next.set(key, { ids, steps });
+}
+
+/** The paths in the order of their keys. */
+function sorted(next: Map<string, Path>): Path[] {
+  return [...next.keys()].sort().map((key) => next.get(key)!);
 }

@@ -3,7 +3,8 @@
 
 import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
-import { applyGrammar, prepareGrammar, symsToIpa, WORD_EDGE, wordKey, type PreparedGrammar, type Word } from "../interp/index.js";
+import { applyGrammar, prepareGrammar, realiseBundle, symsToIpa, WORD_EDGE, wordKey, type IpaOptions, type PreparedGrammar, type Word } from "../interp/index.js";
+import { withTieBars } from "../inventory/diphthong.js";
 import type { Engine, Transcription } from "./engine.js";
 import type { DerivationStep } from "./derivation.js";
 
@@ -17,19 +18,22 @@ export class InterpreterEngine implements Engine {
   readonly writesSyllables: boolean;
   private readonly full: PreparedGrammar;
   private readonly broadOnly: PreparedGrammar;
+  /** How a word is written (with tie bars on request: inventory/diphthong.ts). */
+  private readonly ipaOptions: IpaOptions;
 
-  constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16, private readonly syllables = true) {
+  constructor(grammar: Grammar, private readonly inventory: Inventory, private readonly maxVariants = 16, private readonly syllables = true, ties = false) {
     this.steps = grammar.steps.map((s) => s.name);
     this.writesSyllables = syllables;
     this.full = prepareGrammar(grammar, inventory);
     this.broadOnly = prepareGrammar(prosodyOnly(grammar), inventory);
+    this.ipaOptions = ties ? { syllables, realise: (b) => { const t = realiseBundle(inventory, b); return t === null ? null : withTieBars(t); } } : { syllables };
   }
 
   transcribeWord(symbols: Word): Transcription | undefined {
     const word = [WORD_EDGE, ...symbols, WORD_EDGE];
     const run = applyGrammar(this.full, this.inventory, word, { maxVariants: this.maxVariants });
     const broadRun = applyGrammar(this.broadOnly, this.inventory, word);
-    const ipa = (w: Word): string => symsToIpa(w, this.inventory, { syllables: this.syllables });
+    const ipa = (w: Word): string => symsToIpa(w, this.inventory, this.ipaOptions);
     const prefKey = wordKey(run.preferred);
     const preferred = run.variants.find((v) => wordKey(v.word) === prefKey);
     const narrow = ipa(run.preferred);
@@ -45,7 +49,7 @@ export class InterpreterEngine implements Engine {
     let cur = word;
     for (const step of this.full.steps) {
       const next = applyGrammar({ ...this.full, steps: [step] }, this.inventory, cur, { maxVariants: this.maxVariants }).preferred;
-      if (wordKey(next) !== wordKey(cur)) out.push({ step: step.name, form: symsToIpa(next, this.inventory, { syllables: this.syllables }) });
+      if (wordKey(next) !== wordKey(cur)) out.push({ step: step.name, form: symsToIpa(next, this.inventory, this.ipaOptions) });
       cur = next;
     }
     return out;

@@ -11,10 +11,12 @@ import { compileGrammar, segmentsOutside, type Compiled } from "../compile/index
 import type { Bundle } from "../inventory/types.js";
 import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
-import { renderIpa, symbolView, type SymbolView } from "./render.js";
-import { preferredDerivation, VariantTracer } from "./derivation.js";
+import { renderIpa, symbolView, type RenderOptions, type SymbolView } from "./render.js";
+import { tiedView } from "./ties.js";
+import { VariantTracer, type DerivationStep, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
+import { stepKeys, translateIds, type WalkShare } from "./walk-share.js";
 
 export interface MachineEngineOptions {
   /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
@@ -27,6 +29,8 @@ export interface MachineEngineOptions {
   readonly blame?: boolean;
   /** Write '.' between unstressed syllables (default true; stress marks are always written). */
   readonly syllables?: boolean;
+  /** Write tie bars between the letters of one segment (t͡ʃ, a͡ɪ; inventory/diphthong.ts; default false). */
+  readonly ties?: boolean;
   /** Record each entry's derivation (forms after each step) and each variant's steps (default true; the JSON Lines output needs them). */
   readonly derivations?: boolean;
 }
@@ -34,6 +38,7 @@ export interface MachineEngineOptions {
 export class MachineEngine implements Engine {
   readonly steps: readonly string[];
   readonly writesSyllables: boolean;
+  private readonly broadRender: RenderOptions;
   private readonly view: SymbolView;
   private readonly broadView: SymbolView;
   private readonly out: number[] = [];
@@ -60,12 +65,13 @@ export class MachineEngine implements Engine {
     private readonly inventory: Inventory,
     stepNames: readonly string[],
     private readonly maxVariants: number,
-    private readonly render: { readonly syllables: boolean; readonly derivations?: boolean } = { syllables: true },
+    private readonly render: { readonly syllables: boolean; readonly derivations?: boolean; readonly ties?: boolean } = { syllables: true },
   ) {
     this.steps = stepNames;
     this.writesSyllables = render.syllables;
-    this.view = symbolView(compiled.alphabet, inventory);
-    this.broadView = symbolView(broad.alphabet, inventory);
+    this.broadRender = { ...render, joins: true };
+    this.view = tiedView(symbolView(compiled.alphabet, inventory), render.ties === true);
+    this.broadView = tiedView(symbolView(broad.alphabet, inventory), render.ties === true);
     this.enc = new SymbolEncoder(compiled);
     this.benc = new SymbolEncoder(broad);
     this.screen = stepwise !== null && compiled.hasVariants ? VariantScreen.of(stepwise) : null;
@@ -85,9 +91,25 @@ export class MachineEngine implements Engine {
     return bids === null ? undefined : { ids, bids };
   }
 
-  transcribeWord(symbols: Word, needs: Needs = ALL_NEEDS): Transcription | undefined {
+  /** One identity per step, for sharing the walk with another variety (walk-share.ts); empty: not shared. */
+  stepKeys: readonly string[] = [];
+
+  /** The per-step blocks' step ranges (none without blame machines). */
+  get walkBlocks(): readonly { readonly from: number; readonly to: number }[] {
+    return this.stepwise?.preferredBlocks ?? [];
+  }
+
+  /** Alphabet key of each symbol id ("" for ε, '#' and '.'). */
+  get symbolKeys(): readonly string[] {
+    const keys = new Array<string>(this.compiled.alphabet.size).fill("");
+    for (const s of this.compiled.alphabet.segments) keys[s.id] = s.key;
+    return keys;
+  }
+
+  /** `share`: the walk shared with another variety of the same run (walk-share.ts). */
+  transcribeWord(symbols: Word, needs: Needs = ALL_NEEDS, share?: WalkShare): Transcription | undefined {
     const e = this.encode(symbols);
-    if (e !== undefined) return this.transcribeIds(e.ids, e.bids, needs);
+    if (e !== undefined) return this.transcribeIds(e.ids, e.bids, needs, share);
     return this.widened(symbols)?.transcribeWord(symbols, needs);
   }
 
@@ -110,7 +132,7 @@ export class MachineEngine implements Engine {
   }
 
   /** The work a worker thread does: machines over encoded ids, IPA out. */
-  transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS): Transcription | undefined {
+  transcribeIds(ids: ArrayLike<number>, bids: ArrayLike<number>, needs: Needs = ALL_NEEDS, share?: WalkShare): Transcription | undefined {
     const out = this.out;
     out.length = 0;
     const ambiguousBefore = this.compiled.preferred.ambiguities;
@@ -120,48 +142,64 @@ export class MachineEngine implements Engine {
     const bout = this.bout;
     bout.length = 0;
     if (!this.broad.preferred.run(bids, bout)) return undefined;
-    const broadText = renderIpa(bout, this.broadView, { ...this.render, joins: true });
-    // Blame runs every step on its own; the same runs tell the screen whether variants can exist.
+    // The broad form keeps the entry's joins (rendered with `joins`, options made once).
+    const broadText = renderIpa(bout, this.broadView, this.broadRender);
+    // One walk through the steps gives the blame, the derivation's forms (JSON Lines) and tells the
+    // screen whether variants can exist.
     const wantRules = needs.rules === true && this.stepwise !== null;
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
-    const rules = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants) : NO_BLAME;
-    let variants: string[] = [narrow];
+    const wantDerivation = wantRules && (this.render.derivations ?? true);
+    const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation, share) : NO_BLAME;
+    const ruleList = wantRules ? walk.changed : [];
+    const flags = { ...(ambiguous ? { ambiguous: true as const } : {}) };
+    if (!wantVariants || walk.single) {
+      return { narrow, broad: broadText, variants: [narrow], rules: ruleList, derivation: walk.derivation, variantSteps: [ruleList], ...flags };
+    }
+    // Several variants can exist. With the derivation wanted, the traced run through the steps gives
+    // every output with its steps; the composed variants cascade runs only when the trace was cut
+    // at its cap (then the two need not keep the same outputs) or is not wanted.
+    let traced: TracedOutputs | undefined;
+    if (wantDerivation) {
+      this.tracer ??= new VariantTracer(this.stepwise!, this.steps);
+      traced = this.tracer.trace(ids, this.maxVariants);
+    }
     let capped = false;
-    if (wantVariants && !rules.single) {
+    let outputs: readonly (readonly number[])[];
+    if (traced !== undefined && !traced.capped) outputs = traced.paths.map((p) => p.ids);
+    else {
       const v = this.compiled.variants(ids, this.maxVariants);
       capped = v.capped;
-      const all = v.outputs.map((o) => renderIpa(o, this.view, this.render));
-      variants = [narrow, ...[...new Set(all)].filter((x) => x !== narrow)];
+      outputs = v.outputs;
     }
-    const ruleList = wantRules ? rules.changed : [];
-    if (!wantRules || !(this.render.derivations ?? true)) {
-      return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])), ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}) };
-    }
-    // The derivation (form after each step) and each variant's steps, for the JSON Lines output.
-    const sw = this.stepwise!;
-    const idList = Array.from(ids);
-    const { derivation } = preferredDerivation(sw, this.steps, idList, this.view, this.render);
-    let variantSteps: string[][] = [ruleList];
+    const texts = outputs.map((o) => renderIpa(o, this.view, this.render));
+    const variants = [narrow, ...[...new Set(texts)].filter((x) => x !== narrow)];
+    if (capped) Object.assign(flags, { capped: true as const });
+    if (!wantDerivation) return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])), ...flags };
+    let variantSteps: (readonly string[])[] = [ruleList];
     if (variants.length > 1) {
-      this.tracer ??= new VariantTracer(sw, this.steps);
-      const byText = new Map<string, string[]>();
-      for (const [key, steps] of this.tracer.run(idList, this.maxVariants)) {
-        const text = renderIpa(key.split(",").map(Number), this.view, this.render);
-        if (!byText.has(text)) byText.set(text, steps);
+      // Each variant's steps: of the traced outputs (in key order) the first that renders as it.
+      const byText = new Map<string, readonly string[]>();
+      const sameTrace = traced !== undefined && !traced.capped;
+      const paths = traced!.paths;
+      for (let k = 0; k < paths.length; k++) {
+        const text = sameTrace ? texts[k]! : renderIpa(paths[k]!.ids, this.view, this.render);
+        if (!byText.has(text)) byText.set(text, paths[k]!.steps);
       }
       // A variant the traced run dropped at its cap (more than maxVariants on the way) gets no steps.
       variantSteps = variants.map((v, i) => (i === 0 ? ruleList : byText.get(v) ?? []));
     }
-    return { narrow, broad: broadText, variants, rules: ruleList, derivation, variantSteps, ...(capped ? { capped: true as const } : {}), ...(ambiguous ? { ambiguous: true as const } : {}) };
+    return { narrow, broad: broadText, variants, rules: ruleList, derivation: walk.derivation, variantSteps, ...flags };
   }
 
   /**
-   * Steps whose own machine changed the (preferred) word, in order (one block per step), and —
-   * when `screen` — whether the screen proved that the entry has exactly one variant.
+   * Steps whose own machine changed the (preferred) word, in order (one block per step), with the
+   * narrow form after each when `forms`, and — when `screen` — whether the screen proved that the
+   * entry has exactly one variant.
    */
-  private blame(ids: ArrayLike<number>, screen: boolean): { changed: string[]; single: boolean } {
+  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean, share?: WalkShare): { changed: string[]; derivation: DerivationStep[]; single: boolean } {
     const sw = this.stepwise!;
-    const changed: string[] = [];
+    let changed: string[] = [];
+    let derivation: DerivationStep[] = [];
     let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
     const check = screen ? this.screen : null;
@@ -170,8 +208,33 @@ export class MachineEngine implements Engine {
     // unapplied) leaves the preferred string as it is, so it is screened on the current string.
     let unchecked = 0;
     let k = 0;
+    // A follower goes on from the leader's string after the steps they share (walk-share.ts).
+    const r = share?.resume;
+    if (r !== undefined && r.engine === share!.leader && (r.screened || check === null)) {
+      let kb = 0;
+      while (kb < blocks.length && blocks[kb]!.from < r.step) kb++;
+      const resumed = translateIds(r.ids, share!.translate!);
+      if (resumed !== null && (kb === 0 || blocks[kb - 1]!.to <= r.step)) {
+        k = kb;
+        cur = resumed;
+        changed = [...r.changed];
+        derivation = [...r.derivation];
+        if (check !== null) {
+          single = r.single;
+          unchecked = r.unchecked;
+        }
+      }
+    }
+    const snaps = share?.snapAt;
+    let given = 0;
+    const snapshot = (step: number): void => share!.give!({ engine: this, step, ids: Array.from(cur), changed: [...changed], derivation: [...derivation], screened: check !== null, single, unchecked });
     for (; k < blocks.length; k++) {
       const b = blocks[k]!;
+      // A leader records where it stands before each step a follower takes over at.
+      while (snaps !== undefined && given < snaps.length && snaps[given]! <= b.from) {
+        if (k === 0 || blocks[k - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
+        given++;
+      }
       if (single) {
         single = check!.identity(unchecked, b.from + 1, cur) && !check!.branchingIn(b.from + 1, b.to);
         unchecked = b.to;
@@ -180,17 +243,24 @@ export class MachineEngine implements Engine {
       const next = cur === this.stepA ? this.stepB : this.stepA;
       next.length = 0;
       if (!sw.preferred.runBlock(k, cur, next)) break;
-      if (!sameIds(cur, next)) changed.push(this.steps[b.from]!);
+      if (!sameIds(cur, next)) {
+        const step = this.steps[b.from]!;
+        changed.push(step);
+        if (forms) derivation.push({ step, form: renderIpa(next, this.view, this.render) });
+      }
       cur = next;
     }
+    if (k === blocks.length) {
+      for (; snaps !== undefined && given < snaps.length; given++) if (blocks.length === 0 || blocks[blocks.length - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
+    }
     if (single) single = k === blocks.length && check!.identity(unchecked, Number.MAX_SAFE_INTEGER, cur);
-    return { changed, single };
+    return { changed, derivation, single };
   }
 
   private tracer: VariantTracer | undefined;
 }
 
-const NO_BLAME = { changed: [] as string[], single: false };
+const NO_BLAME = { changed: [] as string[], derivation: [] as DerivationStep[], single: false };
 
 function sameIds(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
   if (a.length !== b.length) return false;
@@ -217,8 +287,9 @@ export function machineEngine(
   }
   const broad = compileGrammar(prosodyOnly(grammar), inventory, common);
   if (broad.compiled === null) return { diagnostics: [...diagnostics, ...broad.diagnostics] };
-  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true, derivations: opts.derivations ?? true });
+  const engine = new MachineEngine(main.compiled, stepwise, broad.compiled, inventory, grammar.steps.map((s) => s.name), opts.maxVariants ?? 16, { syllables: opts.syllables ?? true, derivations: opts.derivations ?? true, ties: opts.ties ?? false });
   engine.extras = extraSegments;
+  if (stepwise !== null) engine.stepKeys = stepKeys(grammar);
   engine.extend = (extra) => machineEngine(grammar, inventory, opts, extra).engine;
   return { engine, diagnostics };
 }

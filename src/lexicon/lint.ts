@@ -12,6 +12,7 @@ import { realiseBundle, resolveClusters, syllabify } from "../interp/index.js";
 import type { ClusterList, Sym } from "../interp/index.js";
 import { readLexicon, rejectDiagnostic } from "./read.js";
 import type { LexiconRow, RejectedRow } from "./read.js";
+import { stressFindings, type StressContext } from "./lint-stress.js";
 
 /*
  * Codes and severities. An error means the entry cannot come out right (it is dropped, or its
@@ -20,9 +21,8 @@ import type { LexiconRow, RejectedRow } from "./read.js";
  *
  *   (reader reject codes)   error    the reader could not read the row (lexicon/…, ipa/…)
  *   lint/no-nucleus         error    a word (of a phrase) has no [+syllabic] segment
- *   lint/many-primary       error    more than one primary stress mark in one word
- *   lint/unstressed-entry   error    no stress mark, and the grammar has no `stress` step to assign one
- *   lint/no-primary         warning  stress marks, but only secondary ones
+ *   lint/many-primary, lint/unstressed-entry, lint/no-primary, lint/final-secondary,
+ *   lint/reduced-default    the stress checks (lint-stress.ts, shared with build and transcribe)
  *   interp/illegal-onset    warning  word-initial cluster not a declared onset     (the syllabify step's own codes)
  *   interp/illegal-coda     warning  final cluster, or the coda every split leaves, not a declared coda
  *   interp/no-legal-split   warning  no consonant of a medial cluster starts a declared onset
@@ -40,8 +40,7 @@ export interface LintFinding extends Diagnostic {
 }
 
 /** What linting needs from a grammar, prepared once. */
-export interface LintContext {
-  readonly inventory: Inventory;
+export interface LintContext extends StressContext {
   readonly onsets: ClusterList;
   readonly codas: ClusterList;
   /** How syllabification treats a morpheme join (the grammar's `joins`; absent: through). */
@@ -87,29 +86,8 @@ export function lintRow(row: LexiconRow, ctx: LintContext): LintFinding[] {
   const segTokens = tokens.filter((x): x is Extract<PronToken, { kind: "segment" }> => x.kind === "segment");
   const wholePron = { column: row.pronColumn, length: cpLength(row.pron) };
 
-  // Stress, per word of a phrase (a compound is one stress domain): at most one primary mark.
-  const compound = isCompound(row);
-  let primaries: Extract<PronToken, { kind: "stress" }>[] = [];
-  const checkWord = (): void => {
-    if (primaries.length > 1) {
-      const second = primaries[1]!;
-      at("error", "lint/many-primary", `${primaries.length} primary stress marks in one ${compound ? "compound" : "word"} (the first at column ${primaries[0]!.column}).`, second.column, 1);
-    }
-    primaries = [];
-  };
-  for (const tok of tokens) {
-    if (tok.kind === "word" && !compound) checkWord();
-    else if (tok.kind === "stress" && tok.level === "primary") primaries.push(tok);
-  }
-  checkWord();
-  if (row.stressMarked && !tokens.some((x) => x.kind === "stress" && x.level === "primary")) {
-    at("warning", "lint/no-primary", "the entry has stress marks but no primary stress (ˈ).", wholePron.column, wholePron.length);
-  }
-  // A word without a nucleus cannot carry stress; lint/no-nucleus below says so.
-  const anyNucleus = segTokens.some((x) => x.bundle[inv.featureIndex.get("syllabic") ?? -1] === "+");
-  if (!row.stressMarked && !ctx.assignsStress && anyNucleus) {
-    at("error", "lint/unstressed-entry", "the entry has no stress mark and the grammar has no 'stress' step to assign one.", wholePron.column, wholePron.length);
-  }
+  // Stress (lint-stress.ts: the same checks every build and transcribe run makes).
+  out.push(...stressFindings(row, ctx, tokens));
 
   // Syllabification under the declared onsets and codas, on the entry as written.
   const syl = syllabify(row.symbols, ctx.onsets, ctx.codas, inv, ctx.joins);

@@ -6,6 +6,7 @@
 // that both give the same symbols.
 
 import { lookup } from "../inventory/lookup.js";
+import { splitTable } from "../inventory/diphthong.js";
 import type { Bundle, FeatureValue, Inventory } from "../inventory/types.js";
 import { ASCII_PRIMARY, ASCII_SECONDARY, MORPHEME_JOIN, PRIMARY_STRESS, RESERVED, SECONDARY_STRESS, SYLLABLE_BREAK, TIE_BARS, WORD_BREAK } from "../inventory/ipa.js";
 import { JOIN_EDGE, SYLLABLE_EDGE, WORD_EDGE, segment, type Sym } from "../interp/types.js";
@@ -58,12 +59,15 @@ export class PronReader {
   private readonly syllabic: number;
   private readonly stressF: number;
   private readonly primaryF: number;
+  /** First letters of symbols whose marks the writer puts after that letter (inventory/diphthong.ts). */
+  private readonly heads: ReadonlySet<string>;
 
   constructor(private readonly inv: Inventory) {
     const lk = lookup(inv);
     this.syllabic = inv.featureIndex.get("syllabic") ?? -1;
     this.stressF = inv.featureIndex.get("stress") ?? -1;
     this.primaryF = inv.featureIndex.get("primary") ?? -1;
+    this.heads = splitTable(inv).heads;
     // The fast path reads a stress mark, '.', '#' or white space as itself; keys holding one would
     // be read differently by the tokeniser's longest match, so such an inventory always takes the general path.
     const plainKey = (k: string): boolean => [...k].every((c) => !RESERVED.has(c) && !IS_SPACE.test(c));
@@ -199,6 +203,8 @@ export class PronReader {
         (diacritics ??= []).push(key);
         j += dl;
       }
+      // Marks after a diphthong's first letter (ãɪ, aːɪ): the general path reads them (inventory/diphthong.ts).
+      if (diacritics !== undefined && this.heads.has(pron.substr(i, len))) return undefined;
       const t = this.typeOf(pron.slice(i, j), segIndex, diacritics ?? NONE);
       wordHasSegment = true;
       if (t.nucleus) {

@@ -6,6 +6,7 @@ import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import { readBackJsonl, readBackTsv } from "./readback.js";
 
 /** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
 export interface InputRecords {
@@ -184,55 +185,25 @@ export interface WrittenCounts {
   readonly replaced?: readonly { readonly file: string; readonly line: number; readonly word: string }[];
 }
 
-const SOURCE_LINE = /"source":\{"file":("(?:[^"\\]|\\.)*"),"line":(\d+)\}/;
-// A quote outside a JSON string only ever opens or closes one, so `"word":"` is always the key.
-const WORD = /"word":("(?:[^"\\]|\\.)*")/;
-
-/** Reads back the files of one variety's staging folder (each path given is a file that was written). */
+/** Reads back the files of one variety's staging folder (each path given is a file that was written; readback.ts reads them on bytes). */
 export async function countWritten(files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string; readonly replaced?: string }): Promise<WrittenCounts> {
   let tsv: number | undefined;
   let tsvWords: number | undefined;
   if (files.tsv !== undefined) {
-    let wordAt = -1;
-    const words = new Set<string>();
-    let n = -1;
-    await eachLine(files.tsv, (l) => {
-      if (n === -1) wordAt = l.split("\t").indexOf("word");
-      else if (wordAt >= 0) {
-        let from = 0;
-        for (let k = 0; k < wordAt && from >= 0; k++) from = l.indexOf("\t", from) + 1 || -1;
-        const end = from < 0 ? -1 : l.indexOf("\t", from);
-        words.add(from < 0 ? "" : l.slice(from, end < 0 ? l.length : end));
-      }
-      n++;
-    });
-    tsv = Math.max(0, n);
-    tsvWords = words.size;
+    const t = await readBackTsv(files.tsv);
+    tsv = t.entries;
+    tsvWords = t.words;
   }
   let jsonl: number | undefined;
   let jsonlLines: number[] | undefined;
   let jsonlWords: string[] | undefined;
   let jsonlFiles: string[] | undefined;
   if (files.jsonl !== undefined) {
-    jsonl = 0;
-    jsonlLines = [];
-    jsonlWords = [];
-    jsonlFiles = [];
-    const ls = jsonlLines;
-    const ws = jsonlWords;
-    const fs = jsonlFiles;
-    let lastFile = "";
-    let lastText = "";
-    await eachLine(files.jsonl, (l) => {
-      jsonl!++;
-      const m = SOURCE_LINE.exec(l);
-      ls.push(m === null ? 0 : Number(m[2]));
-      // Every record of a run names one file or two: its JSON string is parsed once per change.
-      if (m !== null && m[1] !== lastText) (lastText = m[1]!), (lastFile = JSON.parse(m[1]!) as string);
-      fs.push(m === null ? "" : lastFile);
-      const w = WORD.exec(l);
-      ws.push(w === null ? "" : (JSON.parse(w[1]!) as string));
-    });
+    const j = await readBackJsonl(files.jsonl);
+    jsonl = j.count;
+    jsonlLines = j.lines;
+    jsonlWords = j.words;
+    jsonlFiles = j.files;
   }
   let plsLexemes: number | undefined;
   if (files.pls !== undefined) {

@@ -28,6 +28,7 @@ export function summaryJson(s: RunSummary, root: string): string {
     entriesCapped: s.entriesCapped,
     entriesAmbiguous: s.entriesAmbiguous,
     changedBy: s.changedBy,
+    ...(s.stress !== undefined ? { stress: s.stress } : {}),
     files: Object.keys(s.files).sort(),
     reconciled: s.reconciled,
     diagnostics: s.diagnostics.map((d) => formatDiagnostic({ ...d, file: relativeTo(root, d.file) })),

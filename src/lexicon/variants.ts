@@ -136,14 +136,12 @@ export class VariantScreen {
       if (b.to !== b.from + 1) return null;
       byStep[b.from] = b;
     }
-    const prefByStep = new Map(stepwise.preferredBlocks.filter((b) => b.to === b.from + 1).map((b) => [b.from, b.machine]));
+    const fn = functionSteps(stepwise);
     const screens: (IdentityScreen | null)[] = [];
     const before = new Int32Array(n + 1);
     for (let s = 0; s < n; s++) {
       const v = byStep[s];
-      const size = stepwise.steps[s]!;
-      // A step is a function when it is not optional and its variants machine is its preferred one.
-      const branching = v === undefined || size.optional || prefByStep.get(s) !== v.machine && !sameShape(prefByStep.get(s), v.machine);
+      const branching = !fn[s];
       screens.push(branching && v !== undefined ? new IdentityScreen(freeze(v.machine), stepwise.alphabet.size) : null);
       before[s + 1] = before[s]! + (branching ? 1 : 0);
       if (branching && v === undefined) return null;
@@ -168,6 +166,23 @@ export class VariantScreen {
     }
     return true;
   }
+}
+
+/**
+ * For each step of a one-block-per-step compilation: true when it is a function — not optional, and
+ * its variants block is its preferred block (the same machine, or one of the same shape).
+ */
+export function functionSteps(stepwise: Compiled): boolean[] {
+  const n = stepwise.steps.length;
+  const variantOf = new Map(stepwise.variantBlocks.filter((b) => b.to === b.from + 1).map((b) => [b.from, b.machine]));
+  const prefOf = new Map(stepwise.preferredBlocks.filter((b) => b.to === b.from + 1).map((b) => [b.from, b.machine]));
+  const out: boolean[] = [];
+  for (let s = 0; s < n; s++) {
+    const v = variantOf.get(s);
+    const p = prefOf.get(s);
+    out.push(v !== undefined && !stepwise.steps[s]!.optional && (p === v || sameShape(p, v)));
+  }
+  return out;
 }
 
 /** Structural equality of two machines (same states, finals, final outputs and arcs in order). */

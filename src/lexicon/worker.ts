@@ -15,6 +15,7 @@ export interface WorkerSetup {
   readonly blame: boolean;
   readonly syllables: boolean;
   readonly derivations?: boolean;
+  readonly ties?: boolean;
 }
 
 export interface WorkerBatch {
@@ -41,6 +42,7 @@ const built = g.grammar !== undefined && g.inventory !== undefined
     blame: setup.blame,
     syllables: setup.syllables,
     ...(setup.derivations !== undefined ? { derivations: setup.derivations } : {}),
+    ...(setup.ties === true ? { ties: true } : {}),
   })
   : undefined;
 const engine = built?.engine;

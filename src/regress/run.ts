@@ -6,7 +6,6 @@ import { formatDiagnostic, type Diagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { compareBuilds, type Comparison } from "./compare.js";
 import { formatHtml } from "./html.js";
-import { formatJunit } from "./junit.js";
 import { formatTerminal } from "./terminal.js";
 
 export interface RunCompareOptions {
@@ -53,6 +52,8 @@ export async function runCompare(oldDir: string, newDir: string, o: RunCompareOp
       files.push(path);
     };
     await write(REPORT_FILES.json, comparisonJson(c));
+    // Loaded here: junit.ts brings in xmlbuilder2, which every other command would load for nothing.
+    const { formatJunit } = await import("./junit.js");
     await write(REPORT_FILES.junit, formatJunit(c));
     await write(REPORT_FILES.html, formatHtml(c));
   }

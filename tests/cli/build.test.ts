@@ -54,7 +54,7 @@ describe("strata build on the shipped demo", () => {
     expect(code).toBe(0);
     for (const v of ["general", "careful"]) {
       const files = readdirSync(join(out, "demo", v)).sort();
-      expect(files).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "pinned.json", "rejects.csv", "summary.json"]);
+      expect(files).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "pinned.json", "rejects.csv", "stress.csv", "summary.json"]);
     }
   });
 
@@ -161,7 +161,7 @@ describe("rejects", () => {
     const out = join(dir, "out");
     expect(await runBuild(dir, quietOpts(out))).toBe(3);
     const base = join(out, basenameOf(dir), "general");
-    expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
+    expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "stress.csv", "summary.json"]);
     for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls"]) expect(readFileSync(join(base, f), "utf8")).not.toContain("bad");
     const rejects = readFileSync(join(base, "rejects.csv"), "utf8").trimEnd().split("\n");
     expect(rejects.slice(1).map((l) => l.split(",").slice(0, 4).join(","))).toEqual(["lexicon.csv,3,4,lexicon/control-character"]);

@@ -21,7 +21,7 @@ const DIST = join(ROOT, "build", "test-dist", "crash");
 const CLI = join(DIST, "src", "cli", "main.js");
 const CACHE = join(tmpdir(), "strata-test-cache");
 const VARIETIES = ["general", "careful"];
-const OUTPUTS = ["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"];
+const OUTPUTS = ["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "stress.csv", "summary.json"];
 const KILLS = 5;
 
 // A run's seed (set STRATA_FC_SEED to replay one), printed first; CI uses a fixed seed.

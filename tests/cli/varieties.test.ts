@@ -22,7 +22,7 @@ describe("strata varieties", () => {
   it("prints a summary per pair: counts, differing steps, rules with counts and examples, mergers and splits", async () => {
     const r = await cli(["varieties", demo, "--no-color"]);
     expect([r.exitCode, r.stderr]).toEqual([0, ""]);
-    expect(r.stdout).toMatch(/^demo: general, careful \(1 pair\)$/m);
+    expect(r.stdout).toMatch(/^demo: general, careful, regional \(3 pairs\)$/m);
     expect(r.stdout).toMatch(/^general ↔ careful: 391 entries in both, \d+ differ \(grammar \d+, input 0\), 0 only in general, 0 only in careful$/m);
     expect(r.stdout).toMatch(/^ {2}steps that differ: general: flapping \(only here\), glottal-stop \(only here\), nasal-flap \(only here\), nasal-flap-merger \(only here\); careful: none$/m);
     expect(r.stdout).toMatch(/^ {2}flapping +33 +general +only here +thirty, /m);
@@ -40,7 +40,8 @@ describe("strata varieties", () => {
     expect(lines.slice(1).every((l) => l.split("\t").length === TSV_COLUMNS.length)).toBe(true);
     const json = await cli(["varieties", demo, "--json"]);
     const doc = JSON.parse(json.stdout);
-    expect(doc.pairs[0].differences.length).toBe(lines.length - 1);
+    expect(doc.pairs[0].differences.length).toBe(lines.filter((l) => l.startsWith("general\tcareful\tdiffers\t")).length);
+    expect(doc.pairs.reduce((n: number, p: { differences: unknown[] }) => n + p.differences.length, 0)).toBe(lines.filter((l) => l.split("\t")[2] === "differs").length);
     expect(readFileSync(join(out, "comparison.json"), "utf8")).toBe(json.stdout);
     expect(readFileSync(join(out, "comparison.tsv"), "utf8")).toBe(tsv.stdout);
     expect(readFileSync(join(out, "report.html"), "utf8")).toMatch(/^<!DOCTYPE html>/);
@@ -48,7 +49,7 @@ describe("strata varieties", () => {
 
   it("-d chooses the varieties: one is compared with each other, several pairwise in the order named", async () => {
     const one = JSON.parse((await cli(["varieties", demo, "-d", "careful", "--json"])).stdout);
-    expect(one.pairs.map((p: { a: string; b: string }) => [p.a, p.b])).toEqual([["careful", "general"]]);
+    expect(one.pairs.map((p: { a: string; b: string }) => [p.a, p.b])).toEqual([["careful", "general"], ["careful", "regional"]]);
     const two = JSON.parse((await cli(["varieties", demo, "-d", "careful", "-d", "general", "--json"])).stdout);
     expect(two.pairs.map((p: { a: string; b: string }) => [p.a, p.b])).toEqual([["careful", "general"]]);
   });
@@ -57,7 +58,7 @@ describe("strata varieties", () => {
     const r = await cli(["varieties", demo, "-d", "scottish"]);
     expect(r.exitCode).toBe(1);
     expect(r.stdout).toBe("");
-    expect(r.stderr).toMatch(/^command line:1:\d+: error: The build has no variety 'scottish'; its varieties are general, careful\. \[varieties\/unknown-variety\]/);
+    expect(r.stderr).toMatch(/^command line:1:\d+: error: The build has no variety 'scottish'; its varieties are general, careful, regional\. \[varieties\/unknown-variety\]/);
     expect(r.stderr).toContain("^^^^^^^^");
   });
 

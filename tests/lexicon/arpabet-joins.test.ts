@@ -73,7 +73,7 @@ describe("CMU words with and without their joins, through the en-us grammar", ()
     // reaching back (Kahn 1976, from memory): network's t is a coda, not an aspirated onset, and
     // w after it is not devoiced (devoicing after an aspirated stop: Ladefoged 2006, from memory).
     expect(before.get("network")).toContain("tʰw̥");
-    expect(after.get("network")).toBe("ˈnɛtˌwɝk");
+    expect(after.get("network")).toMatch(/^ˈnɛ[tʔ]ˌwɝk$/); // t a coda (casual speech may glottalise it), w voiced
     // sixteen: t starts the second part, so it is aspirated (after s in one onset it is not, as in
     // "mistake"; Kahn 1976, from memory).
     expect(before.get("sixteen")).not.toContain("tʰ");

@@ -28,8 +28,9 @@ describe("strata import --arpabet", () => {
       ["SALLOWMEDE", "s ˈæ l oʊ m ˌi d", ""],
       ["SALLOWMEDE", "s ˈɑ l oʊ m ˌi d", ""],
     ]);
-    expect(await readdir(dir)).toEqual(["demo.csv", "demo.csv.rejects.csv", "demo.dict"]);
+    expect(await readdir(dir)).toEqual(["demo.csv", "demo.csv.rejects.csv", "demo.csv.summary.json", "demo.dict"]);
     expect(await readFile(join(dir, "demo.csv.rejects.csv"), "utf8")).toBe("file,line,column,code,reason,raw\n");
+    expect(JSON.parse(await readFile(join(dir, "demo.csv.summary.json"), "utf8"))).toEqual({ lines: 5, entries: 3, rejected: 0, comments: 1, blanks: 1, changed: { "before-vowel": 0 } });
   });
 
   it("writes rejects beside the output and exits 3 unless rejects are allowed", async () => {

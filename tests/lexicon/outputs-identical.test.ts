@@ -5,17 +5,15 @@
 // Every file of the output folder is compared, so a format change others make is covered as it lands.
 
 import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, readdirSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
-import { dictionary } from "cmu-pronouncing-dictionary";
 import { loadGrammar } from "../../src/grammar/index.js";
-import { csvLine } from "../../src/emit/csv.js";
-import { importArpabetDictionary, loadArpabetTable } from "../../src/lexicon/arpabet.js";
 import { InterpreterEngine } from "../../src/lexicon/engine-interp.js";
 import { machineEngine } from "../../src/lexicon/engine-machine.js";
 import { runLexicon } from "../../src/lexicon/runner.js";
+import { folderBytes, writeCmuSlice } from "../support/cmu-slice.js";
 
 const ROOT = resolve(__dirname, "../..");
 const CLI = join(ROOT, "dist", "src", "cli", "main.js");
@@ -31,21 +29,6 @@ const loaded = loadGrammar(GRAMMAR);
 if (loaded.grammar === undefined || loaded.inventory === undefined) throw new Error("the en-us grammar does not load");
 const grammar = loaded.grammar;
 const inv = loaded.inventory;
-
-/** Every file of an output folder; run records and summaries without their timings and absolute paths. */
-function folderBytes(dir: string): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const name of readdirSync(dir).sort()) {
-    if (name.startsWith(".")) continue;
-    const text = readFileSync(join(dir, name), "utf8");
-    if (name === "run.json") continue; // timings and the machine, by design (compared nowhere)
-    if (name === "summary.json") {
-      const { seconds: _s, files: _f, lexicon: _l, ...rest } = JSON.parse(text) as Record<string, unknown>;
-      out[name] = JSON.stringify(rest);
-    } else out[name] = text;
-  }
-  return out;
-}
 
 /** JSON Lines records with their non-preferred variants sorted (with any per-variant array kept parallel); PLS lexemes likewise. */
 function variantsAsSets(files: Record<string, string>): Record<string, string> {
@@ -79,11 +62,7 @@ function variantsAsSets(files: Record<string, string>): Record<string, string> {
 /** A lexicon folder holding every `step`-th CMU entry, run through the en-us grammar. */
 function cmuSlice(step: number): string {
   const dir = mkdtempSync(join(tmpdir(), "strata-slice-"));
-  const table = loadArpabetTable(join(ROOT, "lexicons", "en-us", "arpabet.csv")).table!;
-  const dict = dictionary as Readonly<Record<string, string>>;
-  const kept = Object.fromEntries(Object.entries(dict).filter((_, i) => i % step === 0));
-  const imported = importArpabetDictionary(kept, table, { file: "cmu-pronouncing-dictionary" });
-  writeFileSync(join(dir, "lexicon.csv"), [csvLine(["word", "pron", "note"]), ...imported.rows.map((r) => csvLine([r.word, r.pron, r.note ?? ""]))].join(""));
+  writeCmuSlice(ROOT, step, join(dir, "lexicon.csv"));
   writeFileSync(join(dir, "varieties.json"), JSON.stringify({ lexicon: "lexicon.csv", varieties: [{ name: "general", lang: "en-US", grammar: GRAMMAR }] }));
   return dir;
 }

@@ -92,7 +92,7 @@ describe("a variety's outputs are replaced together", () => {
     writeFileSync(join(dir, "lexicon.csv"), ["word,pron", "kettle,ˈkɛtəl", "bad\uFFFEword,ˈbæd", "zebra,ˈzibɹə", ""].join("\n"));
     expect((await build(dir, opts(out, { allowRejects: false }))).code).toBe(3);
     const base = join(out, "lex", "general");
-    expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
+    expect(readdirSync(base).sort()).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "stress.csv", "summary.json"]);
     // Every file of the folder is from the second run: all name zebra, none names tundra or cat.
     for (const f of ["lexicon.tsv", "lexicon.jsonl", "lexicon.pls"]) {
       expect(read(join(base, f))).toContain("zebra");
@@ -137,7 +137,7 @@ describe("a variety's outputs are replaced together", () => {
     mkdirSync(join(out2, "lex"), { recursive: true });
     writeFileSync(join(out2, "lex", "general"), "a file in the way");
     expect((await build(other, opts(out2))).code).toBe(0);
-    expect(readdirSync(join(out2, "lex", "general")).length).toBe(5);
+    expect(readdirSync(join(out2, "lex", "general")).length).toBe(6);
   });
 });
 
@@ -190,7 +190,7 @@ describe("where a build writes", () => {
     lock(deadPid());
     expect((await build(dir, opts(out))).code).toBe(0);
     expect(existsSync(join(out, "lex", ".lock"))).toBe(false);
-    expect(readdirSync(join(out, "lex", "general")).length).toBe(5);
+    expect(readdirSync(join(out, "lex", "general")).length).toBe(6);
   });
 
   it("an output folder that is a file: one positioned line, exit 1, no stack trace", async () => {

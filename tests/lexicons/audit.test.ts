@@ -119,7 +119,7 @@ describe("the classes of disagreement", () => {
   test("name the phenomenon that differs", () => {
     expect(classify("ˈbɛ.ɾɚ", "ˈbɛ.ɾɚ")).toEqual([]);
     expect(classify("ˈbɛ.ɾɚ", "ˈbɛ.tɚ")).toEqual(["flapping"]);
-    expect(classify("ˈdɹaɪː.vɚ", "ˈdɹaɪ.vɚ")).toEqual(["length"]);
+    expect(classify("ˈdɹaːɪ.vɚ", "ˈdɹaɪ.vɚ")).toEqual(["length"]);
     expect(classify("ˈɡɹeɪʔ.li", "ˈɡɹeɪt.li")).toEqual(["glottal stop"]);
     expect(classify("ˈtʰɪɫ", "ˈtɪɫ")).toEqual(["aspiration"]);
     expect(classify("ˈhɑ.spɪ.ɾɫ̩", "ˈhɑˌspɪ.ɾɫ̩")).toEqual(["stress"]);

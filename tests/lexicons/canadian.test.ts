@@ -19,21 +19,21 @@ const ANAE = "Labov, Ash & Boberg 2006, Atlas of North American English, Canada 
 const RAISING: readonly Fact[] = [
   // writer vs rider: raising before the /t/ that later flaps (counterbleeding), none before /d/
   ["writer", "ˈɹʌɪ.ɾɚ", JOOS],
-  ["rider", "ˈɹaɪː.ɾɚ", JOOS],
+  ["rider", "ˈɹaːɪ.ɾɚ", JOOS],
   // type vs tide; knife vs knives; house (noun) vs housing; out, about vs loud
   ["type", "ˈtʰʌɪp", CHAMBERS],
-  ["tide", "ˈtʰaɪːd", CHAMBERS],
+  ["tide", "ˈtʰaːɪd", CHAMBERS],
   ["knife", "ˈnʌɪf", CHAMBERS],
-  ["knives", "ˈnaɪːvz", CHAMBERS],
+  ["knives", "ˈnaːɪvz", CHAMBERS],
   ["house", "ˈhʌʊs", CHAMBERS],
-  ["housing", "ˈhaʊː.zɪ̃ŋ", CHAMBERS],
+  ["housing", "ˈhaːʊ.zɪ̃ŋ", CHAMBERS],
   ["about", "əˈbʌʊt", CHAMBERS],
-  ["loud", "ˈlaʊːd", CHAMBERS],
+  ["loud", "ˈlaːʊd", CHAMBERS],
   ["ice", "ˈʌɪs", CHAMBERS],
-  ["eyes", "ˈaɪːz", CHAMBERS],
+  ["eyes", "ˈaːɪz", CHAMBERS],
   // the raised vowel survives flapping in a derived form too ("fighting" vs "hiding")
   ["fighting", "ˈfʌɪ.ɾɪ̃ŋ", CHAMBERS],
-  ["hiding", "ˈhaɪː.ɾɪ̃ŋ", CHAMBERS],
+  ["hiding", "ˈhaːɪ.ɾɪ̃ŋ", CHAMBERS],
   // not before a voiced consonant or at the end of the word
   ["high", "ˈhaɪ", CHAMBERS],
   ["how", "ˈhaʊ", CHAMBERS],

@@ -20,7 +20,7 @@ describe("careful speech", () => {
   test("no flap: t and d stay stops between vowels", () => {
     // Common practice, no source: careful (read) General American keeps t in "water", d in "rider"
     expect(narrow("water")).toBe("ˈwɔ.tɚ");
-    expect(narrow("rider")).toBe("ˈɹaɪː.dɚ");
+    expect(narrow("rider")).toBe("ˈɹaːɪ.dɚ");
     // and writer/rider stay distinct
     expect(narrow("writer")).not.toBe(narrow("rider"));
   });

@@ -70,7 +70,7 @@ describe("flapping", () => {
     expect(narrow("butter")).toBe("ˈbʌ.ɾɚ");
     expect(narrow("city")).toBe("ˈsɪ.ɾi");
     // same sources: /d/ flaps too ("rider"; its vowel keeps the length the /d/ gave it, below)
-    expect(narrow("rider")).toBe("ˈɹaɪː.ɾɚ");
+    expect(narrow("rider")).toBe("ˈɹaːɪ.ɾɚ");
   });
   test("after an r-coloured vowel or ɹ", () => {
     // Ladefoged & Johnson, ch. 3 (from memory): "party" pʰɑɹɾi
@@ -80,7 +80,7 @@ describe("flapping", () => {
     // Joos 1942; Chomsky 1964; Kiparsky 1968 (from memory): "writer" and "rider" both have a flap, and
     // differ in the length of the diphthong, which the /d/ conditioned before it became a flap
     expect(narrow("writer")).toBe("ˈɹaɪ.ɾɚ");
-    expect(narrow("rider")).toBe("ˈɹaɪː.ɾɚ");
+    expect(narrow("rider")).toBe("ˈɹaːɪ.ɾɚ");
     // same sources: the other classic pairs
     expect(narrow("latter")).toBe("ˈlæ.ɾɚ");
     expect(narrow("ladder")).toBe("ˈlæː.ɾɚ");
@@ -162,9 +162,9 @@ describe("glottal stop and syllabic n", () => {
     expect(variants("button")).toEqual(["ˈbʌ.tn̩", "ˈbʌ.ʔn̩"]);
   });
   test("after any sonorant", () => {
-    // same sources: "cotton", "mountain" maʊ̃nʔn̩, "Latin"
+    // same sources: "cotton", "mountain" mãʊnʔn̩, "Latin"
     expect(narrow("cotton")).toBe("ˈkʰɑ.ʔn̩");
-    expect(narrow("mountain")).toBe("ˈmaʊ̃n.ʔn̩");
+    expect(narrow("mountain")).toBe("ˈmãʊn.ʔn̩");
     expect(narrow("latin")).toBe("ˈlæ.ʔn̩");
   });
   test("syllabic n after d and s, where no glottal stop is possible", () => {
@@ -196,7 +196,7 @@ describe("pre-voiced lengthening", () => {
     expect(narrow("beat")).toBe("ˈbit");
     expect(narrow("bad")).toBe("ˈbæːd");
     expect(narrow("bat")).toBe("ˈbæt");
-    expect(narrow("rise")).toBe("ˈɹaɪːz");
+    expect(narrow("rise")).toBe("ˈɹaːɪz");
     expect(narrow("rice")).toBe("ˈɹaɪs");
   });
 });
@@ -206,7 +206,7 @@ describe("syllabification by the Maximal Onset Principle", () => {
     // Kahn 1976; Selkirk 1984 (from memory): "extra" ɛk.stɹə, "astronaut" æ.stɹə.nɑt, "constrain" kən.stɹeɪn
     expect(narrow("extra")).toBe("ˈɛk.stɹə");
     expect(narrow("astronaut")).toBe("ˈæ.stɹəˌnɑt");
-    expect(narrow("constrain")).toBe("kʰə̃nˈstɹeɪ̃n");
+    expect(narrow("constrain")).toBe("kʰə̃nˈstɹẽɪn");
   });
   test("tl is not an English onset; ŋ never starts a syllable", () => {
     // Giegerich 1992 ch. 6; Hammond 1999 (from memory): "atlas" æt.ləs, "singer" sɪŋ.ɚ (the t, in the
@@ -257,11 +257,11 @@ describe("phonetician's review fixes (each with its source)", () => {
     // "driver", "yoga"), after one sonorant consonant as in "change" ("organization", "changes",
     // "shoulder"), and before an obstruent + glide onset ("figure")
     expect(narrow("father")).toBe("ˈfɑː.ðɚ");
-    expect(narrow("driver")).toBe("ˈdɹaɪː.vɚ");
-    expect(narrow("yoga")).toBe("ˈjoʊː.ɡə");
+    expect(narrow("driver")).toBe("ˈdɹaːɪ.vɚ");
+    expect(narrow("yoga")).toBe("ˈjoːʊ.ɡə");
     expect(narrow("organization")).toMatch(/^ˌɔːɹ\.ɡə/);
-    expect(narrow("changes")).toBe("ˈtʃeɪ̃ːn.dʒəz");
-    expect(narrow("shoulder")).toBe("ˈʃoʊːɫ.dɚ");
+    expect(narrow("changes")).toBe("ˈtʃẽːɪn.dʒəz");
+    expect(narrow("shoulder")).toBe("ˈʃoːʊɫ.dɚ");
     expect(narrow("figure")).toBe("ˈfɪː.ɡjɚ");
     // not before a voiceless one, not before a stressed syllable
     expect(narrow("offer")).toBe("ˈɔ.fɚ");
@@ -271,7 +271,7 @@ describe("phonetician's review fixes (each with its source)", () => {
   test("t glottalised before a consonant that starts the next syllable (casual; optional, glottal stop preferred)", () => {
     // Ladefoged & Johnson ch. 3; Wells 1982 vol. 3 (from memory): "greatly", "atlas", "outside", "football"
     expect(variants("greatly")).toEqual(["ˈɡɹeɪt.li", "ˈɡɹeɪʔ.li"]);
-    expect(narrow("outside")).toBe("ˈaʊʔˈsaɪːd"); // the dictionary marks two primary stresses
+    expect(narrow("outside")).toBe("ˈaʊʔˈsaːɪd"); // the dictionary marks two primary stresses
     expect(narrow("football")).toBe("ˈfʊʔˌbɔɫ");
     // a t in the onset, or after an obstruent, stays ("mattress" tɹ, "after")
     expect(narrow("mattress")).toBe("ˈmæ.tɹəs");
@@ -293,7 +293,7 @@ describe("phonetician's review fixes (each with its source)", () => {
     expect(derive(general(), "ˈplæntɪn").preferred).toBe("ˈpʰl̥æ̃.ɾ̃ɪ̃n");
     expect(narrow("gentle")).toBe("ˈdʒɛ̃.ɾ̃ɫ̩");
     // but not before a syllabic n̩, where the /t/ is glottalised ("mountain"; Ladefoged & Johnson, ch. 3, from memory)
-    expect(narrow("mountain")).toBe("ˈmaʊ̃n.ʔn̩");
+    expect(narrow("mountain")).toBe("ˈmãʊn.ʔn̩");
     // not before a stressed vowel, where the t is aspirated ("entire"; Kahn 1976, from memory)
     expect(narrow("entire")).toBe("ɪ̃nˈtʰaɪ.ɚ");
   });

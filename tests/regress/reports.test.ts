@@ -163,9 +163,11 @@ describe("the HTML report in headless Chromium", () => {
     expect(await count("differ")).toBe(String(pair.counts.differ));
     expect(await count("mergers")).toBe("0");
     expect(await page.locator("table.rules[data-pair='general|careful'] tbody tr").count()).toBe(pair.rules.length);
+    expect(await page.locator("#differences tbody tr").count()).toBe(v.comparison!.pairs.reduce((n, p) => n + p.counts.differ, 0));
+    await page.selectOption("#filter-pair", "general|careful");
     expect(await page.locator("#differences tbody tr").count()).toBe(pair.counts.differ);
     // A click on a rule filters the entries to those it is responsible for.
-    await page.click("table.rules a.rule[data-rule=glottal-stop]");
+    await page.click("table.rules[data-pair='general|careful'] a.rule[data-rule=glottal-stop]");
     const shown = await page.locator("#differences tbody tr").evaluateAll((rows) => rows.map((r) => r.getAttribute("data-rules")));
     expect(shown.length).toBe(pair.differences.filter((d) => d.rules.includes("glottal-stop")).length);
     expect(shown.every((r) => (r ?? "").split(", ").includes("glottal-stop"))).toBe(true);

@@ -1,0 +1,134 @@
+// Reading a variety's written files back for the reconciliation (reconcile.ts), on bytes: a lexicon's
+// JSON Lines output is tens of megabytes, and decoding it to text only to find two fields per line
+// cost more than writing it. Lines end at LF (one CR before it dropped), as `eachLine` in
+// reconcile.ts reads them; the fields are found with the same rules as its regular expressions.
+
+import { createReadStream } from "node:fs";
+
+/** Calls `fn(buf, start, end)` for every line of a file (bytes `start` … `end` of `buf`, no line end). */
+export async function eachLineBytes(path: string, fn: (buf: Buffer, start: number, end: number) => void): Promise<void> {
+  let tail: Buffer = Buffer.alloc(0);
+  for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 })) {
+    const buf = tail.length === 0 ? (chunk as Buffer) : Buffer.concat([tail, chunk as Buffer]);
+    let start = 0;
+    for (let nl = buf.indexOf(10); nl >= 0; nl = buf.indexOf(10, start)) {
+      fn(buf, start, nl > start && buf[nl - 1] === 13 ? nl - 1 : nl);
+      start = nl + 1;
+    }
+    tail = buf.subarray(start);
+  }
+  if (tail.length > 0) fn(tail, 0, tail[tail.length - 1] === 13 ? tail.length - 1 : tail.length);
+}
+
+/** Index just past the JSON string that starts (after its opening quote) at `at`, or -1 when it does not close before `end`. */
+function stringEnd(buf: Buffer, at: number, end: number): number {
+  for (let i = at; i < end; i++) {
+    const c = buf[i]!;
+    if (c === 92 /* \ */) i++;
+    else if (c === 34 /* " */) return i + 1;
+  }
+  return -1;
+}
+
+/** Finds `pattern` within a line; `from` advances only, so scanning a file stays linear. */
+class Finder {
+  private next = -1;
+  private searched = -1;
+  constructor(private readonly pattern: Buffer) {}
+  find(buf: Buffer, from: number, end: number): number {
+    if (buf !== this.buf || from > this.next || this.searched > from) {
+      this.buf = buf;
+      this.searched = from;
+      this.next = buf.indexOf(this.pattern, from);
+      if (this.next < 0) this.next = Number.MAX_SAFE_INTEGER;
+    }
+    return this.next < end ? this.next : -1;
+  }
+  private buf: Buffer | undefined;
+}
+
+const SOURCE = Buffer.from('"source":{"file":"');
+const LINE = Buffer.from(',"line":');
+const WORD = Buffer.from('"word":"');
+
+/**
+ * JSON Lines read back: the line count, and each record's `source.line` (0 when absent),
+ * `source.file` ("" when absent) and `word` ("" when absent).
+ */
+export async function readBackJsonl(path: string): Promise<{ count: number; lines: number[]; files: string[]; words: string[] }> {
+  const lines: number[] = [];
+  const files: string[] = [];
+  const words: string[] = [];
+  const source = new Finder(SOURCE);
+  const word = new Finder(WORD);
+  // Every record of a run names one file or two: its JSON string is decoded once per change.
+  let lastRaw = "";
+  let lastFile = "";
+  await eachLineBytes(path, (buf, start, end) => {
+    const s = sourceOf(buf, start, end, source);
+    lines.push(s === undefined ? 0 : s.line);
+    if (s === undefined) files.push("");
+    else {
+      const raw = buf.toString("latin1", s.open, s.close);
+      if (raw !== lastRaw) (lastRaw = raw), (lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string);
+      files.push(lastFile);
+    }
+    words.push(wordOf(buf, start, end, word));
+  });
+  return { count: lines.length, lines, files, words };
+}
+
+/**
+ * `"source":{"file":"…","line":N}` — the first such match in the line, as
+ * /"source":\{"file":("(?:[^"\\]|\\.)*"),"line":(\d+)\}/: the line, and where the file's JSON string lies.
+ */
+function sourceOf(buf: Buffer, start: number, end: number, finder: Finder): { line: number; open: number; close: number } | undefined {
+  for (let at = finder.find(buf, start, end); at >= 0; at = finder.find(buf, at + 1, end)) {
+    const open = at + SOURCE.length - 1;
+    const close = stringEnd(buf, open + 1, end);
+    if (close < 0 || buf.compare(LINE, 0, LINE.length, close, close + LINE.length) !== 0) continue;
+    let i = close + LINE.length;
+    let n = 0;
+    const digits = i;
+    while (i < end && buf[i]! >= 48 && buf[i]! <= 57) n = n * 10 + (buf[i++]! - 48);
+    if (i > digits && i < end && buf[i] === 125 /* } */) return { line: n, open, close };
+  }
+  return undefined;
+}
+
+/** The first `"word":"…"` of the line, decoded, as /"word":("(?:[^"\\]|\\.)*")/ then JSON.parse. */
+function wordOf(buf: Buffer, start: number, end: number, finder: Finder): string {
+  for (let at = finder.find(buf, start, end); at >= 0; at = finder.find(buf, at + 1, end)) {
+    const open = at + WORD.length - 1;
+    const close = stringEnd(buf, open + 1, end);
+    if (close < 0) continue;
+    const raw = buf.toString("utf8", open, close);
+    return raw.indexOf("\\") < 0 ? raw.slice(1, -1) : (JSON.parse(raw) as string);
+  }
+  return "";
+}
+
+/** TSV read back: entry lines (header excluded) and the number of distinct values of its `word` column. */
+export async function readBackTsv(path: string): Promise<{ entries: number; words: number }> {
+  let wordAt = -1;
+  const words = new Set<string>();
+  let n = -1;
+  await eachLineBytes(path, (buf, start, end) => {
+    if (n === -1) wordAt = buf.toString("utf8", start, end).split("\t").indexOf("word");
+    else if (wordAt >= 0) {
+      let from = start;
+      for (let k = 0; k < wordAt && from >= 0; k++) {
+        const tab = buf.indexOf(9, from);
+        from = tab >= 0 && tab < end ? tab + 1 : -1;
+      }
+      if (from < 0) words.add("");
+      else {
+        const tab = buf.indexOf(9, from);
+        // Distinct byte strings are distinct latin1 strings: no UTF-8 decoding needed to count them.
+        words.add(buf.toString("latin1", from, tab >= 0 && tab < end ? tab : end));
+      }
+    }
+    n++;
+  });
+  return { entries: Math.max(0, n), words: words.size };
+}
