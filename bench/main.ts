@@ -6,12 +6,15 @@ import { benchFst } from "./fst.js";
 import { benchMainJob } from "./main-job.js";
 import { benchRegress } from "./regress.js";
 import { benchAnalyze } from "./analyze.js";
+import { benchScaling } from "./scaling.js";
+import { packageRootFrom } from "./cmu.js";
 
 const sections: readonly { readonly name: string; readonly run: () => Promise<boolean> | boolean | void | Promise<void> }[] = [
   { name: "fst", run: () => { benchFst(); } },
   { name: "main job", run: async () => (await benchMainJob()).ok },
   { name: "regress", run: async () => (await benchRegress()).ok },
   { name: "analyze", run: () => benchAnalyze() },
+  { name: "grammar-size scaling", run: async () => (await benchScaling(packageRootFrom(import.meta.url), (s = "") => void process.stdout.write(s + "\n"))).ok },
 ];
 
 let failed = false;

@@ -83,8 +83,9 @@ describe("compiled rules agree with the interpreter", () => {
         for (const w of words) {
           const exp = applyRuleDetailed(rd, ctx, w);
           const ids = dec.encode(w)!;
-          const got = applyAll(m!.variants, ids, 10_000).outputs;
-          expect(got.map((o) => wordKey(dec.decode(o))).sort(), `word ${wordKey(w)}`).toEqual(exp.outputs.map(wordKey).sort());
+          const all = applyAll(m!.variants, ids, 10_000);
+          // An optional insertion before each of 14 symbols has 2¹⁴ outputs: past the cap only the preferred one is compared.
+          if (!all.capped) expect(all.outputs.map((o) => wordKey(dec.decode(o))).sort(), `word ${wordKey(w)}`).toEqual(exp.outputs.map(wordKey).sort());
           const pref = m!.preferred === null ? [ids] : applyAll(m!.preferred, ids, 10).outputs;
           expect(pref.length, `preferred of ${wordKey(w)} is one output`).toBe(1);
           expect(wordKey(dec.decode(pref[0]!))).toBe(wordKey(exp.preferred));
