@@ -5,7 +5,7 @@ import { describe, it, expect, beforeAll } from "vitest";
 import { loadGrammar } from "../../src/grammar/index.js";
 import type { Grammar } from "../../src/grammar/ast.js";
 import type { Inventory } from "../../src/inventory/types.js";
-import { applyGrammar, prepareGrammar, wordKey, WORD_EDGE, SYLLABLE_EDGE, type Sym, type PreparedGrammar } from "../../src/interp/index.js";
+import { applyGrammar, prepareGrammar, wordKey, WORD_EDGE, SYLLABLE_EDGE, JOIN_EDGE, type Sym, type PreparedGrammar } from "../../src/interp/index.js";
 import { Deriver, explain } from "../../src/analyze/explain.js";
 import { explanationJson, explanationTable } from "../../src/analyze/explain-format.js";
 import { readRows } from "../../src/analyze/commands.js";
@@ -14,7 +14,7 @@ import { tokenise } from "../../src/inventory/index.js";
 import { applyStress } from "../../src/lexicon/read.js";
 
 export function decode(d: Deriver, ids: readonly number[]): Sym[] {
-  return ids.map((id) => (id === 1 ? WORD_EDGE : id === 2 ? SYLLABLE_EDGE : { kind: "segment", bundle: d.alphabet.segments[id - FIRST_SEGMENT]!.bundle }));
+  return ids.map((id) => (id === 1 ? WORD_EDGE : id === 2 ? SYLLABLE_EDGE : id === 3 ? JOIN_EDGE : { kind: "segment", bundle: d.alphabet.segments[id - FIRST_SEGMENT]!.bundle }));
 }
 
 /** The interpreter's preferred form after each step: one prepared prefix of the grammar per step. */

@@ -37,8 +37,12 @@ export interface CliRun {
 export async function cli(args: readonly string[]): Promise<CliRun> {
   let stdout = "";
   let stderr = "";
-  const out = vi.spyOn(process.stdout, "write").mockImplementation((c: string | Uint8Array) => ((stdout += String(c)), true));
-  const err = vi.spyOn(process.stderr, "write").mockImplementation((c: string | Uint8Array) => ((stderr += String(c)), true));
+  // Commands write text or UTF-8 byte chunks (emit/buffered.ts); bytes are decoded as a stream.
+  const outBytes = new TextDecoder();
+  const errBytes = new TextDecoder();
+  const text = (d: TextDecoder, c: string | Uint8Array): string => (typeof c === "string" ? c : d.decode(c, { stream: true }));
+  const out = vi.spyOn(process.stdout, "write").mockImplementation((c: string | Uint8Array) => ((stdout += text(outBytes, c)), true));
+  const err = vi.spyOn(process.stderr, "write").mockImplementation((c: string | Uint8Array) => ((stderr += text(errBytes, c)), true));
   const before = process.exitCode;
   process.exitCode = undefined;
   setCommandLine(args);

@@ -68,6 +68,6 @@ describe("en-us grammar × CMU Pronouncing Dictionary words (interpreter only)",
   it("flaps the t of 'butter' and syllabifies 'astronaut' and 'constrain' by maximal onsets", () => {
     expect(narrow("B AH1 T ER0")).toBe("ˈbʌ.ɾɚ");
     expect(narrow("AE1 S T R AH0 N AO2 T")).toBe("ˈæ.stɹəˌnɔt");
-    expect(narrow("K AH0 N S T R EY1 N").replace(/[\u0303ʰ]/gu, "")).toBe("kənˈstɹeɪn");
+    expect(narrow("K AH0 N S T R EY1 N").normalize("NFD").replace(/[\u0303ʰ]/gu, "")).toBe("kənˈstɹeɪn");
   });
 });

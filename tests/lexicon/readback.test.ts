@@ -50,8 +50,9 @@ describe("written files read back on bytes", () => {
   it("JSON Lines: the line count, each record's source line and word, as the regular expressions read them", async () => {
     let n = 0;
     await fc.assert(
-      // Free text lines too (no control characters: JSON.stringify never writes one raw).
-      fc.asyncProperty(fc.array(fc.tuple(fc.oneof(record, text.filter((t) => !/[\u0000-\u001f]/.test(t))), lineEnd), { maxLength: 12 }), fc.boolean(), async (rows, lastLf) => {
+      // Free text lines too (no control characters: JSON.stringify never writes one raw; no
+      // backslash: an escape JSON does not know is no line a writer makes, and neither reading parses it).
+      fc.asyncProperty(fc.array(fc.tuple(fc.oneof(record, text.filter((t) => !/[\u0000-\u001f\\]/.test(t))), lineEnd), { maxLength: 12 }), fc.boolean(), async (rows, lastLf) => {
         let body = rows.map(([r, e]) => r + e).join("");
         if (!lastLf && rows.length > 0) body = body.slice(0, -rows[rows.length - 1]![1].length);
         const p = join(dir, `r${n++}.jsonl`);

@@ -55,7 +55,7 @@ describe("varieties built together = each built alone", () => {
       await runLexicon(l.engine, l.inventory, csv, join(alone, l.v.name), l.v, { sourceRoot: dir });
       const a = folderBytes(join(together, l.v.name));
       const b = folderBytes(join(alone, l.v.name));
-      expect(Object.keys(a)).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "summary.json"]);
+      expect(Object.keys(a)).toEqual(["lexicon.jsonl", "lexicon.pls", "lexicon.tsv", "rejects.csv", "stress.csv", "summary.json"]);
       for (const f of Object.keys(b)) expect(a[f], `${l.v.name}/${f}`).toBe(b[f]);
     }
     // The varieties differ (else sharing would prove nothing): careful keeps the t that general flaps.
