@@ -7,7 +7,7 @@ import fc from "fast-check";
 import { tinyInventory as inv } from "../support/tiny-inventory.js";
 import { arbGrammar } from "../support/arb-grammar.js";
 import type { Grammar, Step } from "../../src/grammar/ast.js";
-import { applyGrammar, prepareGrammar, wordKey, WORD_EDGE, SYLLABLE_EDGE, type PreparedGrammar, type Sym } from "../../src/interp/index.js";
+import { applyGrammar, prepareGrammar, wordKey, WORD_EDGE, SYLLABLE_EDGE, JOIN_EDGE, type PreparedGrammar, type Sym } from "../../src/interp/index.js";
 import type { Bundle, FeatureValue } from "../../src/inventory/types.js";
 import { analyseInteractions, RELATIONS, type RelationKind } from "../../src/analyze/interactions.js";
 import { FIRST_SEGMENT, type Alphabet } from "../../src/compile/index.js";
@@ -63,7 +63,7 @@ class Oracle {
 }
 
 const decode = (a: Alphabet, ids: readonly number[]): Sym[] =>
-  ids.map((id) => (id === 1 ? WORD_EDGE : id === 2 ? SYLLABLE_EDGE : { kind: "segment", bundle: a.segments[id - FIRST_SEGMENT]!.bundle }));
+  ids.map((id) => (id === 1 ? WORD_EDGE : id === 2 ? SYLLABLE_EDGE : id === 3 ? JOIN_EDGE : { kind: "segment", bundle: a.segments[id - FIRST_SEGMENT]!.bundle }));
 
 function holds(o: Oracle, kind: RelationKind, a: number, b: number, x: Sym[]): boolean {
   switch (kind) {
