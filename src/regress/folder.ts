@@ -6,21 +6,15 @@ import { createReadStream, existsSync, readdirSync, readFileSync, statSync } fro
 import { join } from "node:path";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import type { JsonlEntry } from "../emit/jsonl.js";
 import { BUILD_FORMAT, BUILD_RECORD, type BuildRecord, type VarietyRecord } from "./record.js";
 
-/** One entry of a build's lexicon.jsonl, as a comparison reads it. */
-export interface BuildEntry {
-  readonly key: string;
-  readonly word: string;
-  readonly narrow: string;
-  readonly broad: string;
-  readonly variants: readonly string[];
-  readonly rules: readonly string[];
-  readonly id?: string;
-  readonly derivation: readonly { readonly step: string; readonly form: string }[];
-  readonly variantSteps: readonly (readonly string[])[];
-  readonly input?: { readonly pron: string; readonly pos?: string; readonly tags: readonly string[] };
-}
+/**
+ * One entry of a build's lexicon.jsonl, as a comparison reads it: the record the writer writes
+ * (emit/jsonl.ts), with the fields a build always writes required.
+ */
+export type BuildEntry = Required<Pick<JsonlEntry, "key" | "word" | "narrow" | "broad" | "variants" | "rules" | "derivation" | "variantSteps">> &
+  Pick<JsonlEntry, "id" | "input">;
 
 /** A problem with a build folder: carries the diagnostic; caught by the library's entry points. */
 export class BuildFolderError extends Error {
