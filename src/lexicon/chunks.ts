@@ -1,0 +1,240 @@
+// The lexicon through worker threads, a chunk of the file each. The main thread reads the file as
+// bytes and cuts it just after line feeds (a line feed always ends a record, records.ts), so every
+// chunk starts at a record boundary on a line it knows (it counts the line ends of the chunks
+// before). Each worker reads, transcribes and formats whole chunks (worker.ts); what needs the
+// whole file in order is resolved here, chunk by chunk in file order: the header (read from the
+// first chunk before any other goes out), duplicate ids and the entry keys (`word#2` counts the
+// earlier rows of the word: each chunk's words and ids come back first, and the worker is told the
+// counts before the chunk and which ids are taken before it formats anything). The chunks' results
+// are handed on strictly in file order. Only usable from compiled JavaScript (dist/): under a
+// TypeScript test runner the runner stays on one thread.
+
+import { Worker } from "node:worker_threads";
+import { fileURLToPath } from "node:url";
+import { existsSync } from "node:fs";
+import type { Readable } from "node:stream";
+import { namedProjectRoot } from "../grammar/index.js";
+import { diagnostic, type Diagnostic } from "../diagnostics.js";
+import { openFile, type HeaderColumns } from "./read.js";
+import { lineEnds } from "./read-chunk.js";
+import type { ChunkDone, ChunkWords, FromWorker, ToWorker, WorkerSetup } from "./worker.js";
+
+/** Bytes per chunk (cut at the last line feed after this many; the first chunk is smaller, to find the header soon). */
+const CHUNK_BYTES = 128 << 10;
+const FIRST_CHUNK_BYTES = 16 << 10;
+/** Chunks out at once per worker (bounds memory; enough to keep each worker busy between its messages). */
+const AHEAD = 3;
+
+interface Deferred<T> {
+  promise: Promise<T>;
+  resolve: (v: T) => void;
+  reject: (e: unknown) => void;
+}
+
+function deferred<T>(): Deferred<T> {
+  let resolve!: (v: T) => void;
+  let reject!: (e: unknown) => void;
+  const promise = new Promise<T>((res, rej) => {
+    resolve = res;
+    reject = rej;
+  });
+  promise.catch(() => undefined);
+  return { promise, resolve, reject };
+}
+
+interface Chunk {
+  readonly chunk: number;
+  readonly worker: number;
+  readonly words: Deferred<ChunkWords>;
+  readonly done: Deferred<ChunkDone>;
+}
+
+/** What a chunked read of the lexicon found besides its rows (as the streaming reader's `diagnostics` and `stats`). */
+export interface ChunkedRead {
+  readonly diagnostics: Diagnostic[];
+  /** Data records after the header (rows + rejects). */
+  dataLines: number;
+}
+
+export class ChunkPool {
+  private readonly workers: Worker[] = [];
+  private readonly out: number[] = [];
+  private readonly chunks = new Map<number, Chunk>();
+  private failure: Error | undefined;
+  private closing = false;
+
+  private constructor() {}
+
+  get size(): number {
+    return this.workers.length;
+  }
+
+  /** The compiled worker script beside this file, or undefined when running from TypeScript sources. */
+  static script(): string | undefined {
+    const here = fileURLToPath(import.meta.url);
+    if (!here.endsWith(".js")) return undefined;
+    const w = here.replace(/chunks\.js$/, "worker.js");
+    return existsSync(w) ? w : undefined;
+  }
+
+  /**
+   * Starts `n` workers loading the run's grammars; returns at once (chunks sent meanwhile wait in
+   * the workers' queues, so their start-up overlaps the main thread's).
+   */
+  static start(n: number, setup: WorkerSetup): ChunkPool {
+    const script = ChunkPool.script();
+    if (script === undefined) throw new Error("worker threads need the compiled dist/ build");
+    const pool = new ChunkPool();
+    const root = namedProjectRoot();
+    for (let k = 0; k < n; k++) {
+      const w = new Worker(script, { workerData: { ...setup, ...(root !== undefined ? { root } : {}) } satisfies WorkerSetup });
+      pool.workers.push(w);
+      pool.out.push(0);
+      w.on("message", (m: FromWorker) => pool.receive(k, m));
+      w.on("error", (e) => pool.fail(e));
+      w.on("exit", (code) => {
+        if (!pool.closing) pool.fail(new Error(`a worker thread stopped (exit code ${code}) before the run was over`));
+      });
+    }
+    return pool;
+  }
+
+  private receive(worker: number, m: FromWorker): void {
+    if (m.kind === "ready") return;
+    if (m.kind === "failed") return this.fail(new Error(m.message));
+    const c = this.chunks.get(m.chunk);
+    if (c === undefined) return;
+    if (m.kind === "read") c.words.resolve(m);
+    else {
+      this.out[worker]!--;
+      c.done.resolve(m);
+    }
+  }
+
+  private fail(e: Error): void {
+    this.failure ??= e;
+    for (const c of this.chunks.values()) {
+      c.words.reject(this.failure);
+      c.done.reject(this.failure);
+    }
+  }
+
+  /**
+   * Reads `source` through the workers; `take` is called with each chunk's results in file order
+   * (awaited before the next). Throws when a worker fails.
+   */
+  async run(source: string, take: (done: ChunkDone) => Promise<void> | void): Promise<ChunkedRead> {
+    const result: ChunkedRead = { diagnostics: [], dataLines: 0 };
+    const o = await openFile(source);
+    if ("why" in o) {
+      result.diagnostics.push(diagnostic("error", "lexicon/unreadable", `Cannot read the lexicon: ${o.why}.`, { file: source, line: 1, column: 1 }));
+      return result;
+    }
+    const stream = o.stream as Readable;
+    let header: HeaderColumns | undefined;
+    let headerFailed = false;
+    const ids = new Map<string, number>();
+    const words = new Map<string, number>();
+    const queue: Chunk[] = [];
+    let resolved = 0;
+    let line = 1;
+    let next = 0;
+
+    /** Resolves the chunks whose words have come back, in file order, and lets their workers go on. */
+    const resolveWords = async (upTo: number): Promise<void> => {
+      while (resolved < upTo) {
+        const c = this.chunks.get(resolved)!;
+        const w = await c.words.promise;
+        resolved++;
+        if (w.header !== undefined) header = w.header;
+        result.diagnostics.push(...w.diagnostics);
+        if (w.headerFailed) headerFailed = true;
+        const counts = [...w.counts];
+        const dups: [number, number][] = [];
+        w.ids.forEach((id, k) => {
+          const first = ids.get(id.id);
+          if (first === undefined) ids.set(id.id, id.line);
+          else {
+            dups.push([k, first]);
+            if (id.word >= 0) counts[id.word]!--;
+          }
+        });
+        const before: [string, number][] = [];
+        w.words.forEach((word, k) => {
+          const n = words.get(word);
+          if (n !== undefined && n > 0) before.push([word, n]);
+          words.set(word, (n ?? 0) + counts[k]!);
+        });
+        if (!headerFailed) this.post(c.worker, { kind: "run", chunk: c.chunk, dups, before });
+      }
+    };
+    /** Hands on the oldest chunk's results. */
+    const takeHead = async (): Promise<void> => {
+      const c = queue.shift()!;
+      await resolveWords(c.chunk + 1);
+      if (headerFailed) return;
+      const done = await c.done.promise;
+      this.chunks.delete(c.chunk);
+      result.dataLines += done.stats.dataLines;
+      await take(done);
+    };
+    const send = async (bytes: Uint8Array, last: boolean): Promise<void> => {
+      // Until the header is known, a chunk waits for the ones before it (one of them may hold it).
+      if (header === undefined) await resolveWords(next);
+      if (headerFailed) return;
+      if (this.failure !== undefined) throw this.failure;
+      let worker = 0;
+      for (let k = 1; k < this.out.length; k++) if (this.out[k]! < this.out[worker]!) worker = k;
+      const c: Chunk = { chunk: next, worker, words: deferred(), done: deferred() };
+      this.chunks.set(next, c);
+      queue.push(c);
+      this.out[worker]!++;
+      const ends = last ? 0 : lineEnds(bytes);
+      this.post(worker, { kind: "read", chunk: next, bytes, line, first: next === 0, ...(header !== undefined ? { header } : {}) }, [bytes.buffer as ArrayBuffer]);
+      next++;
+      line += ends;
+      while (queue.length >= AHEAD * this.workers.length) await takeHead();
+    };
+
+    let carry: Buffer | undefined;
+    /** An error of the run itself (a worker, a writer), not of reading the file. */
+    let sending = false;
+    try {
+      for await (const b of stream as AsyncIterable<Buffer>) {
+        carry = carry === undefined ? b : Buffer.concat([carry, b]);
+        const want = next === 0 ? FIRST_CHUNK_BYTES : CHUNK_BYTES;
+        if (carry.length < want) continue;
+        const cut = carry.lastIndexOf(10);
+        if (cut < 0) continue;
+        const piece = new Uint8Array(carry.subarray(0, cut + 1));
+        carry = cut + 1 < carry.length ? carry.subarray(cut + 1) : undefined;
+        sending = true;
+        await send(piece, false);
+        sending = false;
+        if (headerFailed) break;
+      }
+      sending = true;
+      if (carry !== undefined && !headerFailed) await send(new Uint8Array(carry), true);
+    } catch (e) {
+      if (sending) throw e;
+      result.diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${line - 1}: ${(e as Error).message}.`, { file: source, line: Math.max(1, line - 1), column: 1 }));
+      return result;
+    } finally {
+      stream.destroy();
+    }
+    while (queue.length > 0 && !headerFailed) await takeHead();
+    if (header === undefined && !headerFailed) {
+      result.diagnostics.push(diagnostic("error", "lexicon/no-header", "The lexicon has no header line (expected at least the columns word and pron).", { file: source, line: 1, column: 1 }));
+    }
+    return result;
+  }
+
+  private post(worker: number, m: ToWorker, transfer: ArrayBuffer[] = []): void {
+    this.workers[worker]!.postMessage(m, transfer);
+  }
+
+  async close(): Promise<void> {
+    this.closing = true;
+    await Promise.all(this.workers.map((w) => w.terminate()));
+  }
+}
