@@ -145,7 +145,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
         sourceRoot: dirname(manifest.file),
         ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
         inputRecords,
-        ...(threads > 0 ? { workers: { count: threads, engines: workerEngines } } : {}),
+        ...(threads > 0 ? { workers: { count: threads, engines: workerEngines, mainLane: process.env.PL_MAIN === "1" } } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
       group.forEach((r, i) => (r.summary = done[i]));

@@ -19,6 +19,9 @@ import {
 import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 import { StressHygiene, stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { ChunkPool } from "../lexicon/chunks.js";
+import { approxRows, transcribeChunked } from "./transcribe-chunked.js";
+import { workerCount, workersArg, WORKERS_HELP } from "./workers.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
 
@@ -46,6 +49,8 @@ export interface TranscribeOptions {
   plsPhonemes?: PlsPhonemes;
   /** Where to write the stress problems as CSV (lexicon/hygiene.ts); none when absent. */
   stressReport?: string;
+  /** Worker threads sharing the work (TSV and JSON Lines from a file): a number, or "auto" (default). */
+  workers?: string | number;
 }
 
 /** A BCP 47 tag for `--lang` (RFC 5646 well-formedness, as PLS xml:lang needs). */
@@ -93,6 +98,15 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     return EXIT.badInput;
   }
   const lang = chosen.lang;
+  // TSV and JSON Lines from a file can be spread over worker threads, a chunk of the file each
+  // (lexicon/chunks.ts); standard input and PLS (grouped as rows stream) stay on this thread.
+  const threads = !fromStdin && format !== "pls" && o.engine !== "interpreter" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(file)) : 0;
+  if (threads > 0 && format !== "pls") {
+    return transcribeChunked(file!, threads, {
+      grammar: resolved.path, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
+      blame: format !== "tsv", syllables: o.syllableBreaks ?? true, ...(o.tieBars === true ? { ties: true } : {}),
+    }, format, loaded.grammar.steps.some((s) => s.kind === "stress"), o, process.env.PL_MAIN === "1" ? { engine: loaded.engine, inventory: loaded.inventory } : undefined);
+  }
   const sourceName = fromStdin ? "<stdin>" : file;
   const reader = readLexicon(fromStdin ? (o.input ?? process.stdin) : file, { inventory: loaded.inventory, file: sourceName });
 
@@ -198,7 +212,8 @@ export function registerTranscribe(program: Command): void {
     .option("--strict", "exit 4 when an entry has a stress problem (the checks of strata lint); the output is still written")
     .option("--stress-report <file>", "write the stress problems as CSV, one line each (file, line, column, key, word, severity, code, message)")
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
-    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)");
+    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
+    .option("--workers <n>", WORKERS_HELP + "; TSV and JSON Lines from a file only", workersArg, "auto");
   outOption(cmd, "file");
   cacheOptions(cmd);
   commonOptions(cmd);

@@ -18,6 +18,7 @@ import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { openFile, type HeaderColumns } from "./read.js";
 import { lineEnds } from "./read-chunk.js";
 import type { ChunkDone, ChunkWords, FromWorker, ToWorker, WorkerSetup } from "./worker.js";
+import type { ChunkLane } from "./chunk-lane.js";
 
 /** Bytes per chunk (cut at the last line feed after this many; the first chunk is smaller, to find the header soon). */
 const CHUNK_BYTES = 128 << 10;
@@ -45,7 +46,10 @@ function deferred<T>(): Deferred<T> {
 interface Chunk {
   readonly chunk: number;
   readonly worker: number;
-  readonly words: Deferred<ChunkWords>;
+  /** The chunk's words and ids, once its lane has read it. */
+  words?: ChunkWords;
+  /** Settled once the chunk's keys and ids are resolved (and its lane told to go on). */
+  readonly resolved: Deferred<void>;
   readonly done: Deferred<ChunkDone>;
 }
 
@@ -56,17 +60,26 @@ export interface ChunkedRead {
   dataLines: number;
 }
 
+/** Where a chunk's messages go: a worker thread, or the main thread's own lane. */
+interface Lane {
+  post(m: ToWorker, transfer: ArrayBuffer[]): void;
+}
+
 export class ChunkPool {
+  private readonly lanes: Lane[] = [];
   private readonly workers: Worker[] = [];
   private readonly out: number[] = [];
   private readonly chunks = new Map<number, Chunk>();
   private failure: Error | undefined;
   private closing = false;
+  /** Resolves the chunks read so far, in file order (set by `run`). */
+  private pump: (() => void) | undefined;
 
   private constructor() {}
 
+  /** Lanes the chunks are spread over (worker threads, and the main thread when it takes part). */
   get size(): number {
-    return this.workers.length;
+    return this.lanes.length;
   }
 
   /** The compiled worker script beside this file, or undefined when running from TypeScript sources. */
@@ -79,18 +92,20 @@ export class ChunkPool {
 
   /**
    * Starts `n` workers loading the run's grammars; returns at once (chunks sent meanwhile wait in
-   * the workers' queues, so their start-up overlaps the main thread's).
+   * the workers' queues, so their start-up overlaps the main thread's work). `main`: the main
+   * thread takes chunks too, on this lane (between its other work: reading, resolving, writing).
    */
-  static start(n: number, setup: WorkerSetup): ChunkPool {
+  static start(n: number, setup: WorkerSetup, main?: ChunkLane): ChunkPool {
     const script = ChunkPool.script();
     if (script === undefined) throw new Error("worker threads need the compiled dist/ build");
     const pool = new ChunkPool();
+    if (main !== undefined) pool.addLane(localLane(main, (m) => pool.receive(0, m), (e) => pool.fail(e)));
     const root = namedProjectRoot();
     for (let k = 0; k < n; k++) {
       const w = new Worker(script, { workerData: { ...setup, ...(root !== undefined ? { root } : {}) } satisfies WorkerSetup });
+      const lane = pool.addLane({ post: (m, transfer) => w.postMessage(m, transfer) });
       pool.workers.push(w);
-      pool.out.push(0);
-      w.on("message", (m: FromWorker) => pool.receive(k, m));
+      w.on("message", (m: FromWorker) => pool.receive(lane, m));
       w.on("error", (e) => pool.fail(e));
       w.on("exit", (code) => {
         if (!pool.closing) pool.fail(new Error(`a worker thread stopped (exit code ${code}) before the run was over`));
@@ -99,22 +114,34 @@ export class ChunkPool {
     return pool;
   }
 
-  private receive(worker: number, m: FromWorker): void {
+  private addLane(l: Lane): number {
+    this.lanes.push(l);
+    this.out.push(0);
+    return this.lanes.length - 1;
+  }
+
+  private receive(lane: number, m: FromWorker): void {
     if (m.kind === "ready") return;
     if (m.kind === "failed") return this.fail(new Error(m.message));
     const c = this.chunks.get(m.chunk);
     if (c === undefined) return;
-    if (m.kind === "read") c.words.resolve(m);
-    else {
-      this.out[worker]!--;
+    if (m.kind === "read") {
+      c.words = m;
+      try {
+        this.pump?.();
+      } catch (e) {
+        this.fail(e);
+      }
+    } else {
+      this.out[lane]!--;
       c.done.resolve(m);
     }
   }
 
-  private fail(e: Error): void {
-    this.failure ??= e;
+  private fail(e: unknown): void {
+    this.failure ??= e instanceof Error ? e : new Error(String(e));
     for (const c of this.chunks.values()) {
-      c.words.reject(this.failure);
+      c.resolved.reject(this.failure);
       c.done.reject(this.failure);
     }
   }
@@ -137,19 +164,21 @@ export class ChunkPool {
     const words = new Map<string, number>();
     const queue: Chunk[] = [];
     let resolved = 0;
+    this.chunks.clear();
     let line = 1;
     let next = 0;
 
-    /** Resolves the chunks whose words have come back, in file order, and lets their workers go on. */
-    const resolveWords = async (upTo: number): Promise<void> => {
-      while (resolved < upTo) {
-        const c = this.chunks.get(resolved)!;
-        const w = await c.words.promise;
+    /** Resolves the chunks whose words have come back, in file order, and lets their lanes go on. */
+    this.pump = (): void => {
+      for (;;) {
+        const c = this.chunks.get(resolved);
+        const w = c?.words;
+        if (c === undefined || w === undefined || headerFailed) return;
         resolved++;
         if (w.header !== undefined) header = w.header;
         result.diagnostics.push(...w.diagnostics);
         if (w.headerFailed) headerFailed = true;
-        const counts = [...w.counts];
+        const counts = w.counts;
         const dups: [number, number][] = [];
         w.ids.forEach((id, k) => {
           const first = ids.get(id.id);
@@ -160,18 +189,22 @@ export class ChunkPool {
           }
         });
         const before: [string, number][] = [];
-        w.words.forEach((word, k) => {
-          const n = words.get(word);
-          if (n !== undefined && n > 0) before.push([word, n]);
-          words.set(word, (n ?? 0) + counts[k]!);
-        });
+        if (w.words !== "") {
+          let k = 0;
+          for (const word of w.words.split("\n")) {
+            const n = words.get(word);
+            if (n !== undefined && n > 0) before.push([word, n]);
+            words.set(word, (n ?? 0) + counts[k++]!);
+          }
+        }
         if (!headerFailed) this.post(c.worker, { kind: "run", chunk: c.chunk, dups, before });
+        c.resolved.resolve();
       }
     };
     /** Hands on the oldest chunk's results. */
     const takeHead = async (): Promise<void> => {
       const c = queue.shift()!;
-      await resolveWords(c.chunk + 1);
+      await c.resolved.promise;
       if (headerFailed) return;
       const done = await c.done.promise;
       this.chunks.delete(c.chunk);
@@ -180,12 +213,12 @@ export class ChunkPool {
     };
     const send = async (bytes: Uint8Array, last: boolean): Promise<void> => {
       // Until the header is known, a chunk waits for the ones before it (one of them may hold it).
-      if (header === undefined) await resolveWords(next);
+      if (header === undefined && next > 0) await this.chunks.get(next - 1)!.resolved.promise;
       if (headerFailed) return;
       if (this.failure !== undefined) throw this.failure;
       let worker = 0;
       for (let k = 1; k < this.out.length; k++) if (this.out[k]! < this.out[worker]!) worker = k;
-      const c: Chunk = { chunk: next, worker, words: deferred(), done: deferred() };
+      const c: Chunk = { chunk: next, worker, resolved: deferred(), done: deferred() };
       this.chunks.set(next, c);
       queue.push(c);
       this.out[worker]!++;
@@ -193,7 +226,7 @@ export class ChunkPool {
       this.post(worker, { kind: "read", chunk: next, bytes, line, first: next === 0, ...(header !== undefined ? { header } : {}) }, [bytes.buffer as ArrayBuffer]);
       next++;
       line += ends;
-      while (queue.length >= AHEAD * this.workers.length) await takeHead();
+      while (queue.length >= AHEAD * this.lanes.length) await takeHead();
     };
 
     let carry: Buffer | undefined;
@@ -229,12 +262,41 @@ export class ChunkPool {
     return result;
   }
 
-  private post(worker: number, m: ToWorker, transfer: ArrayBuffer[] = []): void {
-    this.workers[worker]!.postMessage(m, transfer);
+  private post(lane: number, m: ToWorker, transfer: ArrayBuffer[] = []): void {
+    this.lanes[lane]!.post(m, transfer);
   }
 
   async close(): Promise<void> {
     this.closing = true;
     await Promise.all(this.workers.map((w) => w.terminate()));
   }
+}
+
+/** The main thread's lane: messages handled one per turn of the event loop, in order. */
+function localLane(lane: ChunkLane, reply: (m: FromWorker) => void, fail: (e: unknown) => void): Lane {
+  const queue: ToWorker[] = [];
+  let scheduled = false;
+  const turn = (): void => {
+    scheduled = false;
+    const m = queue.shift();
+    if (m === undefined) return;
+    // The next turn first: a reply may post to this lane again.
+    if (queue.length > 0) schedule();
+    try {
+      reply(lane.handle(m)[0]);
+    } catch (e) {
+      fail(e);
+    }
+  };
+  const schedule = (): void => {
+    if (scheduled) return;
+    scheduled = true;
+    setImmediate(turn);
+  };
+  return {
+    post(m) {
+      queue.push(m);
+      schedule();
+    },
+  };
 }

@@ -17,6 +17,7 @@ import { MachineEngine } from "./engine-machine.js";
 import type { WalkShare } from "./walk-share.js";
 import { BatchWork } from "./batch-work.js";
 import { ChunkPool } from "./chunks.js";
+import { ChunkLane } from "./chunk-lane.js";
 import type { WorkerSide } from "./worker.js";
 import type { StressSummary } from "./hygiene.js";
 import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
@@ -40,7 +41,7 @@ export interface RunOptions {
    * thread; chunks.ts), with each run's engine as a worker loads it (parallel to the runs). The run
    * stays on this thread without compiled workers (dist/), or when a variety has overrides.
    */
-  readonly workers?: { readonly count: number; readonly engines: readonly WorkerEngine[] };
+  readonly workers?: { readonly count: number; readonly engines: readonly WorkerEngine[]; readonly mainLane?: boolean };
   /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
   readonly sourceRoot?: string;
   /**
@@ -170,10 +171,11 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   const engines = live.map((o) => w?.engines[opened.indexOf(o)]);
   try {
     if (w !== undefined && w.count > 0 && ChunkPool.script() !== undefined && live.length > 0 && live.every((o, i) => o.run.overrides === undefined && engines[i] !== undefined)) {
+      const assigns = live.map((o) => o.run.assignsStress ?? o.run.engine.steps.includes("stress"));
       const pool = ChunkPool.start(w.count, {
         file: lexiconPath, sourceRoot: root, ...(opts.plsPhonemes !== undefined ? { plsPhonemes: opts.plsPhonemes } : {}),
-        sides: live.map((o, i) => ({ ...engines[i]!, formats: [...formats], assignsStress: o.run.assignsStress ?? o.run.engine.steps.includes("stress") })),
-      });
+        sides: live.map((o, i) => ({ ...engines[i]!, formats: [...formats], assignsStress: assigns[i]! })),
+      }, w.mainLane === true ? new ChunkLane(live.map((o) => o.side), assigns, inventory, lexiconPath, root) : undefined);
       try {
         const read = await pool.run(lexiconPath, async (done) => {
           progress(done.stats.rows + done.stats.rejects);
