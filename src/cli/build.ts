@@ -12,7 +12,7 @@ import { countInputRecords } from "../lexicon/reconcile.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
 import { ChunkPool } from "../lexicon/chunks.js";
-import { workerCount, workersArg, WORKERS_HELP } from "./workers.js";
+import { approxRows, workerCount, workersArg, WORKERS_FROM_ROWS, WORKERS_HELP } from "./workers.js";
 import { differingSamples, narrowTable } from "../lexicon/samples.js";
 import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from "../regress/record.js";
 import { checkBuildPins, readPins } from "../regress/pinned.js";
@@ -100,9 +100,11 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   // The lexicon's records, counted once for every variety (the reconciliation checks each
   // variety's outputs against them; a file that cannot be read is reported by the reader).
   const inputRecords = countInputRecords(manifest.lexicon);
-  const lines = await inputRecords.then((r) => r.count + 1, () => 0);
-  const total = tty ? lines : 0;
-  const threads = engine === "machine" && ChunkPool.script() !== undefined ? workerCount(o.workers, lines) : 0;
+  // A file that cannot be read is reported by the reader; the count is then not waited for.
+  inputRecords.catch(() => undefined);
+  // The progress bar's total waits for the count; otherwise the count runs beside the build.
+  const total = tty ? await inputRecords.then((r) => r.count + 1, () => 0) : 0;
+  const threads = engine === "machine" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(manifest.lexicon), WORKERS_FROM_ROWS.build) : 0;
   held.workers = threads;
   let failed = false;
   let internal = false;
@@ -145,7 +147,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
         sourceRoot: dirname(manifest.file),
         ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
         inputRecords,
-        ...(threads > 0 ? { workers: { count: threads, engines: workerEngines, mainLane: process.env.PL_MAIN === "1" } } : {}),
+        ...(threads > 0 ? { workers: { count: threads, engines: workerEngines } } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
       group.forEach((r, i) => (r.summary = done[i]));

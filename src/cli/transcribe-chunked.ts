@@ -3,7 +3,6 @@
 // rejects on standard error, stress checks put together in file order. The same lines, rejects and
 // counts as the run on the main thread (transcribe.ts), which the tests compare it with.
 
-import { stat } from "node:fs/promises";
 import { formatDiagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { tsvHeader } from "../emit/tsv.js";
@@ -18,18 +17,8 @@ import type { Inventory } from "../inventory/types.js";
 import { EXIT, plural, printDiagnostics } from "./common.js";
 import type { TranscribeOptions } from "./transcribe.js";
 
-/** About how many rows a lexicon file holds (from its size: CMU-like rows are about 27 bytes), for `--workers auto`. */
-export async function approxRows(file: string | undefined): Promise<number> {
-  if (file === undefined) return 0;
-  try {
-    return Math.floor((await stat(file)).size / 27);
-  } catch {
-    return 0;
-  }
-}
-
-/** `main`: this thread's engine, when it takes chunks too. */
-export async function transcribeChunked(file: string, threads: number, engine: WorkerEngine, format: "tsv" | "jsonl", assignsStress: boolean, o: TranscribeOptions, main?: { engine: Engine; inventory: Inventory }): Promise<number> {
+/** `threads` workers beside this thread, which takes chunks too with `main`, its engine. */
+export async function transcribeChunked(file: string, threads: number, engine: WorkerEngine, format: "tsv" | "jsonl", assignsStress: boolean, o: TranscribeOptions, main: { engine: Engine; inventory: Inventory }): Promise<number> {
   const toStdout = o.out === undefined || o.out === "-";
   const chunks: Uint8Array[] = [];
   /** Writes to standard output, waiting when its buffer is full. */
@@ -42,7 +31,7 @@ export async function transcribeChunked(file: string, threads: number, engine: W
   };
   const needs = format === "tsv" ? { needs: NARROW_ONLY } : {};
   const pool = ChunkPool.start(threads, { file, sides: [{ ...engine, formats: [format], assignsStress, ...needs }] },
-    main !== undefined ? new ChunkLane([{ engine: main.engine, formats: new Set([format]), ...needs }], [assignsStress], main.inventory, file, undefined) : undefined);
+    new ChunkLane([{ engine: main.engine, formats: new Set([format]), ...needs }], [assignsStress], main.inventory, file, undefined));
   const stress = new StressTally();
   let rejects = 0;
   let entries = 0;

@@ -20,8 +20,8 @@ import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 import { StressHygiene, stressLine, stressTotal } from "../lexicon/hygiene.js";
 import { ChunkPool } from "../lexicon/chunks.js";
-import { approxRows, transcribeChunked } from "./transcribe-chunked.js";
-import { workerCount, workersArg, WORKERS_HELP } from "./workers.js";
+import { transcribeChunked } from "./transcribe-chunked.js";
+import { approxRows, workerCount, workersArg, WORKERS_FROM_ROWS, WORKERS_HELP } from "./workers.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
 
@@ -100,12 +100,12 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   const lang = chosen.lang;
   // TSV and JSON Lines from a file can be spread over worker threads, a chunk of the file each
   // (lexicon/chunks.ts); standard input and PLS (grouped as rows stream) stay on this thread.
-  const threads = !fromStdin && format !== "pls" && o.engine !== "interpreter" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(file)) : 0;
+  const threads = !fromStdin && format !== "pls" && o.engine !== "interpreter" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(file), format === "tsv" ? WORKERS_FROM_ROWS.transcribeTsv : WORKERS_FROM_ROWS.build) : 0;
   if (threads > 0 && format !== "pls") {
     return transcribeChunked(file!, threads, {
       grammar: resolved.path, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
       blame: format !== "tsv", syllables: o.syllableBreaks ?? true, ...(o.tieBars === true ? { ties: true } : {}),
-    }, format, loaded.grammar.steps.some((s) => s.kind === "stress"), o, process.env.PL_MAIN === "1" ? { engine: loaded.engine, inventory: loaded.inventory } : undefined);
+    }, format, loaded.grammar.steps.some((s) => s.kind === "stress"), o, { engine: loaded.engine, inventory: loaded.inventory });
   }
   const sourceName = fromStdin ? "<stdin>" : file;
   const reader = readLexicon(fromStdin ? (o.input ?? process.stdin) : file, { inventory: loaded.inventory, file: sourceName });

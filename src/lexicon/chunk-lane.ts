@@ -7,7 +7,7 @@
 
 import { ByteChunks } from "../emit/bytes.js";
 import type { Inventory } from "../inventory/types.js";
-import { BatchWork, SideState, type Side } from "./batch-work.js";
+import { BatchWork, SideState, type Lexeme, type Side } from "./batch-work.js";
 import { EntryKeys } from "./keys.js";
 import { duplicateId, readChunk, type ChunkRead } from "./read-chunk.js";
 import type { LexiconItem } from "./read.js";
@@ -75,9 +75,11 @@ export class ChunkLane {
       state.tsv?.flush();
       state.jsonl?.flush();
       for (const b of [...tsv, ...jsonl]) transfer.push(b.buffer as ArrayBuffer);
+      const lexemes = packLexemes(state.lexemes, this.file);
+      transfer.push(lexemes.lines.buffer as ArrayBuffer);
       const [, ...stressLines] = state.hygiene.report();
       return {
-        tsv, jsonl, rejects: state.rejects, lexemes: [...state.lexemes], counts: state.counts, changed: [...state.changed],
+        tsv, jsonl, rejects: state.rejects, lexemes, counts: state.counts, changed: [...state.changed],
         stress: state.hygiene.summary(), stressLines,
       };
     });
@@ -105,4 +107,32 @@ function chunkWords(chunk: number, c: ChunkRead): ChunkWords {
     kind: "read", chunk, words: words.join("\n"), counts: Int32Array.from(counts), ids: c.ids.map((id) => ({ id: id.id, line: id.line, column: id.column, word: wordOf(c.items[id.at]!) })),
     ...(c.header !== undefined ? { header: c.header } : {}), headerFailed: c.headerFailed, diagnostics: c.diagnostics,
   };
+}
+
+/** A chunk's lexemes in a few strings (one structured clone each, not one per lexeme). */
+function packLexemes(lexemes: ReadonlyMap<string, Lexeme>, file: string): SideChunk["lexemes"] {
+  const words: string[] = [];
+  const phonemes: string[] = [];
+  const lines = new Int32Array(lexemes.size);
+  let k = 0;
+  for (const [word, lx] of lexemes) {
+    words.push(word);
+    phonemes.push(lx.phonemes.join("\0"));
+    lines[k++] = lx.source.line;
+  }
+  return { words: words.join("\n"), phonemes: phonemes.join("\n"), lines, file };
+}
+
+/** Adds a chunk's packed lexemes to the run's, in file order (as the rows would have been added one by one). */
+export function unpackLexemes(into: Map<string, Lexeme>, p: SideChunk["lexemes"]): void {
+  if (p.lines.length === 0) return;
+  const words = p.words.split("\n");
+  const phonemes = p.phonemes.split("\n");
+  for (let k = 0; k < words.length; k++) {
+    const word = words[k]!;
+    const mine = phonemes[k]!.split("\0");
+    const had = into.get(word);
+    if (had === undefined) into.set(word, { phonemes: mine, source: { file: p.file, line: p.lines[k]!, column: 1 } });
+    else for (const x of mine) if (!had.phonemes.includes(x)) had.phonemes.push(x);
+  }
 }

@@ -92,14 +92,15 @@ export class ChunkPool {
 
   /**
    * Starts `n` workers loading the run's grammars; returns at once (chunks sent meanwhile wait in
-   * the workers' queues, so their start-up overlaps the main thread's work). `main`: the main
-   * thread takes chunks too, on this lane (between its other work: reading, resolving, writing).
+   * the workers' queues, so their start-up overlaps the main thread's work). The main thread takes
+   * chunks too, on the lane `main` (between its other work: reading, resolving, writing), so the
+   * first chunks are under way before any worker has started.
    */
-  static start(n: number, setup: WorkerSetup, main?: ChunkLane): ChunkPool {
+  static start(n: number, setup: WorkerSetup, main: ChunkLane): ChunkPool {
     const script = ChunkPool.script();
     if (script === undefined) throw new Error("worker threads need the compiled dist/ build");
     const pool = new ChunkPool();
-    if (main !== undefined) pool.addLane(localLane(main, (m) => pool.receive(0, m), (e) => pool.fail(e)));
+    pool.addLane(localLane(main, (m) => pool.receive(0, m), (e) => pool.fail(e)));
     const root = namedProjectRoot();
     for (let k = 0; k < n; k++) {
       const w = new Worker(script, { workerData: { ...setup, ...(root !== undefined ? { root } : {}) } satisfies WorkerSetup });

@@ -37,11 +37,12 @@ export interface RunOptions {
   readonly onProgress?: (rowsRead: number) => void;
   readonly progressEvery?: number;
   /**
-   * Worker threads to spread the whole work over, a chunk of the file each (output identical to one
-   * thread; chunks.ts), with each run's engine as a worker loads it (parallel to the runs). The run
-   * stays on this thread without compiled workers (dist/), or when a variety has overrides.
+   * Worker threads to spread the whole work over, a chunk of the file each, beside this thread, which
+   * takes chunks too (output identical to one thread; chunks.ts), with each run's engine as a
+   * worker loads it (parallel to the runs). The run stays on this thread without compiled workers
+   * (dist/), or when a variety has overrides.
    */
-  readonly workers?: { readonly count: number; readonly engines: readonly WorkerEngine[]; readonly mainLane?: boolean };
+  readonly workers?: { readonly count: number; readonly engines: readonly WorkerEngine[] };
   /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
   readonly sourceRoot?: string;
   /**
@@ -175,7 +176,7 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
       const pool = ChunkPool.start(w.count, {
         file: lexiconPath, sourceRoot: root, ...(opts.plsPhonemes !== undefined ? { plsPhonemes: opts.plsPhonemes } : {}),
         sides: live.map((o, i) => ({ ...engines[i]!, formats: [...formats], assignsStress: assigns[i]! })),
-      }, w.mainLane === true ? new ChunkLane(live.map((o) => o.side), assigns, inventory, lexiconPath, root) : undefined);
+      }, new ChunkLane(live.map((o) => o.side), assigns, inventory, lexiconPath, root));
       try {
         const read = await pool.run(lexiconPath, async (done) => {
           progress(done.stats.rows + done.stats.rejects);

@@ -24,6 +24,7 @@ import { reconcileStressReport } from "./reconcile-stress.js";
 import type { PlsPhonemes } from "./ipa-options.js";
 import { emit, SideState, StressTally, type Side } from "./batch-work.js";
 import type { SideChunk } from "./worker.js";
+import { unpackLexemes } from "./chunk-lane.js";
 
 /** One variety of a run. */
 export interface VarietyRun {
@@ -117,11 +118,7 @@ export class VarietyOutput {
     for (const b of c.tsv) this.tsv!.push(b);
     for (const b of c.jsonl) this.jsonl!.push(b);
     for (const r of c.rejects) st.rejects.push(r);
-    for (const [word, lx] of c.lexemes) {
-      const had = st.lexemes.get(word);
-      if (had === undefined) st.lexemes.set(word, lx);
-      else for (const p of lx.phonemes) if (!had.phonemes.includes(p)) had.phonemes.push(p);
-    }
+    unpackLexemes(st.lexemes, c.lexemes);
     const n = st.counts;
     n.entries += c.counts.entries;
     n.withVariants += c.counts.withVariants;

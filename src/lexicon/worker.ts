@@ -69,7 +69,12 @@ export interface SideChunk {
   readonly tsv: Uint8Array[];
   readonly jsonl: Uint8Array[];
   readonly rejects: SideState["rejects"];
-  readonly lexemes: [string, { phonemes: string[]; source: { file: string; line: number; column: number } }][];
+  /**
+   * The chunk's PLS lexemes (words in first-row order): the words one per line, their phonemes
+   * (one line per word, the phonemes apart by NUL, which no field holds) and their first rows'
+   * lines; every row of a chunk is from `file`.
+   */
+  readonly lexemes: { readonly words: string; readonly phonemes: string; readonly lines: Int32Array; readonly file: string };
   readonly counts: SideState["counts"];
   readonly changed: [string, number][];
   readonly stress: StressSummary;
