@@ -23,8 +23,10 @@ import type { ChunkLane } from "./chunk-lane.js";
 /** Bytes per chunk (cut at the last line feed after this many; the first chunk is smaller, to find the header soon). */
 const CHUNK_BYTES = 128 << 10;
 const FIRST_CHUNK_BYTES = 16 << 10;
-/** Chunks out at once per worker (bounds memory; enough to keep each worker busy between its messages). */
+/** Chunks out at once per lane (bounds memory; enough to keep each worker busy between its messages). */
 const AHEAD = 3;
+/** Chunks a worker has out before the main thread's lane takes one. */
+const WORKER_QUEUE = 2;
 
 interface Deferred<T> {
   promise: Promise<T>;
@@ -113,6 +115,18 @@ export class ChunkPool {
       });
     }
     return pool;
+  }
+
+  /**
+   * The lane for the next chunk: the worker with the fewest chunks out while it has fewer than
+   * WORKER_QUEUE; once every worker has that many, the main thread's lane when it has none (it has
+   * the reading, resolving and writing to do besides, and its turns hold up the messages).
+   */
+  private pick(): number {
+    let best = -1;
+    for (let k = 1; k < this.out.length; k++) if (best < 0 || this.out[k]! < this.out[best]!) best = k;
+    if (best < 0) return 0;
+    return this.out[best]! >= WORKER_QUEUE && this.out[0] === 0 ? 0 : best;
   }
 
   private addLane(l: Lane): number {
@@ -217,8 +231,8 @@ export class ChunkPool {
       if (header === undefined && next > 0) await this.chunks.get(next - 1)!.resolved.promise;
       if (headerFailed) return;
       if (this.failure !== undefined) throw this.failure;
-      let worker = 0;
-      for (let k = 1; k < this.out.length; k++) if (this.out[k]! < this.out[worker]!) worker = k;
+      // The header's chunk on this thread: no waiting for a worker to start.
+      const worker = header === undefined ? 0 : this.pick();
       const c: Chunk = { chunk: next, worker, resolved: deferred(), done: deferred() };
       this.chunks.set(next, c);
       queue.push(c);

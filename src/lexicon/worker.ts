@@ -123,7 +123,10 @@ if (loaded.some((l) => l === undefined)) {
   }));
   const lane = new ChunkLane(sides, setup.sides.map((s) => s.assignsStress), engines[0]!.inventory, setup.file, setup.sourceRoot);
   port.postMessage({ kind: "ready" } satisfies FromWorker);
+  // Fault injection for the tests (tests/lexicon/chunked-workers.test.ts): the worker dies at its first chunk to run.
+  const dieAt = process.env["STRATA_TEST_WORKER_EXIT"] !== undefined;
   port.on("message", (m: ToWorker) => {
+    if (dieAt && m.kind === "run") process.exit(3);
     const [reply, transfer] = lane.handle(m);
     port.postMessage(reply, transfer);
   });
