@@ -3,7 +3,7 @@
 
 import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
-import { InvalidArgumentError, Option, type Command } from "commander";
+import { Option, type Command } from "commander";
 import cliProgress from "cli-progress";
 import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";

@@ -8,7 +8,8 @@ import { writeFileAtomic } from "../emit/atomic.js";
 import { tsvHeader } from "../emit/tsv.js";
 import { StressTally } from "../lexicon/batch-work.js";
 import { ChunkPool } from "../lexicon/chunks.js";
-import { stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { stressLine, stressTotal, type StressSummary } from "../lexicon/hygiene.js";
+import type { Diagnostic } from "../diagnostics.js";
 import { rejectDiagnostic } from "../lexicon/read.js";
 import type { WorkerEngine } from "../lexicon/runner.js";
 import { NARROW_ONLY, type Engine } from "../lexicon/engine.js";
@@ -49,15 +50,26 @@ export async function transcribeChunked(file: string, threads: number, engine: W
   } finally {
     await pool.close();
   }
-  printDiagnostics(read.diagnostics, { quiet: o.quiet === true });
-  const failed = read.diagnostics.some((d) => d.severity === "error");
-  if (!failed && !toStdout) await writeFileAtomic(o.out!, chunks);
-  if (!failed && o.stressReport !== undefined) await writeFileAtomic(o.stressReport, stress.report());
-  if (o.quiet !== true) process.stderr.write(`strata: ${plural(read.dataLines, "row")} read = ${entries} written + ${rejects} rejected\n`);
-  const summary = stress.summary();
+  return transcribeEnd(o, { diagnostics: read.diagnostics, dataLines: read.dataLines, entries, rejects, stress, out: toStdout ? [] : chunks });
+}
+
+/**
+ * The end of a transcribe run, on one thread or several: the reader's problems, the -o file and
+ * the stress report written (unless the file could not be read), the counts on stderr, the exit code.
+ */
+export async function transcribeEnd(o: TranscribeOptions, r: {
+  readonly diagnostics: readonly Diagnostic[]; readonly dataLines: number; readonly entries: number; readonly rejects: number;
+  readonly stress: { report(): Iterable<string>; summary(): StressSummary }; readonly out: readonly (string | Uint8Array)[];
+}): Promise<number> {
+  printDiagnostics(r.diagnostics, { quiet: o.quiet === true });
+  const failed = r.diagnostics.some((d) => d.severity === "error");
+  if (!failed && r.out.length > 0) await writeFileAtomic(o.out!, r.out);
+  if (!failed && o.stressReport !== undefined) await writeFileAtomic(o.stressReport, r.stress.report());
+  if (o.quiet !== true) process.stderr.write(`strata: ${plural(r.dataLines, "row")} read = ${r.entries} written + ${r.rejects} rejected\n`);
+  const summary = r.stress.summary();
   if (o.quiet !== true && !failed) process.stderr.write(`strata: ${stressLine(summary, o.stressReport)}\n`);
   if (failed) return EXIT.badInput;
   if (o.strict === true && stressTotal(summary) > 0) return EXIT.checksFailed;
-  if (rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
+  if (r.rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
   return EXIT.ok;
 }

@@ -5,7 +5,6 @@ import { Option, type Command } from "commander";
 import { formatDiagnostic } from "../diagnostics.js";
 import { checkEntry, isWellFormedLanguageTag, PlsError, plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
-import { writeFileAtomic } from "../emit/atomic.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
 import { entryJsonLine, transcribeRow } from "../lexicon/runner.js";
 import { pickLanguage, plsPhonemes, PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
@@ -14,13 +13,13 @@ import { Channel } from "../lexicon/channel.js";
 import { InvalidArgumentError } from "commander";
 import {
   openCache, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples,
-  grammarOptions, loadEngine, outOption, plural, printDiagnostics, resolveGrammar, type EngineKind,
+  grammarOptions, loadEngine, outOption, printDiagnostics, resolveGrammar, type EngineKind,
 } from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
-import { StressHygiene, stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { StressHygiene } from "../lexicon/hygiene.js";
 import { ChunkPool } from "../lexicon/chunks.js";
-import { transcribeChunked } from "./transcribe-chunked.js";
+import { transcribeChunked, transcribeEnd } from "./transcribe-chunked.js";
 import { approxRows, workerCount, workersArg, WORKERS_FROM_ROWS, WORKERS_HELP } from "./workers.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
@@ -183,18 +182,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     await plsWriter?.catch(() => undefined);
     throw err;
   }
-  printDiagnostics(reader.diagnostics, { quiet: o.quiet === true });
-  const failed = reader.diagnostics.some((d) => d.severity === "error");
-  if (!failed && chunks.length > 0) await writeFileAtomic(o.out!, chunks);
-  if (!failed && o.stressReport !== undefined) await writeFileAtomic(o.stressReport, hygiene.report());
-  const stats = reader.stats;
-  if (o.quiet !== true) process.stderr.write(`strata: ${plural(stats.dataLines, "row")} read = ${entries} written + ${rejects} rejected\n`);
-  const stress = hygiene.summary();
-  if (o.quiet !== true && !failed) process.stderr.write(`strata: ${stressLine(stress, o.stressReport)}\n`);
-  if (failed) return EXIT.badInput;
-  if (o.strict === true && stressTotal(stress) > 0) return EXIT.checksFailed;
-  if (rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
-  return EXIT.ok;
+  return transcribeEnd(o, { diagnostics: reader.diagnostics, dataLines: reader.stats.dataLines, entries, rejects, stress: hygiene, out: chunks });
 }
 
 export function registerTranscribe(program: Command): void {

@@ -175,7 +175,7 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
       const assigns = live.map((o) => o.run.assignsStress ?? o.run.engine.steps.includes("stress"));
       const pool = ChunkPool.start(w.count, {
         file: lexiconPath, sourceRoot: root, ...(opts.plsPhonemes !== undefined ? { plsPhonemes: opts.plsPhonemes } : {}),
-        sides: live.map((o, i) => ({ ...engines[i]!, formats: [...formats], assignsStress: assigns[i]! })),
+        sides: live.map((_, i) => ({ ...engines[i]!, formats: [...formats], assignsStress: assigns[i]! })),
       }, new ChunkLane(live.map((o) => o.side), assigns, inventory, lexiconPath, root));
       try {
         const read = await pool.run(lexiconPath, async (done) => {
