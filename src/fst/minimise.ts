@@ -3,138 +3,12 @@
 // transducers (output pushing for sequential machines, pair encoding for the rest).
 
 import { canonicalOrder, trim } from "./basic.js";
-import { determinise, type DeterminiseOptions } from "./determinise.js";
+import type { DeterminiseOptions } from "./determinise.js";
+import { coarsestPartition, minimalDfa, type ArcArrays, type CanonicalDfa } from "./dfa.js";
 import { addChain, removeInputEpsilons, type StrArc, type StrMachine } from "./epsilon.js";
-import { EPSILON, Fst, expandFinalOutputs, type Label } from "./fst.js";
+import { EPSILON, Fst, expandFinalOutputs, type Arc, type Label } from "./fst.js";
 
-/** A refinable partition of 0 … n-1 (Valmari & Lehtinen 2008). */
-class Partition {
-  z: number;
-  readonly E: Int32Array;
-  readonly L: Int32Array;
-  readonly S: Int32Array;
-  readonly F: Int32Array;
-  readonly P: Int32Array;
-  readonly M: Int32Array;
-  readonly W: Int32Array;
-  w = 0;
-  constructor(n: number) {
-    this.z = n > 0 ? 1 : 0;
-    this.E = new Int32Array(n);
-    this.L = new Int32Array(n);
-    this.S = new Int32Array(n);
-    this.F = new Int32Array(n + 1);
-    this.P = new Int32Array(n + 1);
-    this.M = new Int32Array(n + 1);
-    this.W = new Int32Array(n + 1);
-    for (let i = 0; i < n; i++) {
-      this.E[i] = i;
-      this.L[i] = i;
-    }
-    this.P[0] = n;
-  }
-  mark(e: number): void {
-    const { E, L, S, F, M } = this;
-    const s = S[e] as number;
-    const i = L[e] as number;
-    const j = (F[s] as number) + (M[s] as number);
-    E[i] = E[j] as number;
-    L[E[i] as number] = i;
-    E[j] = e;
-    L[e] = j;
-    if ((M[s] as number) === 0) this.W[this.w++] = s;
-    M[s] = (M[s] as number) + 1;
-  }
-  split(): void {
-    const { E, S, F, P, M } = this;
-    while (this.w > 0) {
-      const s = this.W[--this.w] as number;
-      const j = (F[s] as number) + (M[s] as number);
-      if (j === P[s]) {
-        M[s] = 0;
-        continue;
-      }
-      const z = this.z;
-      // The smaller part becomes the new set: Hopcroft's "process the smaller half".
-      if ((M[s] as number) <= (P[s] as number) - j) {
-        F[z] = F[s] as number;
-        P[z] = j;
-        F[s] = j;
-      } else {
-        P[z] = P[s] as number;
-        F[z] = j;
-        P[s] = j;
-      }
-      for (let i = F[z] as number; i < (P[z] as number); i++) S[E[i] as number] = z;
-      M[s] = 0;
-      M[z] = 0;
-      this.z++;
-    }
-  }
-}
-
-/**
- * The coarsest partition of the states of a deterministic machine (every state accessible and
- * co-accessible) that respects `finalClass` (-1: not final; states with different classes are
- * never merged) and the transitions (tail, label, head). Returns the block of each state.
- * O(m log n) (Valmari & Lehtinen, "Efficient minimization of DFAs with partial transition
- * functions", 2008, which refines Hopcroft 1971).
- */
-export function coarsestPartition(
-  n: number,
-  tails: Int32Array,
-  labels: Int32Array,
-  heads: Int32Array,
-  finalClass: Int32Array,
-): Int32Array {
-  const m = tails.length;
-  const B = new Partition(n);
-  const classes = [...new Set(finalClass)].filter((c) => c >= 0).sort((a, b) => a - b);
-  for (const c of classes) {
-    for (let s = 0; s < n; s++) if (finalClass[s] === c) B.mark(s);
-    B.split();
-  }
-  // Cords: transitions grouped by label.
-  const C = new Partition(m);
-  const order = Array.from({ length: m }, (_, k) => k).sort((a, b) => (labels[a] as number) - (labels[b] as number) || a - b);
-  C.z = 0;
-  for (let k = 0; k < m; k++) {
-    const t = order[k] as number;
-    C.E[k] = t;
-    C.L[t] = k;
-    if (k === 0 || labels[t] !== labels[order[k - 1] as number]) {
-      if (C.z > 0) C.P[C.z - 1] = k;
-      C.F[C.z] = k;
-      C.z++;
-    }
-    C.S[t] = C.z - 1;
-  }
-  if (C.z > 0) C.P[C.z - 1] = m;
-  // Incoming transitions of each state.
-  const inFirst = new Int32Array(n + 1);
-  for (let t = 0; t < m; t++) (inFirst[(heads[t] as number) + 1] as number)++;
-  for (let s = 0; s < n; s++) inFirst[s + 1] = (inFirst[s + 1] as number) + (inFirst[s] as number);
-  const fill = inFirst.slice(0, n);
-  const inTr = new Int32Array(m);
-  for (let t = 0; t < m; t++) inTr[(fill[heads[t] as number] as number)++] = t;
-
-  let b = 1;
-  let c = 0;
-  while (c < C.z) {
-    for (let i = C.F[c] as number; i < (C.P[c] as number); i++) B.mark(tails[C.E[i] as number] as number);
-    B.split();
-    c++;
-    while (b < B.z) {
-      for (let i = B.F[b] as number; i < (B.P[b] as number); i++) {
-        const s = B.E[i] as number;
-        for (let j = inFirst[s] as number; j < (inFirst[s + 1] as number); j++) C.mark(inTr[j] as number);
-      }
-      C.split();
-      b++;
-    }
-  }
-  return B.S.slice();
-}
+export { coarsestPartition } from "./dfa.js";
 
 /** True when the machine has no ε-input arcs and at most one arc per input label and state. */
 export function isDeterministic(fst: Fst): boolean {
@@ -300,17 +174,7 @@ function pushOutputs(m: StrMachine): { machine: StrMachine; startOutput: readonl
  * `options` bound the subset constructions involved (`maxStates`, and `progress` per state made).
  */
 export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
-  if (fst.isAcceptor()) {
-    const d = trim(isDeterministic(fst) ? fst : determinise(fst, options));
-    const m: StrMachine = {
-      start: d.start,
-      arcs: Array.from({ length: d.numStates }, (_, s) => d.arcs(s).map((a) => ({ input: a.input, output: [a.input], target: a.target }))),
-      finals: Array.from({ length: d.numStates }, (_, s) => (d.isFinal(s) ? [[]] : [])),
-    };
-    const r = minimiseStr(m, []);
-    // Acceptor arcs were chains of one label: input = output, as before.
-    return r;
-  }
+  if (fst.isAcceptor()) return fromDfa(minimalDfa(arcArrays(fst, (a) => a.input), options), (l) => l, (l) => l);
   if (isSequential(fst)) {
     const free = removeInputEpsilons(fst);
     if (free.ok && free.machine.finals.every((f) => f.length <= 1)) {
@@ -318,38 +182,55 @@ export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
       return minimiseStr(pushed.machine, pushed.startOutput);
     }
   }
+  // Each (input, output) pair becomes one letter, numbered in order of first use (ε:ε is ε).
   const m = expandFinalOutputs(fst);
   const pairs = new Map<number, number>();
-  const decode: [Label, Label][] = [[EPSILON, EPSILON]];
-  const enc = new Fst();
-  enc.addStates(m.numStates);
-  if (m.numStates > 0) enc.setStart(m.start);
-  for (let s = 0; s < m.numStates; s++) {
-    for (const a of m.arcs(s)) {
-      let c = 0;
-      if (a.input !== EPSILON || a.output !== EPSILON) {
-        const key = a.input * 0x80000000 + a.output;
-        const known = pairs.get(key);
-        if (known === undefined) {
-          c = decode.length;
-          pairs.set(key, c);
-          decode.push([a.input, a.output]);
-        } else c = known;
-      }
-      enc.addArc(s, c, c, a.target);
+  const inputs: Label[] = [EPSILON];
+  const outputs: Label[] = [EPSILON];
+  const code = (a: Arc): number => {
+    if (a.input === EPSILON && a.output === EPSILON) return 0;
+    const key = a.input * 0x80000000 + a.output;
+    let c = pairs.get(key);
+    if (c === undefined) {
+      c = inputs.length;
+      pairs.set(key, c);
+      inputs.push(a.input);
+      outputs.push(a.output);
     }
-    if (m.isFinal(s)) enc.setFinal(s);
+    return c;
+  };
+  return fromDfa(minimalDfa(arcArrays(m, code), options), (c) => inputs[c]!, (c) => outputs[c]!);
+}
+
+/** The machine's arcs as arrays, each labelled `label(arc)`, in state and arc order; final outputs are ignored. */
+function arcArrays(fst: Fst, label: (a: Arc) => number): ArcArrays {
+  const n = fst.numStates;
+  const m = fst.numArcs();
+  const tails = new Int32Array(m);
+  const labels = new Int32Array(m);
+  const heads = new Int32Array(m);
+  const final = new Uint8Array(n);
+  let k = 0;
+  for (let s = 0; s < n; s++) {
+    for (const a of fst.arcs(s)) {
+      tails[k] = s;
+      labels[k] = label(a);
+      heads[k] = a.target;
+      k++;
+    }
+    if (fst.isFinal(s)) final[s] = 1;
   }
-  const min = minimise(enc, options);
+  return { states: n, start: n > 0 ? fst.start : 0, final, tails, labels, heads };
+}
+
+/** The canonical DFA as a machine, each letter written back as `input(letter)`:`output(letter)`. */
+function fromDfa(d: CanonicalDfa, input: (l: number) => Label, output: (l: number) => Label): Fst {
   const r = new Fst();
-  r.addStates(min.numStates);
-  r.setStart(min.start);
-  for (let s = 0; s < min.numStates; s++) {
-    for (const a of min.arcs(s)) {
-      const [i, o] = decode[a.input] as [Label, Label];
-      r.addArc(s, i, o, a.target);
-    }
-    if (min.isFinal(s)) r.setFinal(s);
+  r.addStates(d.states);
+  r.setStart(0);
+  for (let s = 0; s < d.states; s++) {
+    for (let k = d.first[s]!; k < d.first[s + 1]!; k++) r.addArc(s, input(d.label[k]!), output(d.label[k]!), d.target[k]!);
+    if (d.final[s] === 1) r.setFinal(s);
   }
   return r;
 }
