@@ -3,7 +3,7 @@
 // Also the runners: the preferred cascade frozen for speed, the variants cascade for every output.
 
 import {
-  FstError, FstLimitError, compose, determiniseTransducer, freezeFunctional, minimise, type Fst,
+  FstError, FstLimitError, composeTable, determiniseTransducer, freezeFunctional, minimiseTable, type Fst,
   FrozenFst, freeze, freezeDeterministic, type DeterministicRunner,
   serialiseDeterministic, deserialiseDeterministic, serialiseFunctional, deserialiseFunctional,
 } from "../fst/index.js";
@@ -40,8 +40,8 @@ export function composeCascade(machines: readonly (Fst | null)[], maxStates: num
     budget.step = i;
     budget.part = `composing step ${i + 1} with the steps before it`;
     try {
-      const c = compose(acc, m, { maxStates, progress: budget.tick });
-      next = c.numStates > maxStates ? null : minimise(c, { progress: budget.tick });
+      const c = composeTable(acc, m, { maxStates, progress: budget.tick });
+      next = c.states > maxStates ? null : minimiseTable(c, { progress: budget.tick });
       if (next !== null && next.numStates > maxStates) next = null;
     } catch (e) {
       if (!(e instanceof FstLimitError)) throw e;

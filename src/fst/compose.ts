@@ -1,8 +1,8 @@
 // Composition of transducers with the ε-sequencing filter of Mohri, Pereira & Riley, and
 // intersection of acceptors (composition of identity relations).
 
-import { trim } from "./basic.js";
-import { EPSILON, Fst, FstError, expandFinalOutputs, type Label } from "./fst.js";
+import { EPSILON, Fst, FstError, expandFinalOutputs } from "./fst.js";
+import { IntList, fstOf, trimTable, type ArcTable } from "./table.js";
 
 /** Thrown when an operation would build a machine larger than the limit it was given. */
 export class FstLimitError extends FstError {
@@ -83,21 +83,30 @@ export interface ComposeOptions {
  * order of discovery (deterministic).
  */
 export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
+  return fstOf(composeTable(a, b, options));
+}
+
+/** `compose` as an arc table (the same states, arcs and order), without building the machine. */
+export function composeTable(a: Fst, b: Fst, options: ComposeOptions = {}): ArcTable {
   const maxStates = options.maxStates ?? 5_000_000;
   const A = expandFinalOutputs(a);
   const B = expandFinalOutputs(b);
-  const r = new Fst();
   if (A.numStates === 0 || B.numStates === 0) {
-    r.addState();
-    return r;
+    const none = new Int32Array(0);
+    return { states: 1, start: 0, final: new Uint8Array(1), tails: none, inputs: none, outputs: none, heads: none };
   }
   const sa = sortedArcs(A, "output");
   const sb = sortedArcs(B, "input");
   const nB = B.numStates;
   const ids = new Map<number, number>();
-  const qp: number[] = [];
-  const qq: number[] = [];
-  const qf: number[] = [];
+  const qp = new IntList();
+  const qq = new IntList();
+  const qf = new IntList();
+  const tails = new IntList();
+  const inputs = new IntList();
+  const outputs = new IntList();
+  const heads = new IntList();
+  const final = new IntList();
   const idOf = (p: number, q: number, f: number): number => {
     const key = (p * nB + q) * 2 + f;
     let id = ids.get(key);
@@ -109,27 +118,32 @@ export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
       qp.push(p);
       qq.push(q);
       qf.push(f);
-      r.addState();
     }
     return id;
   };
+  const arc = (from: number, input: number, output: number, to: number): void => {
+    tails.push(from);
+    inputs.push(input);
+    outputs.push(output);
+    heads.push(to);
+  };
   idOf(A.start, B.start, 0);
   for (let id = 0; id < qp.length; id++) {
-    const p = qp[id] as number;
-    const q = qq[id] as number;
-    const f = qf[id] as number;
-    if (A.isFinal(p) && B.isFinal(q)) r.setFinal(id);
+    const p = qp.data[id]!;
+    const q = qq.data[id]!;
+    const f = qf.data[id]!;
+    final.push(A.isFinal(p) && B.isFinal(q) ? 1 : 0);
     const aEnd = sa.first[p + 1] as number;
     const bEnd = sb.first[q + 1] as number;
     let i = sa.first[p] as number;
     // a moves alone on its ε-output arcs (only before any lone move of b).
     for (; i < aEnd && sa.output[i] === EPSILON; i++) {
-      if (f === 0) r.addArc(id, sa.input[i] as Label, EPSILON, idOf(sa.target[i] as number, q, 0));
+      if (f === 0) arc(id, sa.input[i]!, EPSILON, idOf(sa.target[i]!, q, 0));
     }
     let j = sb.first[q] as number;
     // b moves alone on its ε-input arcs.
     for (; j < bEnd && sb.input[j] === EPSILON; j++) {
-      r.addArc(id, EPSILON, sb.output[j] as Label, idOf(p, sb.target[j] as number, 1));
+      arc(id, EPSILON, sb.output[j]!, idOf(p, sb.target[j]!, 1));
     }
     // Real matches: a's output label y against b's arcs with input y.
     while (i < aEnd && j < bEnd) {
@@ -145,20 +159,17 @@ export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
       let jEnd = j;
       while (jEnd < bEnd && sb.input[jEnd] === y) jEnd++;
       for (let ii = i; ii < iEnd; ii++) {
-        for (let jj = j; jj < jEnd; jj++) {
-          r.addArc(
-            id,
-            sa.input[ii] as Label,
-            sb.output[jj] as Label,
-            idOf(sa.target[ii] as number, sb.target[jj] as number, 0),
-          );
-        }
+        for (let jj = j; jj < jEnd; jj++) arc(id, sa.input[ii]!, sb.output[jj]!, idOf(sa.target[ii]!, sb.target[jj]!, 0));
       }
       i = iEnd;
       j = jEnd;
     }
   }
-  return options.trim === false ? r : trim(r);
+  const t: ArcTable = {
+    states: qp.length, start: 0, final: Uint8Array.from(final.view()),
+    tails: tails.view(), inputs: inputs.view(), outputs: outputs.view(), heads: heads.view(),
+  };
+  return options.trim === false ? t : trimTable(t);
 }
 
 /** Intersection of two acceptors: the strings both accept. Throws FstError for transducers. */

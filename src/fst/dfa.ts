@@ -4,6 +4,7 @@
 // composition of a cascade costs milliseconds, not the composition's tens of milliseconds.
 
 import { FstLimitError } from "./compose.js";
+import { IntList, rowsOf, usefulStates } from "./table.js";
 
 /** An acceptor as arrays: arc k goes from `tails[k]` to `heads[k]` reading `labels[k]` (0 is ε). */
 export interface ArcArrays {
@@ -173,51 +174,25 @@ function byLabel(labels: Int32Array): Int32Array {
   return order;
 }
 
-/** Arc indices grouped by tail state (compressed rows), each row in arc order. */
-function rowsOf(n: number, tails: Int32Array): { first: Int32Array; arc: Int32Array } {
-  const first = new Int32Array(n + 1);
-  for (let k = 0; k < tails.length; k++) first[tails[k]! + 1]!++;
-  for (let s = 0; s < n; s++) first[s + 1]! += first[s]!;
-  const fill = first.slice(0, n);
-  const arc = new Int32Array(tails.length);
-  for (let k = 0; k < tails.length; k++) arc[fill[tails[k]!]!++] = k;
-  return { first, arc };
-}
-
-/** True when no arc reads ε and no state has two arcs with one label. */
-function deterministic(a: ArcArrays, first: Int32Array, arc: Int32Array): boolean {
-  const seen = new Int32Array(maxLabel(a.labels) + 1).fill(-1);
-  for (let s = 0; s < a.states; s++) {
-    for (let i = first[s]!; i < first[s + 1]!; i++) {
-      const l = a.labels[arc[i]!]!;
-      if (l === 0 || seen[l] === s) return false;
-      seen[l] = s;
-    }
-  }
-  return true;
-}
-
 function maxLabel(labels: Int32Array): number {
   let m = 0;
   for (let k = 0; k < labels.length; k++) if (labels[k]! > m) m = labels[k]!;
   return m;
 }
 
-/** A growable Int32 list. */
-class IntList {
-  data = new Int32Array(64);
-  length = 0;
-  push(x: number): void {
-    if (this.length === this.data.length) {
-      const d = new Int32Array(this.data.length * 2);
-      d.set(this.data);
-      this.data = d;
-    }
-    this.data[this.length++] = x;
+/** Arc indices grouped by tail (compressed rows), each row by ascending (label, index): two stable counting passes. */
+function rowsByLabel(n: number, tails: Int32Array, labels: Int32Array): { first: Int32Array; arc: Int32Array } {
+  const order = byLabel(labels);
+  const first = new Int32Array(n + 1);
+  for (let k = 0; k < tails.length; k++) first[tails[k]! + 1]!++;
+  for (let s = 0; s < n; s++) first[s + 1]! += first[s]!;
+  const fill = first.slice(0, n);
+  const arc = new Int32Array(tails.length);
+  for (let i = 0; i < order.length; i++) {
+    const k = order[i]!;
+    arc[fill[tails[k]!]!++] = k;
   }
-  view(): Int32Array {
-    return this.data.subarray(0, this.length);
-  }
+  return { first, arc };
 }
 
 /** A DFA (arcs by ascending label per state, every state accessible) of the same language. */
@@ -232,55 +207,50 @@ interface Dfa {
 
 /**
  * The subset construction (Rabin & Scott 1959) with ε-closures taken on the fly (each subset is
- * ε-closed, as after closure-based ε-removal). A deterministic input is taken as it is.
+ * ε-closed, as after closure-based ε-removal). A deterministic input is taken as it is (arcs put
+ * in label order; its inaccessible states are trimmed afterwards).
  */
 function subsets(a: ArcArrays, options: MinimalDfaOptions): Dfa {
   const n = a.states;
-  const { first, arc } = rowsOf(n, a.tails);
-  if (deterministic(a, first, arc)) {
-    // Rows in ascending label order; states as they are (the inaccessible ones are trimmed later).
-    const tails = new Int32Array(a.tails.length);
-    const labels = new Int32Array(a.tails.length);
-    const heads = new Int32Array(a.tails.length);
-    let k = 0;
-    const row: number[] = [];
-    for (let s = 0; s < n; s++) {
-      row.length = 0;
-      for (let i = first[s]!; i < first[s + 1]!; i++) row.push(arc[i]!);
-      row.sort((x, y) => a.labels[x]! - a.labels[y]!);
-      for (const j of row) {
-        tails[k] = s;
-        labels[k] = a.labels[j]!;
-        heads[k] = a.heads[j]!;
-        k++;
-      }
+  const { first, arc } = rowsByLabel(n, a.tails, a.labels);
+  let det = true;
+  let epsilons = false;
+  for (let s = 0; s < n && det; s++) {
+    for (let i = first[s]!; i < first[s + 1]!; i++) {
+      const l = a.labels[arc[i]!]!;
+      if (l === 0) epsilons = true;
+      if (l === 0 || (i > first[s]! && a.labels[arc[i - 1]!] === l)) { det = false; break; }
     }
-    return { states: n, start: a.start, final: a.final, tails, labels, heads };
   }
+  if (det) {
+    return { states: n, start: a.start, final: a.final, tails: gather(a.tails, arc), labels: gather(a.labels, arc), heads: gather(a.heads, arc) };
+  }
+  if (!epsilons) for (let k = 0; k < a.labels.length && !epsilons; k++) epsilons = a.labels[k] === 0;
   const maxStates = options.maxStates ?? 2_000_000;
   const mark = new Int32Array(n).fill(-1);
   let stamp = 0;
-  /** Sorts `set` ascending after adding every state reachable by ε arcs. */
+  /** Adds every state reachable by ε arcs to `set` (ascending, distinct) and sorts it again. */
   const close = (set: number[]): number[] => {
+    if (!epsilons) return set;
     stamp++;
     for (const s of set) mark[s] = stamp;
+    const before = set.length;
     for (let k = 0; k < set.length; k++) {
       const s = set[k]!;
-      for (let i = first[s]!; i < first[s + 1]!; i++) {
-        const j = arc[i]!;
-        if (a.labels[j] !== 0) continue;
-        const t = a.heads[j]!;
+      // ε arcs come first in a row (label 0).
+      for (let i = first[s]!; i < first[s + 1]! && a.labels[arc[i]!] === 0; i++) {
+        const t = a.heads[arc[i]!]!;
         if (mark[t] !== stamp) {
           mark[t] = stamp;
           set.push(t);
         }
       }
     }
-    return set.sort((x, y) => x - y);
+    return set.length === before ? set : set.sort((x, y) => x - y);
   };
   const ids = new Map<string, number>();
   const members: number[][] = [];
-  const final: number[] = [];
+  const final = new IntList();
   const idOf = (set: number[]): number => {
     const key = set.length === 1 ? String(set[0]) : set.join(",");
     let id = ids.get(key);
@@ -300,26 +270,32 @@ function subsets(a: ArcArrays, options: MinimalDfaOptions): Dfa {
   const tails = new IntList();
   const labels = new IntList();
   const heads = new IntList();
-  const pairs: number[] = [];
-  const order: number[] = [];
+  // (label, target) of the members' arcs as label·n + target, sorted numerically.
+  let keys = new Float64Array(64);
   for (let id = 0; id < members.length; id++) {
-    pairs.length = 0;
-    for (const s of members[id]!) {
+    const set = members[id]!;
+    let m = 0;
+    for (const s of set) {
       for (let i = first[s]!; i < first[s + 1]!; i++) {
         const j = arc[i]!;
-        if (a.labels[j] !== 0) pairs.push(a.labels[j]!, a.heads[j]!);
+        const l = a.labels[j]!;
+        if (l === 0) continue;
+        if (m === keys.length) { const k2 = new Float64Array(m * 2); k2.set(keys); keys = k2; }
+        keys[m++] = l * n + a.heads[j]!;
       }
     }
-    order.length = 0;
-    for (let k = 0; k < pairs.length; k += 2) order.push(k);
-    order.sort((x, y) => pairs[x]! - pairs[y]! || pairs[x + 1]! - pairs[y + 1]!);
+    // A single member's row is already by label; targets of one label need sorting only when several.
+    const sorted = set.length === 1 ? keys.subarray(0, m) : keys.subarray(0, m).sort();
     let k = 0;
-    while (k < order.length) {
-      const label = pairs[order[k]!]!;
+    while (k < m) {
+      const label = Math.floor(sorted[k]! / n);
       const targets: number[] = [];
-      for (; k < order.length && pairs[order[k]!] === label; k++) {
-        const t = pairs[order[k]! + 1]!;
-        if (targets[targets.length - 1] !== t) targets.push(t);
+      for (; k < m && Math.floor(sorted[k]! / n) === label; k++) targets.push(sorted[k]! - label * n);
+      if (targets.length > 1) {
+        targets.sort((x, y) => x - y);
+        let u = 1;
+        for (let v = 1; v < targets.length; v++) if (targets[v] !== targets[u - 1]) targets[u++] = targets[v]!;
+        targets.length = u;
       }
       const to = idOf(close(targets));
       tails.push(id);
@@ -328,37 +304,19 @@ function subsets(a: ArcArrays, options: MinimalDfaOptions): Dfa {
     }
   }
   return {
-    states: members.length, start: 0, final: Uint8Array.from(final),
+    states: members.length, start: 0, final: Uint8Array.from(final.view()),
     tails: tails.view(), labels: labels.view(), heads: heads.view(),
   };
 }
 
-/** The states that are accessible from the start and co-accessible to a final state. */
-function useful(d: Dfa): Uint8Array {
-  const n = d.states;
-  const fwd = rowsOf(n, d.tails);
-  const acc = new Uint8Array(n);
-  const stack = [d.start];
-  acc[d.start] = 1;
-  while (stack.length > 0) {
-    const s = stack.pop()!;
-    for (let i = fwd.first[s]!; i < fwd.first[s + 1]!; i++) {
-      const t = d.heads[fwd.arc[i]!]!;
-      if (acc[t] === 0) { acc[t] = 1; stack.push(t); }
-    }
-  }
-  const back = rowsOf(n, d.heads);
-  const co = new Uint8Array(n);
-  for (let s = 0; s < n; s++) if (d.final[s] === 1 && acc[s] === 1) { co[s] = 1; stack.push(s); }
-  while (stack.length > 0) {
-    const s = stack.pop()!;
-    for (let i = back.first[s]!; i < back.first[s + 1]!; i++) {
-      const p = d.tails[back.arc[i]!]!;
-      if (co[p] === 0 && acc[p] === 1) { co[p] = 1; stack.push(p); }
-    }
-  }
-  return co;
+/** values[order[k]] for every k. */
+function gather(values: Int32Array, order: Int32Array): Int32Array {
+  const r = new Int32Array(order.length);
+  for (let k = 0; k < order.length; k++) r[k] = values[order[k]!]!;
+  return r;
 }
+
+const EMPTY: CanonicalDfa = { states: 1, final: new Uint8Array(1), first: new Int32Array(2), label: new Int32Array(0), target: new Int32Array(0) };
 
 /**
  * The minimal DFA of the acceptor's language (its non-empty Myhill–Nerode classes), with states
@@ -370,10 +328,12 @@ function useful(d: Dfa): Uint8Array {
  * trimming, then Hopcroft's partition refinement (`coarsestPartition`, Valmari & Lehtinen 2008).
  */
 export function minimalDfa(a: ArcArrays, options: MinimalDfaOptions = {}): CanonicalDfa {
-  if (a.states === 0) return { states: 1, final: new Uint8Array(1), first: new Int32Array(2), label: new Int32Array(0), target: new Int32Array(0) };
+  if (a.states === 0) return EMPTY;
   const d = subsets(a, options);
-  const keep = useful(d);
-  if (keep[d.start] === 0) return { states: 1, final: new Uint8Array(1), first: new Int32Array(2), label: new Int32Array(0), target: new Int32Array(0) };
+  const keep = usefulStates(d.states, d.start, d.final, d.tails, d.heads);
+  let any = false;
+  for (let s = 0; s < d.states && !any; s++) any = keep[s] === 1 && d.final[s] === 1;
+  if (!any) return EMPTY;
   // Renumber the useful states (in order) and keep the arcs between them (rows stay by label).
   const map = new Int32Array(d.states).fill(-1);
   let n = 0;

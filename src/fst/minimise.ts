@@ -4,9 +4,10 @@
 
 import { canonicalOrder, trim } from "./basic.js";
 import type { DeterminiseOptions } from "./determinise.js";
-import { coarsestPartition, minimalDfa, type ArcArrays, type CanonicalDfa } from "./dfa.js";
+import { coarsestPartition, minimalDfa, type CanonicalDfa } from "./dfa.js";
 import { addChain, removeInputEpsilons, type StrArc, type StrMachine } from "./epsilon.js";
-import { EPSILON, Fst, expandFinalOutputs, type Arc, type Label } from "./fst.js";
+import { EPSILON, Fst, expandFinalOutputs, type Label } from "./fst.js";
+import { fstOf, tableOf, type ArcTable } from "./table.js";
 
 export { coarsestPartition } from "./dfa.js";
 
@@ -174,7 +175,10 @@ function pushOutputs(m: StrMachine): { machine: StrMachine; startOutput: readonl
  * `options` bound the subset constructions involved (`maxStates`, and `progress` per state made).
  */
 export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
-  if (fst.isAcceptor()) return fromDfa(minimalDfa(arcArrays(fst, (a) => a.input), options), (l) => l, (l) => l);
+  if (fst.isAcceptor()) {
+    const t = tableOf(fst);
+    return fromDfa(minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels: t.inputs, heads: t.heads }, options), (l) => l, (l) => l);
+  }
   if (isSequential(fst)) {
     const free = removeInputEpsilons(fst);
     if (free.ok && free.machine.finals.every((f) => f.length <= 1)) {
@@ -182,45 +186,58 @@ export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
       return minimiseStr(pushed.machine, pushed.startOutput);
     }
   }
-  // Each (input, output) pair becomes one letter, numbered in order of first use (ε:ε is ε).
-  const m = expandFinalOutputs(fst);
+  return minimisePairs(tableOf(expandFinalOutputs(fst)), options);
+}
+
+/** `minimise` of the machine the table describes (`fstOf(t)`), reading the table where it can. */
+export function minimiseTable(t: ArcTable, options: DeterminiseOptions = {}): Fst {
+  let acceptor = true;
+  for (let k = 0; k < t.tails.length && acceptor; k++) acceptor = t.inputs[k] === t.outputs[k];
+  if (acceptor || sequentialTable(t)) return minimise(fstOf(t), options);
+  return minimisePairs(t, options);
+}
+
+/** `isSequential` of the table's machine. */
+function sequentialTable(t: ArcTable): boolean {
+  const seen = new Map<number, number>();
+  for (let k = 0; k < t.tails.length; ) {
+    const s = t.tails[k]!;
+    let end = k;
+    while (end < t.tails.length && t.tails[end] === s) end++;
+    for (let j = k; j < end; j++) {
+      if (t.inputs[j] === EPSILON) {
+        if (end - k !== 1 || t.final[s] === 1) return false;
+      } else {
+        if (seen.get(t.inputs[j]!) === s) return false;
+        seen.set(t.inputs[j]!, s);
+      }
+    }
+    k = end;
+  }
+  return true;
+}
+
+/** The pair-encoding method: each (input, output) pair one letter, numbered in order of first use (ε:ε is ε). */
+function minimisePairs(t: ArcTable, options: DeterminiseOptions): Fst {
   const pairs = new Map<number, number>();
   const inputs: Label[] = [EPSILON];
   const outputs: Label[] = [EPSILON];
-  const code = (a: Arc): number => {
-    if (a.input === EPSILON && a.output === EPSILON) return 0;
-    const key = a.input * 0x80000000 + a.output;
+  const labels = new Int32Array(t.tails.length);
+  for (let k = 0; k < t.tails.length; k++) {
+    const i = t.inputs[k]!, o = t.outputs[k]!;
+    if (i === EPSILON && o === EPSILON) continue;
+    const key = i * 0x80000000 + o;
     let c = pairs.get(key);
     if (c === undefined) {
       c = inputs.length;
       pairs.set(key, c);
-      inputs.push(a.input);
-      outputs.push(a.output);
+      inputs.push(i);
+      outputs.push(o);
     }
-    return c;
-  };
-  return fromDfa(minimalDfa(arcArrays(m, code), options), (c) => inputs[c]!, (c) => outputs[c]!);
-}
-
-/** The machine's arcs as arrays, each labelled `label(arc)`, in state and arc order; final outputs are ignored. */
-function arcArrays(fst: Fst, label: (a: Arc) => number): ArcArrays {
-  const n = fst.numStates;
-  const m = fst.numArcs();
-  const tails = new Int32Array(m);
-  const labels = new Int32Array(m);
-  const heads = new Int32Array(m);
-  const final = new Uint8Array(n);
-  let k = 0;
-  for (let s = 0; s < n; s++) {
-    for (const a of fst.arcs(s)) {
-      tails[k] = s;
-      labels[k] = label(a);
-      heads[k] = a.target;
-      k++;
-    }
-    if (fst.isFinal(s)) final[s] = 1;
+    labels[k] = c;
   }
-  return { states: n, start: n > 0 ? fst.start : 0, final, tails, labels, heads };
+  const d = minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels, heads: t.heads }, options);
+  return fromDfa(d, (c) => inputs[c]!, (c) => outputs[c]!);
 }
 
 /** The canonical DFA as a machine, each letter written back as `input(letter)`:`output(letter)`. */
