@@ -171,7 +171,12 @@ function pushOutputs(m: StrMachine): { machine: StrMachine; startOutput: readonl
  * - Other transducers: each arc's (input, output) pair is encoded as one letter, the encoded
  *   acceptor is determinised and minimised, and the letters decoded. The relation is unchanged;
  *   the result is minimal among machines deterministic on the pair alphabet, which is a
- *   normal form but not always the smallest transducer.
+ *   normal form but not always the smallest transducer. Letters are numbered in order of first
+ *   use (states in order, arcs in order).
+ * Acceptors and pair-coded machines go through `minimalDfa` (dfa.ts, typed arrays): states
+ * numbered breadth-first from the start by ascending letter, arcs by ascending letter — a form that
+ * depends on the language alone (tests/fst/canonical.test.ts checks it against a plain reference).
+ * An empty language or relation gives one non-final state without arcs.
  * `options` bound the subset constructions involved (`maxStates`, and `progress` per state made).
  */
 export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
