@@ -2,7 +2,9 @@
 // intersection of acceptors (composition of identity relations).
 
 import { EPSILON, Fst, FstError, expandFinalOutputs } from "./fst.js";
-import { IntList, fstOf, trimTable, type ArcTable } from "./table.js";
+import { IntList, fstOf, sortedRows, trimTable, type ArcTable, type SortedArcs } from "./table.js";
+
+export type { SortedArcs } from "./table.js";
 
 /** Thrown when an operation would build a machine larger than the limit it was given. */
 export class FstLimitError extends FstError {
@@ -13,15 +15,6 @@ export class FstLimitError extends FstError {
     super(`${operation} exceeded the limit of ${limit} states`);
     this.name = "FstLimitError";
   }
-}
-
-/** Typed-array arc lists (compressed sparse rows), sorted by one side. */
-export interface SortedArcs {
-  /** Arcs of state s are at first[s] … first[s+1]-1. */
-  readonly first: Int32Array;
-  readonly input: Int32Array;
-  readonly output: Int32Array;
-  readonly target: Int32Array;
 }
 
 /** The arcs of `fst` as sorted rows: by (input, output, target) or by (output, input, target). */
@@ -87,17 +80,20 @@ export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
 }
 
 /** `compose` as an arc table (the same states, arcs and order), without building the machine. */
-export function composeTable(a: Fst, b: Fst, options: ComposeOptions = {}): ArcTable {
+export function composeTable(a: Fst | ArcTable, b: Fst | ArcTable, options: ComposeOptions = {}): ArcTable {
   const maxStates = options.maxStates ?? 5_000_000;
-  const A = expandFinalOutputs(a);
-  const B = expandFinalOutputs(b);
-  if (A.numStates === 0 || B.numStates === 0) {
+  const A = a instanceof Fst ? expandFinalOutputs(a) : a;
+  const B = b instanceof Fst ? expandFinalOutputs(b) : b;
+  const states = (x: Fst | ArcTable): number => (x instanceof Fst ? x.numStates : x.states);
+  const isFinal = (x: Fst | ArcTable): ((s: number) => boolean) => (x instanceof Fst ? (s) => x.isFinal(s) : (s) => x.final[s] === 1);
+  if (states(A) === 0 || states(B) === 0) {
     const none = new Int32Array(0);
     return { states: 1, start: 0, final: new Uint8Array(1), tails: none, inputs: none, outputs: none, heads: none };
   }
-  const sa = sortedArcs(A, "output");
-  const sb = sortedArcs(B, "input");
-  const nB = B.numStates;
+  const sa = A instanceof Fst ? sortedArcs(A, "output") : sortedRows(A, "output");
+  const sb = B instanceof Fst ? sortedArcs(B, "input") : sortedRows(B, "input");
+  const finalA = isFinal(A), finalB = isFinal(B);
+  const nB = states(B);
   const ids = new Map<number, number>();
   const qp = new IntList();
   const qq = new IntList();
@@ -132,7 +128,7 @@ export function composeTable(a: Fst, b: Fst, options: ComposeOptions = {}): ArcT
     const p = qp.data[id]!;
     const q = qq.data[id]!;
     const f = qf.data[id]!;
-    final.push(A.isFinal(p) && B.isFinal(q) ? 1 : 0);
+    final.push(finalA(p) && finalB(q) ? 1 : 0);
     const aEnd = sa.first[p + 1] as number;
     const bEnd = sb.first[q + 1] as number;
     let i = sa.first[p] as number;

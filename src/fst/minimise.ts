@@ -182,7 +182,8 @@ function pushOutputs(m: StrMachine): { machine: StrMachine; startOutput: readonl
 export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
   if (fst.isAcceptor()) {
     const t = tableOf(fst);
-    return fromDfa(minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels: t.inputs, heads: t.heads }, options), (l) => l, (l) => l);
+    const d = minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels: t.inputs, heads: t.heads }, options);
+    return fstOf(dfaTable(d, d.label, d.label));
   }
   if (isSequential(fst)) {
     const free = removeInputEpsilons(fst);
@@ -191,11 +192,21 @@ export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
       return minimiseStr(pushed.machine, pushed.startOutput);
     }
   }
-  return minimisePairs(tableOf(expandFinalOutputs(fst)), options);
+  return fstOf(minimisePairs(tableOf(expandFinalOutputs(fst)), options));
 }
 
 /** `minimise` of the machine the table describes (`fstOf(t)`), reading the table where it can. */
 export function minimiseTable(t: ArcTable, options: DeterminiseOptions = {}): Fst {
+  const r = minimiseToTable(t, options);
+  return r instanceof Fst ? r : fstOf(r);
+}
+
+/**
+ * `minimiseTable` with the result left as a table where the pair method made it (`fstOf` of it is
+ * `minimiseTable`'s machine), so that a composition fold reads its accumulator without building
+ * arc objects; acceptors and sequential machines come back as machines.
+ */
+export function minimiseToTable(t: ArcTable, options: DeterminiseOptions = {}): ArcTable | Fst {
   let acceptor = true;
   for (let k = 0; k < t.tails.length && acceptor; k++) acceptor = t.inputs[k] === t.outputs[k];
   if (acceptor || sequentialTable(t)) return minimise(fstOf(t), options);
@@ -223,7 +234,7 @@ function sequentialTable(t: ArcTable): boolean {
 }
 
 /** The pair-encoding method: each (input, output) pair one letter, numbered in order of first use (ε:ε is ε). */
-function minimisePairs(t: ArcTable, options: DeterminiseOptions): Fst {
+function minimisePairs(t: ArcTable, options: DeterminiseOptions): ArcTable {
   const pairs = new Map<number, number>();
   const inputs: Label[] = [EPSILON];
   const outputs: Label[] = [EPSILON];
@@ -242,17 +253,20 @@ function minimisePairs(t: ArcTable, options: DeterminiseOptions): Fst {
     labels[k] = c;
   }
   const d = minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels, heads: t.heads }, options);
-  return fromDfa(d, (c) => inputs[c]!, (c) => outputs[c]!);
+  const ins = Int32Array.from(inputs), outs = Int32Array.from(outputs);
+  return dfaTable(d, gather(ins, d.label), gather(outs, d.label));
 }
 
-/** The canonical DFA as a machine, each letter written back as `input(letter)`:`output(letter)`. */
-function fromDfa(d: CanonicalDfa, input: (l: number) => Label, output: (l: number) => Label): Fst {
-  const r = new Fst();
-  r.addStates(d.states);
-  r.setStart(0);
-  for (let s = 0; s < d.states; s++) {
-    for (let k = d.first[s]!; k < d.first[s + 1]!; k++) r.addArc(s, input(d.label[k]!), output(d.label[k]!), d.target[k]!);
-    if (d.final[s] === 1) r.setFinal(s);
-  }
+/** values[index[k]] for every k. */
+function gather(values: Int32Array, index: Int32Array): Int32Array {
+  const r = new Int32Array(index.length);
+  for (let k = 0; k < index.length; k++) r[k] = values[index[k]!]!;
   return r;
+}
+
+/** The canonical DFA as a table, arc k reading `inputs[k]` and writing `outputs[k]`. */
+function dfaTable(d: CanonicalDfa, inputs: Int32Array, outputs: Int32Array): ArcTable {
+  const tails = new Int32Array(d.label.length);
+  for (let s = 0; s < d.states; s++) tails.fill(s, d.first[s]!, d.first[s + 1]!);
+  return { states: d.states, start: 0, final: d.final, tails, inputs, outputs, heads: d.target };
 }

@@ -133,3 +133,53 @@ export function trimTable(t: ArcTable): ArcTable {
   for (let s = 0; s < t.states; s++) if (keep[s] === 1 && t.final[s] === 1) final[map[s]!] = 1;
   return { states: n, start: map[t.start]!, final, tails, inputs, outputs, heads };
 }
+
+/** Typed-array arc lists (compressed sparse rows), sorted by one side. */
+export interface SortedArcs {
+  /** Arcs of state s are at first[s] … first[s+1]-1. */
+  readonly first: Int32Array;
+  readonly input: Int32Array;
+  readonly output: Int32Array;
+  readonly target: Int32Array;
+}
+
+/** `order` stably re-sorted by `keys[order[i]]` (a counting pass; a comparison sort when the keys are sparse). */
+function stableBy(order: Int32Array, keys: Int32Array): Int32Array {
+  let top = 0;
+  for (let k = 0; k < keys.length; k++) if (keys[k]! > top) top = keys[k]!;
+  if (top > 4 * keys.length + 1024) {
+    const rank = new Int32Array(order.length);
+    order.forEach((k, i) => { rank[k] = i; });
+    return Int32Array.from(order).sort((x, y) => keys[x]! - keys[y]! || rank[x]! - rank[y]!);
+  }
+  const first = new Int32Array(top + 2);
+  for (let k = 0; k < keys.length; k++) first[keys[k]! + 1]!++;
+  for (let l = 0; l <= top; l++) first[l + 1]! += first[l]!;
+  const out = new Int32Array(order.length);
+  for (let i = 0; i < order.length; i++) { const k = order[i]!; out[first[keys[k]!]!++] = k; }
+  return out;
+}
+
+/**
+ * The table's arcs as rows sorted like `sortedArcs` (compose.ts): by (input, output, target) or by
+ * (output, input, target) — least significant key first, in stable counting passes.
+ */
+export function sortedRows(t: ArcTable, by: "input" | "output"): SortedArcs {
+  const m = t.tails.length;
+  let order: Int32Array = Int32Array.from({ length: m }, (_, k) => k);
+  order = stableBy(order, t.heads);
+  order = stableBy(order, by === "input" ? t.outputs : t.inputs);
+  order = stableBy(order, by === "input" ? t.inputs : t.outputs);
+  order = stableBy(order, t.tails);
+  const first = new Int32Array(t.states + 1);
+  for (let k = 0; k < m; k++) first[t.tails[k]! + 1]!++;
+  for (let s = 0; s < t.states; s++) first[s + 1]! += first[s]!;
+  const input = new Int32Array(m), output = new Int32Array(m), target = new Int32Array(m);
+  for (let i = 0; i < m; i++) {
+    const k = order[i]!;
+    input[i] = t.inputs[k]!;
+    output[i] = t.outputs[k]!;
+    target[i] = t.heads[k]!;
+  }
+  return { first, input, output, target };
+}

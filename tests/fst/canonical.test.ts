@@ -9,7 +9,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import {
   EPSILON, Fst, canonicalOrder, emptyFst, compose, composeTable, determinise, expandFinalOutputs, fstOf, isSequential,
-  minimise, minimiseTable, reverse, tableOf, trim, trimTable, type Label,
+  minimise, minimiseTable, minimiseToTable, reverse, sortedArcs, sortedRows, tableOf, trim, trimTable, type Label,
 } from "../../src/fst/index.js";
 import { arbFst, arbSequential } from "./brute.js";
 
@@ -145,7 +145,25 @@ describe("arc tables", () => {
     fc.assert(
       fc.property(functional, functional, (a, b) => {
         const c = compose(a, b);
-        expect(same(minimiseTable(composeTable(a, b)), minimise(c))).toBe(true);
+        const m = minimise(c);
+        expect(same(minimiseTable(composeTable(a, b)), m)).toBe(true);
+        // The accumulator of a fold kept as a table composes as the machine it describes.
+        const left = minimiseToTable(composeTable(a, b));
+        if (!(left instanceof Fst)) {
+          expect(same(fstOf(left), m)).toBe(true);
+          expect(same(fstOf(composeTable(left, b)), compose(m, b))).toBe(true);
+          expect(same(fstOf(composeTable(b, left)), compose(b, m))).toBe(true);
+        }
+      }),
+      runs,
+    );
+  });
+
+  it("sortedRows sorts a table's arcs as sortedArcs sorts the machine's", () => {
+    fc.assert(
+      fc.property(transducer, (t) => {
+        const m = expandFinalOutputs(t);
+        for (const by of ["input", "output"] as const) expect(sortedRows(tableOf(m), by)).toEqual(sortedArcs(m, by));
       }),
       runs,
     );
