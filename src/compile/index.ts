@@ -15,7 +15,7 @@ import { SymbolLowering, lowerRule } from "./cases.js";
 import { Lowering, LowerError, lowerError } from "./lower.js";
 import { buildRule, type PairNfa } from "./rule.js";
 import { buildStress, buildSyllabifier } from "./prosody.js";
-import { finishMachine, pairNfaToFst } from "./machine.js";
+import { finishMachine, finishPairNfa } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
 import { startCascade } from "./parallel.js";
 import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
@@ -133,7 +133,7 @@ export function compileStep(
   const sl = new SymbolLowering(low, alphabet);
   const fin = (p: PairNfa): Fst =>
     budget.within(`minimising its machine (${p.states.toLocaleString("en-US")} states before)`, () =>
-      finishMachine(pairNfaToFst(p), { maxStates: budget.limits.machineStates, progress: budget.tick }));
+      finishPairNfa(p, { maxStates: budget.limits.machineStates, progress: budget.tick }));
   /** The rule's alignment construction, with its parts named for the limits. */
   const rule = (r: Rule, variant: "variants" | "preferred"): PairNfa => {
     const blind = isBoundaryBlind(r);

@@ -94,6 +94,10 @@ export function composeTable(a: Fst | ArcTable, b: Fst | ArcTable, options: Comp
   const sb = B instanceof Fst ? sortedArcs(B, "input") : sortedRows(B, "input");
   const finalA = isFinal(A), finalB = isFinal(B);
   const nB = states(B);
+  // Pair states by (p·|b| + q)·2 + filter: a dense table when the product is small (a cascade's
+  // accumulator against one step), else a hash map.
+  const space = states(A) * nB * 2;
+  const dense = space <= 1 << 22 ? new Int32Array(space).fill(-1) : null;
   const ids = new Map<number, number>();
   const qp = new IntList();
   const qq = new IntList();
@@ -105,12 +109,13 @@ export function composeTable(a: Fst | ArcTable, b: Fst | ArcTable, options: Comp
   const final = new IntList();
   const idOf = (p: number, q: number, f: number): number => {
     const key = (p * nB + q) * 2 + f;
-    let id = ids.get(key);
-    if (id === undefined) {
+    let id = dense !== null ? dense[key]! : ids.get(key) ?? -1;
+    if (id < 0) {
       id = qp.length;
       if (id >= maxStates) throw new FstLimitError("composition", maxStates);
       options.progress?.();
-      ids.set(key, id);
+      if (dense !== null) dense[key] = id;
+      else ids.set(key, id);
       qp.push(p);
       qq.push(q);
       qf.push(f);

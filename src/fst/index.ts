@@ -22,7 +22,7 @@ export {
   union,
 } from "./basic.js";
 export { FstLimitError, compose, composeAll, composeTable, intersect, sortedArcs } from "./compose.js";
-export { fstOf, sortedRows, tableOf, trimTable } from "./table.js";
+export { fstOf, rowsOf, sortedRows, tableOf, trimTable } from "./table.js";
 export type { ArcTable } from "./table.js";
 export type { ComposeOptions, SortedArcs } from "./compose.js";
 export { removeEpsilon, removeInputEpsilons } from "./epsilon.js";
