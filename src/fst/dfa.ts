@@ -165,7 +165,11 @@ export function coarsestPartition(
 function byLabel(labels: Int32Array): Int32Array {
   const m = labels.length;
   const top = maxLabel(labels);
-  if (top > 4 * m + 1024) return Int32Array.from({ length: m }, (_, k) => k).sort((a, b) => labels[a]! - labels[b]! || a - b);
+  if (top > 4 * m + 1024) {
+    const all = new Int32Array(m);
+    for (let k = 0; k < m; k++) all[k] = k;
+    return all.sort((a, b) => labels[a]! - labels[b]! || a - b);
+  }
   const first = new Int32Array(top + 2);
   for (let k = 0; k < m; k++) first[labels[k]! + 1]!++;
   for (let l = 0; l <= top; l++) first[l + 1]! += first[l]!;

@@ -166,7 +166,8 @@ function stableBy(order: Int32Array, keys: Int32Array): Int32Array {
  */
 export function sortedRows(t: ArcTable, by: "input" | "output"): SortedArcs {
   const m = t.tails.length;
-  let order: Int32Array = Int32Array.from({ length: m }, (_, k) => k);
+  let order: Int32Array = new Int32Array(m);
+  for (let k = 0; k < m; k++) order[k] = k;
   order = stableBy(order, t.heads);
   order = stableBy(order, by === "input" ? t.outputs : t.inputs);
   order = stableBy(order, by === "input" ? t.inputs : t.outputs);
