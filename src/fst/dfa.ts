@@ -4,7 +4,7 @@
 // composition of a cascade costs milliseconds, not the composition's tens of milliseconds.
 
 import { FstLimitError } from "./compose.js";
-import { IntList, rowsOf, usefulStates } from "./table.js";
+import { IntList, rowsOf, trimTable } from "./table.js";
 
 /** An acceptor as arrays: arc k goes from `tails[k]` to `heads[k]` reading `labels[k]` (0 is ε). */
 export interface ArcArrays {
@@ -334,30 +334,15 @@ const EMPTY: CanonicalDfa = { states: 1, final: new Uint8Array(1), first: new In
 export function minimalDfa(a: ArcArrays, options: MinimalDfaOptions = {}): CanonicalDfa {
   if (a.states === 0) return EMPTY;
   const d = subsets(a, options);
-  const keep = usefulStates(d.states, d.start, d.final, d.tails, d.heads);
-  let any = false;
-  for (let s = 0; s < d.states && !any; s++) any = keep[s] === 1 && d.final[s] === 1;
-  if (!any) return EMPTY;
-  // Renumber the useful states (in order) and keep the arcs between them (rows stay by label).
-  const map = new Int32Array(d.states).fill(-1);
-  let n = 0;
-  for (let s = 0; s < d.states; s++) if (keep[s] === 1) map[s] = n++;
-  let m = 0;
-  for (let k = 0; k < d.tails.length; k++) if (map[d.tails[k]!]! >= 0 && map[d.heads[k]!]! >= 0) m++;
-  const tails = new Int32Array(m);
-  const labels = new Int32Array(m);
-  const heads = new Int32Array(m);
-  m = 0;
-  for (let k = 0; k < d.tails.length; k++) {
-    const t = map[d.tails[k]!]!, h = map[d.heads[k]!]!;
-    if (t < 0 || h < 0) continue;
-    tails[m] = t;
-    labels[m] = d.labels[k]!;
-    heads[m] = h;
-    m++;
-  }
+  // The useful states renumbered in order, with the arcs between them (rows stay by label).
+  const t = trimTable({ states: d.states, start: d.start, final: d.final, tails: d.tails, inputs: d.labels, outputs: d.labels, heads: d.heads });
+  const n = t.states;
+  const { tails, inputs: labels, heads } = t;
+  const m = tails.length;
   const finalClass = new Int32Array(n).fill(-1);
-  for (let s = 0; s < d.states; s++) if (keep[s] === 1 && d.final[s] === 1) finalClass[map[s]!] = 0;
+  for (let s = 0; s < n; s++) if (t.final[s] === 1) finalClass[s] = 0;
+  // Only the start kept (trimming always keeps it) and not final: the empty language.
+  if (!finalClass.includes(0)) return EMPTY;
   const block = coarsestPartition(n, tails, labels, heads, finalClass);
   // One representative per block, with its arcs (already by ascending label); breadth-first renumbering.
   const rows = rowsOf(n, tails);
@@ -368,7 +353,7 @@ export function minimalDfa(a: ArcArrays, options: MinimalDfaOptions = {}): Canon
   const id = new Int32Array(blocks).fill(-1);
   const order = new Int32Array(blocks);
   let made = 0;
-  const startBlock = block[map[d.start]!]!;
+  const startBlock = block[t.start]!;
   id[startBlock] = made;
   order[made++] = startBlock;
   const first = new Int32Array(blocks + 1);
