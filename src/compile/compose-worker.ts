@@ -23,6 +23,7 @@ function reply(r: CascadeReply): void {
 
 signal(1);
 
+const budget = new Budget({ deadlineMs: job.deadlineMs, heapBytes: job.heapBytes });
 try {
   const machines: (Fst | null)[] = job.machines.map((b) => {
     if (b === null) return null;
@@ -30,10 +31,9 @@ try {
     if (!d.ok) throw new Error(`a step machine did not decode: ${d.error}`);
     return d.value;
   });
-  const budget = new Budget({ deadlineMs: job.deadlineMs, heapBytes: job.heapBytes });
   const blocks = composeCascade(machines, job.maxStates, budget);
   reply({ kind: "blocks", blocks: blocks.map((b) => ({ from: b.from, to: b.to, bytes: serialise(b.machine) })) });
 } catch (e) {
-  if (e instanceof CompileLimitError) reply({ kind: "limit", limit: e.kind, part: e.part, value: e.limit });
+  if (e instanceof CompileLimitError) reply({ kind: "limit", limit: e.kind, part: e.part, value: e.limit, step: budget.step });
   else reply({ kind: "failed", message: e instanceof Error ? e.message : String(e) });
 }

@@ -23,7 +23,7 @@ export interface CascadeJob {
 
 export type CascadeReply =
   | { readonly kind: "blocks"; readonly blocks: readonly { readonly from: number; readonly to: number; readonly bytes: Uint8Array }[] }
-  | { readonly kind: "limit"; readonly limit: LimitKind; readonly part: string; readonly value: number }
+  | { readonly kind: "limit"; readonly limit: LimitKind; readonly part: string; readonly value: number; readonly step: number }
   | { readonly kind: "failed"; readonly message: string };
 
 /** Below this many arcs over the step machines the worker's start (≈ 50 ms) costs more than it saves. */
@@ -39,7 +39,7 @@ function script(): string | undefined {
 
 /** A cascade being composed: `blocks()` waits for it (synchronously). */
 export interface PendingCascade {
-  /** Worker threads used (0 when the cascade is composed on the calling thread when asked). */
+  /** Worker threads used (0: the cascade is composed on the calling thread when `blocks()` is called). */
   readonly threads: number;
   blocks(): Block[];
   /** Stops the worker (when the other cascade failed and these blocks are not wanted). */
@@ -60,8 +60,8 @@ function autoThreads(): number {
 /**
  * Starts composing `machines` on a worker thread when that can pay (compiled code, `threads` — by
  * default `autoThreads()` — at least 2, a cascade of at least MIN_ARCS arcs); otherwise `blocks()`
- * composes on the calling thread. A limit reached on the worker is thrown by `blocks()` as on one thread, with
- * `budget.part` and `budget.step` naming what was being composed.
+ * composes on the calling thread. A limit reached on the worker is thrown by `blocks()` as on one
+ * thread, with `budget.part` and `budget.step` naming what was being composed.
  */
 export function startCascade(machines: readonly (Fst | null)[], maxStates: number, budget: Budget, threads?: number): PendingCascade {
   const local: PendingCascade = { threads: 0, blocks: () => composeCascade(machines, maxStates, budget), cancel: () => {} };
@@ -102,6 +102,7 @@ export function startCascade(machines: readonly (Fst | null)[], maxStates: numbe
       cancel();
       if (got?.kind === "limit") {
         budget.part = got.part;
+        budget.step = got.step;
         throw new CompileLimitError(got.limit, got.part, got.value);
       }
       if (got?.kind !== "blocks") return composeCascade(machines, maxStates, budget);
