@@ -24,7 +24,7 @@ export type { Block } from "./cascade.js";
 export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
 /** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
-export const COMPILER_VERSION = "strata-compile-3";
+export const COMPILER_VERSION = "strata-compile-4";
 
 export interface CompileOptions {
   /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */
