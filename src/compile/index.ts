@@ -20,7 +20,7 @@ import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./c
 import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, JOIN, FIRST_SEGMENT, symbolText } from "./alphabet.js";
-export type { Block } from "./cascade.js";
+export type { BatchResult, Block } from "./cascade.js";
 export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
 /** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
