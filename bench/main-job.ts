@@ -140,9 +140,10 @@ function speedNotes(walkOverMachine: number, machineOverRegex: number, subsetOve
   if (walkOverMachine > 5) {
     notes.push(
       `note: table walk ÷ composed machine is ${fmt(walkOverMachine, 1)}× (target ≤ 5×). The composed machine is not subsequential (right contexts of unbounded length), ` +
-        "so it runs in two passes (src/fst/bimachine.ts): right to left, one load per symbol for the set of states that can still accept; left to right, one load per symbol " +
-        "for the next state and output code, then the output write. The bare walk does one load per symbol and writes nothing, so the floor of this design is about 2–3× the walk; " +
-        "the rest is the batch's output arrays and, on a shared machine, load (compare CPU times).",
+        "so it runs in two passes (src/fst/bimachine.ts, by chunks of entries): right to left, one load per symbol (the next set's row and the choice column) and one store " +
+        "of the column; left to right, one load of the column, one load per symbol (the next state's row and the output), the read symbol for a copy, and the output write; " +
+        "two-symbol outputs (a boundary written beside a segment) take a branch. The bare walk does one load per symbol and writes nothing, so the floor of this design " +
+        "is about 2–3× the walk; the rest is load on a shared machine (compare CPU times).",
     );
   }
   if (machineOverRegex < 10) {
