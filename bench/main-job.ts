@@ -140,10 +140,10 @@ function speedNotes(walkOverMachine: number, machineOverRegex: number, subsetOve
   if (walkOverMachine > 5) {
     notes.push(
       `note: table walk ÷ composed machine is ${fmt(walkOverMachine, 1)}× (target ≤ 5×). The composed machine is not subsequential (right contexts of unbounded length), ` +
-        "so it runs in two passes (src/fst/bimachine.ts, by chunks of entries): right to left, one load per symbol (the next set's row and the choice column) and one store " +
-        "of the column; left to right, one load of the column, one load per symbol (the next state's row and the output), the read symbol for a copy, and the output write; " +
-        "two-symbol outputs (a boundary written beside a segment) take a branch. The bare walk does one load per symbol and writes nothing, so the floor of this design " +
-        "is about 2–3× the walk; the rest is load on a shared machine (compare CPU times).",
+        "so it runs in two passes (src/fst/bimachine.ts): right to left, one load per symbol (the next set and the choice column) and one store of the column; left to right, " +
+        "one load of the column, one load per symbol (the next state and the output code), the symbol read for a copy, and the output write; about one symbol in six (a " +
+        "boundary written beside a segment) writes two symbols, behind a branch. The bare walk does one load per symbol and writes nothing, so the floor of this design is " +
+        "about 2–3× the walk (measured alone: right-to-left pass ≈ the walk, left-to-right pass ≈ 2× it); the rest is load on a shared machine (compare CPU times: bench/runner-speed.ts).",
     );
   }
   if (machineOverRegex < 10) {

@@ -1,8 +1,7 @@
-// The packed two-pass runner (src/fst/bimachine.ts: row offsets, branch-free outputs, the batch
-// loop by chunks) against the searching runner it packs (FunctionalRunner.runSearching), on random
-// functional machines with string outputs, copies and final outputs, and on batches that cross
-// chunk boundaries, hold entries longer than a chunk, run out of output room, or carry symbols
-// outside the alphabet.
+// The packed two-pass runner (src/fst/bimachine.ts: one-load tables, the batch loop) against the
+// searching runner it packs (FunctionalRunner.runSearching), on random functional machines with
+// string outputs, copies and final outputs, and on large batches with long entries, too little
+// output room at first, and symbols outside the alphabet.
 
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
@@ -78,12 +77,11 @@ describe("the packed two-pass runner = the searching runner", () => {
     expect(packed).toBeGreaterThan(150);
   });
 
-  it("batches of several chunks, and entries longer than a chunk", () => {
+  it("large batches, and entries of thousands of symbols", () => {
     fc.assert(
       fc.property(arbRunner, fc.array(word, { minLength: 1, maxLength: 6 }), fc.nat(), (r, words, seed) => {
         if (r === null || r.packed() === null) return;
-        // About 7 000 symbols in 1 500 entries (past CHUNK_SYMBOLS and CHUNK_ENTRIES), then one
-        // entry of 5 000 accepted-looking symbols.
+        // About 7 000 symbols in 1 500 entries, then one entry of 5 000 symbols of the alphabet.
         const many: number[][] = [];
         for (let k = 0; many.length < 1500; k++) many.push(words[(k + seed) % words.length]!);
         const long = Array.from({ length: 5000 }, (_, i) => 1 + ((i * 7 + seed) % 4));
