@@ -10,7 +10,7 @@ import { join, relative } from "node:path";
 import { pathToFileURL } from "node:url";
 import { loadGrammar, type Grammar } from "../src/grammar/index.js";
 import type { Inventory } from "../src/inventory/types.js";
-import { compileGrammar, type Compiled } from "../src/compile/index.js";
+import { compileGrammar, type BatchResult, type Compiled } from "../src/compile/index.js";
 import { formatDiagnostic } from "../src/diagnostics.js";
 import { applyGrammar, prepareGrammar, type PreparedGrammar } from "../src/interp/index.js";
 import type { Sym } from "../src/interp/types.js";
@@ -71,10 +71,15 @@ function compileIn(grammar: Grammar, inv: Inventory, cacheDir: string, what: str
   return r.compiled;
 }
 
+/** The last batch result per machine and input: its arrays take the next run's outputs, as a caller running batch after batch would. */
+const batchRooms = new WeakMap<Int32Array, BatchResult>();
+
 /** Runs the preferred cascade over every view; returns the total output length (the checksum). */
 function runAll(c: Compiled, packed: { readonly ids: Int32Array; readonly at: Int32Array }): number {
-  // The batch loop over the packed arrays (the runner's typed-array hot path).
-  const r = c.preferred.runBatch(packed.ids, packed.at);
+  // The batch loop over the packed arrays (the runner's typed-array hot path), writing into the
+  // previous run's output arrays (the first run allocates them).
+  const r = c.preferred.runBatch(packed.ids, packed.at, batchRooms.get(packed.ids));
+  batchRooms.set(packed.ids, r);
   const bad = r.ok.indexOf(0);
   if (bad >= 0) throw new Error(`the machine rejected entry ${bad}`);
   return r.outAt[r.outAt.length - 1]!;
@@ -135,9 +140,10 @@ function speedNotes(walkOverMachine: number, machineOverRegex: number, subsetOve
   if (walkOverMachine > 5) {
     notes.push(
       `note: table walk ÷ composed machine is ${fmt(walkOverMachine, 1)}× (target ≤ 5×). The composed machine is not subsequential (right contexts of unbounded length), ` +
-        "so it runs in two passes (src/fst/bimachine.ts): right to left, one load per symbol for the set of states that can still accept; left to right, one load per symbol " +
-        "for the next state and output code, then the output write. The bare walk does one load per symbol and writes nothing, so the floor of this design is about 2–3× the walk; " +
-        "the rest is the batch's output arrays and, on a shared machine, load (compare CPU times).",
+        "so it runs in two passes (src/fst/bimachine.ts): right to left, one load per symbol (the next set and the choice column) and one store of the column; left to right, " +
+        "one load of the column, one load per symbol (the next state and the output code), the symbol read for a copy, and the output write; about one symbol in six (a " +
+        "boundary written beside a segment) writes two symbols, behind a branch. The bare walk does one load per symbol and writes nothing, so the floor of this design is " +
+        "about 2–3× the walk (measured alone: right-to-left pass ≈ the walk, left-to-right pass ≈ 2× it); the rest is load on a shared machine (compare CPU times: bench/runner-speed.ts).",
     );
   }
   if (machineOverRegex < 10) {

@@ -128,6 +128,13 @@ function blockRunner(m: Fst, tryTable: boolean, budget: Budget, onAmbiguous: () 
   };
 }
 
+/** Outputs of a batch: entry e's output is out[outAt[e] .. outAt[e+1]), ok[e] = 0 when it was rejected. */
+export interface BatchResult {
+  readonly out: Int32Array;
+  readonly outAt: Int32Array;
+  readonly ok: Uint8Array;
+}
+
 /** The preferred cascade: each block functional; runs them in sequence. */
 export class PreferredRunner {
   private readonly runners: BlockRunner[];
@@ -157,22 +164,34 @@ export class PreferredRunner {
   get kinds(): string[] {
     return this.runners.map((r) => r.kind);
   }
+  /** Scratch for the outputs of every block but the last (two, used in turn), kept between batches. */
+  private scratch: BatchResult[] = [];
+
   /**
    * Runs a whole batch: entry e is input[at[e] .. at[e+1]). Returns the outputs packed the same
    * way (`out`, `outAt`) and `ok[e]` (0 when rejected, with an empty output). Blocks with a typed
-   * batch loop use it; others run entry by entry.
+   * batch loop use it; others run entry by entry. `into`: the result of an earlier call, whose
+   * arrays are written again when they are large enough (a caller running batch after batch then
+   * allocates nothing; that earlier result is overwritten).
    */
-  runBatch(input: Int32Array, at: Int32Array): { out: Int32Array; outAt: Int32Array; ok: Uint8Array } {
+  runBatch(input: Int32Array, at: Int32Array, into?: BatchResult): BatchResult {
     const entries = at.length - 1;
-    let cur = { out: input, outAt: at, ok: new Uint8Array(entries).fill(1) };
-    for (const r of this.runners) {
-      const outAt = new Int32Array(entries + 1);
-      const ok = new Uint8Array(entries);
-      let out = new Int32Array(Math.max(16, cur.out.length * 2));
+    let cur: BatchResult | null = null;
+    if (this.runners.length === 0) return { out: input, outAt: at, ok: new Uint8Array(entries).fill(1) };
+    for (let k = 0; k < this.runners.length; k++) {
+      const r = this.runners[k]!;
+      const src: { out: Int32Array; outAt: Int32Array } = cur ?? { out: input, outAt: at };
+      const last = k === this.runners.length - 1;
+      const room = last ? into : this.scratch[k & 1];
+      const fits = room !== undefined && room.outAt.length === entries + 1;
+      const outAt = fits ? room.outAt : new Int32Array(entries + 1);
+      const ok = fits ? room.ok : new Uint8Array(entries);
+      outAt[0] = 0;
+      let out: Int32Array = fits ? room.out : new Int32Array(Math.max(16, src.out.length * 2));
       if (r.batch !== undefined) {
         let done = 0;
         while (done < entries) {
-          done = r.batch(cur.out, cur.outAt, out, outAt, ok, done);
+          done = r.batch(src.out, src.outAt, out, outAt, ok, done);
           if (done < entries) {
             const bigger = new Int32Array(out.length * 2);
             bigger.set(out);
@@ -183,16 +202,20 @@ export class PreferredRunner {
         const buf: number[] = [];
         for (let e = 0; e < entries; e++) {
           const from = buf.length;
-          if (!r.run(cur.out.subarray(cur.outAt[e]!, cur.outAt[e + 1]!), buf)) buf.length = from;
-          else ok[e] = 1;
+          if (!r.run(src.out.subarray(src.outAt[e]!, src.outAt[e + 1]!), buf)) {
+            buf.length = from;
+            ok[e] = 0;
+          } else ok[e] = 1;
           outAt[e + 1] = buf.length;
         }
-        out = Int32Array.from(buf);
+        if (out.length < buf.length) out = new Int32Array(buf.length);
+        out.set(buf);
       }
-      for (let e = 0; e < entries; e++) ok[e] = ok[e]! & cur.ok[e]!;
+      if (cur !== null) for (let e = 0; e < entries; e++) ok[e] = ok[e]! & cur.ok[e]!;
       cur = { out, outAt, ok };
+      if (!last) this.scratch[k & 1] = cur;
     }
-    return cur;
+    return cur!;
   }
 
   /** Runs block `k` alone (for per-step blame when every block is one step). */

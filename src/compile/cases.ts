@@ -295,7 +295,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
       const leftRx: Rx = rtl ? { k: "seq", items: [any, L, ...targetRx] } : { k: "seq", items: [any, L] };
       const rightRx: Rx = rtl ? { k: "seq", items: [R, any] } : { k: "seq", items: [...targetRx, R, any] };
       const left = lefts.add(rxKey(leftRx), () => contextDfa(`the left context${where}`, leftRx));
-      const right = rights.add(rxKey(rightRx), () => {
+      // Keyed apart from the same pattern without the site check: an exception's right side (a
+      // longer `longest-first` expansion, an `unless`) may be the same pattern, and the case must
+      // not take the exception's unrestricted recogniser (a site before the first '#').
+      const right = rights.add(siteDfa ? `site|${rxKey(rightRx)}` : rxKey(rightRx), () => {
         const d = contextDfa(`the right context${where}`, rightRx);
         return siteDfa ? dfaProduct(d, siteDfa, "and") : d;
       });

@@ -21,11 +21,11 @@ import { startCascade } from "./parallel.js";
 import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, JOIN, FIRST_SEGMENT, symbolText } from "./alphabet.js";
-export type { Block } from "./cascade.js";
+export type { BatchResult, Block } from "./cascade.js";
 export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
 /** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
-export const COMPILER_VERSION = "strata-compile-3";
+export const COMPILER_VERSION = "strata-compile-4";
 
 export interface CompileOptions {
   /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */

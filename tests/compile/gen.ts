@@ -64,7 +64,7 @@ const changeFor = (vars: boolean): fc.Arbitrary<ChangeElement> =>
   );
 
 /** A random rule: feature change, literal change, deletion or insertion; 0–2 environments; any mode. */
-export const ruleArb: fc.Arbitrary<Rule> = fc
+const plainRuleArb: fc.Arbitrary<Rule> = fc
   .record({
     kind: fc.constantFrom("change", "change", "change", "delete", "insert"),
     n: fc.constantFrom(1, 1, 1, 2),
@@ -129,3 +129,39 @@ export const joinModeArb: fc.Arbitrary<JoinMode | undefined> = fc.constantFrom<J
 /** The `joins` field for a grammar: a closing mode needs an onsets list when codas are declared (grammar/joins-without-onsets). */
 export const joinsField = (mode: JoinMode | undefined, onsets: unknown, codas: unknown): { joins?: JoinMode } =>
   mode === undefined || (mode !== "through" && onsets === null && codas !== null) ? {} : { joins: mode };
+
+/**
+ * An insertion beside a word boundary with an optional group next to the '#' (`(X) # _`, `# (X) _`,
+ * `_ # (X)`, `_ (X) #`), usually `longest-first` and often `mirrored`: the longer expansion is then
+ * an exception of the shorter one, and its right side may hold where no insertion site is (before
+ * the first '#'). A compiled machine once inserted there (`∅ -> t / ([+syllabic]) # _ mirrored`,
+ * longest-first, on `# a #`); the plain generator makes this shape too rarely to find it.
+ */
+const edgeInsertionArb: fc.Arbitrary<Rule> = fc
+  .record({
+    group: element(false, false),
+    groupFirst: fc.boolean(),
+    onLeft: fc.boolean(),
+    other: fc.option(element(false, true), { freq: 3 }),
+    mirrored: fc.constantFrom(false, true, true),
+    longestFirst: fc.constantFrom(false, true, true, true),
+    insertSeg: fc.constantFrom("t", "a", "n"),
+    optional: fc.boolean(),
+    mode: fc.constantFrom("simultaneous", "left-to-right", "right-to-left") as fc.Arbitrary<Rule["mode"]>,
+    prefer: fc.constantFrom("applied", "unapplied") as fc.Arbitrary<Rule["prefer"]>,
+  })
+  .map((r): Rule => {
+    const group: Pattern = { kind: "optional", body: pat(r.group), span: SPAN };
+    const edge: Pattern[] = r.groupFirst ? [group, pat(WB)] : [pat(WB), group];
+    const side: Pattern = { kind: "sequence", items: edge, span: SPAN };
+    const other: Pattern = { kind: "sequence", items: r.other === null ? [] : [pat(r.other)], span: SPAN };
+    const environment: Environment = { left: r.onLeft ? side : other, right: r.onLeft ? other : side, conditions: [], span: SPAN, ...(r.mirrored ? { mirrored: true } : {}) };
+    return {
+      kind: "rule", name: "random", span: SPAN, optional: r.optional, mode: r.mode, prefer: r.prefer,
+      target: [], change: [{ kind: "segment", symbol: r.insertSeg, span: SPAN }], environments: [environment],
+      ...(r.longestFirst ? { expansion: "longest-first" as const } : {}),
+    };
+  });
+
+/** A random rule (see plainRuleArb), sometimes an insertion at a word edge (see edgeInsertionArb). */
+export const ruleArb: fc.Arbitrary<Rule> = fc.oneof({ weight: 9, arbitrary: plainRuleArb }, { weight: 1, arbitrary: edgeInsertionArb });

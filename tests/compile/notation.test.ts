@@ -104,6 +104,24 @@ describe("longest-first: parenthesis expansions disjunctively ordered", () => {
     agreeOnAll(grammarOf(text(" longest-first")), allWords(["n", "p", "t", "a"], 4));
     agreeOnAll(grammarOf("rule r longest-first left-to-right:\n  a -> [αnasal] / (n) _ ([αnasal -syllabic] (i))\n"), allWords(["n", "p", "a", "i"], 4));
   });
+  // The mirror image `_ # ([+syllabic])` has the longer expansion `_ # [+syllabic]` as an exception
+  // of `_ #`. Its right side holds before the first '#' of "# a #", where no insertion site is; the
+  // compiler once shared one recogniser between the exception and the longer expansion's own case
+  // (which needs the site), and inserted a t outside the word.
+  it("an insertion beside '#' with a group, mirrored: never before the first '#'", () => {
+    const body = "rule r longest-first:\n  ∅ -> t / ([+syllabic]) # _ mirrored\n";
+    expect(outputs(grammarOf(body), "#a#")).toEqual(["tat"]);
+    const g = grammarOf(`stress from left 1\nsyllabify\n${body}rule s:\n  ∅ -> n / _ #\n`);
+    const c = compileGrammar(g, inv).compiled!;
+    const w = symsOf("#a#", inv);
+    const got = c.variants(c.encode(w)!, 10).outputs.map((o) => c.decode(o));
+    expect(got.map((o) => wordKey(o))).toEqual(interp(g, w).outputs.map(wordKey));
+    expect(got.map((o) => [o[0]!.kind, ipaOf(o, inv)])).toEqual([["boundary", "ˈtatn"]]);
+    for (const head of ["", " right-to-left", " optional", " left-to-right"]) {
+      agreeOnAll(grammarOf(`rule r longest-first${head}:\n  ∅ -> t / ([+syllabic]) # _ mirrored\n`), allWords(["p", "a"], 3));
+      agreeOnAll(grammarOf(`rule r longest-first${head}:\n  ∅ -> t / _ # (a)\n`), allWords(["p", "a"], 3));
+    }
+  });
 });
 
 
