@@ -140,7 +140,8 @@ describe("compiled rules agree with the interpreter", () => {
       }),
       { numRuns: 50 },
     );
-  });
+    // About a minute on a quiet 2-core machine; twice that when the machine is shared.
+  }, 300_000);
 });
 
 describe("a node variable bound only in an optional context element", () => {
