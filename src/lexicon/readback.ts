@@ -61,16 +61,20 @@ export async function readBackJsonl(path: string): Promise<{ count: number; line
   const words: string[] = [];
   const source = new Finder(SOURCE);
   const word = new Finder(WORD);
-  // Every record of a run names one file or two: its JSON string is decoded once per change.
-  let lastRaw = "";
+  // Every record of a run names one file or two: its JSON string is decoded once per change (the
+  // bytes compared with the last ones in place, no string made per record).
+  let lastRaw: Buffer = Buffer.alloc(0);
   let lastFile = "";
   await eachLineBytes(path, (buf, start, end) => {
     const s = sourceOf(buf, start, end, source);
     lines.push(s === undefined ? 0 : s.line);
     if (s === undefined) files.push("");
     else {
-      const raw = buf.toString("latin1", s.open, s.close);
-      if (raw !== lastRaw) (lastRaw = raw), (lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string);
+      const n = s.close - s.open;
+      if (n !== lastRaw.length || buf.compare(lastRaw, 0, n, s.open, s.close) !== 0) {
+        lastRaw = Buffer.from(buf.subarray(s.open, s.close));
+        lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string;
+      }
       files.push(lastFile);
     }
     words.push(wordOf(buf, start, end, word));
@@ -100,10 +104,21 @@ function sourceOf(buf: Buffer, start: number, end: number, finder: Finder): { li
 function wordOf(buf: Buffer, start: number, end: number, finder: Finder): string {
   for (let at = finder.find(buf, start, end); at >= 0; at = finder.find(buf, at + 1, end)) {
     const open = at + WORD.length - 1;
-    const close = stringEnd(buf, open + 1, end);
+    // The string's end, and whether it holds an escape (without one its text is its bytes between the quotes).
+    let close = -1;
+    let escaped = false;
+    for (let i = open + 1; i < end; i++) {
+      const c = buf[i]!;
+      if (c === 92 /* \ */) {
+        escaped = true;
+        i++;
+      } else if (c === 34 /* " */) {
+        close = i + 1;
+        break;
+      }
+    }
     if (close < 0) continue;
-    const raw = buf.toString("utf8", open, close);
-    return raw.indexOf("\\") < 0 ? raw.slice(1, -1) : (JSON.parse(raw) as string);
+    return escaped ? (JSON.parse(buf.toString("utf8", open, close)) as string) : buf.toString("utf8", open + 1, close - 1);
   }
   return "";
 }
