@@ -160,7 +160,7 @@ export class MachineEngine implements Engine {
     // at its cap (then the two need not keep the same outputs) or is not wanted.
     let traced: TracedOutputs | undefined;
     if (wantDerivation) {
-      this.tracer ??= new VariantTracer(this.stepwise!, this.steps);
+      this.tracer ??= new VariantTracer(this.stepwise!, this.steps, this.screen);
       traced = this.tracer.trace(ids, this.maxVariants);
     }
     let capped = false;
