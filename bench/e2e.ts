@@ -20,6 +20,8 @@ import { countInputRecords, countWritten, reconcile } from "../src/lexicon/recon
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
 import { entryJsonRecord, entryPhonemes } from "../src/lexicon/runner.js";
 import { ByteChunks } from "../src/emit/bytes.js";
+import { StressHygiene, STRESS_REPORT } from "../src/lexicon/hygiene.js";
+import { reconcileStressReport } from "../src/lexicon/reconcile-stress.js";
 import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
 
 export interface EndToEnd {
@@ -136,7 +138,8 @@ export function printStages(stages: readonly Stage[]): void {
  * Times each stage of a build on its own, in the order a build runs them: read and parse (the
  * reader less its tokenising), tokenise (a fresh memo), encode, the machines (narrow and broad),
  * render, per-step blame, variants (both by difference of whole engine runs), each writer
- * (formatting and writing its file whole), and the reconciliation that reads the files back.
+ * (formatting and writing its file whole), the stress checks, and the reconciliation that reads the
+ * files back (in its parts).
  */
 export async function buildStages(o: { csv: string; grammar: Grammar; inventory: Inventory; cacheDir: string }, outDir: string, failures: string[]): Promise<Stage[]> {
   const inv = o.inventory;
@@ -205,12 +208,18 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
     return writePls(join(outDir, "lexicon.pls"), lexemes.values(), { lang: "en-US" });
   });
   await writeRejects(join(outDir, "rejects.csv"), []);
-  const reconciling = await time(async () => {
-    const input = await countInputRecords(o.csv);
-    const written = await countWritten({ tsv: join(outDir, "lexicon.tsv"), jsonl: join(outDir, "lexicon.jsonl"), pls: join(outDir, "lexicon.pls"), rejects: join(outDir, "rejects.csv") });
-    return reconcile(o.csv, input, written);
-  });
+  // The reconciliation as a build runs it, in its three parts: the input's records counted on their
+  // own, the written files read back, and the two compared (reconcile.ts).
+  const counting = await time(() => countInputRecords(o.csv));
+  const readingBack = await time(() => countWritten({ tsv: join(outDir, "lexicon.tsv"), jsonl: join(outDir, "lexicon.jsonl"), pls: join(outDir, "lexicon.pls"), rejects: join(outDir, "rejects.csv") }));
+  const reconciling = await time(() => reconcile(o.csv, counting.value, readingBack.value));
   if (reconciling.value.length > 0) failures.push(`the stage outputs do not reconcile: ${reconciling.value[0]!.message}`);
+  // The stress checks of every entry written, and the stress report read back against the input (hygiene.ts, reconcile-stress.ts).
+  const hygiene = new StressHygiene({ inventory: inv, assignsStress: engine.steps.includes("stress") });
+  const checking = await time(() => rows.forEach((r, k) => hygiene.observe(r, results[k]!.key)));
+  await writeFileAtomic(join(outDir, STRESS_REPORT), hygiene.report());
+  const stressBack = await time(() => reconcileStressReport(o.csv, join(outDir, STRESS_REPORT), hygiene.total, [{ file: rows[0]?.file ?? "", input: counting.value }], []));
+  if (stressBack.value.length > 0) failures.push(`the stress report does not reconcile: ${stressBack.value[0]!.message}`);
   rmSync(outDir, { recursive: true, force: true });
   return [
     { name: "read and parse (reader less tokenising)", ms: Math.max(0, reading.ms - tok.ms), cpu: Math.max(0, reading.cpu - tok.cpu) },
@@ -223,6 +232,10 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
     { name: "TSV writer", ms: tsv.ms, cpu: tsv.cpu },
     { name: "JSON Lines writer", ms: jsonl.ms, cpu: jsonl.cpu },
     { name: "PLS writer", ms: pls.ms, cpu: pls.cpu },
-    { name: "reconciliation (input counted, outputs read back)", ms: reconciling.ms, cpu: reconciling.cpu },
+    { name: "stress checks (every entry)", ms: checking.ms, cpu: checking.cpu },
+    { name: "reconciliation: input records counted", ms: counting.ms, cpu: counting.cpu },
+    { name: "reconciliation: outputs read back", ms: readingBack.ms, cpu: readingBack.cpu },
+    { name: "reconciliation: compared line by line", ms: reconciling.ms, cpu: reconciling.cpu },
+    { name: "reconciliation: stress report read back", ms: stressBack.ms, cpu: stressBack.cpu },
   ];
 }
