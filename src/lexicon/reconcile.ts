@@ -6,7 +6,7 @@ import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import { readBackJsonl, readBackTsv } from "./readback.js";
+import { countTag, readBackJsonl, readBackTsv } from "./readback.js";
 
 /** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
 export interface InputRecords {
@@ -207,15 +207,8 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
   }
   let plsLexemes: number | undefined;
   if (files.pls !== undefined) {
-    plsLexemes = 0;
     // Counted in the bytes (the tag is ASCII; UTF-8 never repeats an ASCII byte inside a character).
-    const tag = Buffer.from("<lexeme>");
-    let tail: Buffer = Buffer.alloc(0);
-    for await (const chunk of createReadStream(files.pls, { highWaterMark: 1 << 20 })) {
-      const buf = tail.length === 0 ? (chunk as Buffer) : Buffer.concat([tail, chunk as Buffer]);
-      for (let at = buf.indexOf(tag); at >= 0; at = buf.indexOf(tag, at + tag.length)) plsLexemes++;
-      tail = buf.subarray(Math.max(0, buf.length - (tag.length - 1))); // shorter than the tag: never counted twice
-    }
+    plsLexemes = await countTag(files.pls, "<lexeme>");
   }
   const rej = csvRecords(await readFile(files.rejects, "utf8")).slice(1);
   const replaced = files.replaced === undefined ? undefined : csvRecords(await readFile(files.replaced, "utf8")).slice(1).map((r) => ({ file: r[0] ?? "", line: Number(r[1]), word: r[3] ?? "" }));
