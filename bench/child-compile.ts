@@ -43,5 +43,6 @@ process.stdout.write(
     preferred: c.preferredSize,
     variants: c.variantsSize,
     runnerKinds: c.preferred.kinds,
+    threads: c.threads,
   }) + "\n",
 );

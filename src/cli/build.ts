@@ -3,8 +3,7 @@
 
 import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
-import { availableParallelism } from "node:os";
-import { InvalidArgumentError, Option, type Command } from "commander";
+import { Option, type Command } from "commander";
 import cliProgress from "cli-progress";
 import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
@@ -12,7 +11,8 @@ import { runVarieties, ALL_FORMATS, type OutputFormat, type RunSummary, type Var
 import { countInputRecords } from "../lexicon/reconcile.js";
 import { InterpreterEngine } from "../lexicon/engine-interp.js";
 import { checkAgainstInterpreter } from "../lexicon/check.js";
-import { WorkerPool } from "../lexicon/pool.js";
+import { ChunkPool } from "../lexicon/chunks.js";
+import { approxRows, workerCount, workersArg, WORKERS_FROM_ROWS, WORKERS_HELP } from "./workers.js";
 import { differingSamples, narrowTable } from "../lexicon/samples.js";
 import { buildRecord, varietyRecord, writeBuildRecord, type VarietyRecord } from "../regress/record.js";
 import { checkBuildPins, readPins } from "../regress/pinned.js";
@@ -50,19 +50,6 @@ export interface BuildOptions {
   tieBars?: boolean;
   /** What lexicon.pls phonemes hold: every narrow variant (default) or the broad form. */
   plsPhonemes?: PlsPhonemes;
-}
-
-/** Lexicons at least this long are spread over worker threads when --workers is auto. */
-const WORKERS_FROM_ROWS = 20_000;
-
-/** `--workers`: auto or a whole number. */
-function workersArg(value: string): string {
-  if (value === "auto") return value;
-  try {
-    return String(wholeNumber(value));
-  } catch {
-    throw new InvalidArgumentError("It must be 'auto' or a whole number (0: no worker threads).");
-  }
 }
 
 export async function runBuild(dirArg: string | undefined, o: BuildOptions): Promise<number> {
@@ -113,15 +100,14 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   // The lexicon's records, counted once for every variety (the reconciliation checks each
   // variety's outputs against them; a file that cannot be read is reported by the reader).
   const inputRecords = countInputRecords(manifest.lexicon);
-  const lines = await inputRecords.then((r) => r.count + 1, () => 0);
+  // A file that cannot be read is reported by the reader; the count is then not waited for.
+  inputRecords.catch(() => undefined);
+  const threads = engine === "machine" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(manifest.lexicon), WORKERS_FROM_ROWS.build) : 0;
+  // With worker threads the count runs beside the build (the main thread waits for them at times);
+  // on one thread it is done first (its record arrays and the run's would be held at once: +28 MB
+  // peak on the CMU dictionary), and the progress bar's total always waits for it.
+  const lines = tty || threads === 0 ? await inputRecords.then((r) => r.count + 1, () => 0) : 0;
   const total = tty ? lines : 0;
-  // Worker threads besides the main thread (which reads, tokenises and writes): auto leaves one
-  // core to the main thread, from 4 cores (peak memory grows by ~85 MB per worker). On 2 cores a
-  // worker does not pay: the main thread's reading and writing is most of the work, and the
-  // CMU build took the same wall time with one worker as with none, for 13% more CPU.
-  const workers = String(o.workers ?? "auto");
-  const wanted = workers === "auto" ? (lines >= WORKERS_FROM_ROWS && availableParallelism() >= 4 ? Math.min(8, availableParallelism() - 1) : 0) : Number(workers);
-  const threads = engine === "machine" && WorkerPool.script() !== undefined ? wanted : 0;
   held.workers = threads;
   let failed = false;
   let internal = false;
@@ -155,27 +141,21 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   for (const group of groups.values()) {
     const bar = tty ? new cliProgress.SingleBar({ format: `${group.map((r) => r.variety.name).join(", ").padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
     bar?.start(Math.max(1, total - 1), 0);
-    const pools: WorkerPool[] = [];
     try {
-      const runs: VarietyRun[] = [];
-      for (const r of group) {
-        const pool = threads > 0
-          ? await WorkerPool.start(threads, { grammar: r.variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), blame: true, syllables, derivations: formats.includes("jsonl"), ties: o.tieBars === true })
-          : undefined;
-        if (pool !== undefined) pools.push(pool);
-        runs.push({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, assignsStress: r.loaded.grammar.steps.some((s) => s.kind === "stress"), ...(pool !== undefined ? { pool } : {}), ...(r.variety.overrides !== undefined ? { overrides: r.variety.overrides } : {}) });
-      }
+      const runs: VarietyRun[] = group.map((r) => ({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, assignsStress: r.loaded.grammar.steps.some((s) => s.kind === "stress"), ...(r.variety.overrides !== undefined ? { overrides: r.variety.overrides } : {}) }));
+      // Each worker thread loads the machines as this thread did (from the cache just filled).
+      const workerEngines = group.map((r) => ({ grammar: r.variety.grammar, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}), syllables, derivations: formats.includes("jsonl"), ...(o.tieBars === true ? { ties: true } : {}) }));
       const done = await runVarieties(group[0]!.loaded.inventory, manifest.lexicon, runs, {
         formats,
         sourceRoot: dirname(manifest.file),
         ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
         inputRecords,
+        ...(threads > 0 ? { workers: { count: threads, engines: workerEngines } } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });
       group.forEach((r, i) => (r.summary = done[i]));
     } finally {
       bar?.stop();
-      for (const pool of pools) await pool.close();
     }
   }
   for (const entry of order) {
@@ -309,7 +289,7 @@ export function registerBuild(program: Command): void {
     .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
     .option("--tie-bars", "write tie bars on affricates and diphthongs (t͡ʃ, d͡ʒ, a͡ɪ) in every output, for consumers that parse IPA")
     .addOption(new Option("--pls-phonemes <form>", "what lexicon.pls phonemes hold: every narrow variant, or the broad form alone (for engines with limited IPA)").choices(PLS_PHONEMES).default("narrow"))
-    .option("--workers <n>", "worker threads running the machines beside the main thread: a number (0: none), or auto (one less than the cores on 4 or more cores, for lexicons of 20,000 rows or more)", workersArg, "auto")
+    .option("--workers <n>", WORKERS_HELP, workersArg, "auto")
     .option("--samples <n>", "sample lines to print: entries whose narrow forms differ between the varieties (per variety when only one is built)", wholeNumber, 6);
   jsonOption(cmd, "print the summaries as one JSON document instead of the report");
   cmd.addOption(rootOption());

@@ -5,7 +5,6 @@ import { Option, type Command } from "commander";
 import { formatDiagnostic } from "../diagnostics.js";
 import { checkEntry, isWellFormedLanguageTag, PlsError, plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
-import { writeFileAtomic } from "../emit/atomic.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
 import { entryJsonLine, transcribeRow } from "../lexicon/runner.js";
 import { pickLanguage, plsPhonemes, PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
@@ -14,11 +13,14 @@ import { Channel } from "../lexicon/channel.js";
 import { InvalidArgumentError } from "commander";
 import {
   openCache, cacheOptions, checkInputFile, checkNotAnInput, checkOutputPath, commandLineError, commonOptions, ENGINE_KINDS, EXIT, examples,
-  grammarOptions, loadEngine, outOption, plural, printDiagnostics, resolveGrammar, type EngineKind,
+  grammarOptions, loadEngine, outOption, printDiagnostics, resolveGrammar, type EngineKind,
 } from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
-import { StressHygiene, stressLine, stressTotal } from "../lexicon/hygiene.js";
+import { StressHygiene } from "../lexicon/hygiene.js";
+import { ChunkPool } from "../lexicon/chunks.js";
+import { transcribeChunked, transcribeEnd } from "./transcribe-chunked.js";
+import { approxRows, workerCount, workersArg, WORKERS_FROM_ROWS, WORKERS_HELP } from "./workers.js";
 
 export const TRANSCRIBE_FORMATS = ["tsv", "jsonl", "pls"] as const;
 
@@ -46,6 +48,8 @@ export interface TranscribeOptions {
   plsPhonemes?: PlsPhonemes;
   /** Where to write the stress problems as CSV (lexicon/hygiene.ts); none when absent. */
   stressReport?: string;
+  /** Worker threads sharing the work (TSV and JSON Lines from a file): a number, or "auto" (default). */
+  workers?: string | number;
 }
 
 /** A BCP 47 tag for `--lang` (RFC 5646 well-formedness, as PLS xml:lang needs). */
@@ -93,6 +97,15 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     return EXIT.badInput;
   }
   const lang = chosen.lang;
+  // TSV and JSON Lines from a file can be spread over worker threads, a chunk of the file each
+  // (lexicon/chunks.ts); standard input and PLS (grouped as rows stream) stay on this thread.
+  const threads = !fromStdin && format !== "pls" && o.engine !== "interpreter" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(file), format === "tsv" ? WORKERS_FROM_ROWS.transcribeTsv : WORKERS_FROM_ROWS.build) : 0;
+  if (threads > 0 && format !== "pls") {
+    return transcribeChunked(file!, threads, {
+      grammar: resolved.path, ...(cacheDir !== undefined ? { cacheDir } : {}), ...(o.maxStates !== undefined ? { maxStates: o.maxStates } : {}),
+      blame: format !== "tsv", syllables: o.syllableBreaks ?? true, ...(o.tieBars === true ? { ties: true } : {}),
+    }, format, loaded.grammar.steps.some((s) => s.kind === "stress"), o, { engine: loaded.engine, inventory: loaded.inventory });
+  }
   const sourceName = fromStdin ? "<stdin>" : file;
   const reader = readLexicon(fromStdin ? (o.input ?? process.stdin) : file, { inventory: loaded.inventory, file: sourceName });
 
@@ -169,18 +182,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
     await plsWriter?.catch(() => undefined);
     throw err;
   }
-  printDiagnostics(reader.diagnostics, { quiet: o.quiet === true });
-  const failed = reader.diagnostics.some((d) => d.severity === "error");
-  if (!failed && chunks.length > 0) await writeFileAtomic(o.out!, chunks);
-  if (!failed && o.stressReport !== undefined) await writeFileAtomic(o.stressReport, hygiene.report());
-  const stats = reader.stats;
-  if (o.quiet !== true) process.stderr.write(`strata: ${plural(stats.dataLines, "row")} read = ${entries} written + ${rejects} rejected\n`);
-  const stress = hygiene.summary();
-  if (o.quiet !== true && !failed) process.stderr.write(`strata: ${stressLine(stress, o.stressReport)}\n`);
-  if (failed) return EXIT.badInput;
-  if (o.strict === true && stressTotal(stress) > 0) return EXIT.checksFailed;
-  if (rejects > 0 && o.allowRejects !== true) return EXIT.rejects;
-  return EXIT.ok;
+  return transcribeEnd(o, { diagnostics: reader.diagnostics, dataLines: reader.stats.dataLines, entries, rejects, stress: hygiene, out: chunks });
 }
 
 export function registerTranscribe(program: Command): void {
@@ -198,7 +200,8 @@ export function registerTranscribe(program: Command): void {
     .option("--strict", "exit 4 when an entry has a stress problem (the checks of strata lint); the output is still written")
     .option("--stress-report <file>", "write the stress problems as CSV, one line each (file, line, column, key, word, severity, code, message)")
     .addOption(new Option("--engine <kind>", "compiled machines, or the slow reference interpreter").choices(ENGINE_KINDS).default("machine"))
-    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)");
+    .option("--no-syllable-breaks", "write no '.' between syllables (stress marks stay)")
+    .option("--workers <n>", WORKERS_HELP + "; TSV and JSON Lines from a file only", workersArg, "auto");
   outOption(cmd, "file");
   cacheOptions(cmd);
   commonOptions(cmd);

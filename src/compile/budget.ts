@@ -1,5 +1,5 @@
 // Limits on one compilation: how many states each construction may make, how many alpha cases a
-// rule may have, and a wall-clock deadline and heap budget for the whole compile. Every limit
+// rule may have, and a time limit (CPU time, see `Budget`) and heap budget for the whole compile. Every limit
 // counts what it limits and ends in a CompileLimitError naming the part responsible, which the
 // compiler turns into a positioned `compile/too-large` at the rule (DEVELOPERS.md, "Limits").
 
@@ -15,7 +15,10 @@ export interface CompileLimits {
   readonly machineStates: number;
   /** Alpha-variable assignments × environments one rule lowers to (its cases). */
   readonly ruleCases: number;
-  /** Wall-clock milliseconds for the whole compilation (steps, composition, freezing). */
+  /**
+   * Milliseconds for the whole compilation (steps, composition, freezing), counted as the process's
+   * CPU time (user + system, all its threads) or the wall-clock time, whichever is less.
+   */
   readonly deadlineMs: number;
   /** Bytes the JavaScript heap may grow by during the compilation. */
   readonly heapBytes: number;
@@ -60,14 +63,26 @@ export function describe(kind: LimitKind, limit: number): string {
   }
 }
 
+/** CPU time of this process (user + system, every thread), in milliseconds. */
+const cpuMs = (): number => {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1000;
+};
+
 /**
  * The clock and heap side of the limits, shared by every construction of one compilation. `tick`
- * is cheap (a counter); every 256 ticks it reads the clock, every 4 096 the heap. `part` names
+ * is cheap (a counter); every 256 ticks it reads the clocks, every 4 096 the heap. `part` names
  * what is being built, for the message.
+ *
+ * Time is the work done: the process's CPU time since the budget began, so that waiting for a
+ * core on a loaded machine does not count; but never more than the wall-clock time, so that other
+ * threads of the process working alongside (a worker pool transcribing) cannot bring the limit on
+ * sooner than the clock would. The limit is reached when both have passed it.
  */
 export class Budget {
   readonly limits: CompileLimits;
-  private readonly deadline: number;
+  private readonly wallStart: number;
+  private readonly cpuStart: number;
   private readonly heapStart: number;
   private n = 0;
   /** What is being built, for messages. */
@@ -77,7 +92,8 @@ export class Budget {
 
   constructor(limits: Partial<CompileLimits> = {}) {
     this.limits = { ...DEFAULT_LIMITS, ...limits };
-    this.deadline = performance.now() + this.limits.deadlineMs;
+    this.wallStart = performance.now();
+    this.cpuStart = cpuMs();
     this.heapStart = process.memoryUsage().heapUsed;
   }
 
@@ -85,10 +101,16 @@ export class Budget {
   readonly tick = (): void => {
     const n = ++this.n;
     if ((n & 255) !== 0) return;
-    if (performance.now() > this.deadline) throw new CompileLimitError("time", this.part, this.limits.deadlineMs);
+    // The CPU clock is read only once the wall clock has passed the limit.
+    if (performance.now() - this.wallStart > this.limits.deadlineMs && this.elapsedMs() > this.limits.deadlineMs) throw new CompileLimitError("time", this.part, this.limits.deadlineMs);
     if ((n & 4095) === 0 && process.memoryUsage().heapUsed - this.heapStart > this.limits.heapBytes)
       throw new CompileLimitError("memory", this.part, this.limits.heapBytes);
   };
+
+  /** Milliseconds counted against the time limit: the process's CPU time or the wall-clock time since the start, whichever is less. */
+  elapsedMs(): number {
+    return Math.min(performance.now() - this.wallStart, cpuMs() - this.cpuStart);
+  }
 
   /** Runs `f` with `part` named as what is being built (restored afterwards); a state limit of the fst algebra is reported as this part's. */
   within<T>(part: string, f: () => T): T {

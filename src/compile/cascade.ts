@@ -3,7 +3,7 @@
 // Also the runners: the preferred cascade frozen for speed, the variants cascade for every output.
 
 import {
-  FstError, FstLimitError, compose, determiniseTransducer, freezeFunctional, minimise, type Fst,
+  Fst, FstError, FstLimitError, composeTable, determiniseTransducer, freezeFunctional, fstOf, minimiseToTable, type ArcTable,
   FrozenFst, freeze, freezeDeterministic, type DeterministicRunner,
   serialiseDeterministic, deserialiseDeterministic, serialiseFunctional, deserialiseFunctional,
 } from "../fst/index.js";
@@ -26,23 +26,25 @@ export interface Block {
  */
 export function composeCascade(machines: readonly (Fst | null)[], maxStates: number, budget: Budget = unbounded()): Block[] {
   const blocks: Block[] = [];
-  let acc: Fst | null = null;
+  // The accumulator stays an arc table between compositions (fst/table.ts); a machine only when a block closes.
+  let acc: Fst | ArcTable | null = null;
   let from = 0;
   const close = (to: number): void => {
     if (acc === null) return;
-    blocks.push({ machine: acc, from, to, states: acc.numStates, arcs: acc.numArcs() });
+    const machine = acc instanceof Fst ? acc : fstOf(acc);
+    blocks.push({ machine, from, to, states: machine.numStates, arcs: machine.numArcs() });
     acc = null;
   };
   machines.forEach((m, i) => {
     if (m === null) return;
     if (acc === null) { acc = m; from = i; return; }
-    let next: Fst | null = null;
+    let next: Fst | ArcTable | null = null;
     budget.step = i;
     budget.part = `composing step ${i + 1} with the steps before it`;
     try {
-      const c = compose(acc, m, { maxStates, progress: budget.tick });
-      next = c.numStates > maxStates ? null : minimise(c, { progress: budget.tick });
-      if (next !== null && next.numStates > maxStates) next = null;
+      const c = composeTable(acc, m, { maxStates, progress: budget.tick });
+      next = c.states > maxStates ? null : minimiseToTable(c, { progress: budget.tick });
+      if (next !== null && (next instanceof Fst ? next.numStates : next.states) > maxStates) next = null;
     } catch (e) {
       if (!(e instanceof FstLimitError)) throw e;
       next = null;

@@ -15,8 +15,9 @@ import { SymbolLowering, lowerRule } from "./cases.js";
 import { Lowering, LowerError, lowerError } from "./lower.js";
 import { buildRule, type PairNfa } from "./rule.js";
 import { buildStress, buildSyllabifier } from "./prosody.js";
-import { finishMachine, pairNfaToFst } from "./machine.js";
+import { finishMachine, finishPairNfa } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
+import { startCascade } from "./parallel.js";
 import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, JOIN, FIRST_SEGMENT, symbolText } from "./alphabet.js";
@@ -41,6 +42,12 @@ export interface CompileOptions {
    * (DEVELOPERS.md, "Segments the rules never make"). Part of the cache key.
    */
   readonly extraSegments?: readonly Bundle[];
+  /**
+   * Threads for composing: with 2 or more (the default where the machine has two cores) the
+   * variants cascade is composed on a worker thread while this one composes the preferred cascade
+   * (compiled code only; the same machines as on one thread). 1: one thread.
+   */
+  readonly threads?: number;
 }
 
 /** Size of one step's machine (the variants machine; `preferred*` when the preferred one differs). */
@@ -77,6 +84,8 @@ export interface Compiled {
   /** "hit": read from the cache; "miss": compiled and stored; "rebuilt": the cached file was stale or corrupt; "off": no cache folder. */
   readonly cache: "hit" | "miss" | "rebuilt" | "off";
   readonly cacheKey: string;
+  /** Threads the compile used: 2 when the variants cascade was composed on a worker thread, else 1. */
+  readonly threads: number;
   /** Milliseconds: compiling the steps, composing, freezing (zero for parts read from the cache). */
   readonly timings: { readonly steps: number; readonly compose: number; readonly freeze: number; readonly total: number };
   /** The block machines of both cascades (for DOT output and tests). */
@@ -124,7 +133,7 @@ export function compileStep(
   const sl = new SymbolLowering(low, alphabet);
   const fin = (p: PairNfa): Fst =>
     budget.within(`minimising its machine (${p.states.toLocaleString("en-US")} states before)`, () =>
-      finishMachine(pairNfaToFst(p), { maxStates: budget.limits.machineStates, progress: budget.tick }));
+      finishPairNfa(p, { maxStates: budget.limits.machineStates, progress: budget.tick }));
   /** The rule's alignment construction, with its parts named for the limits. */
   const rule = (r: Rule, variant: "variants" | "preferred"): PairNfa => {
     const blind = isBoundaryBlind(r);
@@ -290,7 +299,7 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
       });
       const t1 = performance.now();
       const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 }, meta.runners, read.blobs);
-      return { compiled: { ...compiled, timings: { steps: 0, compose: 0, freeze: performance.now() - t1, total: performance.now() - t0 } }, diagnostics: [] };
+      return { compiled: { ...compiled, threads: 1, timings: { steps: 0, compose: 0, freeze: performance.now() - t1, total: performance.now() - t0 } }, diagnostics: [] };
     }
     if (read.state === "corrupt" || (read.state === "ok" && !isCacheMeta(read.meta))) {
       cacheState = "rebuilt";
@@ -326,9 +335,17 @@ function composeAndFreeze(
     states: variants.numStates, arcs: variants.numArcs(),
     preferredStates: preferred?.numStates ?? 0, preferredArcs: preferred?.numArcs() ?? 0,
   }));
-  const preferredBlocks = composeCascade(result.steps.map((s) => s.preferred), maxStates, budget);
   const hasVariants = result.steps.some((s) => s.step.kind === "rule" && (s.step.optional || s.preferred === null || !sameMachine(s.variants, s.preferred)));
-  const variantBlocks = hasVariants ? composeCascade(result.steps.map((s) => s.variants), maxStates, budget) : preferredBlocks;
+  // The two cascades are independent: the variants one may go to a worker thread meanwhile (parallel.ts).
+  const variants = hasVariants ? startCascade(result.steps.map((s) => s.variants), maxStates, budget, opts.threads) : null;
+  let preferredBlocks: Block[];
+  try {
+    preferredBlocks = composeCascade(result.steps.map((s) => s.preferred), maxStates, budget);
+  } catch (e) {
+    variants?.cancel();
+    throw e;
+  }
+  const variantBlocks = variants !== null ? variants.blocks() : preferredBlocks;
   const t2 = performance.now();
   const compiled = assemble(result.alphabet, steps, preferredBlocks, variantBlocks, hasVariants, cacheState, key, { steps: t1 - t0, compose: t2 - t1, freeze: 0, total: 0 }, undefined, undefined, budget);
   const t3 = performance.now();
@@ -350,7 +367,7 @@ function composeAndFreeze(
     const unwritten = writeCache(opts.cacheDir, key, meta, [...preferredBlocks.map((b) => b.machine), ...variantBlocks.map((b) => b.machine)], compiled.preferred.frozenBytes());
     if (unwritten !== undefined) diagnostics.push(cacheWarning(opts.cacheDir, `The compiled machine could not be cached in ${opts.cacheDir} (${unwritten}); the next run compiles it again.`));
   }
-  return { compiled: { ...compiled, timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
+  return { compiled: { ...compiled, threads: 1 + (variants?.threads ?? 0), timings: { steps: t1 - t0, compose: t2 - t1, freeze: t3 - t2, total: performance.now() - t0 } }, diagnostics };
 }
 
 /** Structural equality of two machines (same states, finals and arcs in order). */
@@ -405,6 +422,6 @@ function assemble(
     variantsSize: cascadeSize(variantBlocks),
     hasVariants,
     variants: (symbols, cap = 16) => variantsRunner.run(symbols, cap),
-    encode, decode, cache, cacheKey, timings, preferredBlocks, variantBlocks,
+    encode, decode, cache, cacheKey, timings, preferredBlocks, variantBlocks, threads: 1,
   };
 }

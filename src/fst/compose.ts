@@ -1,8 +1,10 @@
 // Composition of transducers with the ε-sequencing filter of Mohri, Pereira & Riley, and
 // intersection of acceptors (composition of identity relations).
 
-import { trim } from "./basic.js";
-import { EPSILON, Fst, FstError, expandFinalOutputs, type Label } from "./fst.js";
+import { EPSILON, Fst, FstError, expandFinalOutputs } from "./fst.js";
+import { IntList, fstOf, sortedRows, trimTable, type ArcTable, type SortedArcs } from "./table.js";
+
+export type { SortedArcs } from "./table.js";
 
 /** Thrown when an operation would build a machine larger than the limit it was given. */
 export class FstLimitError extends FstError {
@@ -13,15 +15,6 @@ export class FstLimitError extends FstError {
     super(`${operation} exceeded the limit of ${limit} states`);
     this.name = "FstLimitError";
   }
-}
-
-/** Typed-array arc lists (compressed sparse rows), sorted by one side. */
-export interface SortedArcs {
-  /** Arcs of state s are at first[s] … first[s+1]-1. */
-  readonly first: Int32Array;
-  readonly input: Int32Array;
-  readonly output: Int32Array;
-  readonly target: Int32Array;
 }
 
 /** The arcs of `fst` as sorted rows: by (input, output, target) or by (output, input, target). */
@@ -83,53 +76,75 @@ export interface ComposeOptions {
  * order of discovery (deterministic).
  */
 export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
+  return fstOf(composeTable(a, b, options));
+}
+
+/** `compose` as an arc table (the same states, arcs and order), without building the machine. */
+export function composeTable(a: Fst | ArcTable, b: Fst | ArcTable, options: ComposeOptions = {}): ArcTable {
   const maxStates = options.maxStates ?? 5_000_000;
-  const A = expandFinalOutputs(a);
-  const B = expandFinalOutputs(b);
-  const r = new Fst();
-  if (A.numStates === 0 || B.numStates === 0) {
-    r.addState();
-    return r;
+  const A = a instanceof Fst ? expandFinalOutputs(a) : a;
+  const B = b instanceof Fst ? expandFinalOutputs(b) : b;
+  const states = (x: Fst | ArcTable): number => (x instanceof Fst ? x.numStates : x.states);
+  const isFinal = (x: Fst | ArcTable): ((s: number) => boolean) => (x instanceof Fst ? (s) => x.isFinal(s) : (s) => x.final[s] === 1);
+  if (states(A) === 0 || states(B) === 0) {
+    const none = new Int32Array(0);
+    return { states: 1, start: 0, final: new Uint8Array(1), tails: none, inputs: none, outputs: none, heads: none };
   }
-  const sa = sortedArcs(A, "output");
-  const sb = sortedArcs(B, "input");
-  const nB = B.numStates;
+  const sa = A instanceof Fst ? sortedArcs(A, "output") : sortedRows(A, "output");
+  const sb = B instanceof Fst ? sortedArcs(B, "input") : sortedRows(B, "input");
+  const finalA = isFinal(A), finalB = isFinal(B);
+  const nB = states(B);
+  // Pair states by (p·|b| + q)·2 + filter: a dense table when the product is small (a cascade's
+  // accumulator against one step), else a hash map.
+  const space = states(A) * nB * 2;
+  const dense = space <= 1 << 22 ? new Int32Array(space).fill(-1) : null;
   const ids = new Map<number, number>();
-  const qp: number[] = [];
-  const qq: number[] = [];
-  const qf: number[] = [];
+  const qp = new IntList();
+  const qq = new IntList();
+  const qf = new IntList();
+  const tails = new IntList();
+  const inputs = new IntList();
+  const outputs = new IntList();
+  const heads = new IntList();
+  const final = new IntList();
   const idOf = (p: number, q: number, f: number): number => {
     const key = (p * nB + q) * 2 + f;
-    let id = ids.get(key);
-    if (id === undefined) {
+    let id = dense !== null ? dense[key]! : ids.get(key) ?? -1;
+    if (id < 0) {
       id = qp.length;
       if (id >= maxStates) throw new FstLimitError("composition", maxStates);
       options.progress?.();
-      ids.set(key, id);
+      if (dense !== null) dense[key] = id;
+      else ids.set(key, id);
       qp.push(p);
       qq.push(q);
       qf.push(f);
-      r.addState();
     }
     return id;
   };
+  const arc = (from: number, input: number, output: number, to: number): void => {
+    tails.push(from);
+    inputs.push(input);
+    outputs.push(output);
+    heads.push(to);
+  };
   idOf(A.start, B.start, 0);
   for (let id = 0; id < qp.length; id++) {
-    const p = qp[id] as number;
-    const q = qq[id] as number;
-    const f = qf[id] as number;
-    if (A.isFinal(p) && B.isFinal(q)) r.setFinal(id);
+    const p = qp.data[id]!;
+    const q = qq.data[id]!;
+    const f = qf.data[id]!;
+    final.push(finalA(p) && finalB(q) ? 1 : 0);
     const aEnd = sa.first[p + 1] as number;
     const bEnd = sb.first[q + 1] as number;
     let i = sa.first[p] as number;
     // a moves alone on its ε-output arcs (only before any lone move of b).
     for (; i < aEnd && sa.output[i] === EPSILON; i++) {
-      if (f === 0) r.addArc(id, sa.input[i] as Label, EPSILON, idOf(sa.target[i] as number, q, 0));
+      if (f === 0) arc(id, sa.input[i]!, EPSILON, idOf(sa.target[i]!, q, 0));
     }
     let j = sb.first[q] as number;
     // b moves alone on its ε-input arcs.
     for (; j < bEnd && sb.input[j] === EPSILON; j++) {
-      r.addArc(id, EPSILON, sb.output[j] as Label, idOf(p, sb.target[j] as number, 1));
+      arc(id, EPSILON, sb.output[j]!, idOf(p, sb.target[j]!, 1));
     }
     // Real matches: a's output label y against b's arcs with input y.
     while (i < aEnd && j < bEnd) {
@@ -145,20 +160,17 @@ export function compose(a: Fst, b: Fst, options: ComposeOptions = {}): Fst {
       let jEnd = j;
       while (jEnd < bEnd && sb.input[jEnd] === y) jEnd++;
       for (let ii = i; ii < iEnd; ii++) {
-        for (let jj = j; jj < jEnd; jj++) {
-          r.addArc(
-            id,
-            sa.input[ii] as Label,
-            sb.output[jj] as Label,
-            idOf(sa.target[ii] as number, sb.target[jj] as number, 0),
-          );
-        }
+        for (let jj = j; jj < jEnd; jj++) arc(id, sa.input[ii]!, sb.output[jj]!, idOf(sa.target[ii]!, sb.target[jj]!, 0));
       }
       i = iEnd;
       j = jEnd;
     }
   }
-  return options.trim === false ? r : trim(r);
+  const t: ArcTable = {
+    states: qp.length, start: 0, final: Uint8Array.from(final.view()),
+    tails: tails.view(), inputs: inputs.view(), outputs: outputs.view(), heads: heads.view(),
+  };
+  return options.trim === false ? t : trimTable(t);
 }
 
 /** Intersection of two acceptors: the strings both accept. Throws FstError for transducers. */

@@ -21,13 +21,15 @@ export {
   trim,
   union,
 } from "./basic.js";
-export { FstLimitError, compose, composeAll, intersect, sortedArcs } from "./compose.js";
+export { FstLimitError, compose, composeAll, composeTable, intersect, sortedArcs } from "./compose.js";
+export { fstOf, rowsOf, sortedRows, tableOf, trimTable } from "./table.js";
+export type { ArcTable } from "./table.js";
 export type { ComposeOptions, SortedArcs } from "./compose.js";
 export { removeEpsilon, removeInputEpsilons } from "./epsilon.js";
 export type { InputEpsilonFree, StrArc, StrMachine } from "./epsilon.js";
 export { determinise, determiniseTransducer } from "./determinise.js";
 export type { DeterminiseFailure, DeterminiseOptions, DeterminiseResult } from "./determinise.js";
-export { coarsestPartition, isDeterministic, isSequential, minimise } from "./minimise.js";
+export { coarsestPartition, isDeterministic, isSequential, minimise, minimiseTable, minimiseToTable } from "./minimise.js";
 export { COPY, DeterministicRunner, FrozenFst, applyAll, freeze, freezeDeterministic, inputClasses, outputCode, outputKey } from "./frozen.js";
 export type { ApplyResult } from "./frozen.js";
 export { complement, difference, equivalent, isFunctional, shortestDifference } from "./equivalence.js";

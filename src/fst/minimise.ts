@@ -3,138 +3,13 @@
 // transducers (output pushing for sequential machines, pair encoding for the rest).
 
 import { canonicalOrder, trim } from "./basic.js";
-import { determinise, type DeterminiseOptions } from "./determinise.js";
+import type { DeterminiseOptions } from "./determinise.js";
+import { coarsestPartition, minimalDfa, type CanonicalDfa } from "./dfa.js";
 import { addChain, removeInputEpsilons, type StrArc, type StrMachine } from "./epsilon.js";
 import { EPSILON, Fst, expandFinalOutputs, type Label } from "./fst.js";
+import { fstOf, tableOf, type ArcTable } from "./table.js";
 
-/** A refinable partition of 0 … n-1 (Valmari & Lehtinen 2008). */
-class Partition {
-  z: number;
-  readonly E: Int32Array;
-  readonly L: Int32Array;
-  readonly S: Int32Array;
-  readonly F: Int32Array;
-  readonly P: Int32Array;
-  readonly M: Int32Array;
-  readonly W: Int32Array;
-  w = 0;
-  constructor(n: number) {
-    this.z = n > 0 ? 1 : 0;
-    this.E = new Int32Array(n);
-    this.L = new Int32Array(n);
-    this.S = new Int32Array(n);
-    this.F = new Int32Array(n + 1);
-    this.P = new Int32Array(n + 1);
-    this.M = new Int32Array(n + 1);
-    this.W = new Int32Array(n + 1);
-    for (let i = 0; i < n; i++) {
-      this.E[i] = i;
-      this.L[i] = i;
-    }
-    this.P[0] = n;
-  }
-  mark(e: number): void {
-    const { E, L, S, F, M } = this;
-    const s = S[e] as number;
-    const i = L[e] as number;
-    const j = (F[s] as number) + (M[s] as number);
-    E[i] = E[j] as number;
-    L[E[i] as number] = i;
-    E[j] = e;
-    L[e] = j;
-    if ((M[s] as number) === 0) this.W[this.w++] = s;
-    M[s] = (M[s] as number) + 1;
-  }
-  split(): void {
-    const { E, S, F, P, M } = this;
-    while (this.w > 0) {
-      const s = this.W[--this.w] as number;
-      const j = (F[s] as number) + (M[s] as number);
-      if (j === P[s]) {
-        M[s] = 0;
-        continue;
-      }
-      const z = this.z;
-      // The smaller part becomes the new set: Hopcroft's "process the smaller half".
-      if ((M[s] as number) <= (P[s] as number) - j) {
-        F[z] = F[s] as number;
-        P[z] = j;
-        F[s] = j;
-      } else {
-        P[z] = P[s] as number;
-        F[z] = j;
-        P[s] = j;
-      }
-      for (let i = F[z] as number; i < (P[z] as number); i++) S[E[i] as number] = z;
-      M[s] = 0;
-      M[z] = 0;
-      this.z++;
-    }
-  }
-}
-
-/**
- * The coarsest partition of the states of a deterministic machine (every state accessible and
- * co-accessible) that respects `finalClass` (-1: not final; states with different classes are
- * never merged) and the transitions (tail, label, head). Returns the block of each state.
- * O(m log n) (Valmari & Lehtinen, "Efficient minimization of DFAs with partial transition
- * functions", 2008, which refines Hopcroft 1971).
- */
-export function coarsestPartition(
-  n: number,
-  tails: Int32Array,
-  labels: Int32Array,
-  heads: Int32Array,
-  finalClass: Int32Array,
-): Int32Array {
-  const m = tails.length;
-  const B = new Partition(n);
-  const classes = [...new Set(finalClass)].filter((c) => c >= 0).sort((a, b) => a - b);
-  for (const c of classes) {
-    for (let s = 0; s < n; s++) if (finalClass[s] === c) B.mark(s);
-    B.split();
-  }
-  // Cords: transitions grouped by label.
-  const C = new Partition(m);
-  const order = Array.from({ length: m }, (_, k) => k).sort((a, b) => (labels[a] as number) - (labels[b] as number) || a - b);
-  C.z = 0;
-  for (let k = 0; k < m; k++) {
-    const t = order[k] as number;
-    C.E[k] = t;
-    C.L[t] = k;
-    if (k === 0 || labels[t] !== labels[order[k - 1] as number]) {
-      if (C.z > 0) C.P[C.z - 1] = k;
-      C.F[C.z] = k;
-      C.z++;
-    }
-    C.S[t] = C.z - 1;
-  }
-  if (C.z > 0) C.P[C.z - 1] = m;
-  // Incoming transitions of each state.
-  const inFirst = new Int32Array(n + 1);
-  for (let t = 0; t < m; t++) (inFirst[(heads[t] as number) + 1] as number)++;
-  for (let s = 0; s < n; s++) inFirst[s + 1] = (inFirst[s + 1] as number) + (inFirst[s] as number);
-  const fill = inFirst.slice(0, n);
-  const inTr = new Int32Array(m);
-  for (let t = 0; t < m; t++) inTr[(fill[heads[t] as number] as number)++] = t;
-
-  let b = 1;
-  let c = 0;
-  while (c < C.z) {
-    for (let i = C.F[c] as number; i < (C.P[c] as number); i++) B.mark(tails[C.E[i] as number] as number);
-    B.split();
-    c++;
-    while (b < B.z) {
-      for (let i = B.F[b] as number; i < (B.P[b] as number); i++) {
-        const s = B.E[i] as number;
-        for (let j = inFirst[s] as number; j < (inFirst[s + 1] as number); j++) C.mark(inTr[j] as number);
-      }
-      C.split();
-      b++;
-    }
-  }
-  return B.S.slice();
-}
+export { coarsestPartition } from "./dfa.js";
 
 /** True when the machine has no ε-input arcs and at most one arc per input label and state. */
 export function isDeterministic(fst: Fst): boolean {
@@ -296,20 +171,19 @@ function pushOutputs(m: StrMachine): { machine: StrMachine; startOutput: readonl
  * - Other transducers: each arc's (input, output) pair is encoded as one letter, the encoded
  *   acceptor is determinised and minimised, and the letters decoded. The relation is unchanged;
  *   the result is minimal among machines deterministic on the pair alphabet, which is a
- *   normal form but not always the smallest transducer.
+ *   normal form but not always the smallest transducer. Letters are numbered in order of first
+ *   use (states in order, arcs in order).
+ * Acceptors and pair-coded machines go through `minimalDfa` (dfa.ts, typed arrays): states
+ * numbered breadth-first from the start by ascending letter, arcs by ascending letter — a form that
+ * depends on the language alone (tests/fst/canonical.test.ts checks it against a plain reference).
+ * An empty language or relation gives one non-final state without arcs.
  * `options` bound the subset constructions involved (`maxStates`, and `progress` per state made).
  */
 export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
   if (fst.isAcceptor()) {
-    const d = trim(isDeterministic(fst) ? fst : determinise(fst, options));
-    const m: StrMachine = {
-      start: d.start,
-      arcs: Array.from({ length: d.numStates }, (_, s) => d.arcs(s).map((a) => ({ input: a.input, output: [a.input], target: a.target }))),
-      finals: Array.from({ length: d.numStates }, (_, s) => (d.isFinal(s) ? [[]] : [])),
-    };
-    const r = minimiseStr(m, []);
-    // Acceptor arcs were chains of one label: input = output, as before.
-    return r;
+    const t = tableOf(fst);
+    const d = minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels: t.inputs, heads: t.heads }, options);
+    return fstOf(dfaTable(d, d.label, d.label));
   }
   if (isSequential(fst)) {
     const free = removeInputEpsilons(fst);
@@ -318,38 +192,81 @@ export function minimise(fst: Fst, options: DeterminiseOptions = {}): Fst {
       return minimiseStr(pushed.machine, pushed.startOutput);
     }
   }
-  const m = expandFinalOutputs(fst);
-  const pairs = new Map<number, number>();
-  const decode: [Label, Label][] = [[EPSILON, EPSILON]];
-  const enc = new Fst();
-  enc.addStates(m.numStates);
-  if (m.numStates > 0) enc.setStart(m.start);
-  for (let s = 0; s < m.numStates; s++) {
-    for (const a of m.arcs(s)) {
-      let c = 0;
-      if (a.input !== EPSILON || a.output !== EPSILON) {
-        const key = a.input * 0x80000000 + a.output;
-        const known = pairs.get(key);
-        if (known === undefined) {
-          c = decode.length;
-          pairs.set(key, c);
-          decode.push([a.input, a.output]);
-        } else c = known;
+  return fstOf(minimisePairs(tableOf(expandFinalOutputs(fst)), options));
+}
+
+/** `minimise` of the machine the table describes (`fstOf(t)`), reading the table where it can. */
+export function minimiseTable(t: ArcTable, options: DeterminiseOptions = {}): Fst {
+  const r = minimiseToTable(t, options);
+  return r instanceof Fst ? r : fstOf(r);
+}
+
+/**
+ * `minimiseTable` with the result left as a table where the pair method made it (`fstOf` of it is
+ * `minimiseTable`'s machine), so that a composition fold reads its accumulator without building
+ * arc objects; acceptors and sequential machines come back as machines.
+ */
+export function minimiseToTable(t: ArcTable, options: DeterminiseOptions = {}): ArcTable | Fst {
+  let acceptor = true;
+  for (let k = 0; k < t.tails.length && acceptor; k++) acceptor = t.inputs[k] === t.outputs[k];
+  if (acceptor || sequentialTable(t)) return minimise(fstOf(t), options);
+  return minimisePairs(t, options);
+}
+
+/** `isSequential` of the table's machine. */
+function sequentialTable(t: ArcTable): boolean {
+  const seen = new Map<number, number>();
+  for (let k = 0; k < t.tails.length; ) {
+    const s = t.tails[k]!;
+    let end = k;
+    while (end < t.tails.length && t.tails[end] === s) end++;
+    for (let j = k; j < end; j++) {
+      if (t.inputs[j] === EPSILON) {
+        if (end - k !== 1 || t.final[s] === 1) return false;
+      } else {
+        if (seen.get(t.inputs[j]!) === s) return false;
+        seen.set(t.inputs[j]!, s);
       }
-      enc.addArc(s, c, c, a.target);
     }
-    if (m.isFinal(s)) enc.setFinal(s);
+    k = end;
   }
-  const min = minimise(enc, options);
-  const r = new Fst();
-  r.addStates(min.numStates);
-  r.setStart(min.start);
-  for (let s = 0; s < min.numStates; s++) {
-    for (const a of min.arcs(s)) {
-      const [i, o] = decode[a.input] as [Label, Label];
-      r.addArc(s, i, o, a.target);
+  return true;
+}
+
+/** The pair-encoding method: each (input, output) pair one letter, numbered in order of first use (ε:ε is ε). */
+function minimisePairs(t: ArcTable, options: DeterminiseOptions): ArcTable {
+  const pairs = new Map<number, number>();
+  const inputs: Label[] = [EPSILON];
+  const outputs: Label[] = [EPSILON];
+  const labels = new Int32Array(t.tails.length);
+  for (let k = 0; k < t.tails.length; k++) {
+    const i = t.inputs[k]!, o = t.outputs[k]!;
+    if (i === EPSILON && o === EPSILON) continue;
+    const key = i * 0x80000000 + o;
+    let c = pairs.get(key);
+    if (c === undefined) {
+      c = inputs.length;
+      pairs.set(key, c);
+      inputs.push(i);
+      outputs.push(o);
     }
-    if (min.isFinal(s)) r.setFinal(s);
+    labels[k] = c;
   }
+  const d = minimalDfa({ states: t.states, start: t.start, final: t.final, tails: t.tails, labels, heads: t.heads }, options);
+  const ins = Int32Array.from(inputs), outs = Int32Array.from(outputs);
+  return dfaTable(d, gather(ins, d.label), gather(outs, d.label));
+}
+
+/** values[index[k]] for every k. */
+function gather(values: Int32Array, index: Int32Array): Int32Array {
+  const r = new Int32Array(index.length);
+  for (let k = 0; k < index.length; k++) r[k] = values[index[k]!]!;
   return r;
+}
+
+/** The canonical DFA as a table, arc k reading `inputs[k]` and writing `outputs[k]`. */
+function dfaTable(d: CanonicalDfa, inputs: Int32Array, outputs: Int32Array): ArcTable {
+  const tails = new Int32Array(d.label.length);
+  for (let s = 0; s < d.states; s++) tails.fill(s, d.first[s]!, d.first[s + 1]!);
+  return { states: d.states, start: 0, final: d.final, tails, inputs, outputs, heads: d.target };
 }

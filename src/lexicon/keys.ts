@@ -4,7 +4,12 @@
 
 /** Gives each row its key, in file order. */
 export class EntryKeys {
-  private readonly seen = new Map<string, number>();
+  private readonly seen: Map<string, number>;
+
+  /** `before`: rows of each word earlier in the file than the first row given here (a chunk's, chunks.ts). */
+  constructor(before?: Iterable<readonly [string, number]>) {
+    this.seen = new Map(before);
+  }
 
   /** The key of the next row of `word` (with its `id`, when the row has one). */
   next(word: string, id?: string): string {

@@ -150,15 +150,43 @@ async function* textChunks(source: NodeJS.ReadableStream): AsyncGenerator<string
   if (rest !== "") yield rest;
 }
 
+/** The header as read: which field holds each known column, and how many fields it has. */
+export interface HeaderColumns {
+  readonly map: Map<LexiconColumn, number>;
+  readonly fields: number;
+}
+
+/**
+ * Where the ids of a file are remembered: `first` is asked of each row's id (in file order) and
+ * answers the line of an earlier row with the same id, or undefined (the id is then remembered).
+ */
+export interface IdBook {
+  first(id: string, line: number, column: number): number | undefined;
+}
+
+/** The ids of one streaming read. */
+export const idBook = (): IdBook => {
+  const ids = new Map<string, number>();
+  return {
+    first(id, line) {
+      const first = ids.get(id);
+      if (first === undefined) ids.set(id, line);
+      return first;
+    },
+  };
+};
+
+export const duplicateIdReason = (id: string, first: number): string => `The id '${id}' is already used on line ${first}; ids must be unique in the file.`;
+
 /** One record with its fields, as the row reader sees it. */
-interface LineInfo {
+export interface LineInfo {
   readonly line: number;
   readonly raw: string;
   readonly fields: readonly Field[];
 }
 
 /** Opens a file for reading, or says why it cannot be read. */
-async function openFile(path: string): Promise<{ stream: NodeJS.ReadableStream } | { why: string }> {
+export async function openFile(path: string): Promise<{ stream: NodeJS.ReadableStream } | { why: string }> {
   const s = createReadStream(path);
   const opened = await new Promise<Error | undefined>((resolve) => {
     s.once("open", () => resolve(undefined));
@@ -198,35 +226,8 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
       stream = source;
     }
     const splitter = new RecordSplitter();
-    let header: { map: Map<LexiconColumn, number>; fields: number } | undefined;
-    let headerFailed = false;
-    const ids = new Map<string, number>();
-    const reject = (line: number, column: number, code: string, reason: string, raw: string): RejectedRow => ({ kind: "reject", file, line, column, code, reason, raw });
-
-    /** One record: a row or a reject for a data record, nothing otherwise (header, comment, blank). */
-    const take = (rec: SourceRecord): LexiconItem | undefined => {
-      if (rec.kind === "comment") {
-        stats.commentLines++;
-        return undefined;
-      }
-      if (rec.kind === "blank") {
-        stats.blankLines++;
-        return undefined;
-      }
-      if (header === undefined) {
-        stats.headerLine = rec.line;
-        const h = readHeaderRecord(rec, file, diagnostics);
-        if (h === undefined) headerFailed = true;
-        else header = h;
-        return undefined;
-      }
-      stats.dataLines++;
-      const bad = findForbidden(rec.raw);
-      if (bad !== undefined) return reject(rec.line, bad.column, bad.code, bad.reason, rec.raw);
-      const q = checkQuoting(rec.raw);
-      if (!q.ok) return reject(rec.line, q.column, q.code, q.reason, rec.raw);
-      return readRow(inv, file, { line: rec.line, raw: rec.raw, fields: q.fields }, q.fields.map((f) => f.value), header.map, header.fields, ids);
-    };
+    const taker = recordTaker(inv, file, stats, diagnostics, idBook());
+    const take = (rec: SourceRecord): LexiconItem | undefined => taker.take(rec);
     const count = (item: LexiconItem): LexiconItem => {
       if (item.kind === "row") stats.rows++;
       else stats.rejects++;
@@ -241,20 +242,20 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
         const items: LexiconItem[] = [];
         for (const rec of recs) {
           const item = take(rec);
-          if (headerFailed) break;
+          if (taker.headerFailed) break;
           if (item !== undefined) items.push(count(item));
         }
         if (items.length > 0) yield items;
-        if (headerFailed) return;
+        if (taker.headerFailed) return;
       }
       const items: LexiconItem[] = [];
       for (const rec of splitter.end()) {
         const item = take(rec);
-        if (headerFailed) break;
+        if (taker.headerFailed) break;
         if (item !== undefined) items.push(count(item));
       }
       if (items.length > 0) yield items;
-      if (headerFailed) return;
+      if (taker.headerFailed) return;
     } catch (e) {
       diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${splitter.lines}: ${(e as Error).message}.`, { file, line: Math.max(1, splitter.lines), column: 1 }));
       return;
@@ -262,7 +263,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
       stats.lines = splitter.lines;
       if (typeof source === "string") (stream as unknown as Readable).destroy();
     }
-    if (header === undefined) {
+    if (taker.header === undefined) {
       diagnostics.push(diagnostic("error", "lexicon/no-header", "The lexicon has no header line (expected at least the columns word and pron).", { file, line: 1, column: 1 }));
     }
   }
@@ -279,8 +280,46 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
   };
 }
 
+/**
+ * Turns records into items: comments and blank lines are counted, the first other record is the
+ * header (`header`, or `headerFailed` with its errors in `diagnostics`), every later one a row or
+ * a reject. `header`: the header already read (a chunk of the file after it, read-chunk.ts).
+ */
+export function recordTaker(inv: Inventory, file: string, stats: Pick<ReadStats, "commentLines" | "blankLines" | "headerLine" | "dataLines">, diagnostics: Diagnostic[], ids: IdBook, header?: HeaderColumns) {
+  const reject = (line: number, column: number, code: string, reason: string, raw: string): RejectedRow => ({ kind: "reject", file, line, column, code, reason, raw });
+  const t = {
+    header,
+    headerFailed: false,
+    /** One record: a row or a reject for a data record, nothing otherwise (header, comment, blank). */
+    take(rec: SourceRecord): LexiconItem | undefined {
+      if (rec.kind === "comment") {
+        stats.commentLines++;
+        return undefined;
+      }
+      if (rec.kind === "blank") {
+        stats.blankLines++;
+        return undefined;
+      }
+      if (t.header === undefined) {
+        stats.headerLine = rec.line;
+        const h = readHeaderRecord(rec, file, diagnostics);
+        if (h === undefined) t.headerFailed = true;
+        else t.header = h;
+        return undefined;
+      }
+      stats.dataLines++;
+      const bad = findForbidden(rec.raw);
+      if (bad !== undefined) return reject(rec.line, bad.column, bad.code, bad.reason, rec.raw);
+      const q = checkQuoting(rec.raw);
+      if (!q.ok) return reject(rec.line, q.column, q.code, q.reason, rec.raw);
+      return readRow(inv, file, { line: rec.line, raw: rec.raw, fields: q.fields }, q.fields.map((f) => f.value), t.header.map, t.header.fields, ids);
+    },
+  };
+  return t;
+}
+
 /** Reads the header record; returns the column map and field count, or undefined after adding every error found. */
-function readHeaderRecord(rec: SourceRecord, file: string, out: Diagnostic[]): { map: Map<LexiconColumn, number>; fields: number } | undefined {
+export function readHeaderRecord(rec: SourceRecord, file: string, out: Diagnostic[]): HeaderColumns | undefined {
   const bad = findForbidden(rec.raw);
   if (bad !== undefined) {
     out.push(diagnostic("error", bad.code, `The header line cannot be read: ${bad.reason}`, { file, line: rec.line, column: bad.column }));
@@ -324,14 +363,14 @@ function readHeader(fields: readonly string[], info: LineInfo, file: string, out
   return ok ? map : undefined;
 }
 
-function readRow(
+export function readRow(
   inv: Inventory,
   file: string,
   info: LineInfo,
   fields: readonly string[],
   header: ReadonlyMap<LexiconColumn, number>,
   headerFields: number,
-  ids: Map<string, number>,
+  ids: IdBook,
 ): LexiconItem {
   const reject = (column: number, code: string, reason: string): RejectedRow => ({ kind: "reject", file, line: info.line, column, code, reason, raw: info.raw });
   if (fields.length > headerFields) {
@@ -348,9 +387,8 @@ function readRow(
   };
   const id = get("id")?.trim();
   if (id !== undefined && id !== "") {
-    const first = ids.get(id);
-    if (first !== undefined) return reject(colOf("id"), "lexicon/duplicate-id", `The id '${id}' is already used on line ${first}; ids must be unique in the file.`);
-    ids.set(id, info.line);
+    const first = ids.first(id, info.line, colOf("id"));
+    if (first !== undefined) return reject(colOf("id"), "lexicon/duplicate-id", duplicateIdReason(id, first));
   }
   const trimmed = (get("word") ?? "").trim();
   // ASCII is already NFC (Unicode normalisation leaves it unchanged): skip the normaliser for it.

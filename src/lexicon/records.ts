@@ -72,7 +72,18 @@ export class RecordSplitter {
   /** A slow scan of the record at `pos` that stopped for want of text, to be resumed. */
   private scan: { i: number; state: State; crs: number } | undefined;
 
-  /** The physical lines completed so far (after `end`: the text's line count). */
+  /**
+   * `from`: where the text starts, when it is a part of a file that starts at a record boundary
+   * (read-chunk.ts): the line of its first record, and no byte-order mark is looked for.
+   */
+  constructor(from?: { readonly line: number }) {
+    if (from !== undefined) {
+      this.line = from.line;
+      this.begun = true;
+    }
+  }
+
+  /** The physical lines completed so far (after `end`: the text's line count; with `from`, the last line's number). */
   get lines(): number {
     return this.line - 1;
   }

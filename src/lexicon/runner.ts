@@ -8,14 +8,17 @@ import { capPerFile } from "../diagnostic-cap.js";
 import { jsonRecord } from "../emit/jsonl.js";
 import type { Inventory } from "../inventory/types.js";
 import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
-import type { WorkerPool } from "./pool.js";
 import { readLexicon, type LexiconRow, type RejectedRow } from "./read.js";
 import { EntryKeys } from "./keys.js";
 import { countInputRecords, type InputRecords } from "./reconcile.js";
 import { unwritableEntry } from "./writable.js";
-import { VarietyOutput, type SharedLines, type VarietyRun } from "./variety-out.js";
+import { VarietyOutput, type VarietyRun } from "./variety-out.js";
 import { MachineEngine } from "./engine-machine.js";
-import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
+import type { WalkShare } from "./walk-share.js";
+import { BatchWork } from "./batch-work.js";
+import { ChunkPool } from "./chunks.js";
+import { ChunkLane } from "./chunk-lane.js";
+import type { WorkerSide } from "./worker.js";
 import type { StressSummary } from "./hygiene.js";
 import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
 import { asCompound } from "./compound.js";
@@ -23,6 +26,9 @@ import { asCompound } from "./compound.js";
 export type { VarietyRun } from "./variety-out.js";
 
 export type OutputFormat = "tsv" | "jsonl" | "pls";
+
+/** A variety's engine as a worker thread loads it: the grammar and the options it was made with. */
+export type WorkerEngine = Omit<WorkerSide, "formats" | "needs" | "assignsStress">;
 export const ALL_FORMATS: readonly OutputFormat[] = ["tsv", "jsonl", "pls"];
 
 export interface RunOptions {
@@ -30,8 +36,13 @@ export interface RunOptions {
   /** Called every `progressEvery` rows with the rows read so far (for a progress bar). */
   readonly onProgress?: (rowsRead: number) => void;
   readonly progressEvery?: number;
-  /** Worker threads to spread the machines' work over (output identical to one thread). */
-  readonly pool?: WorkerPool;
+  /**
+   * Worker threads to spread the whole work over, a chunk of the file each, beside this thread, which
+   * takes chunks too (output identical to one thread; chunks.ts), with each run's engine as a
+   * worker loads it (parallel to the runs). The run stays on this thread without compiled workers
+   * (dist/), or when a variety has overrides.
+   */
+  readonly workers?: { readonly count: number; readonly engines: readonly WorkerEngine[] };
   /** The lexicon folder: file names in the outputs are relative to it (default: the lexicon file's folder). */
   readonly sourceRoot?: string;
   /**
@@ -130,7 +141,7 @@ export async function runLexicon(
   variety: { readonly name: string; readonly lang: string },
   opts: RunOptions = {},
 ): Promise<RunSummary> {
-  const [summary] = await runVarieties(inventory, lexiconPath, [{ engine, outDir, variety, ...(opts.pool !== undefined ? { pool: opts.pool } : {}), ...(opts.overrides !== undefined ? { overrides: opts.overrides } : {}), ...(opts.assignsStress !== undefined ? { assignsStress: opts.assignsStress } : {}) }], opts);
+  const [summary] = await runVarieties(inventory, lexiconPath, [{ engine, outDir, variety, ...(opts.overrides !== undefined ? { overrides: opts.overrides } : {}), ...(opts.assignsStress !== undefined ? { assignsStress: opts.assignsStress } : {}) }], opts);
   return summary!;
 }
 
@@ -147,46 +158,54 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   const root = opts.sourceRoot ?? dirname(lexiconPath);
   const opened = await Promise.all(runs.map((r) => VarietyOutput.open(r, inventory, formats, lexiconPath, root, t0, opts.plsPhonemes)));
   const live = opened.filter((o): o is VarietyOutput => o instanceof VarietyOutput);
-  // The first variety leads: the others take over its walk through the steps they share with it.
-  const leader = live[0]?.run.engine;
-  const plans = live.map((o, i) => (i > 0 && leader instanceof MachineEngine && o.run.engine instanceof MachineEngine && o.run.pool === undefined && live[0]!.run.pool === undefined ? followerPlan(leader, o.run.engine) : undefined));
-  const snapAt = [...new Set(plans.flatMap((p) => (p !== undefined ? [p.step] : [])))].sort((a, b) => a - b);
-  const reader = readLexicon(lexiconPath, { inventory });
   const every = opts.progressEvery ?? 1000;
-  const keys = new EntryKeys();
   let seen = 0;
+  const progress = (n: number): void => {
+    if (opts.onProgress === undefined) return;
+    for (let k = seen + every - (seen % every); k <= seen + n; k += every) opts.onProgress(k);
+    seen += n;
+  };
+  let diagnostics: Diagnostic[];
+  const w = opts.workers;
+  const engines = live.map((o) => w?.engines[opened.indexOf(o)]);
   try {
-    for await (const batch of reader.batches()) {
-      const rowKeys = batch.map((item) => (item.kind === "row" ? keys.next(item.word, item.id) : ""));
-      if (opts.onProgress !== undefined) {
-        for (let k = 0; k < batch.length; k++) if (++seen % every === 0) opts.onProgress(seen);
+    if (w !== undefined && w.count > 0 && ChunkPool.script() !== undefined && live.length > 0 && live.every((o, i) => o.run.overrides === undefined && engines[i] !== undefined)) {
+      const assigns = live.map((o) => o.run.assignsStress ?? o.run.engine.steps.includes("stress"));
+      const pool = ChunkPool.start(w.count, {
+        file: lexiconPath, sourceRoot: root, ...(opts.plsPhonemes !== undefined ? { plsPhonemes: opts.plsPhonemes } : {}),
+        sides: live.map((_, i) => ({ ...engines[i]!, formats: [...formats], assignsStress: assigns[i]! })),
+      }, new ChunkLane(live.map((o) => o.side), assigns, inventory, lexiconPath, root));
+      try {
+        const read = await pool.run(lexiconPath, async (done) => {
+          progress(done.stats.rows + done.stats.rejects);
+          for (let v = 0; v < live.length; v++) await live[v]!.absorb(done.sides[v]!);
+        });
+        diagnostics = read.diagnostics;
+      } finally {
+        await pool.close();
       }
-      const shared: (SharedLines | undefined)[] | undefined = live.length > 1 ? new Array(batch.length) : undefined;
-      const snaps: WalkSnapshot[][] = snapAt.length > 0 ? batch.map(() => []) : [];
-      for (let v = 0; v < live.length; v++) {
-        const plan = plans[v];
-        const share = (i: number): WalkShare | undefined =>
-          v === 0 && snapAt.length > 0 ? { snapAt, give: (s) => void snaps[i]!.push(s) }
-          : plan !== undefined ? { leader, translate: plan.translate, ...resumeAt(snaps[i]!, plan.step) } : undefined;
-        await live[v]!.take(batch, rowKeys, shared, snapAt.length > 0 ? share : undefined);
+    } else {
+      const work = new BatchWork(live.map((o) => o.side));
+      const states = live.map((o) => o.state);
+      const reader = readLexicon(lexiconPath, { inventory });
+      const keys = new EntryKeys();
+      for await (const batch of reader.batches()) {
+        const rowKeys = batch.map((item) => (item.kind === "row" ? keys.next(item.word, item.id) : ""));
+        progress(batch.length);
+        work.take(batch, rowKeys, states);
+        for (const o of live) await o.drain();
       }
+      diagnostics = [...reader.diagnostics];
     }
-    for (const o of live) await o.finishRows();
+    for (const o of live) o.finishRows();
   } catch (err) {
     for (const o of live) await o.abort(err);
     throw err;
   }
-  const diagnostics = [...reader.diagnostics];
   const input = opts.inputRecords ?? countInputRecords(lexiconPath);
   const summaries: RunSummary[] = [];
   for (const o of opened) summaries.push(o instanceof VarietyOutput ? await o.finish(diagnostics, input) : o);
   return summaries;
-}
-
-/** The leader's snapshot before `step`, when it recorded one. */
-function resumeAt(snaps: readonly WalkSnapshot[], step: number): { resume?: WalkSnapshot } {
-  const s = snaps.find((x) => x.step === step);
-  return s !== undefined ? { resume: s } : {};
 }
 
 export function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {

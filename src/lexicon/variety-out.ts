@@ -1,7 +1,7 @@
 // One variety's side of a run (runner.ts): its staging folder and file writers, the entries in file
-// order (on this thread, or through a worker pool), its counts, and at the end the PLS, rejects,
-// reconciliation and summary. A build reads the lexicon once and hands every batch of rows to each
-// of its varieties in turn.
+// order (its batches done on this thread into its state, or each chunk's results from a worker
+// thread put together here, batch-work.ts and chunks.ts), its counts, and at the end the PLS,
+// rejects, reconciliation and summary.
 
 import { join } from "node:path";
 import { formatDiagnostic, type Diagnostic } from "../diagnostics.js";
@@ -9,91 +9,47 @@ import { capPerFile } from "../diagnostic-cap.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { ByteChunks } from "../emit/bytes.js";
 import { writePls, type PlsEntry } from "../emit/pls.js";
-import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
+import { tsvHeader } from "../emit/tsv.js";
 import { Channel } from "./channel.js";
-import type { Engine, EntryResult, Transcription } from "./engine.js";
-import { MachineEngine } from "./engine-machine.js";
-import type { WorkerPool } from "./pool.js";
-import { writeRejects, type LexiconItem, type LexiconRow, type RejectedRow } from "./read.js";
+import type { Engine } from "./engine.js";
+import { writeRejects } from "./read.js";
 import { stageFolder } from "./outdir.js";
 import { countInputRecords, countWritten, reconcile, type InputRecords } from "./reconcile.js";
 import { Overrides, writeReplaced } from "./overrides.js";
-import { asCompound } from "./compound.js";
 import type { Inventory } from "../inventory/types.js";
-import { entryJsonRecord, entryOf, failedSummary, outsideAlphabet, transcribeRow, type OutputFormat, type RunSummary } from "./runner.js";
+import { failedSummary, transcribeRow, type OutputFormat, type RunSummary } from "./runner.js";
 import { outputError, relativeTo, summaryJson } from "./summary.js";
-import { unwritableEntry } from "./writable.js";
-import type { WalkShare } from "./walk-share.js";
-import { StressHygiene, STRESS_REPORT } from "./hygiene.js";
+import { STRESS_REPORT } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
-import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
-
-/** Words per batch sent to a worker thread. */
-const BATCH = 1024;
+import type { PlsPhonemes } from "./ipa-options.js";
+import { emit, SideState, StressTally, type Side } from "./batch-work.js";
+import type { SideChunk } from "./worker.js";
+import { unpackLexemes } from "./chunk-lane.js";
 
 /** One variety of a run. */
 export interface VarietyRun {
   readonly engine: Engine;
   readonly outDir: string;
   readonly variety: { readonly name: string; readonly lang: string };
-  /** Worker threads running this variety's machines (output identical to one thread). */
-  readonly pool?: WorkerPool;
   /** The variety's override CSV (overrides.ts): its rows replace the lexicon's rows of their words. */
   readonly overrides?: string;
   /** Whether the grammar has a `stress` step (default: the engine has a step named `stress`); for the stress checks. */
   readonly assignsStress?: boolean;
 }
 
-/**
- * The lines written for one row by the variety before, kept for the next: when the next variety's
- * entry is the same in every field the lines are the same, and are not formatted again.
- */
-export interface SharedLines {
-  readonly entry: EntryResult;
-  readonly tsv: string;
-  /** The JSON Lines record without its line feed. */
-  readonly jsonl: string;
-}
-
-/** Two entries of one row (same source row, hence same key, word, line and input) with the same transcription. */
-function sameTranscription(a: EntryResult, b: EntryResult): boolean {
-  return a.narrow === b.narrow && a.broad === b.broad && a.capped === b.capped && a.ambiguous === b.ambiguous &&
-    sameStrings(a.variants, b.variants) && sameStrings(a.rules, b.rules) &&
-    a.derivation.length === b.derivation.length && a.derivation.every((d, i) => d.step === b.derivation[i]!.step && d.form === b.derivation[i]!.form) &&
-    a.variantSteps.length === b.variantSteps.length && a.variantSteps.every((s, i) => sameStrings(s, b.variantSteps[i]!));
-}
-
-function sameStrings(a: readonly string[], b: readonly string[]): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
-}
-
 export class VarietyOutput {
   private readonly files: Record<string, string> = {};
   private readonly channels: Channel<string | Uint8Array>[] = [];
   private readonly writers: Promise<number>[] = [];
-  private readonly tsvOut: ByteChunks | undefined;
-  private readonly jsonlOut: ByteChunks | undefined;
   private readonly tsv: Channel<string | Uint8Array> | undefined;
   private readonly jsonl: Channel<string | Uint8Array> | undefined;
-  private readonly rejects: RejectedRow[] = [];
-  private readonly lexemes = new Map<string, { phonemes: string[]; source: { file: string; line: number; column: number } }>();
-  private readonly changed: Map<string, number>;
-  private entries = 0;
-  private withVariants = 0;
-  private variantsTotal = 0;
-  private entriesCapped = 0;
-  private entriesAmbiguous = 0;
   /** Every entry of a run names the same file or few: its relative path is worked out once per file. */
   private readonly relFiles = new Map<string, string>();
-  /** Batches in flight on the worker pool, emitted strictly in submission order. */
-  private readonly queue: { items: (LexiconRow | RejectedRow | EntryResult)[]; keys: string[]; done: Promise<(Transcription | null)[]> }[] = [];
-  /** Stress hygiene of every entry written, in output order (lexicon/hygiene.ts). */
-  private readonly hygiene: StressHygiene;
-  /** Entries transcribed on this thread while a pool runs the rest, with their rows (for the stress checks at emit time). */
-  private readonly rowOf = new WeakMap<LexiconRow | RejectedRow | EntryResult, LexiconRow>();
-  private pending: { items: (LexiconRow | RejectedRow | EntryResult)[]; keys: string[]; words: { ids: number[]; bids: number[] }[] } = { items: [], keys: [], words: [] };
+  /** What the variety's entries have given so far (batches done on this thread write into it; chunks from workers are added to it). */
+  readonly state: SideState;
+  /** The stress findings of chunks done by workers (in file order); none when every batch ran here. */
+  private readonly tally = new StressTally();
+  readonly side: Side;
 
   private constructor(
     readonly run: VarietyRun,
@@ -104,10 +60,8 @@ export class VarietyOutput {
     private readonly root: string,
     private readonly t0: number,
     inventory: Inventory,
-    private readonly pls: PlsPhonemes | undefined,
+    pls: PlsPhonemes | undefined,
   ) {
-    this.hygiene = new StressHygiene({ inventory, assignsStress: run.assignsStress ?? run.engine.steps.includes("stress") }, (f) => this.relFile(f));
-    this.changed = new Map<string, number>(run.engine.steps.map((s) => [s, 0]));
     this.tsv = formats.has("tsv") ? this.open("lexicon.tsv") : undefined;
     this.jsonl = formats.has("jsonl") ? this.open("lexicon.jsonl") : undefined;
     this.tsv?.push(tsvHeader());
@@ -115,8 +69,10 @@ export class VarietyOutput {
     // per chunk, not per line; emit/bytes.ts).
     const tsv = this.tsv;
     const jsonl = this.jsonl;
-    this.tsvOut = tsv !== undefined ? new ByteChunks((c) => tsv.push(c)) : undefined;
-    this.jsonlOut = jsonl !== undefined ? new ByteChunks((c) => jsonl.push(c)) : undefined;
+    this.state = new SideState({ inventory, assignsStress: run.assignsStress ?? run.engine.steps.includes("stress") }, (f) => this.relFile(f),
+      tsv !== undefined ? new ByteChunks((c) => tsv.push(c)) : undefined,
+      jsonl !== undefined ? new ByteChunks((c) => jsonl.push(c)) : undefined);
+    this.side = { engine: run.engine, formats, ...(pls !== undefined ? { pls } : {}), ...(ov !== undefined ? { ov } : {}) };
   }
 
   /** Opens the variety's staging folder; a folder that cannot be made is the variety's failed summary. */
@@ -151,117 +107,37 @@ export class VarietyOutput {
     return r;
   }
 
-  /** Writes one entry or reject; `shared[at]`, when given, holds (and receives) the row's lines of the variety before. */
-  private emit(r: EntryResult | RejectedRow, shared?: (SharedLines | undefined)[], at = 0, row?: LexiconRow): void {
-    if (r.kind === "entry" && row !== undefined) this.hygiene.observe(row, r.key);
-    if (r.kind === "reject") {
-      this.rejects.push(r);
-      return;
-    }
-    this.entries++;
-    if (r.variants.length > 1) this.withVariants++;
-    if (r.capped === true) this.entriesCapped++;
-    if (r.ambiguous === true) this.entriesAmbiguous++;
-    this.variantsTotal += r.variants.length;
-    for (const step of r.rules) this.changed.set(step, (this.changed.get(step) ?? 0) + 1);
-    if (this.tsvOut !== undefined || this.jsonlOut !== undefined) {
-      const before = shared?.[at];
-      let lines: SharedLines;
-      if (before !== undefined && sameTranscription(before.entry, r)) lines = before;
-      else {
-        lines = {
-          entry: r,
-          tsv: this.tsvOut !== undefined ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : "",
-          jsonl: this.jsonlOut !== undefined ? entryJsonRecord(r, this.relFile(r.file)) : "",
-        };
-        // Lines of a variety that did not write a format are no use to the next one.
-        if (shared !== undefined && this.tsvOut !== undefined && this.jsonlOut !== undefined) shared[at] = lines;
-      }
-      this.tsvOut?.push(lines.tsv);
-      this.jsonlOut?.pushLine(lines.jsonl);
-    }
-    if (this.formats.has("pls")) {
-      const lx = this.lexemes.get(r.word);
-      const mine = plsPhonemes(r, this.pls);
-      if (lx === undefined) this.lexemes.set(r.word, { phonemes: mine, source: { file: r.file, line: r.line, column: 1 } });
-      else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
-    }
-  }
-
   /** Lets the file writers drain (memory stays bounded by the back-log, not the lexicon). */
-  private async drain(): Promise<void> {
+  async drain(): Promise<void> {
     if ((this.tsv?.backlog ?? 0) > 2 || (this.jsonl?.backlog ?? 0) > 2) await new Promise((res) => setImmediate(res));
   }
 
-  /**
-   * Transcribes and writes one batch of read items (`keys[i]`: the entry key of item i when it is a
-   * row; `share(i)`: item i's walk shared with the run's other varieties, walk-share.ts). On this thread the batch is written before this returns; with a worker pool it is
-   * written as the pool's results come back, in order (`finishRows` waits for the rest).
-   */
-  async take(batch: readonly LexiconItem[], keys: readonly string[], shared?: (SharedLines | undefined)[], share?: (i: number) => WalkShare | undefined): Promise<void> {
-    const { engine, pool } = this.run;
-    if (pool === undefined || !(engine instanceof MachineEngine)) {
-      for (let i = 0; i < batch.length; i++) {
-        const item = batch[i]!;
-        if (item.kind !== "row") this.emit(item);
-        else if (this.ov?.replaced(item, keys[i]!) !== true) this.emit(transcribeRow(engine, item, keys[i]!, undefined, share?.(i)), shared, i, item);
-      }
-      await this.drain();
-      return;
-    }
-    for (let i = 0; i < batch.length; i++) {
-      const item = batch[i]!;
-      // The batch being gathered (a new one after each submit).
-      const p = this.pending;
-      if (item.kind === "row") {
-        // A row an override replaces in this variety is not written.
-        if (this.ov?.replaced(item, keys[i]!) === true) continue;
-        const e = engine.encode(item.symbols);
-        if (e === undefined) {
-          // Segments the workers' machines lack: this thread's engine widens its alphabet.
-          const r = transcribeRow(engine, item, keys[i]!);
-          this.rowOf.set(r, item);
-          p.items.push(r);
-          p.keys.push("");
-          continue;
-        }
-        p.words.push(e);
-      }
-      p.items.push(item);
-      p.keys.push(keys[i]!);
-      if (p.words.length >= BATCH) this.submit(pool);
-      while (this.queue.length > 2 * pool.size) await this.drainOne();
-    }
-  }
-
-  private submit(pool: WorkerPool): void {
-    const p = this.pending;
-    this.queue.push({ items: p.items, keys: p.keys, done: pool.submit(p.words) });
-    this.pending = { items: [], keys: [], words: [] };
-  }
-
-  private async drainOne(): Promise<void> {
-    const head = this.queue.shift()!;
-    const results = await head.done;
-    let k = 0;
-    head.items.forEach((item, i) => {
-      if (item.kind !== "row") {
-        this.emit(item, undefined, 0, this.rowOf.get(item));
-        return;
-      }
-      const t = results[k++];
-      const bad = t === null || t === undefined ? outsideAlphabet(item) : unwritableEntry(item, t);
-      this.emit(bad ?? entryOf(item, head.keys[i]!, asCompound(item, t!, this.run.engine.writesSyllables ?? true)), undefined, 0, item);
-    });
+  /** Adds the variety's results of one chunk a worker did (chunks in file order). */
+  async absorb(c: SideChunk): Promise<void> {
+    const st = this.state;
+    for (const b of c.tsv) this.tsv!.push(b);
+    for (const b of c.jsonl) this.jsonl!.push(b);
+    for (const r of c.rejects) st.rejects.push(r);
+    unpackLexemes(st.lexemes, c.lexemes);
+    const n = st.counts;
+    n.entries += c.counts.entries;
+    n.withVariants += c.counts.withVariants;
+    n.variantsTotal += c.counts.variantsTotal;
+    n.entriesCapped += c.counts.entriesCapped;
+    n.entriesAmbiguous += c.counts.entriesAmbiguous;
+    for (const [step, k] of c.changed) st.changed.set(step, (st.changed.get(step) ?? 0) + k);
+    this.tally.add(c.stress, c.stressLines);
     await this.drain();
   }
 
-  /** Every row read has been taken: waits for the pool's batches still out. */
-  async finishRows(): Promise<void> {
-    if (this.run.pool !== undefined && this.pending.items.length > 0) this.submit(this.run.pool);
-    while (this.queue.length > 0) await this.drainOne();
-    // The override rows (and their rejects) after the lexicon's own entries.
-    if (this.ov !== undefined) for (const t of this.ov.tail()) this.emit(t.kind === "row" ? transcribeRow(this.run.engine, t.row, t.key) : t, undefined, 0, t.kind === "row" ? t.row : undefined);
+  /** The stress checks of every entry written: this thread's, then the workers' chunks' (a run does one or the other). */
+  private get stress(): StressTally | SideState["hygiene"] {
+    return this.tally.chunks > 0 ? this.tally : this.state.hygiene;
+  }
+
+  /** Every row read has been taken: the override rows (and their rejects) after the lexicon's own entries. */
+  finishRows(): void {
+    if (this.ov !== undefined) for (const t of this.ov.tail()) emit(this.side, this.state, t.kind === "row" ? transcribeRow(this.run.engine, t.row, t.key) : t, undefined, 0, t.kind === "row" ? t.row : undefined);
   }
 
   /** Fails the file writers (their temporary files go) and removes the staging folder. */
@@ -284,8 +160,8 @@ export class VarietyOutput {
       await this.abort(new Error(diagnostics.map(formatDiagnostic).join("\n")));
       return failedSummary(variety.name, lexiconPath, [...diagnostics], t0);
     }
-    this.tsvOut?.flush();
-    this.jsonlOut?.flush();
+    this.state.tsv?.flush();
+    this.state.jsonl?.flush();
     for (const ch of this.channels) ch.close();
     // Every file of the variety, or none: a failed write (or PLS, or reconciliation) leaves outDir as it was.
     const failWith = async (errors: Diagnostic[]): Promise<RunSummary> => {
@@ -304,12 +180,12 @@ export class VarietyOutput {
     try {
       if (this.formats.has("pls")) {
         files["lexicon.pls"] = join(outDir, "lexicon.pls");
-        const plsEntries: PlsEntry[] = [...this.lexemes].map(([word, lx]) => ({ word, phonemes: lx.phonemes, preferred: 0, source: lx.source }));
+        const plsEntries: PlsEntry[] = [...this.state.lexemes].map(([word, lx]) => ({ word, phonemes: lx.phonemes, preferred: 0, source: lx.source }));
         const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
         if (!res.ok) return failWith([res.error]);
       }
       files["rejects.csv"] = join(outDir, "rejects.csv");
-      await writeRejects(staged("rejects.csv"), this.rejects.map((r) => ({ ...r, file: relativeTo(this.root, r.file) })));
+      await writeRejects(staged("rejects.csv"), this.state.rejects.map((r) => ({ ...r, file: relativeTo(this.root, r.file) })));
       const ov = this.ov;
       const overrides = this.run.overrides;
       if (ov !== undefined) {
@@ -317,7 +193,7 @@ export class VarietyOutput {
         await writeReplaced(staged("replaced.csv"), ov.replacedRows, (f) => this.relFile(f));
       }
       files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
-      await writeFileAtomic(staged(STRESS_REPORT), this.hygiene.report());
+      await writeFileAtomic(staged(STRESS_REPORT), this.stress.report());
       const counted = await input;
       const written = await countWritten({
         ...(this.formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
@@ -331,7 +207,7 @@ export class VarietyOutput {
       reconcileErrors = reconcile(lexiconPath, counted, written, overInput !== undefined ? { lexicon: this.relFile(lexiconPath), overrides: this.relFile(overrides!), input: overInput } : undefined);
       const sources = [{ file: this.relFile(lexiconPath), input: counted }, ...(overInput !== undefined ? [{ file: this.relFile(overrides!), input: overInput }] : [])];
       const notEntries = [...written.rejectLines.map((line, i) => ({ file: written.rejectFiles[i] ?? "", line })), ...(written.replaced ?? []).map((r) => ({ file: r.file, line: r.line }))];
-      reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), this.hygiene.total, sources, notEntries)));
+      reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), this.stress.total, sources, notEntries)));
     } catch (err) {
       return failWrite(err);
     }
@@ -342,21 +218,21 @@ export class VarietyOutput {
       variety: variety.name,
       lexicon: lexiconPath,
       rowsRead,
-      entriesWritten: this.entries,
-      rowsRejected: this.rejects.length,
-      words: this.lexemes.size,
-      entriesWithVariants: this.withVariants,
-      variantsTotal: this.variantsTotal,
-      entriesCapped: this.entriesCapped,
-      entriesAmbiguous: this.entriesAmbiguous,
-      changedBy: engine.steps.map((s) => ({ step: s, entries: this.changed.get(s) ?? 0 })),
+      entriesWritten: this.state.counts.entries,
+      rowsRejected: this.state.rejects.length,
+      words: this.state.lexemes.size,
+      entriesWithVariants: this.state.counts.withVariants,
+      variantsTotal: this.state.counts.variantsTotal,
+      entriesCapped: this.state.counts.entriesCapped,
+      entriesAmbiguous: this.state.counts.entriesAmbiguous,
+      changedBy: engine.steps.map((s) => ({ step: s, entries: this.state.changed.get(s) ?? 0 })),
       files,
       outputErrors,
       fileDiagnostics: capPerFile(diagnostics, "lexicon/too-many-problems"),
-      diagnostics: [...diagnostics, ...outputErrors, ...this.rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
+      diagnostics: [...diagnostics, ...outputErrors, ...this.state.rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
       seconds: (performance.now() - t0) / 1000,
       reconciled: true,
-      stress: this.hygiene.summary(),
+      stress: this.stress.summary(),
       ...(this.ov !== undefined ? { rowsReplaced: this.ov.replacedRows.length, overrideDiagnostics: this.ov.diagnostics } : {}),
     };
     files["summary.json"] = join(outDir, "summary.json");

@@ -2,7 +2,7 @@
 // and writing each transcription as soon as its row arrives, in every output format.
 
 import { execFileSync, spawn } from "node:child_process";
-import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -194,4 +194,21 @@ describe("the process: broken pipes, half documents, exit codes (compiled CLI)",
     expect(files).toContain("lexicons/.strata-root"); // the project root of the shipped grammars (varieties across folders)
     expect(files.filter((f) => /^(tests|bench|src|dist\/bench)\//.test(f) || f.endsWith(".ts") || f.endsWith(".map"))).toEqual([]);
   });
+
+  it("the compiled compiler composes the variants cascade on a worker thread and caches the same machines as on one thread", () => {
+    // Only compiled code starts the worker (tests run the TypeScript sources on one thread).
+    const dirs = [1, 2].map(() => mkdtempSync(join(tmpdir(), "strata-threads-")));
+    const script = (threads: number, dir: string) => `
+      const { loadGrammar } = await import(${JSON.stringify(join(ROOT, "dist", "src", "grammar", "index.js"))});
+      const { compileGrammar } = await import(${JSON.stringify(join(ROOT, "dist", "src", "compile", "index.js"))});
+      const g = loadGrammar(${JSON.stringify(join(ROOT, "lexicons", "en-us", "grammar.strata"))});
+      const r = compileGrammar(g.grammar, g.inventory, { cacheDir: ${JSON.stringify(dir)}, threads: ${threads} });
+      process.stdout.write(String(r.compiled.threads));`;
+    const used = [1, 2].map((t, i) => execFileSync(process.execPath, ["--input-type=module", "-e", script(t, dirs[i]!)], { encoding: "utf8" }));
+    expect(used).toEqual(["1", "2"]);
+    const bins = dirs.map((d) => readdirSync(d).filter((f) => f.endsWith(".bin")));
+    expect(bins[0]).toHaveLength(1);
+    expect(bins[1]).toEqual(bins[0]);
+    expect(readFileSync(join(dirs[1]!, bins[1]![0]!)).equals(readFileSync(join(dirs[0]!, bins[0]![0]!)))).toBe(true);
+  }, 120_000);
 });

@@ -1,0 +1,202 @@
+// The work of a run on each batch of rows, for every variety of the run: transcribe each row, check
+// its stress, count it, format its TSV and JSON Lines lines and gather its PLS phonemes, into a
+// `SideState` per variety. The same code runs on the main thread (rows as the reader streams them)
+// and in each worker thread (a chunk of the file, worker.ts), so the outputs cannot differ between
+// the two: the main thread only puts the chunks' results together in file order (variety-out.ts).
+
+import { ByteChunks } from "../emit/bytes.js";
+import { formatTsvEntry } from "../emit/tsv.js";
+import type { Engine, EntryResult, Needs } from "./engine.js";
+import { MachineEngine } from "./engine-machine.js";
+import type { LexiconItem, LexiconRow, RejectedRow } from "./read.js";
+import type { Overrides } from "./overrides.js";
+import { entryJsonRecord, transcribeRow, type OutputFormat } from "./runner.js";
+import { StressHygiene, STRESS_POLICY_NAMES, type StressSummary } from "./hygiene.js";
+import { emptyStressCounts, STRESS_CODES, type StressContext } from "./lint-stress.js";
+import { csvLine } from "../emit/csv.js";
+import { STRESS_REPORT_COLUMNS } from "./hygiene.js";
+import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
+import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
+
+/** One variety as the batch work sees it. */
+export interface Side {
+  readonly engine: Engine;
+  readonly formats: ReadonlySet<OutputFormat>;
+  /** What the engine must give beyond the narrow and broad forms (default: everything). */
+  readonly needs?: Needs;
+  readonly pls?: PlsPhonemes;
+  /** The variety's overrides (main thread only): rows of their words are left out. */
+  readonly ov?: Overrides;
+}
+
+/** A PLS lexeme as gathered: the word's phonemes in order of first appearance, and its first row. */
+export interface Lexeme {
+  readonly phonemes: string[];
+  readonly source: { readonly file: string; readonly line: number; readonly column: number };
+}
+
+/** The counts a summary gives. */
+export interface SideCounts {
+  entries: number;
+  withVariants: number;
+  variantsTotal: number;
+  entriesCapped: number;
+  entriesAmbiguous: number;
+}
+
+export const noCounts = (): SideCounts => ({ entries: 0, withVariants: 0, variantsTotal: 0, entriesCapped: 0, entriesAmbiguous: 0 });
+
+/** What the batches of one variety have produced so far (the whole run, or one chunk of it). */
+export class SideState {
+  readonly rejects: RejectedRow[] = [];
+  readonly lexemes = new Map<string, Lexeme>();
+  readonly counts = noCounts();
+  /** Entries each step changed (steps that changed none may be missing). */
+  readonly changed = new Map<string, number>();
+  readonly hygiene: StressHygiene;
+
+  constructor(
+    stress: StressContext,
+    /** File names as written in JSON Lines and stress.csv. */
+    readonly relFile: (file: string) => string,
+    readonly tsv: ByteChunks | undefined,
+    readonly jsonl: ByteChunks | undefined,
+  ) {
+    this.hygiene = new StressHygiene(stress, relFile);
+  }
+}
+
+/**
+ * The lines written for one row by the variety before, kept for the next: when the next variety's
+ * entry is the same in every field the lines are the same, and are not formatted again.
+ */
+interface SharedLines {
+  readonly entry: EntryResult;
+  readonly tsv: string;
+  /** The JSON Lines record without its line feed. */
+  readonly jsonl: string;
+}
+
+/** Two entries of one row (same source row, hence same key, word, line and input) with the same transcription. */
+function sameTranscription(a: EntryResult, b: EntryResult): boolean {
+  return a.narrow === b.narrow && a.broad === b.broad && a.capped === b.capped && a.ambiguous === b.ambiguous &&
+    sameStrings(a.variants, b.variants) && sameStrings(a.rules, b.rules) &&
+    a.derivation.length === b.derivation.length && a.derivation.every((d, i) => d.step === b.derivation[i]!.step && d.form === b.derivation[i]!.form) &&
+    a.variantSteps.length === b.variantSteps.length && a.variantSteps.every((s, i) => sameStrings(s, b.variantSteps[i]!));
+}
+
+function sameStrings(a: readonly string[], b: readonly string[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+/** The batch work of one run's varieties (the first leads: the others take over its walk through the steps they share, walk-share.ts). */
+export class BatchWork {
+  private readonly plans: (ReturnType<typeof followerPlan> | undefined)[];
+  private readonly snapAt: number[];
+  private readonly leader: Engine | undefined;
+
+  constructor(readonly sides: readonly Side[]) {
+    const leader = sides[0]?.engine;
+    this.leader = leader;
+    this.plans = sides.map((s, i) => (i > 0 && leader instanceof MachineEngine && s.engine instanceof MachineEngine ? followerPlan(leader, s.engine) : undefined));
+    this.snapAt = [...new Set(this.plans.flatMap((p) => (p !== undefined ? [p.step] : [])))].sort((a, b) => a - b);
+  }
+
+  /** Transcribes and writes one batch of items (`keys[i]`: the entry key of item i when it is a row) into each side's state. */
+  take(batch: readonly LexiconItem[], keys: readonly string[], states: readonly SideState[]): void {
+    const { sides, snapAt, plans, leader } = this;
+    const shared: (SharedLines | undefined)[] | undefined = sides.length > 1 ? new Array(batch.length) : undefined;
+    const snaps: WalkSnapshot[][] = snapAt.length > 0 ? batch.map(() => []) : [];
+    for (let v = 0; v < sides.length; v++) {
+      const side = sides[v]!;
+      const state = states[v]!;
+      const plan = plans[v];
+      const share = (i: number): WalkShare | undefined =>
+        snapAt.length === 0 ? undefined
+        : v === 0 ? { snapAt, give: (s) => void snaps[i]!.push(s) }
+        : plan !== undefined ? { leader: leader!, translate: plan.translate, ...resumeAt(snaps[i]!, plan.step) } : undefined;
+      for (let i = 0; i < batch.length; i++) {
+        const item = batch[i]!;
+        if (item.kind !== "row") emit(side, state, item);
+        else if (side.ov?.replaced(item, keys[i]!) !== true) emit(side, state, transcribeRow(side.engine, item, keys[i]!, side.needs, share(i)), shared, i, item);
+      }
+    }
+  }
+}
+
+/** The leader's snapshot before `step`, when it recorded one. */
+function resumeAt(snaps: readonly WalkSnapshot[], step: number): { resume?: WalkSnapshot } {
+  const s = snaps.find((x) => x.step === step);
+  return s !== undefined ? { resume: s } : {};
+}
+
+/** Writes one entry or reject; `shared[at]`, when given, holds (and receives) the row's lines of the variety before. */
+export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow, shared?: (SharedLines | undefined)[], at = 0, row?: LexiconRow): void {
+  if (r.kind === "entry" && row !== undefined) state.hygiene.observe(row, r.key);
+  if (r.kind === "reject") {
+    state.rejects.push(r);
+    return;
+  }
+  const c = state.counts;
+  c.entries++;
+  if (r.variants.length > 1) c.withVariants++;
+  if (r.capped === true) c.entriesCapped++;
+  if (r.ambiguous === true) c.entriesAmbiguous++;
+  c.variantsTotal += r.variants.length;
+  for (const step of r.rules) state.changed.set(step, (state.changed.get(step) ?? 0) + 1);
+  if (state.tsv !== undefined || state.jsonl !== undefined) {
+    const before = shared?.[at];
+    let lines: SharedLines;
+    if (before !== undefined && sameTranscription(before.entry, r)) lines = before;
+    else {
+      lines = {
+        entry: r,
+        tsv: state.tsv !== undefined ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : "",
+        jsonl: state.jsonl !== undefined ? entryJsonRecord(r, state.relFile(r.file)) : "",
+      };
+      // Lines of a variety that did not write a format are no use to the next one.
+      if (shared !== undefined && state.tsv !== undefined && state.jsonl !== undefined) shared[at] = lines;
+    }
+    state.tsv?.push(lines.tsv);
+    state.jsonl?.pushLine(lines.jsonl);
+  }
+  if (side.formats.has("pls")) addPhonemes(state.lexemes, r.word, plsPhonemes(r, side.pls), { file: r.file, line: r.line, column: 1 });
+}
+
+/** Adds a row's phonemes to its word's lexeme (a new lexeme at the word's first row). */
+export function addPhonemes(lexemes: Map<string, Lexeme>, word: string, mine: string[], source: Lexeme["source"]): void {
+  const lx = lexemes.get(word);
+  if (lx === undefined) lexemes.set(word, { phonemes: mine, source });
+  else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
+}
+
+/** The stress checks of chunks done apart (worker threads), put together in file order: what a StressHygiene gives of a whole run. */
+export class StressTally {
+  private readonly problems = emptyStressCounts();
+  private readonly policies = Object.fromEntries(STRESS_POLICY_NAMES.map((p) => [p, 0])) as Record<(typeof STRESS_POLICY_NAMES)[number], number>;
+  private readonly lines: string[] = [];
+  /** Chunks added. */
+  chunks = 0;
+
+  add(s: StressSummary, lines: readonly string[]): void {
+    this.chunks++;
+    for (const c of STRESS_CODES) this.problems[c] += s.problems[c];
+    for (const p of STRESS_POLICY_NAMES) this.policies[p] += s.policies[p];
+    for (const l of lines) this.lines.push(l);
+  }
+
+  get total(): number {
+    return this.lines.length;
+  }
+
+  summary(): StressSummary {
+    return { problems: { ...this.problems }, policies: { ...this.policies } };
+  }
+
+  *report(): Generator<string> {
+    yield csvLine([...STRESS_REPORT_COLUMNS]);
+    yield* this.lines;
+  }
+}
