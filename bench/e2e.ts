@@ -20,6 +20,8 @@ import { countInputRecords, countWritten, reconcile } from "../src/lexicon/recon
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
 import { entryJsonRecord, entryPhonemes } from "../src/lexicon/runner.js";
 import { ByteChunks } from "../src/emit/bytes.js";
+import { StressHygiene, STRESS_REPORT } from "../src/lexicon/hygiene.js";
+import { reconcileStressReport } from "../src/lexicon/reconcile-stress.js";
 import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
 
 export interface EndToEnd {
@@ -38,8 +40,15 @@ export interface EndToEnd {
   readonly inhouseCpuMs: number | null;
   readonly transcribeCpuMs: number | null;
   readonly buildCpuMs: number | null;
-  readonly stages: readonly { readonly name: string; readonly ms: number }[];
+  readonly stages: readonly Stage[];
   readonly failures: readonly string[];
+}
+
+/** One stage of a build: wall time and CPU time (user + system) of this process while it ran. */
+export interface Stage {
+  readonly name: string;
+  readonly ms: number;
+  readonly cpu: number;
 }
 
 const say = (s = ""): void => void process.stdout.write(s + "\n");
@@ -109,31 +118,40 @@ export async function benchEndToEnd(o: {
   ]));
 
   const stages = await buildStages(o, join(o.work, "stages"), failures);
-  const total = stages.reduce((s, x) => s + x.ms, 0);
   say();
   say("-- the stages of one build, one at a time (in process, whole dictionary, cached machines) --");
-  say(textTable(["stage", "time", "share"], [
-    ...stages.map((s) => [s.name, fmtMs(s.ms), `${fmt((100 * s.ms) / total, 0)}%`]),
-    ["sum of the stages", fmtMs(total), ""],
-  ]));
+  printStages(stages);
   return { ...res, stages, failures };
+}
+
+/** The stage table: wall time, CPU time (steadier on a shared machine) and each stage's share of the wall time. */
+export function printStages(stages: readonly Stage[]): void {
+  const total = stages.reduce((s, x) => s + x.ms, 0);
+  const cpu = stages.reduce((s, x) => s + x.cpu, 0);
+  say(textTable(["stage", "time", "CPU", "share"], [
+    ...stages.map((s) => [s.name, fmtMs(s.ms), fmtMs(s.cpu), `${fmt((100 * s.ms) / total, 0)}%`]),
+    ["sum of the stages", fmtMs(total), fmtMs(cpu), ""],
+  ]));
 }
 
 /**
  * Times each stage of a build on its own, in the order a build runs them: read and parse (the
  * reader less its tokenising), tokenise (a fresh memo), encode, the machines (narrow and broad),
  * render, per-step blame, variants (both by difference of whole engine runs), each writer
- * (formatting and writing its file whole), and the reconciliation that reads the files back.
+ * (formatting and writing its file whole), the stress checks, and the reconciliation that reads the
+ * files back (in its parts).
  */
-async function buildStages(o: { csv: string; grammar: Grammar; inventory: Inventory; cacheDir: string }, outDir: string, failures: string[]): Promise<{ name: string; ms: number }[]> {
+export async function buildStages(o: { csv: string; grammar: Grammar; inventory: Inventory; cacheDir: string }, outDir: string, failures: string[]): Promise<Stage[]> {
   const inv = o.inventory;
   const built = machineEngine(o.grammar, inv, { cacheDir: o.cacheDir });
   const engine = built.engine;
   if (engine === undefined) throw new Error("the en-us grammar does not compile");
-  const time = async <T>(fn: () => T | Promise<T>): Promise<{ ms: number; value: T }> => {
+  const time = async <T>(fn: () => T | Promise<T>): Promise<{ ms: number; cpu: number; value: T }> => {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     const value = await fn();
-    return { ms: performance.now() - t0, value };
+    const c = process.cpuUsage(c0);
+    return { ms: performance.now() - t0, cpu: (c.user + c.system) / 1000, value };
   };
   const reading = await time(async () => {
     const rows: LexiconRow[] = [];
@@ -190,24 +208,34 @@ async function buildStages(o: { csv: string; grammar: Grammar; inventory: Invent
     return writePls(join(outDir, "lexicon.pls"), lexemes.values(), { lang: "en-US" });
   });
   await writeRejects(join(outDir, "rejects.csv"), []);
-  const reconciling = await time(async () => {
-    const input = await countInputRecords(o.csv);
-    const written = await countWritten({ tsv: join(outDir, "lexicon.tsv"), jsonl: join(outDir, "lexicon.jsonl"), pls: join(outDir, "lexicon.pls"), rejects: join(outDir, "rejects.csv") });
-    return reconcile(o.csv, input, written);
-  });
+  // The reconciliation as a build runs it, in its three parts: the input's records counted on their
+  // own, the written files read back, and the two compared (reconcile.ts).
+  const counting = await time(() => countInputRecords(o.csv));
+  const readingBack = await time(() => countWritten({ tsv: join(outDir, "lexicon.tsv"), jsonl: join(outDir, "lexicon.jsonl"), pls: join(outDir, "lexicon.pls"), rejects: join(outDir, "rejects.csv") }));
+  const reconciling = await time(() => reconcile(o.csv, counting.value, readingBack.value));
   if (reconciling.value.length > 0) failures.push(`the stage outputs do not reconcile: ${reconciling.value[0]!.message}`);
+  // The stress checks of every entry written, and the stress report read back against the input (hygiene.ts, reconcile-stress.ts).
+  const hygiene = new StressHygiene({ inventory: inv, assignsStress: engine.steps.includes("stress") });
+  const checking = await time(() => rows.forEach((r, k) => hygiene.observe(r, results[k]!.key)));
+  await writeFileAtomic(join(outDir, STRESS_REPORT), hygiene.report());
+  const stressBack = await time(() => reconcileStressReport(o.csv, join(outDir, STRESS_REPORT), hygiene.total, [{ file: rows[0]?.file ?? "", input: counting.value }], []));
+  if (stressBack.value.length > 0) failures.push(`the stress report does not reconcile: ${stressBack.value[0]!.message}`);
   rmSync(outDir, { recursive: true, force: true });
   return [
-    { name: "read and parse (reader less tokenising)", ms: Math.max(0, reading.ms - tok.ms) },
-    { name: "tokenise (fresh memo)", ms: tok.ms },
-    { name: "encode (narrow and broad alphabets)", ms: enc.ms },
-    { name: "machines (composed preferred + prosody)", ms: mach.ms },
-    { name: "render IPA (narrow and broad)", ms: render.ms },
-    { name: "per-step blame", ms: Math.max(0, withRules.ms - narrowOnly.ms) },
-    { name: "variants (screen + enumeration)", ms: Math.max(0, all.ms - withRules.ms) },
-    { name: "TSV writer", ms: tsv.ms },
-    { name: "JSON Lines writer", ms: jsonl.ms },
-    { name: "PLS writer", ms: pls.ms },
-    { name: "reconciliation (input counted, outputs read back)", ms: reconciling.ms },
+    { name: "read and parse (reader less tokenising)", ms: Math.max(0, reading.ms - tok.ms), cpu: Math.max(0, reading.cpu - tok.cpu) },
+    { name: "tokenise (fresh memo)", ms: tok.ms, cpu: tok.cpu },
+    { name: "encode (narrow and broad alphabets)", ms: enc.ms, cpu: enc.cpu },
+    { name: "machines (composed preferred + prosody)", ms: mach.ms, cpu: mach.cpu },
+    { name: "render IPA (narrow and broad)", ms: render.ms, cpu: render.cpu },
+    { name: "per-step blame", ms: Math.max(0, withRules.ms - narrowOnly.ms), cpu: Math.max(0, withRules.cpu - narrowOnly.cpu) },
+    { name: "variants (screen + enumeration)", ms: Math.max(0, all.ms - withRules.ms), cpu: Math.max(0, all.cpu - withRules.cpu) },
+    { name: "TSV writer", ms: tsv.ms, cpu: tsv.cpu },
+    { name: "JSON Lines writer", ms: jsonl.ms, cpu: jsonl.cpu },
+    { name: "PLS writer", ms: pls.ms, cpu: pls.cpu },
+    { name: "stress checks (every entry)", ms: checking.ms, cpu: checking.cpu },
+    { name: "reconciliation: input records counted", ms: counting.ms, cpu: counting.cpu },
+    { name: "reconciliation: outputs read back", ms: readingBack.ms, cpu: readingBack.cpu },
+    { name: "reconciliation: compared line by line", ms: reconciling.ms, cpu: reconciling.cpu },
+    { name: "reconciliation: stress report read back", ms: stressBack.ms, cpu: stressBack.cpu },
   ];
 }

@@ -5,13 +5,15 @@ import { mkdir, open, rename, unlink } from "node:fs/promises";
 import type { FileHandle } from "node:fs/promises";
 import { dirname } from "node:path";
 import { tempPath } from "../tempfile.js";
-import { ByteChunks, utf8Bytes } from "./bytes.js";
+import { ByteChunks, releaseChunk, utf8Bytes } from "./bytes.js";
 
 /** What can be written: one string or buffer, or a (possibly asynchronous) sequence of string or byte chunks. */
 export type AtomicData = string | Uint8Array | Iterable<string | Uint8Array> | AsyncIterable<string | Uint8Array>;
 
 /**
- * Writes `data` to `path` atomically and returns the number of bytes written.
+ * Writes `data` to `path` atomically and returns the number of bytes written. A chunk of `data`
+ * that a ByteChunks made is given back to it once written (emit/bytes.ts): the caller does not
+ * use a chunk after handing it here.
  *
  * Invariants: the parent folder is created if missing; the temporary file lives beside the target
  * (same file system, so rename(2) is atomic on POSIX); it is fsynced before the rename; if anything
@@ -40,6 +42,8 @@ export async function writeFileAtomic(path: string, data: AtomicData): Promise<n
         for (const c of full.splice(0)) {
           await writeAll(h, c);
           bytes += c.byteLength;
+          // Written: a ByteChunks' chunk goes back to be filled again (emit/bytes.ts).
+          releaseChunk(c);
         }
       };
       for await (const chunk of data as AsyncIterable<string | Uint8Array>) {

@@ -16,13 +16,45 @@ export function utf8Bytes(text: string): Uint8Array {
   return buf.subarray(0, written);
 }
 
+/*
+ * Chunk buffers are used again once written. A whole lexicon's outputs are some 90 MB of chunks;
+ * each new one is memory outside the JavaScript heap, and growing that makes the garbage collector
+ * sweep the whole heap (a build holds much) every few tens of megabytes. A full chunk handed on is
+ * remembered here; whoever writes it (writeFileAtomic) gives it back with `releaseChunk` once it
+ * is written and no longer used, and the next ByteChunks of this thread takes it instead of a new one.
+ */
+const free: Uint8Array[] = [];
+/** Chunks handed on that may come back, with the whole buffer each is part of. */
+const handedOn = new WeakMap<Uint8Array, Uint8Array>();
+/** Most buffers kept for use again (per thread). */
+const KEEP = 8;
+
+function newBuffer(size: number): Uint8Array {
+  if (size === CHUNK_BYTES) {
+    const b = free.pop();
+    if (b !== undefined) return b;
+  }
+  return new Uint8Array(size);
+}
+
+/**
+ * Gives back a chunk a ByteChunks handed on, once it has been written and nothing holds it (its
+ * bytes will be overwritten). Anything else is left alone.
+ */
+export function releaseChunk(chunk: Uint8Array): void {
+  const whole = handedOn.get(chunk);
+  if (whole === undefined) return;
+  handedOn.delete(chunk);
+  if (free.length < KEEP) free.push(whole);
+}
+
 /** Encodes strings into chunks of about `size` bytes; each full chunk goes to `emit`. */
 export class ByteChunks {
   private buf: Uint8Array;
   private at = 0;
 
   constructor(private readonly emit: (chunk: Uint8Array) => void, private readonly size = CHUNK_BYTES) {
-    this.buf = new Uint8Array(size);
+    this.buf = newBuffer(size);
   }
 
   /** Bytes gathered and not yet handed on. */
@@ -58,7 +90,10 @@ export class ByteChunks {
     if (this.at === 0) return;
     // A chunk mostly empty (flushed early) is copied out and the buffer kept; a full one is handed on.
     const out = this.at < this.buf.length >> 1 ? this.buf.slice(0, this.at) : this.buf.subarray(0, this.at);
-    if (out.buffer === this.buf.buffer) this.buf = new Uint8Array(this.size);
+    if (out.buffer === this.buf.buffer) {
+      if (this.buf.length === CHUNK_BYTES) handedOn.set(out, this.buf);
+      this.buf = newBuffer(this.size);
+    }
     this.at = 0;
     this.emit(out);
   }

@@ -5,7 +5,7 @@
 
 import type { Compiled } from "../compile/index.js";
 import { freeze, type FrozenFst } from "../fst/index.js";
-import { functionSteps } from "./variants.js";
+import { functionSteps, type VariantScreen } from "./variants.js";
 
 /** One step that changed the entry, and the narrow IPA right after it. */
 export interface DerivationStep {
@@ -51,7 +51,11 @@ export class VariantTracer {
   /** Per variants block: the preferred block that runs the same single step as a function, or -1. */
   private readonly asFunction: Int32Array;
 
-  constructor(private readonly stepwise: Compiled, private readonly stepNames: readonly string[]) {
+  /**
+   * `screen`: the stepwise compilation's variant screen (variants.ts), when it has one: a branching
+   * step it proves identity-only on every live path leaves the paths as they are, with no search.
+   */
+  constructor(private readonly stepwise: Compiled, private readonly stepNames: readonly string[], private readonly screen: VariantScreen | null = null) {
     const preferredOf = new Map<number, number>();
     stepwise.preferredBlocks.forEach((b, k) => {
       if (b.to === b.from + 1) preferredOf.set(b.from, k);
@@ -73,6 +77,13 @@ export class VariantTracer {
       const step = blocks[k]!.from;
       const fn = this.asFunction[k]!;
       if (fn >= 0) {
+        if (live.length === 1) {
+          // One path through a function: its one output (or none), no meeting to settle.
+          const p = live[0]!;
+          const o: number[] = [];
+          live = preferred.runBlock(fn, p.ids, o) ? [{ ids: o, steps: sameIds(o, p.ids) ? p.steps : [...p.steps, step] }] : [];
+          continue;
+        }
         // A function: each path has one output (or none); distinct inputs may meet in one output.
         const next = new Map<string, Path>();
         for (const p of live) {
@@ -83,6 +94,9 @@ export class VariantTracer {
         live = sorted(next);
         continue;
       }
+      // A branching step that writes every live path back unchanged: the paths (distinct, in key order) stay as they are.
+      const screen = this.screen;
+      if (screen !== null && blocks[k]!.to === step + 1 && live.every((p) => screen.identityAt(step, p.ids))) continue;
       const next = new Map<string, Path>();
       for (const p of live) {
         const r = this.frozen[k]!.applyAll(p.ids, cap);

@@ -47,6 +47,60 @@ function classify(code: number): number {
   return IS_MARK.test(c) ? MARK : PLAIN;
 }
 
+/**
+ * The longest key of a set of strings that starts at a position of a text, found by walking the
+ * text's UTF-16 units through a trie (no substring made and hashed per candidate length).
+ */
+class KeyTrie {
+  private readonly children: Map<number, number>[] = [new Map()];
+  /** Per node: the index of the key ending there, or -1. */
+  private readonly ends: number[] = [-1];
+  /** Length of the last match `longest` found. */
+  matched = 0;
+
+  constructor(keys: Iterable<string>) {
+    let k = 0;
+    for (const key of keys) {
+      let node = 0;
+      for (let i = 0; i < key.length; i++) {
+        const c = key.charCodeAt(i);
+        let next = this.children[node]!.get(c);
+        if (next === undefined) {
+          next = this.ends.length;
+          this.children[node]!.set(c, next);
+          this.children.push(new Map());
+          this.ends.push(-1);
+        }
+        node = next;
+      }
+      if (key.length > 0) this.ends[node] = k;
+      k++;
+    }
+  }
+
+  /** The node of the longest key starting at `text[at]` (its length in `matched`), or -1 when no key starts there. */
+  longest(text: string, at: number): number {
+    let node = 0;
+    let best = -1;
+    this.matched = 0;
+    for (let i = at; i < text.length; i++) {
+      const next = this.children[node]!.get(text.charCodeAt(i));
+      if (next === undefined) break;
+      node = next;
+      if (this.ends[node]! >= 0) {
+        best = node;
+        this.matched = i - at + 1;
+      }
+    }
+    return best;
+  }
+
+  /** Index (in the order given) of the key ending at `node`. */
+  keyAt(node: number): number {
+    return this.ends[node]!;
+  }
+}
+
 export interface PronSymbols {
   readonly symbols: Sym[];
   readonly marked: boolean;
@@ -55,6 +109,13 @@ export interface PronSymbols {
 export class PronReader {
   private readonly classes = new Uint8Array(65536);
   private readonly types = new Map<string, SegmentType>();
+  /** Segment symbols' keys and diacritics' keys, as tries; the segment index of each symbol key. */
+  private readonly symbolTrie: KeyTrie;
+  private readonly symbolIndex: number[];
+  private readonly diacriticTrie: KeyTrie;
+  private readonly diacriticKeys: string[];
+  /** Per symbol-trie node: the type of that symbol read without diacritics (what `types` holds under its key). */
+  private readonly plainTypes: (SegmentType | undefined)[] = [];
   private readonly usable: boolean;
   private readonly syllabic: number;
   private readonly stressF: number;
@@ -68,6 +129,10 @@ export class PronReader {
     this.stressF = inv.featureIndex.get("stress") ?? -1;
     this.primaryF = inv.featureIndex.get("primary") ?? -1;
     this.heads = splitTable(inv).heads;
+    this.symbolTrie = new KeyTrie(lk.symbolByKey.keys());
+    this.symbolIndex = [...lk.symbolByKey.values()];
+    this.diacriticKeys = [...lk.diacriticByKey.keys()];
+    this.diacriticTrie = new KeyTrie(this.diacriticKeys);
     // The fast path reads a stress mark, '.', '#' or white space as itself; keys holding one would
     // be read differently by the tokeniser's longest match, so such an inventory always takes the general path.
     const plainKey = (k: string): boolean => [...k].every((c) => !RESERVED.has(c) && !IS_SPACE.test(c));
@@ -127,7 +192,6 @@ export class PronReader {
    */
   read(pron: string): PronSymbols | undefined {
     if (!this.usable) return undefined;
-    const lk = lookup(this.inv);
     const n = pron.length;
     let marked = false;
     let prevMark = false;
@@ -183,29 +247,26 @@ export class PronReader {
         i++;
         continue;
       }
-      let len = Math.min(lk.maxSymbolLength, n - i);
-      let segIndex: number | undefined;
-      for (; len > 0; len--) {
-        segIndex = lk.symbolByKey.get(pron.substr(i, len));
-        if (segIndex !== undefined) break;
-      }
-      if (segIndex === undefined) return undefined;
+      // The longest symbol key at i, then the longest diacritic keys after it, one after another
+      // (as trying each length from the longest down would find them).
+      const node = this.symbolTrie.longest(pron, i);
+      if (node < 0) return undefined;
+      const len = this.symbolTrie.matched;
+      const segIndex = this.symbolIndex[this.symbolTrie.keyAt(node)]!;
       let j = i + len;
       let diacritics: string[] | undefined;
       for (;;) {
-        let dl = Math.min(lk.maxDiacriticLength, n - j);
-        let key = "";
-        for (; dl > 0; dl--) {
-          key = pron.substr(j, dl);
-          if (lk.diacriticByKey.has(key)) break;
-        }
-        if (dl === 0) break;
-        (diacritics ??= []).push(key);
-        j += dl;
+        const d = this.diacriticTrie.longest(pron, j);
+        if (d < 0) break;
+        (diacritics ??= []).push(this.diacriticKeys[this.diacriticTrie.keyAt(d)]!);
+        j += this.diacriticTrie.matched;
       }
       // Marks after a diphthong's first letter (ãɪ, aːɪ): the general path reads them (inventory/diphthong.ts).
       if (diacritics !== undefined && this.heads.has(pron.substr(i, len))) return undefined;
-      const t = this.typeOf(pron.slice(i, j), segIndex, diacritics ?? NONE);
+      // A symbol without diacritics: its type by trie node (one per key, as `types` keys it by text).
+      let t: SegmentType;
+      if (diacritics === undefined) t = this.plainTypes[node] ??= this.typeOf(pron.slice(i, j), segIndex, NONE);
+      else t = this.typeOf(pron.slice(i, j), segIndex, diacritics);
       wordHasSegment = true;
       if (t.nucleus) {
         out.push(this.sym(t, pending === 1 ? 1 : pending === 2 ? 2 : marked ? 3 : 0));

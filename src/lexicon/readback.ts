@@ -3,21 +3,75 @@
 // cost more than writing it. Lines end at LF (one CR before it dropped), as `eachLine` in
 // reconcile.ts reads them; the fields are found with the same rules as its regular expressions.
 
-import { createReadStream } from "node:fs";
+import { open } from "node:fs/promises";
 
-/** Calls `fn(buf, start, end)` for every line of a file (bytes `start` … `end` of `buf`, no line end). */
-export async function eachLineBytes(path: string, fn: (buf: Buffer, start: number, end: number) => void): Promise<void> {
-  let tail: Buffer = Buffer.alloc(0);
-  for await (const chunk of createReadStream(path, { highWaterMark: 1 << 20 })) {
-    const buf = tail.length === 0 ? (chunk as Buffer) : Buffer.concat([tail, chunk as Buffer]);
-    let start = 0;
-    for (let nl = buf.indexOf(10); nl >= 0; nl = buf.indexOf(10, start)) {
-      fn(buf, start, nl > start && buf[nl - 1] === 13 ? nl - 1 : nl);
-      start = nl + 1;
+/** Bytes read per call (the buffer grows only for a line longer than this). */
+const READ_BYTES = 1 << 20;
+
+/**
+ * Calls `fn(buf, start, end)` for every line of a file (bytes `start` … `end` of `buf`, no line end).
+ * The file is read into one buffer, used again for every read (the unfinished line moved to its
+ * start): a reader that made a buffer per chunk, and joined each to the tail of the one before,
+ * allocated twice the file's size outside the heap, which made the garbage collector sweep a
+ * build's whole heap again and again while its outputs were read back. `size`: bytes per read.
+ */
+export async function eachLineBytes(path: string, fn: (buf: Buffer, start: number, end: number) => void, size = READ_BYTES): Promise<void> {
+  const h = await open(path, "r");
+  try {
+    let buf = Buffer.allocUnsafe(Math.max(1, size));
+    let kept = 0;
+    for (;;) {
+      if (kept === buf.length) {
+        const bigger = Buffer.allocUnsafe(buf.length * 2);
+        buf.copy(bigger, 0, 0, kept);
+        buf = bigger;
+      }
+      const { bytesRead } = await h.read(buf, kept, buf.length - kept, null);
+      if (bytesRead === 0) break;
+      const filled = kept + bytesRead;
+      const view = buf.subarray(0, filled);
+      let start = 0;
+      // `view` is a new object per read (the same memory): callers may key what they found on it.
+      for (let nl = view.indexOf(10); nl >= 0; nl = view.indexOf(10, start)) {
+        fn(view, start, nl > start && view[nl - 1] === 13 ? nl - 1 : nl);
+        start = nl + 1;
+      }
+      buf.copy(buf, 0, start, filled);
+      kept = filled - start;
     }
-    tail = buf.subarray(start);
+    if (kept > 0) fn(buf.subarray(0, kept), 0, buf[kept - 1] === 13 ? kept - 1 : kept);
+  } finally {
+    await h.close();
   }
-  if (tail.length > 0) fn(tail, 0, tail[tail.length - 1] === 13 ? tail.length - 1 : tail.length);
+}
+
+/** Counts the occurrences (not overlapping) of an ASCII tag in a file's bytes, read as `eachLineBytes` reads them (one buffer; `size`: bytes per read). */
+export async function countTag(path: string, tag: string, size = READ_BYTES): Promise<number> {
+  const t = Buffer.from(tag, "latin1");
+  const h = await open(path, "r");
+  let n = 0;
+  try {
+    const buf = Buffer.allocUnsafe(Math.max(1, size) + t.length);
+    let kept = 0;
+    for (;;) {
+      const { bytesRead } = await h.read(buf, kept, buf.length - kept, null);
+      if (bytesRead === 0) break;
+      const filled = kept + bytesRead;
+      const view = buf.subarray(0, filled);
+      let from = 0;
+      for (let at = view.indexOf(t, 0); at >= 0; at = view.indexOf(t, at + t.length)) {
+        n++;
+        from = at + t.length;
+      }
+      // Keep the last bytes that could begin the tag (shorter than it, never counted twice).
+      const keep = Math.max(from, filled - (t.length - 1));
+      buf.copy(buf, 0, keep, filled);
+      kept = filled - keep;
+    }
+  } finally {
+    await h.close();
+  }
+  return n;
 }
 
 /** Index just past the JSON string that starts (after its opening quote) at `at`, or -1 when it does not close before `end`. */
@@ -61,16 +115,20 @@ export async function readBackJsonl(path: string): Promise<{ count: number; line
   const words: string[] = [];
   const source = new Finder(SOURCE);
   const word = new Finder(WORD);
-  // Every record of a run names one file or two: its JSON string is decoded once per change.
-  let lastRaw = "";
+  // Every record of a run names one file or two: its JSON string is decoded once per change (the
+  // bytes compared with the last ones in place, no string made per record).
+  let lastRaw: Buffer = Buffer.alloc(0);
   let lastFile = "";
   await eachLineBytes(path, (buf, start, end) => {
     const s = sourceOf(buf, start, end, source);
     lines.push(s === undefined ? 0 : s.line);
     if (s === undefined) files.push("");
     else {
-      const raw = buf.toString("latin1", s.open, s.close);
-      if (raw !== lastRaw) (lastRaw = raw), (lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string);
+      const n = s.close - s.open;
+      if (n !== lastRaw.length || buf.compare(lastRaw, 0, n, s.open, s.close) !== 0) {
+        lastRaw = Buffer.from(buf.subarray(s.open, s.close));
+        lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string;
+      }
       files.push(lastFile);
     }
     words.push(wordOf(buf, start, end, word));
@@ -100,10 +158,21 @@ function sourceOf(buf: Buffer, start: number, end: number, finder: Finder): { li
 function wordOf(buf: Buffer, start: number, end: number, finder: Finder): string {
   for (let at = finder.find(buf, start, end); at >= 0; at = finder.find(buf, at + 1, end)) {
     const open = at + WORD.length - 1;
-    const close = stringEnd(buf, open + 1, end);
+    // The string's end, and whether it holds an escape (without one its text is its bytes between the quotes).
+    let close = -1;
+    let escaped = false;
+    for (let i = open + 1; i < end; i++) {
+      const c = buf[i]!;
+      if (c === 92 /* \ */) {
+        escaped = true;
+        i++;
+      } else if (c === 34 /* " */) {
+        close = i + 1;
+        break;
+      }
+    }
     if (close < 0) continue;
-    const raw = buf.toString("utf8", open, close);
-    return raw.indexOf("\\") < 0 ? raw.slice(1, -1) : (JSON.parse(raw) as string);
+    return escaped ? (JSON.parse(buf.toString("utf8", open, close)) as string) : buf.toString("utf8", open + 1, close - 1);
   }
   return "";
 }

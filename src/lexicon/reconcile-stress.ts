@@ -30,14 +30,13 @@ export async function reconcileStressReport(lexicon: string, path: string, expec
   const rows = records.slice(1);
   if (rows.length !== expected) fail(`The run found ${expected} stress problem${expected === 1 ? "" : "s"} but ${STRESS_REPORT} holds ${rows.length}.`);
   const tag = (file: string, line: number): string => `${file}\n${line}`;
-  const wordOf = new Map<string, string>();
-  for (const s of sources) s.input.lines.forEach((l, i) => wordOf.set(tag(s.file, l), s.input.words[i]!));
+  const wordOf = recordWords(sources);
   const excluded = new Set(notEntries.map((r) => tag(r.file, r.line)));
   const at = { file: STRESS_REPORT_COLUMNS.indexOf("file"), line: STRESS_REPORT_COLUMNS.indexOf("line"), word: STRESS_REPORT_COLUMNS.indexOf("word") };
   for (const r of rows) {
     const line = Number(r[at.line]);
     const t = tag(r[at.file] ?? "", line);
-    const word = wordOf.get(t);
+    const word = wordOf(r[at.file] ?? "", line);
     if (word === undefined || excluded.has(t)) {
       fail(`${STRESS_REPORT} names ${r[at.file]} line ${r[at.line]}, which is not an entry.`, word === undefined ? 1 : line);
       break;
@@ -48,4 +47,43 @@ export async function reconcileStressReport(lexicon: string, path: string, expec
     }
   }
   return out;
+}
+
+/**
+ * The word of the record that starts on line `line` of file `file` among `sources` (a later source
+ * naming the same file wins), or undefined when none does. The report names few lines, so each is
+ * looked up on its own: by binary search in a source's lines (ascending, as `countInputRecords`
+ * gives them), or through a map of every record for a source whose lines are not in order.
+ */
+function recordWords(sources: readonly StressSource[]): (file: string, line: number) => string | undefined {
+  const finders = sources.map((s) => {
+    const lines = s.input.lines;
+    let ascending = true;
+    for (let i = 1; i < lines.length && ascending; i++) ascending = lines[i - 1]! < lines[i]!;
+    if (!ascending) {
+      const byLine = new Map<number, string>();
+      lines.forEach((l, i) => byLine.set(l, s.input.words[i]!));
+      return (line: number): string | undefined => byLine.get(line);
+    }
+    return (line: number): string | undefined => {
+      let lo = 0;
+      let hi = lines.length - 1;
+      while (lo <= hi) {
+        const mid = (lo + hi) >> 1;
+        const l = lines[mid]!;
+        if (l === line) return s.input.words[mid]!;
+        if (l < line) lo = mid + 1;
+        else hi = mid - 1;
+      }
+      return undefined;
+    };
+  });
+  return (file, line) => {
+    for (let k = sources.length - 1; k >= 0; k--) {
+      if (sources[k]!.file !== file) continue;
+      const word = finders[k]!(line);
+      if (word !== undefined) return word;
+    }
+    return undefined;
+  };
 }

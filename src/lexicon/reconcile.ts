@@ -6,7 +6,7 @@ import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import { readBackJsonl, readBackTsv } from "./readback.js";
+import { countTag, readBackJsonl, readBackTsv } from "./readback.js";
 
 /** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
 export interface InputRecords {
@@ -207,15 +207,8 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
   }
   let plsLexemes: number | undefined;
   if (files.pls !== undefined) {
-    plsLexemes = 0;
     // Counted in the bytes (the tag is ASCII; UTF-8 never repeats an ASCII byte inside a character).
-    const tag = Buffer.from("<lexeme>");
-    let tail: Buffer = Buffer.alloc(0);
-    for await (const chunk of createReadStream(files.pls, { highWaterMark: 1 << 20 })) {
-      const buf = tail.length === 0 ? (chunk as Buffer) : Buffer.concat([tail, chunk as Buffer]);
-      for (let at = buf.indexOf(tag); at >= 0; at = buf.indexOf(tag, at + tag.length)) plsLexemes++;
-      tail = buf.subarray(Math.max(0, buf.length - (tag.length - 1))); // shorter than the tag: never counted twice
-    }
+    plsLexemes = await countTag(files.pls, "<lexeme>");
   }
   const rej = csvRecords(await readFile(files.rejects, "utf8")).slice(1);
   const replaced = files.replaced === undefined ? undefined : csvRecords(await readFile(files.replaced, "utf8")).slice(1).map((r) => ({ file: r[0] ?? "", line: Number(r[1]), word: r[3] ?? "" }));
@@ -271,6 +264,84 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
     fail(`lexicon.pls holds ${w.plsLexemes} lexemes but lexicon.tsv ${w.tsvWords} distinct words.`);
   }
   if (w.jsonlLines === undefined) return out;
+  const found = (over === undefined ? findingsByLine(input, w) : undefined) ?? findingsByTag(input, w, over);
+  const list = (ls: readonly string[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
+  const { missing, doubled, moved, stray } = found;
+  if (missing.length > 0) fail(`Line${missing.length === 1 ? "" : "s"} ${list(missing.map((r) => r.shown))} of the ${over === undefined ? "lexicon" : "input"} ${missing.length === 1 ? "is" : "are"} neither an entry nor a reject${over === undefined ? "" : " nor replaced"}.`, missing[0]!.line);
+  if (doubled.length > 0) fail(`Line${doubled.length === 1 ? "" : "s"} ${list(doubled.map((r) => r.shown))} of the ${over === undefined ? "lexicon" : "input"} ${doubled.length === 1 ? "was" : "were"} written more than once.`, doubled[0]!.line);
+  if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved.map((r) => r.shown))} of the ${over === undefined ? "lexicon" : "input"} ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, moved[0]!.line);
+  if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(stray.map((r) => r.shown))}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the ${over === undefined ? "lexicon" : "input"}.`, found.strayLine);
+  return out;
+}
+
+/** A record line found missing, doubled, moved or stray: as a message names it, and its line. */
+interface Found {
+  readonly shown: string;
+  readonly line: number;
+}
+
+/**
+ * The line checks of `reconcile`: input records neither written nor rejected (`missing`, in input
+ * order), written more than once (`doubled`), entries not holding their line's word (`moved`, in
+ * JSON Lines order, then replaced.csv's), and lines written that are no record (`stray`), with the
+ * line a stray finding is positioned at.
+ */
+export interface LineFindings {
+  readonly missing: readonly Found[];
+  readonly doubled: readonly Found[];
+  readonly moved: readonly Found[];
+  readonly stray: readonly Found[];
+  readonly strayLine: number | undefined;
+}
+
+/**
+ * The line checks for one input file, on arrays indexed by line number (no string per record): the
+ * common case. Undefined when a line read back is not a whole number (a damaged file) or rows were
+ * replaced: `findingsByTag` then answers.
+ */
+export function findingsByLine(input: InputRecords, w: WrittenCounts): LineFindings | undefined {
+  if ((w.replaced?.length ?? 0) > 0) return undefined;
+  const jl = w.jsonlLines!;
+  const rl = w.rejectLines;
+  let max = 0;
+  for (const ls of [input.lines, jl, rl]) {
+    for (let i = 0; i < ls.length; i++) {
+      const l = ls[i]!;
+      if (!Number.isSafeInteger(l) || l < 0 || l > 0x3fffffff) return undefined;
+      if (l > max) max = l;
+    }
+  }
+  const written = new Int32Array(max + 1);
+  for (let i = 0; i < jl.length; i++) written[jl[i]!]!++;
+  for (let i = 0; i < rl.length; i++) written[rl[i]!]!++;
+  // The input's word on each of its lines (undefined: no record starts there).
+  const wordAt: (string | undefined)[] = new Array<string | undefined>(max + 1);
+  const missing: Found[] = [];
+  const doubled: Found[] = [];
+  for (let i = 0; i < input.lines.length; i++) {
+    const l = input.lines[i]!;
+    wordAt[l] = input.words[i]!;
+    if (written[l] === 0) missing.push({ shown: String(l), line: l });
+  }
+  for (let i = 0; i < input.lines.length; i++) {
+    const l = input.lines[i]!;
+    if (written[l]! > 1) doubled.push({ shown: String(l), line: l });
+  }
+  const moved: Found[] = [];
+  const jw = w.jsonlWords;
+  for (let i = 0; i < jl.length; i++) {
+    const l = jl[i]!;
+    const word = wordAt[l];
+    if (word !== undefined && word !== jw?.[i]) moved.push({ shown: String(l), line: l });
+  }
+  const stray: Found[] = [];
+  for (let l = 0; l <= max; l++) if (written[l]! > 0 && wordAt[l] === undefined) stray.push({ shown: String(l), line: l });
+  return { missing, doubled, moved, stray, strayLine: stray[0]?.line };
+}
+
+/** The line checks on string tags: file and line with an override file (two inputs), the line alone without. */
+export function findingsByTag(input: InputRecords, w: WrittenCounts, over: OverrideInput | undefined): LineFindings {
+  const replaced = w.replaced ?? [];
   // Records are told apart by line alone without an override file (one input), by file and line with one.
   const tag = (file: string, line: number): string => (over === undefined ? String(line) : `${file}\n${line}`);
   const shown = (t: string): string => (over === undefined ? t : t.replace("\n", " line "));
@@ -278,7 +349,7 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
   if (over !== undefined) over.input.lines.forEach((l, i) => inputs.push({ tag: tag(over.overrides, l), line: l, word: over.input.words[i]! }));
   const seen = new Map<string, number>();
   const add = (t: string): void => void seen.set(t, (seen.get(t) ?? 0) + 1);
-  const jsonlTags = w.jsonlLines.map((l, i) => tag(w.jsonlFiles?.[i] ?? "", l));
+  const jsonlTags = w.jsonlLines!.map((l, i) => tag(w.jsonlFiles?.[i] ?? "", l));
   jsonlTags.forEach(add);
   w.rejectLines.forEach((l, i) => add(tag(w.rejectFiles[i] ?? "", l)));
   replaced.forEach((r) => add(tag(r.file, r.line)));
@@ -286,17 +357,18 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
   const doubled = inputs.filter((r) => (seen.get(r.tag) ?? 0) > 1);
   const known = new Set(inputs.map((r) => r.tag));
   const stray = [...seen.keys()].filter((t) => !known.has(t));
-  const list = (ls: readonly string[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
-  const names = (rs: readonly { tag: string }[]): string => list(rs.map((r) => shown(r.tag)));
-  if (missing.length > 0) fail(`Line${missing.length === 1 ? "" : "s"} ${names(missing)} of the ${over === undefined ? "lexicon" : "input"} ${missing.length === 1 ? "is" : "are"} neither an entry nor a reject${over === undefined ? "" : " nor replaced"}.`, missing[0]!.line);
-  if (doubled.length > 0) fail(`Line${doubled.length === 1 ? "" : "s"} ${names(doubled)} of the ${over === undefined ? "lexicon" : "input"} ${doubled.length === 1 ? "was" : "were"} written more than once.`, doubled[0]!.line);
   const wordOf = new Map<string, string>(inputs.map((r) => [r.tag, r.word]));
   const moved = [
     ...jsonlTags.flatMap((t, i) => (wordOf.has(t) && wordOf.get(t) !== w.jsonlWords?.[i] ? [t] : [])),
     ...replaced.flatMap((r) => { const t = tag(r.file, r.line); return wordOf.has(t) && wordOf.get(t) !== r.word ? [t] : []; }),
   ];
-  if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved.map(shown))} of the ${over === undefined ? "lexicon" : "input"} ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, Number(moved[0]!.split("\n").pop()));
+  const found = (t: string): Found => ({ shown: shown(t), line: Number(t.split("\n").pop()) });
   const strayLines = stray.map((t) => Number(t.split("\n").pop())).sort((a, b) => a - b);
-  if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(over === undefined ? strayLines.map(String) : stray.map(shown))}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the ${over === undefined ? "lexicon" : "input"}.`, strayLines[0]);
-  return out;
+  return {
+    missing: missing.map((r) => ({ shown: shown(r.tag), line: r.line })),
+    doubled: doubled.map((r) => ({ shown: shown(r.tag), line: r.line })),
+    moved: moved.map(found),
+    stray: over === undefined ? strayLines.map((l) => ({ shown: String(l), line: l })) : stray.map(found),
+    strayLine: strayLines[0],
+  };
 }

@@ -68,17 +68,25 @@ export interface RenderOptions {
 export function renderIpa(ids: ArrayLike<number>, view: SymbolView, opts: RenderOptions = {}): string {
   const dots = opts.syllables ?? true;
   const joins = opts.joins ?? false;
-  const { kind, texts, stress } = view;
+  const { kind, stress } = view;
+  const units = unitsOf(view.texts);
   let from = 0;
   let to = ids.length;
   while (from < to && kind[ids[from]!] === 1) from++;
   while (to > from && kind[ids[to - 1]!] === 1) to--;
-  let text = "";
+  // The text is gathered as UTF-16 code units and made into one flat string at the end: a string
+  // built by `+=` per symbol is a tree of pieces that every later reader (the JSON writer, the
+  // UTF-8 encoder) first copies flat, and each piece is an object for the garbage collector.
+  let buf = scratch;
+  let n = 0;
   let i = from;
   let opener = 0; // 0 start, 1 word, 2 syllable
   while (i <= to) {
     let j = i;
     while (j < to && kind[ids[j]!]! >= 3) j++;
+    // Room for every symbol of the stretch with a mark before each, and the opener.
+    const most = n + 1 + (j - i) * (units.widest + 1);
+    if (most > buf.length) buf = grow(buf, most);
     let firstNucleus = -1;
     let firstMark = 0;
     for (let k = i; k < j; k++) {
@@ -88,27 +96,83 @@ export function renderIpa(ids: ArrayLike<number>, view: SymbolView, opts: Render
         break;
       }
     }
-    if (opener === 1) text += " ";
-    if (firstMark === 1) text += PRIMARY_MARK;
-    else if (firstMark === 2) text += SECONDARY_MARK;
-    else if (opener === 2 && dots) text += ".";
+    if (opener === 1) buf[n++] = SPACE;
+    if (firstMark === 1) buf[n++] = PRIMARY;
+    else if (firstMark === 2) buf[n++] = SECONDARY;
+    else if (opener === 2 && dots) buf[n++] = DOT;
     for (let k = i; k < j; k++) {
       const id = ids[k]!;
       if (kind[id] === 4) {
-        if (joins) text += "+";
+        if (joins) buf[n++] = PLUS;
         continue;
       }
       if (k !== firstNucleus && view.nucleus[id] === 1) {
         const st = stress[id];
-        if (st === 1) text += PRIMARY_MARK;
-        else if (st === 2) text += SECONDARY_MARK;
+        if (st === 1) buf[n++] = PRIMARY;
+        else if (st === 2) buf[n++] = SECONDARY;
       }
-      text += texts[id];
+      const at = units.start[id]!;
+      const end = units.start[id + 1]!;
+      for (let u = at; u < end; u++) buf[n++] = units.codes[u]!;
     }
     if (j >= to) break;
     opener = kind[ids[j]!] === 1 ? 1 : 2;
     i = j + 1;
     while (opener === 1 && i < to && kind[ids[i]!] === 1) i++;
   }
+  scratch = buf;
+  return textOf(buf, n);
+}
+
+const SPACE = 0x20;
+const DOT = 0x2e;
+const PLUS = 0x2b;
+const PRIMARY = PRIMARY_MARK.charCodeAt(0);
+const SECONDARY = SECONDARY_MARK.charCodeAt(0);
+
+/** Each symbol's text as UTF-16 code units: those of id `i` are `codes[start[i] … start[i+1])`. */
+interface SymbolUnits {
+  readonly codes: Uint16Array;
+  readonly start: Int32Array;
+  /** The most code units of one symbol's text. */
+  readonly widest: number;
+}
+
+/** Made once per texts table (a view and its tied variant have their own). */
+const unitsCache = new WeakMap<readonly string[], SymbolUnits>();
+
+function unitsOf(texts: readonly string[]): SymbolUnits {
+  let u = unitsCache.get(texts);
+  if (u !== undefined) return u;
+  const start = new Int32Array(texts.length + 1);
+  let widest = 0;
+  for (let i = 0; i < texts.length; i++) {
+    start[i + 1] = start[i]! + texts[i]!.length;
+    widest = Math.max(widest, texts[i]!.length);
+  }
+  const codes = new Uint16Array(start[texts.length]!);
+  for (let i = 0; i < texts.length; i++) for (let k = 0; k < texts[i]!.length; k++) codes[start[i]! + k] = texts[i]!.charCodeAt(k);
+  u = { codes, start, widest };
+  unitsCache.set(texts, u);
+  return u;
+}
+
+/** The buffer every rendering fills (one per thread: a module's state is per worker). */
+let scratch: Uint16Array = new Uint16Array(256);
+
+function grow(buf: Uint16Array, need: number): Uint16Array {
+  const next = new Uint16Array(Math.max(need, buf.length * 2));
+  next.set(buf);
+  return next;
+}
+
+/** Code units per `String.fromCharCode` call (an argument list that stays well inside the stack). */
+const PIECE = 4096;
+
+/** `buf[0 … n)` as one string. */
+function textOf(buf: Uint16Array, n: number): string {
+  if (n <= PIECE) return String.fromCharCode.apply(null, buf.subarray(0, n) as unknown as number[]);
+  let text = "";
+  for (let at = 0; at < n; at += PIECE) text += String.fromCharCode.apply(null, buf.subarray(at, Math.min(n, at + PIECE)) as unknown as number[]);
   return text;
 }

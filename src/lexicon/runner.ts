@@ -5,7 +5,7 @@
 import { dirname } from "node:path";
 import type { Diagnostic } from "../diagnostics.js";
 import { capPerFile } from "../diagnostic-cap.js";
-import { formatJsonRecord } from "../emit/jsonl.js";
+import { jsonRecord } from "../emit/jsonl.js";
 import type { Inventory } from "../inventory/types.js";
 import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
 import { readLexicon, type LexiconRow, type RejectedRow } from "./read.js";
@@ -105,9 +105,7 @@ export function outsideAlphabet(row: LexiconRow): RejectedRow {
 export const entryJsonLine = (r: EntryResult, file = r.file): string => entryJsonRecord(r, file) + "\n";
 
 /** `entryJsonLine` without its line feed. */
-export const entryJsonRecord = (r: EntryResult, file = r.file): string =>
-  formatJsonRecord({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad, variants: r.variants, rules: r.rules, ...(r.id !== undefined ? { id: r.id } : {}), source: { file, line: r.line }, derivation: r.derivation, variantSteps: r.variantSteps, input: r.input,
-  ...(r.capped === true ? { capped: true } : {}), ...(r.ambiguous === true ? { ambiguous: true } : {}) });
+export const entryJsonRecord = (r: EntryResult, file = r.file): string => jsonRecord(r, file, r.line);
 
 /** A read row and its transcription as one entry. */
 export const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult => ({

@@ -157,6 +157,15 @@ export class VariantScreen {
     return this.branchingBefore[b]! > this.branchingBefore[a]!;
   }
 
+  /**
+   * True when step `s` can branch and its variants machine writes `input` back unchanged on every
+   * accepting path (and accepts it): then `input` is its one output. False when it cannot tell.
+   */
+  identityAt(s: number, input: ArrayLike<number>): boolean {
+    const sc = this.screens[s];
+    return sc !== null && sc !== undefined && sc.identityOnly(input);
+  }
+
   /** True when every branching step among [from, to) is identity-only on `input` (the string entering each of them). */
   identity(from: number, to: number, input: ArrayLike<number>): boolean {
     const n = this.screens.length;

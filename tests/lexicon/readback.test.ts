@@ -9,7 +9,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { readBackJsonl, readBackTsv } from "../../src/lexicon/readback.js";
+import { countTag, eachLineBytes, readBackJsonl, readBackTsv } from "../../src/lexicon/readback.js";
 
 const dir = mkdtempSync(join(tmpdir(), "strata-readback-"));
 
@@ -91,5 +91,26 @@ describe("written files read back on bytes", () => {
     expect(got.lines[29_999]).toBe(30_001);
     expect(got.words[12_345]).toBe("wörd 12345 ˈ😀");
     expect(got).toEqual(byText(rows.join("\n") + "\n"));
+  });
+
+  it("lines split on bytes read a few at a time (one buffer, grown for a longer line) are the text's lines", async () => {
+    let n = 0;
+    await fc.assert(
+      fc.asyncProperty(fc.array(fc.oneof(fc.constantFrom("\n", "\r\n", "\r", "é", "😀", "<lexeme>", "<lex"), fc.string({ maxLength: 5 })), { maxLength: 20 }), fc.integer({ min: 1, max: 12 }), async (parts, size) => {
+        const body = parts.join("");
+        const p = join(dir, `l${n++}.txt`);
+        writeFileSync(p, body);
+        const got: string[] = [];
+        await eachLineBytes(p, (buf, start, end) => void got.push(buf.toString("utf8", start, end)), size);
+        // Lines end at LF (a CR before it dropped); a last piece without LF is a line when not empty.
+        const pieces = body.split("\n");
+        if (pieces[pieces.length - 1] === "") pieces.pop();
+        const want = pieces.map((l) => (l.endsWith("\r") ? l.slice(0, -1) : l));
+        expect(got).toEqual(want);
+        // The tag counted in the bytes as a search of the whole text counts it (not overlapping).
+        expect(await countTag(p, "<lexeme>", size)).toBe(body.split("<lexeme>").length - 1);
+      }),
+      { numRuns: 400 },
+    );
   });
 });
