@@ -8,6 +8,7 @@ import type { Inventory } from "../inventory/types.js";
 import { tokenise } from "../inventory/index.js";
 import { applyStress, readLexicon, rejectDiagnostic, type LexiconRow } from "../lexicon/read.js";
 import { Deriver, explain, type ExplainItem } from "./explain.js";
+import { FormWriter } from "./render.js";
 import { explanationJson, explanationTable } from "./explain-format.js";
 import type { Alphabet } from "../compile/index.js";
 import { analyseInteractions } from "./interactions.js";
@@ -156,10 +157,11 @@ export async function runInteractionsCommand(o: InteractionsCommandOptions): Pro
   if (deriver === null) return { stdout: "", diagnostics, exitCode: 1 };
   let ev: LexiconEvidence | undefined;
   if (rows !== undefined) {
-    if (!sameAlphabet(deriver.alphabet, report.machines.alphabet)) throw new Error("the analysis and the compiled grammar disagree on the alphabet");
+    if (!extendsAlphabet(report.machines.alphabet, deriver.alphabet)) throw new Error("the analysis and the compiled grammar disagree on the alphabet");
     ev = lexiconEvidence(report, deriver, rows, o.examples ?? 3);
   }
-  const w = deriver.writer;
+  // The analysis's alphabet: the compiler's, then the symbols only another order of the steps makes.
+  const w = new FormWriter(report.machines.alphabet, g.inventory);
   const format = o.format ?? "table";
   const stdout = format === "json" ? JSON.stringify(interactionJson(report, w, o.grammarName, ev), null, 2) + "\n"
     : format === "dot" ? interactionDot(report, o.grammarName)
@@ -167,6 +169,7 @@ export async function runInteractionsCommand(o: InteractionsCommandOptions): Pro
   return { stdout, diagnostics, exitCode: diagnostics.some((d) => d.severity === "error") ? 1 : 0, seconds: report.seconds };
 }
 
-function sameAlphabet(a: Alphabet, b: Alphabet): boolean {
-  return a.size === b.size && a.segments.every((s, i) => s.key === b.segments[i]!.key);
+/** Does `wide` hold every symbol of `narrow` under the same id? */
+function extendsAlphabet(wide: Alphabet, narrow: Alphabet): boolean {
+  return wide.size >= narrow.size && narrow.segments.every((s, i) => s.key === wide.segments[i]!.key);
 }

@@ -37,7 +37,8 @@ export interface AnalysisMachines {
 const obligatory = (r: Rule): Rule => (r.optional ? { ...r, optional: false, prefer: "applied" } : r);
 
 /**
- * Compiles every step of `grammar` over the full alphabet (every symbol in every step's domain).
+ * Compiles every step of `grammar` over the full alphabet: every symbol any order of the steps can
+ * make, in every step's domain (the compiler's alphabet of the grammar as written is a prefix of it).
  * Errors come back as diagnostics at the step's position.
  */
 export function analysisMachines(grammar: Grammar, inv: Inventory): { machines: AnalysisMachines | null; diagnostics: Diagnostic[] } {
@@ -46,7 +47,9 @@ export function analysisMachines(grammar: Grammar, inv: Inventory): { machines: 
   const low = new Lowering(grammar, inv);
   let alphabet: Alphabet;
   try {
-    alphabet = computeAlphabet(inv, low, desugared);
+    // Closed under the steps in any order: a counter relation runs a later step first, and a
+    // machine maps a symbol whose image the alphabet lacks to nothing (the step would look blind).
+    alphabet = computeAlphabet(inv, low, desugared, [], { everyOrder: true });
   } catch (e) {
     if (e instanceof LowerError) return { machines: null, diagnostics: [e.diagnostic] };
     throw e;

@@ -79,6 +79,18 @@ export function liveAssignments(low: Lowering, rule: Rule, bundles: readonly Bun
   });
 }
 
+/** Options of `computeAlphabet`. */
+export interface AlphabetOptions {
+  /**
+   * Also close the alphabet under every step applied in any order, as often as it takes (the
+   * analyses run a step on strings another order of the steps would give it). The symbols this
+   * adds come after all the others, in bundle-key order, so the alphabet of the grammar as written
+   * is a prefix of this one (same ids); they reach no step (`domains`), and one no symbol can write
+   * is shown as '?' instead of failing the grammar.
+   */
+  readonly everyOrder?: boolean;
+}
+
 /**
  * Computes the alphabet. `steps` are the grammar's steps after desugaring, in order.
  * Closure: one pass in step order — a step's target can only meet symbols of the inventory or
@@ -87,7 +99,7 @@ export function liveAssignments(low: Lowering, rule: Rule, bundles: readonly Bun
  * every symbol any word can carry. Throws LowerError (with the rule's position) for an
  * unwritable produced bundle or when the alphabet exceeds MAX_ALPHABET.
  */
-export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][], extra: readonly Bundle[] = []): Alphabet {
+export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly Grammar["steps"][number][], extra: readonly Bundle[] = [], opts: AlphabetOptions = {}): Alphabet {
   const bundles: Bundle[] = [];
   const keys = new Set<string>();
   const add = (b: Bundle): boolean => {
@@ -97,12 +109,7 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
     bundles.push(b);
     return true;
   };
-  const withProsody = (b: Bundle, s: FeatureValue, p: FeatureValue): Bundle => {
-    const out = [...b];
-    if (low.stressIdx >= 0) out[low.stressIdx] = s;
-    if (low.primaryIdx >= 0) out[low.primaryIdx] = p;
-    return out;
-  };
+  const withProsody = (b: Bundle, s: FeatureValue, p: FeatureValue): Bundle => prosodyOf(low, b, s, p);
   const addSegment = (b: Bundle): void => {
     if (low.isNucleus(b)) for (const [s, p] of NUCLEUS_PROSODY) add(withProsody(b, s, p));
     else add(withProsody(b, "0", "0"));
@@ -125,62 +132,38 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
   const derived: Bundle[] = [];
   const origin = new Map<string, Rule | Grammar["steps"][number]>();
   const reachCounts: number[] = [];
+  const tooLarge = (step: Grammar["steps"][number], how: string): void => {
+    if (bundles.length <= MAX_ALPHABET) return;
+    throw lowerError("compile/alphabet-too-large", `The rules produce more than ${MAX_ALPHABET} distinct segments${how} (rule '${step.name}' reached ${bundles.length}); check for a change that multiplies segments.`, step.span);
+  };
   for (const step of steps) {
     reachCounts.push(bundles.length);
-    const before = bundles.slice();
-    if (step.kind === "syllabify") continue;
-    if (step.kind === "stress") {
-      for (const b of before) {
-        if (!low.isNucleus(b)) continue;
-        for (const [s, p] of NUCLEUS_PROSODY) {
-          const nb = withProsody(b, s, p);
-          const isNew = add(nb);
-          if (isNew) { derived.push(nb); origin.set(bundleKey(nb), step); }
-          track(b, nb, isNew);
-        }
-      }
-      continue;
-    }
-    const rule = step;
-    for (const asg of liveAssignments(low, rule, before)) {
-      if (rule.target.length === 0) {
-        for (const c of rule.change) {
-          const nb = low.inserted(c);
-          if (add(nb)) { derived.push(nb); origin.set(bundleKey(nb), rule); }
-          track(null, nb);
-        }
-        continue;
-      }
-      if (rule.change.length === 0) continue;
-      const produce = (nb: Bundle, from: Bundle | null): void => {
-        const isNew = add(nb);
-        if (isNew) { derived.push(nb); origin.set(bundleKey(nb), rule); }
-        track(from, nb, isNew);
-      };
-      rule.target.forEach((e, j) => {
-        const m = low.element(e, asg);
-        const c = rule.change[j];
-        if (!c) return;
-        // A literal written over a boundary is an inserted segment (the interpreter's convention).
-        if ((m.word || m.syll) && c.kind === "segment") produce(low.inserted(c), null);
-        for (const b of before) if (m.seg(b)) produce(low.applyChange(c, asg, b), b);
-      });
-      // A literal change longer than its target writes the rest as inserted segments.
-      for (const c of rule.change.slice(rule.target.length)) produce(low.inserted(c), null);
-    }
-    if (bundles.length > MAX_ALPHABET) {
-      throw lowerError("compile/alphabet-too-large", `The rules produce more than ${MAX_ALPHABET} distinct segments (rule '${rule.name}' reached ${bundles.length}); check for a change that multiplies segments.`, rule.span);
+    stepProducts(low, step, bundles.slice(), (nb, from) => {
+      const isNew = add(nb);
+      if (isNew) { derived.push(nb); origin.set(bundleKey(nb), step); }
+      track(from, nb, isNew);
+    });
+    if (step.kind === "rule") tooLarge(step, "");
+  }
+  // Closed under the steps in any order: passes over every step until nothing new comes.
+  const anyOrder: Bundle[] = [];
+  for (let grew = opts.everyOrder === true; grew;) {
+    grew = false;
+    for (const step of steps) {
+      stepProducts(low, step, bundles.slice(), (nb) => { if (add(nb)) { anyOrder.push(nb); grew = true; } });
+      tooLarge(step, " when the steps are applied in any order");
     }
   }
+  const outOfOrder = new Set(anyOrder.map(bundleKey));
   // Deterministic order: the inventory's symbols as listed, then derived symbols by bundle key.
   const baseBundles = bundles.slice(0, base);
-  const sortedDerived = [...derived].sort((a, b) => { const ka = bundleKey(a), kb = bundleKey(b); return ka < kb ? -1 : ka > kb ? 1 : 0; });
-  const ordered = [...baseBundles, ...sortedDerived];
+  const byBundleKey = (a: Bundle, b: Bundle): number => { const ka = bundleKey(a), kb = bundleKey(b); return ka < kb ? -1 : ka > kb ? 1 : 0; };
+  const ordered = [...baseBundles, ...[...derived].sort(byBundleKey), ...anyOrder.sort(byBundleKey)];
   const byKey = new Map<string, number>();
   const segments: AlphabetSymbol[] = ordered.map((b, i) => {
     const key = bundleKey(b);
     const r = realise(inv, b);
-    if (!r.ok && inputMade.has(key)) {
+    if (!r.ok && (inputMade.has(key) || outOfOrder.has(key))) {
       byKey.set(key, i + FIRST_SEGMENT);
       return { id: i + FIRST_SEGMENT, bundle: b, key, text: "?" };
     }
@@ -205,4 +188,46 @@ export function computeAlphabet(inv: Inventory, low: Lowering, steps: readonly G
     return d;
   });
   return { size: segments.length + FIRST_SEGMENT, segments, byKey, domains };
+}
+
+function prosodyOf(low: Lowering, b: Bundle, s: FeatureValue, p: FeatureValue): Bundle {
+  const out = [...b];
+  if (low.stressIdx >= 0) out[low.stressIdx] = s;
+  if (low.primaryIdx >= 0) out[low.primaryIdx] = p;
+  return out;
+}
+
+/**
+ * Every bundle one step can write when it reads words over `before`, passed to `produce` with the
+ * bundle it was made from (null for an inserted segment): the stress step's prosodic variants of
+ * each nucleus; a rule's change, for every live assignment, on every bundle its target element
+ * matches, and its inserted segments.
+ */
+function stepProducts(low: Lowering, step: Grammar["steps"][number], before: readonly Bundle[], produce: (nb: Bundle, from: Bundle | null) => void): void {
+  if (step.kind === "syllabify") return;
+  if (step.kind === "stress") {
+    for (const b of before) {
+      if (!low.isNucleus(b)) continue;
+      for (const [s, p] of NUCLEUS_PROSODY) produce(prosodyOf(low, b, s, p), b);
+    }
+    return;
+  }
+  const rule = step;
+  for (const asg of liveAssignments(low, rule, before)) {
+    if (rule.target.length === 0) {
+      for (const c of rule.change) produce(low.inserted(c), null);
+      continue;
+    }
+    if (rule.change.length === 0) continue;
+    rule.target.forEach((e, j) => {
+      const m = low.element(e, asg);
+      const c = rule.change[j];
+      if (!c) return;
+      // A literal written over a boundary is an inserted segment (the interpreter's convention).
+      if ((m.word || m.syll) && c.kind === "segment") produce(low.inserted(c), null);
+      for (const b of before) if (m.seg(b)) produce(low.applyChange(c, asg, b), b);
+    });
+    // A literal change longer than its target writes the rest as inserted segments.
+    for (const c of rule.change.slice(rule.target.length)) produce(low.inserted(c), null);
+  }
 }
