@@ -11,10 +11,8 @@ import { MachineEngine } from "./engine-machine.js";
 import type { LexiconItem, LexiconRow, RejectedRow } from "./read.js";
 import type { Overrides } from "./overrides.js";
 import { entryJsonRecord, transcribeRow, type OutputFormat } from "./runner.js";
-import { StressHygiene, STRESS_POLICY_NAMES, type StressSummary } from "./hygiene.js";
-import { emptyStressCounts, STRESS_CODES, type StressContext } from "./lint-stress.js";
-import { csvLine } from "../emit/csv.js";
-import { STRESS_REPORT_COLUMNS } from "./hygiene.js";
+import { StressCounts, StressHygiene, type StressSummary } from "./hygiene.js";
+import type { StressContext } from "./lint-stress.js";
 import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
 import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
 
@@ -173,30 +171,12 @@ export function addPhonemes(lexemes: Map<string, Lexeme>, word: string, mine: st
 }
 
 /** The stress checks of chunks done apart (worker threads), put together in file order: what a StressHygiene gives of a whole run. */
-export class StressTally {
-  private readonly problems = emptyStressCounts();
-  private readonly policies = Object.fromEntries(STRESS_POLICY_NAMES.map((p) => [p, 0])) as Record<(typeof STRESS_POLICY_NAMES)[number], number>;
-  private readonly lines: string[] = [];
+export class StressTally extends StressCounts {
   /** Chunks added. */
   chunks = 0;
 
   add(s: StressSummary, lines: readonly string[]): void {
     this.chunks++;
-    for (const c of STRESS_CODES) this.problems[c] += s.problems[c];
-    for (const p of STRESS_POLICY_NAMES) this.policies[p] += s.policies[p];
-    for (const l of lines) this.lines.push(l);
-  }
-
-  get total(): number {
-    return this.lines.length;
-  }
-
-  summary(): StressSummary {
-    return { problems: { ...this.problems }, policies: { ...this.policies } };
-  }
-
-  *report(): Generator<string> {
-    yield csvLine([...STRESS_REPORT_COLUMNS]);
-    yield* this.lines;
+    this.absorb(s, lines);
   }
 }

@@ -29,15 +29,42 @@ export interface StressSummary {
   readonly policies: Readonly<Record<StressPolicyName, number>>;
 }
 
-export class StressHygiene {
-  private readonly problems = emptyStressCounts();
-  private readonly policies: Record<StressPolicyName, number> = { "default-stress": 0, weak: 0, "weak-forms": 0, "demote-second-primary": 0 };
+/** Stress counts and report lines of a run, in file order: what summary.json and the report hold. */
+export class StressCounts {
+  protected readonly problems = emptyStressCounts();
+  protected readonly policies: Record<StressPolicyName, number> = { "default-stress": 0, weak: 0, "weak-forms": 0, "demote-second-primary": 0 };
   /** The report's records (CSV lines), in file order. */
-  private readonly lines: string[] = [];
+  protected readonly lines: string[] = [];
+
+  /** Adds the counts and lines of a part of the run checked apart (a chunk), after those already here. */
+  absorb(s: StressSummary, lines: readonly string[]): void {
+    for (const c of STRESS_CODES) this.problems[c] += s.problems[c];
+    for (const p of STRESS_POLICY_NAMES) this.policies[p] += s.policies[p];
+    for (const l of lines) this.lines.push(l);
+  }
+
+  /** Findings in all. */
+  get total(): number {
+    return this.lines.length;
+  }
+
+  summary(): StressSummary {
+    return { problems: { ...this.problems }, policies: { ...this.policies } };
+  }
+
+  /** The report file's text: header, then one record per finding in file order. */
+  *report(): Generator<string> {
+    yield csvLine([...STRESS_REPORT_COLUMNS]);
+    yield* this.lines;
+  }
+}
+
+export class StressHygiene extends StressCounts {
   private syllabic: number;
   private stress: number;
 
   constructor(private readonly ctx: StressContext, private readonly relFile: (file: string) => string = (f) => f) {
+    super();
     this.syllabic = ctx.inventory.featureIndex.get("syllabic") ?? -1;
     this.stress = ctx.inventory.featureIndex.get("stress") ?? -1;
   }
@@ -62,21 +89,6 @@ export class StressHygiene {
         }
       }
     }
-  }
-
-  /** Findings in all. */
-  get total(): number {
-    return this.lines.length;
-  }
-
-  summary(): StressSummary {
-    return { problems: { ...this.problems }, policies: { ...this.policies } };
-  }
-
-  /** The report file's text: header, then one record per finding in file order. */
-  *report(): Generator<string> {
-    yield csvLine([...STRESS_REPORT_COLUMNS]);
-    yield* this.lines;
   }
 }
 
