@@ -7,11 +7,11 @@
 
 import { ByteChunks } from "../emit/bytes.js";
 import type { Inventory } from "../inventory/types.js";
-import { BatchWork, SideState, type Lexeme, type Side } from "./batch-work.js";
+import { addPhonemes, BatchWork, SideState, type Lexeme, type Side } from "./batch-work.js";
 import { EntryKeys } from "./keys.js";
 import { duplicateId, readChunk, type ChunkRead } from "./read-chunk.js";
 import type { LexiconItem } from "./read.js";
-import { relativeTo } from "./summary.js";
+import { relativeFiles } from "./summary.js";
 import type { ChunkDone, ChunkWords, SideChunk, ToWorker } from "./worker.js";
 
 export class ChunkLane {
@@ -31,12 +31,7 @@ export class ChunkLane {
     sourceRoot: string | undefined,
   ) {
     this.work = new BatchWork(sides);
-    const relFiles = new Map<string, string>();
-    this.relFile = sourceRoot === undefined ? (f) => f : (f) => {
-      let r = relFiles.get(f);
-      if (r === undefined) relFiles.set(f, (r = relativeTo(sourceRoot, f)));
-      return r;
-    };
+    this.relFile = sourceRoot === undefined ? (f) => f : relativeFiles(sourceRoot);
   }
 
   /** One message from the main thread; the reply, and the buffers it hands over. */
@@ -129,10 +124,6 @@ export function unpackLexemes(into: Map<string, Lexeme>, p: SideChunk["lexemes"]
   const words = p.words.split("\n");
   const phonemes = p.phonemes.split("\n");
   for (let k = 0; k < words.length; k++) {
-    const word = words[k]!;
-    const mine = phonemes[k]!.split("\0");
-    const had = into.get(word);
-    if (had === undefined) into.set(word, { phonemes: mine, source: { file: p.file, line: p.lines[k]!, column: 1 } });
-    else for (const x of mine) if (!had.phonemes.includes(x)) had.phonemes.push(x);
+    addPhonemes(into, words[k]!, phonemes[k]!.split("\0"), { file: p.file, line: p.lines[k]!, column: 1 });
   }
 }

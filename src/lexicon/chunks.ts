@@ -15,7 +15,7 @@ import { existsSync } from "node:fs";
 import type { Readable } from "node:stream";
 import { namedProjectRoot } from "../grammar/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import { openFile, type HeaderColumns } from "./read.js";
+import { idBook, openFile, type HeaderColumns } from "./read.js";
 import { lineEnds } from "./read-chunk.js";
 import type { ChunkDone, ChunkWords, FromWorker, ToWorker, WorkerSetup } from "./worker.js";
 import type { ChunkLane } from "./chunk-lane.js";
@@ -175,7 +175,7 @@ export class ChunkPool {
     const stream = o.stream as Readable;
     let header: HeaderColumns | undefined;
     let headerFailed = false;
-    const ids = new Map<string, number>();
+    const ids = idBook();
     const words = new Map<string, number>();
     const queue: Chunk[] = [];
     let resolved = 0;
@@ -196,9 +196,8 @@ export class ChunkPool {
         const counts = w.counts;
         const dups: [number, number][] = [];
         w.ids.forEach((id, k) => {
-          const first = ids.get(id.id);
-          if (first === undefined) ids.set(id.id, id.line);
-          else {
+          const first = ids.first(id.id, id.line, id.column);
+          if (first !== undefined) {
             dups.push([k, first]);
             if (id.word >= 0) counts[id.word]!--;
           }

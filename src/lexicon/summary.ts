@@ -13,6 +13,16 @@ export function relativeTo(root: string, file: string): string {
   return (r === "" ? "." : r).split(sep).join("/");
 }
 
+/** `relativeTo(root, f)` worked out once per file: every entry of a run names the same file or few. */
+export function relativeFiles(root: string): (file: string) => string {
+  const seen = new Map<string, string>();
+  return (f) => {
+    let r = seen.get(f);
+    if (r === undefined) seen.set(f, (r = relativeTo(root, f)));
+    return r;
+  };
+}
+
 /** summary.json's text: the run's counts, file names and diagnostics, every path relative to `root`. */
 export function summaryJson(s: RunSummary, root: string): string {
   const doc = {

@@ -18,7 +18,7 @@ import { countInputRecords, countWritten, reconcile, type InputRecords } from ".
 import { Overrides, writeReplaced } from "./overrides.js";
 import type { Inventory } from "../inventory/types.js";
 import { failedSummary, transcribeRow, type OutputFormat, type RunSummary } from "./runner.js";
-import { outputError, relativeTo, summaryJson } from "./summary.js";
+import { outputError, relativeFiles, summaryJson } from "./summary.js";
 import { STRESS_REPORT } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
 import type { PlsPhonemes } from "./ipa-options.js";
@@ -43,8 +43,6 @@ export class VarietyOutput {
   private readonly writers: Promise<number>[] = [];
   private readonly tsv: Channel<string | Uint8Array> | undefined;
   private readonly jsonl: Channel<string | Uint8Array> | undefined;
-  /** Every entry of a run names the same file or few: its relative path is worked out once per file. */
-  private readonly relFiles = new Map<string, string>();
   /** What the variety's entries have given so far (batches done on this thread write into it; chunks from workers are added to it). */
   readonly state: SideState;
   /** The stress findings of chunks done by workers (in file order); none when every batch ran here. */
@@ -69,7 +67,7 @@ export class VarietyOutput {
     // per chunk, not per line; emit/bytes.ts).
     const tsv = this.tsv;
     const jsonl = this.jsonl;
-    this.state = new SideState({ inventory, assignsStress: run.assignsStress ?? run.engine.steps.includes("stress") }, (f) => this.relFile(f),
+    this.state = new SideState({ inventory, assignsStress: run.assignsStress ?? run.engine.steps.includes("stress") }, relativeFiles(root),
       tsv !== undefined ? new ByteChunks((c) => tsv.push(c)) : undefined,
       jsonl !== undefined ? new ByteChunks((c) => jsonl.push(c)) : undefined);
     this.side = { engine: run.engine, formats, ...(pls !== undefined ? { pls } : {}), ...(ov !== undefined ? { ov } : {}) };
@@ -99,12 +97,6 @@ export class VarietyOutput {
     this.channels.push(ch);
     this.writers.push(writeFileAtomic(this.staged(name), ch));
     return ch;
-  }
-
-  private relFile(f: string): string {
-    let r = this.relFiles.get(f);
-    if (r === undefined) this.relFiles.set(f, (r = relativeTo(this.root, f)));
-    return r;
   }
 
   /** Lets the file writers drain (memory stays bounded by the back-log, not the lexicon). */
@@ -185,12 +177,12 @@ export class VarietyOutput {
         if (!res.ok) return failWith([res.error]);
       }
       files["rejects.csv"] = join(outDir, "rejects.csv");
-      await writeRejects(staged("rejects.csv"), this.state.rejects.map((r) => ({ ...r, file: relativeTo(this.root, r.file) })));
+      await writeRejects(staged("rejects.csv"), this.state.rejects.map((r) => ({ ...r, file: this.state.relFile(r.file) })));
       const ov = this.ov;
       const overrides = this.run.overrides;
       if (ov !== undefined) {
         files["replaced.csv"] = join(outDir, "replaced.csv");
-        await writeReplaced(staged("replaced.csv"), ov.replacedRows, (f) => this.relFile(f));
+        await writeReplaced(staged("replaced.csv"), ov.replacedRows, this.state.relFile);
       }
       files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
       await writeFileAtomic(staged(STRESS_REPORT), this.stress.report());
@@ -204,8 +196,8 @@ export class VarietyOutput {
       });
       const overInput = overrides !== undefined ? await countInputRecords(overrides) : undefined;
       rowsRead = counted.count + (overInput?.count ?? 0);
-      reconcileErrors = reconcile(lexiconPath, counted, written, overInput !== undefined ? { lexicon: this.relFile(lexiconPath), overrides: this.relFile(overrides!), input: overInput } : undefined);
-      const sources = [{ file: this.relFile(lexiconPath), input: counted }, ...(overInput !== undefined ? [{ file: this.relFile(overrides!), input: overInput }] : [])];
+      reconcileErrors = reconcile(lexiconPath, counted, written, overInput !== undefined ? { lexicon: this.state.relFile(lexiconPath), overrides: this.state.relFile(overrides!), input: overInput } : undefined);
+      const sources = [{ file: this.state.relFile(lexiconPath), input: counted }, ...(overInput !== undefined ? [{ file: this.state.relFile(overrides!), input: overInput }] : [])];
       const notEntries = [...written.rejectLines.map((line, i) => ({ file: written.rejectFiles[i] ?? "", line })), ...(written.replaced ?? []).map((r) => ({ file: r.file, line: r.line }))];
       reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), this.stress.total, sources, notEntries)));
     } catch (err) {
