@@ -13,7 +13,7 @@ import type { Inventory } from "../src/inventory/types.js";
 import { compileGrammar, type BatchResult, type Compiled } from "../src/compile/index.js";
 import { formatDiagnostic } from "../src/diagnostics.js";
 import { applyGrammar, prepareGrammar, type PreparedGrammar } from "../src/interp/index.js";
-import type { Sym } from "../src/interp/types.js";
+import { wordKey } from "../src/interp/types.js";
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
 import { packArrays, packSymbols, packageRootFrom, readCmuWords, writeCmuFolder, type CmuWord, type SymbolArrays } from "./cmu.js";
 import { regexCascade } from "./regex-cascade.js";
@@ -95,7 +95,7 @@ function renderAll(c: Compiled, inv: Inventory, views: readonly Int32Array[]): (
   });
 }
 
-/** Machine output vs interpreter output (as symbol ids) on the sample; returns descriptions of the first differences. */
+/** Machine output vs interpreter output (as symbols) on the sample; returns descriptions of the first differences. */
 function checkAgainstInterpreter(c: Compiled, prepared: PreparedGrammar, inv: Inventory, words: readonly CmuWord[], views: readonly Int32Array[], sample: readonly number[], label: string): string[] {
   const bad: string[] = [];
   const out: number[] = [];
@@ -106,15 +106,10 @@ function checkAgainstInterpreter(c: Compiled, prepared: PreparedGrammar, inv: In
     out.length = 0;
     const ok = c.preferred.run(views[k]!, out);
     const got = ok ? c.decode(out) : [];
-    const same = ok && want.length === got.length && want.every((x, i) => symText(x) === symText(got[i]!));
+    const same = ok && wordKey(want) === wordKey(got);
     if (!same) bad.push(`${label}: ${words[k]!.word} (line ${words[k]!.line}): machine and interpreter differ`);
   }
   return bad;
-}
-
-/** A symbol as comparable text (boundary kind, or the segment's feature values). */
-function symText(s: Sym): string {
-  return s.kind === "boundary" ? `#${s.which}` : s.bundle.join("");
 }
 
 function sub(arrays: SymbolArrays, idx: readonly number[]): SymbolArrays {
