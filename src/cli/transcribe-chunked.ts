@@ -6,9 +6,8 @@
 import { formatDiagnostic } from "../diagnostics.js";
 import { writeFileAtomic } from "../emit/atomic.js";
 import { tsvHeader } from "../emit/tsv.js";
-import { StressTally } from "../lexicon/batch-work.js";
 import { ChunkPool } from "../lexicon/chunks.js";
-import { stressLine, stressTotal, type StressSummary } from "../lexicon/hygiene.js";
+import { StressCounts, stressLine, stressTotal, type StressSummary } from "../lexicon/hygiene.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { rejectDiagnostic } from "../lexicon/read.js";
 import type { WorkerEngine } from "../lexicon/runner.js";
@@ -33,7 +32,7 @@ export async function transcribeChunked(file: string, threads: number, engine: W
   const needs = format === "tsv" ? { needs: NARROW_ONLY } : {};
   const pool = ChunkPool.start(threads, { file, sides: [{ ...engine, formats: [format], assignsStress, ...needs }] },
     new ChunkLane([{ engine: main.engine, formats: new Set([format]), ...needs }], [assignsStress], main.inventory, file, undefined));
-  const stress = new StressTally();
+  const stress = new StressCounts();
   let rejects = 0;
   let entries = 0;
   if (format === "tsv") await write(tsvHeader());
@@ -44,7 +43,7 @@ export async function transcribeChunked(file: string, threads: number, engine: W
       for (const r of side.rejects) process.stderr.write(formatDiagnostic(rejectDiagnostic(r)) + "\n");
       rejects += side.rejects.length;
       entries += side.counts.entries;
-      stress.add(side.stress, side.stressLines);
+      stress.absorb(side.stress, side.stressLines);
       for (const b of format === "tsv" ? side.tsv : side.jsonl) await write(b);
     });
   } finally {

@@ -11,7 +11,7 @@ import { MachineEngine } from "./engine-machine.js";
 import type { LexiconItem, LexiconRow, RejectedRow } from "./read.js";
 import type { Overrides } from "./overrides.js";
 import { entryJsonRecord, transcribeRow, type OutputFormat } from "./runner.js";
-import { StressCounts, StressHygiene, type StressSummary } from "./hygiene.js";
+import { StressHygiene } from "./hygiene.js";
 import type { StressContext } from "./lint-stress.js";
 import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
 import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
@@ -168,15 +168,4 @@ export function addPhonemes(lexemes: Map<string, Lexeme>, word: string, mine: st
   const lx = lexemes.get(word);
   if (lx === undefined) lexemes.set(word, { phonemes: mine, source });
   else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
-}
-
-/** The stress checks of chunks done apart (worker threads), put together in file order: what a StressHygiene gives of a whole run. */
-export class StressTally extends StressCounts {
-  /** Chunks added. */
-  chunks = 0;
-
-  add(s: StressSummary, lines: readonly string[]): void {
-    this.chunks++;
-    this.absorb(s, lines);
-  }
 }

@@ -22,7 +22,7 @@ import { outputError, relativeFiles, summaryJson } from "./summary.js";
 import { STRESS_REPORT } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
 import type { PlsPhonemes } from "./ipa-options.js";
-import { emit, SideState, StressTally, type Side } from "./batch-work.js";
+import { emit, SideState, type Side } from "./batch-work.js";
 import type { SideChunk } from "./worker.js";
 import { unpackLexemes } from "./chunk-lane.js";
 
@@ -45,8 +45,6 @@ export class VarietyOutput {
   private readonly jsonl: Channel<string | Uint8Array> | undefined;
   /** What the variety's entries have given so far (batches done on this thread write into it; chunks from workers are added to it). */
   readonly state: SideState;
-  /** The stress findings of chunks done by workers (in file order); none when every batch ran here. */
-  private readonly tally = new StressTally();
   readonly side: Side;
 
   private constructor(
@@ -118,13 +116,8 @@ export class VarietyOutput {
     n.entriesCapped += c.counts.entriesCapped;
     n.entriesAmbiguous += c.counts.entriesAmbiguous;
     for (const [step, k] of c.changed) st.changed.set(step, (st.changed.get(step) ?? 0) + k);
-    this.tally.add(c.stress, c.stressLines);
+    st.hygiene.absorb(c.stress, c.stressLines);
     await this.drain();
-  }
-
-  /** The stress checks of every entry written: this thread's, then the workers' chunks' (a run does one or the other). */
-  private get stress(): StressTally | SideState["hygiene"] {
-    return this.tally.chunks > 0 ? this.tally : this.state.hygiene;
   }
 
   /** Every row read has been taken: the override rows (and their rejects) after the lexicon's own entries. */
@@ -185,7 +178,7 @@ export class VarietyOutput {
         await writeReplaced(staged("replaced.csv"), ov.replacedRows, this.state.relFile);
       }
       files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
-      await writeFileAtomic(staged(STRESS_REPORT), this.stress.report());
+      await writeFileAtomic(staged(STRESS_REPORT), this.state.hygiene.report());
       const counted = await input;
       const written = await countWritten({
         ...(this.formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
@@ -199,7 +192,7 @@ export class VarietyOutput {
       reconcileErrors = reconcile(lexiconPath, counted, written, overInput !== undefined ? { lexicon: this.state.relFile(lexiconPath), overrides: this.state.relFile(overrides!), input: overInput } : undefined);
       const sources = [{ file: this.state.relFile(lexiconPath), input: counted }, ...(overInput !== undefined ? [{ file: this.state.relFile(overrides!), input: overInput }] : [])];
       const notEntries = [...written.rejectLines.map((line, i) => ({ file: written.rejectFiles[i] ?? "", line })), ...(written.replaced ?? []).map((r) => ({ file: r.file, line: r.line }))];
-      reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), this.stress.total, sources, notEntries)));
+      reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), this.state.hygiene.total, sources, notEntries)));
     } catch (err) {
       return failWrite(err);
     }
@@ -224,7 +217,7 @@ export class VarietyOutput {
       diagnostics: [...diagnostics, ...outputErrors, ...this.state.rejects.map((r) => ({ severity: "error" as const, code: r.code, message: r.reason, file: r.file, line: r.line, column: r.column, length: 1 }))],
       seconds: (performance.now() - t0) / 1000,
       reconciled: true,
-      stress: this.stress.summary(),
+      stress: this.state.hygiene.summary(),
       ...(this.ov !== undefined ? { rowsReplaced: this.ov.replacedRows.length, overrideDiagnostics: this.ov.diagnostics } : {}),
     };
     files["summary.json"] = join(outDir, "summary.json");
