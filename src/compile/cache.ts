@@ -43,6 +43,31 @@ function encodeMachine(f: Fst, words: number[]): void {
   for (let s = 0; s < f.numStates; s++) for (const a of f.arcs(s)) words.push(s, a.input, a.output, a.target);
 }
 
+/**
+ * Where each of `count` machines starts in `w` (and, last, where the words end), checking only the
+ * sizes: a machine is decoded when it is first asked for, which a run of cached runners never does.
+ */
+function machineStarts(w: Int32Array, count: number): number[] | null {
+  const starts: number[] = [];
+  let i = 0;
+  for (let k = 0; k < count; k++) {
+    starts.push(i);
+    if (i + 3 > w.length) return null;
+    const nf = w[i + 2]!;
+    if (w[i]! < 0 || nf < 0 || i + 4 + nf > w.length) return null;
+    const na = w[i + 3 + nf]!;
+    if (na < 0) return null;
+    i += 4 + nf + 4 * na;
+  }
+  starts.push(i);
+  return i <= w.length ? starts : null;
+}
+
+/** A machine's number of states and arcs, read from its words without decoding it. */
+function machineSize(w: Int32Array, at: number): { readonly states: number; readonly arcs: number } {
+  return { states: w[at]!, arcs: w[at + 3 + w[at + 2]!]! };
+}
+
 function decodeMachine(w: Int32Array, at: { i: number }): Fst {
   const f = new Fst();
   const n = w[at.i++]!;
@@ -89,10 +114,17 @@ export function writeCache(dir: string, key: string, meta: unknown, machines: re
   }
 }
 
+/** A machine read back: its size at once, the machine itself decoded on first use. */
+export interface CachedMachine {
+  readonly states: number;
+  readonly arcs: number;
+  machine(): Fst;
+}
+
 export type CacheRead =
   | { readonly state: "missing" }
   | { readonly state: "corrupt"; readonly reason: string }
-  | { readonly state: "ok"; readonly meta: unknown; readonly machines: Fst[]; readonly blobs: (Uint8Array | null)[] };
+  | { readonly state: "ok"; readonly meta: unknown; readonly machines: CachedMachine[]; readonly blobs: (Uint8Array | null)[] };
 
 /** Reads a cache file; a wrong magic, format, checksum or a truncated body is "corrupt". */
 export function readCache(dir: string, key: string, machineCount: (meta: unknown) => number): CacheRead {
@@ -122,11 +154,12 @@ export function readCache(dir: string, key: string, machineCount: (meta: unknown
     const body = payload.subarray(pos, pos + bl);
     pos += bl;
     const words = new Int32Array(body.buffer.slice(body.byteOffset, body.byteOffset + body.length));
-    const at = { i: 0 };
-    const machines: Fst[] = [];
-    const count = machineCount(meta);
-    for (let k = 0; k < count; k++) machines.push(decodeMachine(words, at));
-    if (at.i !== words.length) return { state: "corrupt", reason: "machine data does not match its description" };
+    const starts = machineStarts(words, machineCount(meta));
+    if (starts === null || starts[starts.length - 1] !== words.length) return { state: "corrupt", reason: "machine data does not match its description" };
+    const machines = starts.slice(0, -1).map((at): CachedMachine => {
+      let made: Fst | undefined;
+      return { ...machineSize(words, at), machine: () => (made ??= decodeMachine(words, { i: at })) };
+    });
     const nb = u32();
     const blobs: (Uint8Array | null)[] = [];
     for (let k = 0; k < nb; k++) {

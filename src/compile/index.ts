@@ -18,14 +18,14 @@ import { buildStress, buildSyllabifier } from "./prosody.js";
 import { finishMachine, finishPairNfa } from "./machine.js";
 import { composeCascade, PreferredRunner, VariantsRunner, type Block } from "./cascade.js";
 import { startCascade } from "./parallel.js";
-import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache } from "./cache.js";
+import { cacheWarning, cachePath, dropCache, readCache, sha256, writeCache, type CachedMachine } from "./cache.js";
 
 export { type Alphabet, EPSILON, WORD, SYLL, JOIN, FIRST_SEGMENT, symbolText } from "./alphabet.js";
 export type { BatchResult, Block } from "./cascade.js";
 export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
-/** Bumped whenever the compiler's output for a grammar can change (invalidates every cache). */
-export const COMPILER_VERSION = "strata-compile-4";
+/** Bumped whenever the compiler's output for a grammar or the stored form of its runners can change (invalidates every cache). */
+export const COMPILER_VERSION = "strata-compile-5";
 
 export interface CompileOptions {
   /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */
@@ -291,12 +291,11 @@ export function compileGrammar(grammar: Grammar, inv: Inventory, opts: CompileOp
     const read = readCache(opts.cacheDir, key, (m) => (isCacheMeta(m) ? m.preferred.length + m.variants.length : 0));
     if (read.state === "ok" && isCacheMeta(read.meta)) {
       const meta = read.meta;
-      const machines = read.machines;
-      const pb: Block[] = meta.preferred.map((r, i) => ({ ...r, machine: machines[i]!, states: machines[i]!.numStates, arcs: machines[i]!.numArcs() }));
-      const vb: Block[] = meta.variants.map((r, i) => {
-        const m = machines[meta.preferred.length + i]!;
-        return { ...r, machine: m, states: m.numStates, arcs: m.numArcs() };
-      });
+      // A block's machine is decoded only when something asks for it (the variants, or a runner
+      // whose tables did not come back): a run of the preferred runners never does.
+      const block = (r: { from: number; to: number }, m: CachedMachine): Block => ({ ...r, states: m.states, arcs: m.arcs, get machine() { return m.machine(); } });
+      const pb = meta.preferred.map((r, i) => block(r, read.machines[i]!));
+      const vb = meta.variants.map((r, i) => block(r, read.machines[meta.preferred.length + i]!));
       const t1 = performance.now();
       const compiled = assemble(alphabetFromMeta(meta.alphabet), meta.steps, pb, vb, meta.hasVariants, "hit", key, { steps: 0, compose: 0, freeze: 0, total: 0 }, meta.runners, read.blobs);
       return { compiled: { ...compiled, threads: 1, timings: { steps: 0, compose: 0, freeze: performance.now() - t1, total: performance.now() - t0 } }, diagnostics: [] };

@@ -232,7 +232,11 @@ export function packBimachine(t: TwoPassTables, maxOut: number, maxFinal: number
       step[s * zs + z] = ((t.arcTarget[k] as number) << 10) | code;
     }
   }
+  return new PackedBimachine(size, dead, t.rStart, rz, startOk, zs, step, strings, t.start, packedFinals(t.finalAt), t.pool, maxOut, maxFinal);
+}
+
+/** The packed tables' final outputs from a runner's (-1, not final, becomes 0). */
+export function packedFinals(finalAt: Int32Array): Int32Array {
   // A state that is not final never ends a run that the backward pass accepted; -1 would be read as an offset.
-  const finalAt = Int32Array.from(t.finalAt, (f) => (f < 0 ? 0 : f));
-  return new PackedBimachine(size, dead, t.rStart, rz, startOk, zs, step, strings, t.start, finalAt, t.pool, maxOut, maxFinal);
+  return Int32Array.from(finalAt, (f) => (f < 0 ? 0 : f));
 }

@@ -74,6 +74,18 @@ export class FunctionalRunner {
     return this.fast;
   }
 
+  /**
+   * Takes tables packed earlier for this machine (read back from a cache with it), or null when
+   * they did not fit: `packed()` then returns them instead of packing again.
+   */
+  adoptPacked(p: PackedBimachine | null): void {
+    this.fast = p;
+    if (p !== null) {
+      this.maxOut = p.maxOut;
+      this.maxFinal = p.maxFinal;
+    }
+  }
+
   /** Longest output one arc or one final state writes (sizes `runBatch`'s output room). */
   private outBound(): { arc: number; final: number } {
     let arc = 1;

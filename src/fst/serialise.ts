@@ -1,6 +1,10 @@
 // The compact, versioned byte form of machines and runners for caches under build/: a header with
-// a CRC-32 of the payload (so a corrupt or truncated cache is detected), then LEB128 varints.
+// a CRC-32 of the payload (so a corrupt or truncated cache is detected), then the payload. A
+// machine's arcs are LEB128 varints; a runner's tables are raw 32-bit words, so that reading one
+// back makes views of the bytes instead of decoding every entry.
 
+import * as zlib from "node:zlib";
+import { packedFinals, PackedBimachine, STRING } from "./bimachine.js";
 import { COPY, DeterministicRunner } from "./frozen.js";
 import { Fst, FstError, type Label } from "./fst.js";
 import { FunctionalRunner } from "./functional.js";
@@ -8,12 +12,20 @@ import { FunctionalRunner } from "./functional.js";
 /**
  * Layout (little-endian): bytes 0–3 "STFM"; 4–5 format version; 6 kind (1 machine,
  * 2 deterministic runner, 3 functional runner); 7 zero; 8–11 payload length; 12–15 CRC-32 of the
- * payload; then the payload: unsigned LEB128 varints (signed values zigzag-encoded).
+ * payload; then the payload: unsigned LEB128 varints (signed values zigzag-encoded), and each
+ * table of a runner as its length (a varint), zero bytes up to the next multiple of 4 from the
+ * start of the bytes, then its entries as little-endian 32-bit words (bytes for a byte table).
+ *
+ * Version 2 stored a functional runner's packed two-pass tables (bimachine.ts) with it, and
+ * runner tables as words instead of varints.
  */
-export const FORMAT_VERSION = 1;
+export const FORMAT_VERSION = 2;
 const MAGIC = [0x53, 0x54, 0x46, 0x4d];
 const HEADER = 16;
 type Kind = 1 | 2 | 3;
+
+/** Node's own CRC-32 (from Node 20.15 and 22.2); older releases use the table loop below. */
+const nativeCrc32 = (zlib as { crc32?: (data: Uint8Array, value?: number) => number }).crc32;
 
 const CRC_TABLE = (() => {
   const t = new Uint32Array(256);
@@ -27,10 +39,19 @@ const CRC_TABLE = (() => {
 
 /** CRC-32 as in ISO 3309 / ITU-T V.42 (reflected polynomial 0xEDB88320), the one zip and PNG use. */
 export function crc32(bytes: Uint8Array, from = 0, to = bytes.length): number {
+  if (nativeCrc32 !== undefined) return nativeCrc32(bytes.subarray(from, to)) >>> 0;
+  return crc32Loop(bytes, from, to);
+}
+
+/** The same CRC-32 computed byte by byte (for Node releases without zlib.crc32; tests compare the two). */
+export function crc32Loop(bytes: Uint8Array, from = 0, to = bytes.length): number {
   let c = 0xffffffff;
   for (let i = from; i < to; i++) c = (CRC_TABLE[(c ^ (bytes[i] as number)) & 0xff] as number) ^ (c >>> 8);
   return (c ^ 0xffffffff) >>> 0;
 }
+
+/** Whether this machine stores 32-bit words little-endian (then a table is read as a view of the bytes). */
+const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
 
 class Writer {
   private buf = new Uint8Array(1024);
@@ -51,13 +72,30 @@ class Writer {
   int(x: number): void {
     this.uint(x >= 0 ? x * 2 : -x * 2 - 1);
   }
-  uints(a: ArrayLike<number>): void {
-    this.uint(a.length);
-    for (let i = 0; i < a.length; i++) this.uint(a[i] as number);
+  private room(n: number): void {
+    if (this.length + n <= this.buf.length) return;
+    const b = new Uint8Array(Math.max(this.buf.length * 2, this.length + n));
+    b.set(this.buf);
+    this.buf = b;
   }
-  ints(a: ArrayLike<number>): void {
+  /** A table of 32-bit words: its length, padding to a multiple of 4, the words. */
+  words(a: Int32Array): void {
     this.uint(a.length);
-    for (let i = 0; i < a.length; i++) this.int(a[i] as number);
+    this.room(3 + a.length * 4);
+    while (this.length % 4 !== 0) this.buf[this.length++] = 0;
+    if (LITTLE_ENDIAN) this.buf.set(new Uint8Array(a.buffer, a.byteOffset, a.byteLength), this.length);
+    else {
+      const view = new DataView(this.buf.buffer);
+      for (let i = 0; i < a.length; i++) view.setInt32(this.length + i * 4, a[i] as number, true);
+    }
+    this.length += a.length * 4;
+  }
+  /** A table of bytes: its length, the bytes. */
+  bytes(a: Uint8Array): void {
+    this.uint(a.length);
+    this.room(a.length);
+    this.buf.set(a, this.length);
+    this.length += a.length;
   }
   finish(kind: Kind): Uint8Array {
     const out = this.buf.slice(0, this.length);
@@ -99,17 +137,30 @@ class Reader {
     if (n > this.bytes.length - this.at) throw new FstError("array longer than the payload");
     return n;
   }
-  uints(): Int32Array {
-    const n = this.count();
+  /**
+   * A table written by Writer.words: a view of the bytes where they lie on a 4-byte boundary of a
+   * little-endian machine (the runner then shares the caller's bytes), else a copy.
+   */
+  words(): Int32Array {
+    const n = this.uint();
+    while (this.at % 4 !== 0) {
+      if (this.at >= this.bytes.length) throw new FstError("payload ends early");
+      if (this.bytes[this.at++] !== 0) throw new FstError("padding is not zero (corrupt)");
+    }
+    if (n > (this.bytes.length - this.at) / 4) throw new FstError("array longer than the payload");
+    const from = this.bytes.byteOffset + this.at;
+    this.at += n * 4;
+    if (LITTLE_ENDIAN && from % 4 === 0) return new Int32Array(this.bytes.buffer, from, n);
+    const view = new DataView(this.bytes.buffer, from, n * 4);
     const a = new Int32Array(n);
-    for (let i = 0; i < n; i++) a[i] = this.uint();
+    for (let i = 0; i < n; i++) a[i] = view.getInt32(i * 4, true);
     return a;
   }
-  ints(): Int32Array {
+  /** A table written by Writer.bytes (a view of the bytes). */
+  bytes8(): Uint8Array {
     const n = this.count();
-    const a = new Int32Array(n);
-    for (let i = 0; i < n; i++) a[i] = this.int();
-    return a;
+    this.at += n;
+    return this.bytes.subarray(this.at - n, this.at);
   }
   done(): void {
     if (this.at !== this.bytes.length) throw new FstError("bytes left after the payload");
@@ -143,6 +194,41 @@ function guard<T>(f: () => T): Deserialised<T> {
 
 function check(cond: boolean, what: string): void {
   if (!cond) throw new FstError(`inconsistent payload: ${what}`);
+}
+
+/** Above every label and pool entry (a bound for the checks below). */
+const LABELS = 2 ** 31;
+
+// The checks of a table read back are plain loops: a callback per entry (`every`) cost ~100 ms
+// on the packed tables of one large block, before the engine optimised it.
+
+/** Whether every entry of `a` lies in [lo, hi). */
+function within(a: Int32Array, lo: number, hi: number): boolean {
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i] as number;
+    if (x < lo || x >= hi) return false;
+  }
+  return true;
+}
+
+/** Whether `a` is non-negative and never decreases. */
+function ascending(a: Int32Array): boolean {
+  let prev = 0;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i] as number;
+    if (x < prev) return false;
+    prev = x;
+  }
+  return true;
+}
+
+/** Whether every output code of `a` is nothing, a label, COPY or the offset of a string in a pool of `poolLength`. */
+function outputsIn(a: Int32Array, poolLength: number): boolean {
+  for (let i = 0; i < a.length; i++) {
+    const o = a[i] as number;
+    if (o < 0 && o !== COPY && -o - 1 >= poolLength) return false;
+  }
+  return true;
 }
 
 /** The byte form of a machine (state numbering, arc order and final outputs kept exactly). */
@@ -196,11 +282,11 @@ export function serialiseDeterministic(d: DeterministicRunner): Uint8Array {
   const w = new Writer();
   w.uint(d.start);
   w.uint(d.classes);
-  w.uints(d.classOf);
-  w.ints(d.next);
-  w.ints(d.out);
-  w.ints(d.finalAt);
-  w.uints(d.pool);
+  w.words(d.classOf);
+  w.words(d.next);
+  w.words(d.out);
+  w.words(d.finalAt);
+  w.words(d.pool);
   return w.finish(2);
 }
 
@@ -209,64 +295,138 @@ export function deserialiseDeterministic(bytes: Uint8Array): Deserialised<Determ
     const r = open(bytes, 2);
     const start = r.uint();
     const classes = r.uint();
-    const classOf = r.uints();
-    const next = r.ints();
-    const out = r.ints();
-    const finalAt = r.ints();
-    const pool = r.uints();
+    const classOf = r.words();
+    const next = r.words();
+    const out = r.words();
+    const finalAt = r.words();
+    const pool = r.words();
     r.done();
     const n = finalAt.length;
     check(classes > 0 && next.length === n * classes && out.length === next.length, "table sizes");
     check(start < n, "start state");
-    check(classOf.every((c) => c < classes), "input classes");
-    check(next.every((t) => t >= -1 && t < n), "targets");
-    check(finalAt.every((f) => f < pool.length), "final outputs");
-    check(out.every((o) => o >= 0 || o === COPY || -o - 1 < pool.length), "arc outputs");
+    check(within(classOf, 0, classes), "input classes");
+    check(within(next, -1, n), "targets");
+    check(within(pool, 0, LABELS) && within(finalAt, -1, pool.length), "final outputs");
+    check(outputsIn(out, pool.length), "arc outputs");
     return new DeterministicRunner(start, classes, classOf, next, out, finalAt, pool);
   });
 }
 
+/**
+ * A functional runner with its packed two-pass tables (made here if the runner has not made them
+ * yet), so that a runner read back runs at once: packing en-us's largest block takes ~60 ms.
+ */
 export function serialiseFunctional(f: FunctionalRunner): Uint8Array {
   const w = new Writer();
   w.uint(f.classes);
-  w.uints(f.classOf);
+  w.words(f.classOf);
   w.uint(f.start);
-  w.uints(f.rowFirst);
-  w.uints(f.arcTarget);
-  w.ints(f.arcOut);
-  w.ints(f.finalAt);
-  w.uints(f.pool);
+  w.words(f.rowFirst);
+  w.words(f.arcTarget);
+  w.words(f.arcOut);
+  w.words(f.finalAt);
+  w.words(f.pool);
   w.int(f.rStart);
-  w.ints(f.rNext);
-  w.ints(f.rBits);
+  w.words(f.rNext);
+  w.words(f.rBits);
   w.uint(f.words);
+  const p = f.packed();
+  w.uint(p === null ? 0 : 1);
+  if (p !== null) {
+    w.words(p.rz);
+    w.bytes(p.startOk);
+    w.uint(p.zs);
+    w.words(p.step);
+    // Most left-to-right entries write no string: only the others are kept, as (index, offset) pairs.
+    const at: number[] = [];
+    for (let k = 0; k < p.step.length; k++) if (writesString(p.step[k] as number)) at.push(k);
+    w.words(Int32Array.from(at));
+    w.words(Int32Array.from(at, (k) => p.strings[k] as number));
+    w.uint(p.maxOut);
+    w.uint(p.maxFinal);
+  }
   return w.finish(3);
 }
 
+/** Whether a left-to-right entry of the packed tables writes a string (-1, no arc, writes nothing). */
+const writesString = (v: number): boolean => v >= 0 && (v & 1023) === STRING;
+
+/** The packed tables stored after a runner's own, checked against them; null when the runner had none (they do not fit). */
+function readPacked(r: Reader, f: FunctionalRunner): PackedBimachine | null {
+  if (r.uint() === 0) return null;
+  const rz = r.words();
+  const startOk = r.bytes8();
+  const zs = r.uint();
+  const step = r.words();
+  const stringAt = r.words();
+  const stringOffset = r.words();
+  const maxOut = r.uint();
+  const maxFinal = r.uint();
+  const size = f.classOf.length;
+  const sets = f.numSets;
+  const states = f.numStates;
+  const pool = f.pool;
+  check(rz.length === (sets + 1) * size && startOk.length === sets + 1 && step.length === states * zs, "packed table sizes");
+  let good = true;
+  for (let k = 0; k < rz.length; k++) {
+    const v = rz[k] as number;
+    if (v >>> 16 > sets || (v & 0xffff) >= zs) good = false;
+  }
+  check(good, "packed right-to-left entries");
+  let stringEntries = 0;
+  for (let k = 0; k < step.length; k++) {
+    const v = step[k] as number;
+    if (v === -1) continue;
+    if (v < 0 || v >> 10 >= states) good = false;
+    if ((v & 1023) === STRING) stringEntries++;
+  }
+  check(good, "packed left-to-right targets");
+  check(stringAt.length === stringEntries && stringOffset.length === stringEntries, "packed strings");
+  const strings = new Int32Array(step.length);
+  for (let j = 0; j < stringAt.length; j++) {
+    const k = stringAt[j] as number;
+    const o = stringOffset[j] as number;
+    // Increasing indices of string entries, as many as there are: each string entry has its offset.
+    check(k > (j === 0 ? -1 : (stringAt[j - 1] as number)) && k < step.length && writesString(step[k] as number), "packed string entries");
+    check(o >= 0 && o < pool.length && o + (pool[o] as number) < pool.length, "packed string offsets");
+    strings[k] = o;
+  }
+  return new PackedBimachine(size, sets, f.rStart, rz, startOk, zs, step, strings, f.start, packedFinals(f.finalAt), pool, maxOut, maxFinal);
+}
+
+/**
+ * Reads `serialiseFunctional` output back. The runner's tables (and the packed ones) are views of
+ * `bytes` where they lie on 4-byte boundaries: the bytes must not be changed afterwards.
+ */
 export function deserialiseFunctional(bytes: Uint8Array): Deserialised<FunctionalRunner> {
   return guard(() => {
     const r = open(bytes, 3);
     const classes = r.uint();
-    const classOf = r.uints();
+    const classOf = r.words();
     const start = r.uint();
-    const rowFirst = r.uints();
-    const arcTarget = r.uints();
-    const arcOut = r.ints();
-    const finalAt = r.ints();
-    const pool = r.uints();
+    const rowFirst = r.words();
+    const arcTarget = r.words();
+    const arcOut = r.words();
+    const finalAt = r.words();
+    const pool = r.words();
     const rStart = r.int();
-    const rNext = r.ints();
-    const rBits = r.ints();
+    const rNext = r.words();
+    const rBits = r.words();
     const words = r.uint();
-    r.done();
     const n = finalAt.length;
     check(classes > 0 && rowFirst.length === n * classes + 1, "row table size");
     check(rowFirst[rowFirst.length - 1] === arcTarget.length && arcOut.length === arcTarget.length, "arc tables");
+    check(ascending(rowFirst), "row offsets");
     check(start < Math.max(n, 1) && words === (n + 31) >>> 5, "start state and set width");
-    check(classOf.every((c) => c < classes) && arcTarget.every((t) => t < n), "classes and targets");
+    check(within(classOf, 0, classes) && within(arcTarget, 0, n), "classes and targets");
+    check(within(pool, 0, LABELS) && within(finalAt, -1, pool.length), "final outputs");
+    check(outputsIn(arcOut, pool.length), "arc outputs");
     const sets = words === 0 ? 0 : rBits.length / words;
     check(Number.isInteger(sets) && rNext.length === sets * classes, "right-to-left table");
-    check(rStart >= -1 && rStart < sets && rNext.every((t) => t >= -1 && t < sets), "right-to-left targets");
-    return new FunctionalRunner(classes, classOf, start, rowFirst, arcTarget, arcOut, finalAt, pool, rStart, rNext, rBits, words);
+    check(rStart >= -1 && rStart < sets && within(rNext, -1, sets), "right-to-left targets");
+    const runner = new FunctionalRunner(classes, classOf, start, rowFirst, arcTarget, arcOut, finalAt, pool, rStart, rNext, rBits, words);
+    runner.adoptPacked(readPacked(r, runner));
+    r.done();
+    return runner;
   });
 }

@@ -7,7 +7,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterEach, describe, expect, it } from "vitest";
 import { compileGrammar, type Compiled } from "../../src/compile/index.js";
-import { probeCacheDir } from "../../src/compile/cache.js";
+import { probeCacheDir, readCache, writeCache } from "../../src/compile/cache.js";
+import { FORMAT_VERSION, serialise } from "../../src/fst/index.js";
 import type { Grammar } from "../../src/grammar/ast.js";
 import { wordKey } from "../../src/interp/index.js";
 import { bun, chBun, classDef, env, grammar, rule, seg, syllabifyStep, stressStep, clusters } from "../support/ast.js";
@@ -130,6 +131,30 @@ describe("frozen runners in the cache", () => {
     expect(second.preferred.kinds).toEqual(first.preferred.kinds);
     expect(second.preferred.frozenBytes().map((b) => b?.length ?? 0)).toEqual(first.preferred.frozenBytes().map((b) => b?.length ?? 0));
     expect(outputs(second)).toEqual(outputs(first));
+  });
+
+  it("a hit gives the same block machines, decoded when first asked for", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const second = compiled(dir);
+    const bytes = (c: Compiled): Uint8Array[] => [...c.preferredBlocks, ...c.variantBlocks].map((b) => serialise(b.machine));
+    expect(bytes(second)).toEqual(bytes(first));
+    expect(second.variantBlocks.map((b) => [b.from, b.to, b.states, b.arcs])).toEqual(first.variantBlocks.map((b) => [b.from, b.to, b.states, b.arcs]));
+  });
+
+  it("a runner stored in another format is made again from its machine, without a warning", () => {
+    const dir = tmp();
+    const first = compiled(dir);
+    const read = readCache(dir, first.cacheKey, () => first.preferredBlocks.length + first.variantBlocks.length);
+    if (read.state !== "ok") throw new Error(read.state);
+    // Bytes 4–5 of a runner's bytes hold the format version (fst/serialise.ts).
+    const older = read.blobs.map((b) => { if (b === null) return null; const c = b.slice(); c[4] = FORMAT_VERSION - 1; c[5] = 0; return c; });
+    expect(older.some((b) => b !== null)).toBe(true);
+    expect(writeCache(dir, first.cacheKey, read.meta, read.machines.map((m) => m.machine()), older)).toBeUndefined();
+    const again = compiled(dir);
+    expect(again.cache).toBe("hit");
+    expect(again.preferred.frozenBytes()).toEqual(first.preferred.frozenBytes());
+    expect(outputs(again)).toEqual(outputs(first));
   });
 });
 
