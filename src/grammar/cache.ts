@@ -1,5 +1,6 @@
 // A cache of loaded, checked grammars beside the machine cache: a hit skips reading includes,
-// parsing, splitting literals and checking, when no file the grammar was built from has changed.
+// parsing, splitting literals and checking, and reading the inventory, when no file the grammar
+// was built from has changed.
 // Each file carries the SHA-256 of its own payload: an edited or damaged file is never used.
 
 import { createHash } from "node:crypto";
@@ -9,11 +10,11 @@ import { fileURLToPath } from "node:url";
 import type { Grammar } from "./ast.js";
 import { loadGrammar, type LoadedGrammar } from "./load.js";
 import { projectRoot } from "./source.js";
-import { loadInventory } from "../inventory/index.js";
+import type { Diacritic, FeatureValue, Inventory } from "../inventory/types.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { fsReason, writeFileAtomicSync } from "../tempfile.js";
 
-const FORMAT = "strata-grammar-cache-2";
+const FORMAT = "strata-grammar-cache-3";
 
 interface Entry {
   readonly format: string;
@@ -22,9 +23,31 @@ interface Entry {
   /** Every file the result depends on, with the hash of its text ("" for a file that did not exist). */
   readonly files: readonly { readonly path: string; readonly sha: string }[];
   readonly grammar: Grammar;
-  readonly diacritics: string | null;
+  readonly inventory: StoredInventory;
   readonly diagnostics: readonly Diagnostic[];
 }
+
+/** An inventory as JSON: its maps as lists (the feature index is the features' order). */
+interface StoredInventory {
+  readonly file: string;
+  readonly features: readonly string[];
+  readonly segments: Inventory["segments"];
+  readonly diacritics: readonly (Omit<Diacritic, "sets"> & { readonly sets: readonly (readonly [number, FeatureValue])[] })[];
+}
+
+// Stored rather than read again on a hit: parsing the segment and diacritic tables cost ~15 ms
+// of a cached run's start (the CSV reader's first use).
+const storeInventory = (inv: Inventory): StoredInventory => ({
+  file: inv.file, features: inv.features, segments: inv.segments, diacritics: inv.diacritics.map((d) => ({ ...d, sets: [...d.sets] })),
+});
+
+const restoreInventory = (s: StoredInventory): Inventory => ({
+  file: s.file,
+  features: s.features,
+  featureIndex: new Map(s.features.map((f, i) => [f, i] as const)),
+  segments: s.segments,
+  diacritics: s.diacritics.map((d) => ({ ...d, sets: new Map(d.sets) })),
+});
 
 const sha = (text: string): string => createHash("sha256").update(text).digest("hex");
 const fileSha = (p: string): string => (existsSync(p) ? sha(readFileSync(p, "utf8")) : "");
@@ -97,8 +120,7 @@ export function loadGrammarCached(p: string, cacheDir: string, opts: { readonly 
   } else if (e !== "missing") {
     try {
       if (e.format === FORMAT && e.code === frontEndCode() && e.files.every((f) => fileSha(f.path) === f.sha) && e.grammar.inventory !== null) {
-        const inv = loadInventory(e.grammar.inventory, e.diacritics !== null && existsSync(e.diacritics) ? e.diacritics : undefined);
-        if (inv.inventory !== undefined) return { grammar: e.grammar, inventory: inv.inventory, diagnostics: [...e.diagnostics] };
+        return { grammar: e.grammar, inventory: restoreInventory(e.inventory), diagnostics: [...e.diagnostics] };
       }
     } catch {
       // A well-formed entry of an unexpected shape: load afresh below.
@@ -109,7 +131,7 @@ export function loadGrammarCached(p: string, cacheDir: string, opts: { readonly 
   if (g !== undefined && loaded.inventory !== undefined && !loaded.diagnostics.some((d) => d.severity === "error") && g.inventory !== null) {
     const dia = diacriticsOf(g);
     const deps = [...g.files, g.inventory, ...(dia !== null ? [dia] : [])];
-    const entry: Entry = { format: FORMAT, code: frontEndCode(), files: deps.map((f) => ({ path: f, sha: fileSha(f) })), grammar: g, diacritics: dia, diagnostics: loaded.diagnostics };
+    const entry: Entry = { format: FORMAT, code: frontEndCode(), files: deps.map((f) => ({ path: f, sha: fileSha(f) })), grammar: g, inventory: storeInventory(loaded.inventory), diagnostics: loaded.diagnostics };
     try {
       mkdirSync(cacheDir, { recursive: true });
       const payload = JSON.stringify(entry);

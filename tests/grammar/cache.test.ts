@@ -29,7 +29,21 @@ describe("loadGrammarCached", () => {
     expect(JSON.parse(JSON.stringify(hit.grammar))).toEqual(JSON.parse(JSON.stringify(fresh.grammar)));
     expect(hit.grammar).toEqual(first.grammar);
     expect(hit.inventory!.segments).toEqual(fresh.inventory!.segments);
+    // The whole inventory, maps included, comes back from the entry as the loader made it.
+    expect(hit.inventory).toEqual(fresh.inventory);
+    expect(JSON.stringify([...hit.inventory!.featureIndex])).toBe(JSON.stringify([...fresh.inventory!.featureIndex]));
+    expect(JSON.stringify(hit.inventory!.diacritics.map((d) => [...d.sets]))).toBe(JSON.stringify(fresh.inventory!.diacritics.map((d) => [...d.sets])));
     expect(hit.diagnostics).toEqual(fresh.diagnostics);
+  });
+
+  it("sees a change in the diacritics file", () => {
+    const { dir, cache } = copy();
+    const before = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    const lines = readFileSync(join(dir, "diacritics.csv"), "utf8").split("\n");
+    const last = lines.map((l, i) => [l, i] as const).filter(([l]) => l.trim() !== "" && !l.startsWith("#")).pop()![1];
+    writeFileSync(join(dir, "diacritics.csv"), lines.filter((_, i) => i !== last).join("\n"));
+    const after = loadGrammarCached(join(dir, "grammar.strata"), cache);
+    expect(after.inventory?.diacritics.length ?? 0).toBe(before.inventory!.diacritics.length - 1);
   });
 
   it("sees a change in an included file", () => {
