@@ -367,27 +367,16 @@ function readPacked(r: Reader, f: FunctionalRunner): PackedBimachine | null {
   const states = f.numStates;
   const pool = f.pool;
   check(rz.length === (sets + 1) * size && startOk.length === sets + 1 && step.length === states * zs, "packed table sizes");
-  let good = true;
-  for (let k = 0; k < rz.length; k++) {
-    const v = rz[k] as number;
-    if (v >>> 16 > sets || (v & 0xffff) >= zs) good = false;
-  }
-  check(good, "packed right-to-left entries");
-  let stringEntries = 0;
-  for (let k = 0; k < step.length; k++) {
-    const v = step[k] as number;
-    if (v === -1) continue;
-    if (v < 0 || v >> 10 >= states) good = false;
-    if ((v & 1023) === STRING) stringEntries++;
-  }
-  check(good, "packed left-to-right targets");
-  check(stringAt.length === stringEntries && stringOffset.length === stringEntries, "packed strings");
+  // The entries of rz and step are not checked one by one (the checksum covers them; a loop over
+  // the ~360 000 entries of en-us's largest block cost ~15 ms of every cached run's start): a
+  // wrong entry can only come from a wrong writer, and typed arrays read out of range give wrong
+  // outputs, never a crash. The string offsets, which index the pool, are checked.
+  check(stringAt.length === stringOffset.length, "packed strings");
   const strings = new Int32Array(step.length);
   for (let j = 0; j < stringAt.length; j++) {
     const k = stringAt[j] as number;
     const o = stringOffset[j] as number;
-    // Increasing indices of string entries, as many as there are: each string entry has its offset.
-    check(k > (j === 0 ? -1 : (stringAt[j - 1] as number)) && k < step.length && writesString(step[k] as number), "packed string entries");
+    check(k >= 0 && k < step.length && writesString(step[k] as number), "packed string entries");
     check(o >= 0 && o < pool.length && o + (pool[o] as number) < pool.length, "packed string offsets");
     strings[k] = o;
   }
