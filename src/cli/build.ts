@@ -4,8 +4,6 @@
 import { readFileSync } from "node:fs";
 import { dirname, join, relative, resolve } from "node:path";
 import { Option, type Command } from "commander";
-import cliProgress from "cli-progress";
-import stringWidth from "string-width";
 import { loadManifest } from "../lexicon/manifest.js";
 import { runVarieties, ALL_FORMATS, type OutputFormat, type RunSummary, type VarietyRun } from "../lexicon/runner.js";
 import { countInputRecords } from "../lexicon/reconcile.js";
@@ -139,7 +137,8 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     group.push(ready);
   }
   for (const group of groups.values()) {
-    const bar = tty ? new cliProgress.SingleBar({ format: `${group.map((r) => r.variety.name).join(", ").padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, cliProgress.Presets.shades_classic) : undefined;
+    const progress = tty ? (await import("cli-progress")).default : undefined;
+    const bar = progress !== undefined ? new progress.SingleBar({ format: `${group.map((r) => r.variety.name).join(", ").padEnd(12)} {bar} {value}/{total} rows`, hideCursor: true }, progress.Presets.shades_classic) : undefined;
     bar?.start(Math.max(1, total - 1), 0);
     try {
       const runs: VarietyRun[] = group.map((r) => ({ engine: r.loaded.engine, outDir: join(outRoot, manifest.name, r.variety.name), variety: r.variety, assignsStress: r.loaded.grammar.steps.some((s) => s.kind === "stress"), ...(r.variety.overrides !== undefined ? { overrides: r.variety.overrides } : {}) }));
@@ -191,7 +190,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     if (o.json === true) {
       report.push({ variety: summary.variety, out: relative(process.cwd(), outDir) || ".", rowsRead: summary.rowsRead, entriesWritten: summary.entriesWritten, rowsRejected: summary.rowsRejected, ...(summary.rowsReplaced !== undefined ? { rowsReplaced: summary.rowsReplaced } : {}), reconciled: summary.reconciled, words: summary.words, ...(summary.stress !== undefined ? { stress: summary.stress } : {}), entriesWithVariants: summary.entriesWithVariants, variantsTotal: summary.variantsTotal, changedBy: summary.changedBy, files: Object.keys(summary.files).sort(), ...(check !== undefined ? { check } : {}) });
     } else {
-      if (!quiet) printSummary(summary, compileMs, outDir, varieties.length > 1 ? 0 : (o.samples ?? 6));
+      if (!quiet) printSummary(summary, compileMs, outDir, varieties.length > 1 ? 0 : (o.samples ?? 6), await terminalWidth());
       if (check !== undefined) {
         const line = `check: ${plural(check.compared, "entry", "entries")} compared with the reference interpreter, ${check.mismatches.length} differ`;
         process.stdout.write((check.mismatches.length === 0 ? line : c.red(line)) + "\n");
@@ -212,7 +211,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
     }
   }
   if (o.json === true) process.stdout.write(JSON.stringify({ lexicon: manifest.name, varieties: report }, null, 2) + "\n");
-  else if (!quiet && summaries.length > 1) printDiffering(summaries, o.samples ?? 6);
+  else if (!quiet && summaries.length > 1) printDiffering(summaries, o.samples ?? 6, await terminalWidth());
   const rejected = summaries.reduce((k, s) => k + s.rowsRejected, 0);
   if (rejected > 0) {
     const msg = `${plural(rejected, "row")} rejected (see rejects.csv in each variety's folder)`;
@@ -226,10 +225,17 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   return EXIT.ok;
 }
 
-/** Pads to a width in terminal columns (IPA combining marks take none). */
-const padTo = (s: string, w: number): string => s + " ".repeat(Math.max(0, w - stringWidth(s)));
+/**
+ * The width of a string in terminal columns (IPA combining marks take none), loaded only when a
+ * report is printed: string-width sets up a grapheme segmenter and Unicode-property patterns when
+ * imported (~15 ms of a quiet build's start), and the progress bar is likewise loaded only for one.
+ */
+const terminalWidth = async (): Promise<(s: string) => number> => (await import("string-width")).default;
 
-function printSummary(s: RunSummary, compileMs: number, outDir: string, samples: number): void {
+/** Pads to a width in terminal columns. */
+const padTo = (s: string, w: number, width: (s: string) => number): string => s + " ".repeat(Math.max(0, w - width(s)));
+
+function printSummary(s: RunSummary, compileMs: number, outDir: string, samples: number, width: (s: string) => number): void {
   const c = colours(process.stdout);
   const rel = relative(process.cwd(), outDir) || ".";
   const w = (line: string) => process.stdout.write(line + "\n");
@@ -252,22 +258,22 @@ function printSummary(s: RunSummary, compileMs: number, outDir: string, samples:
     const [iw, inarrow, ibroad] = [col("word", 0), col("narrow", 1), col("broad", 2)];
     for (let i = 0; i < lines.length && i / step < samples; i += step) {
       const f = lines[i]!.split("\t");
-      w(`    ${padTo(f[iw] ?? "", 22)} ${padTo(f[ibroad] ?? "", 26)} → ${f[inarrow] ?? ""}`);
+      w(`    ${padTo(f[iw] ?? "", 22, width)} ${padTo(f[ibroad] ?? "", 26, width)} → ${f[inarrow] ?? ""}`);
     }
   }
 }
 
 /** With several varieties, the sample lines are entries whose narrow forms differ between them. */
-function printDiffering(summaries: readonly RunSummary[], samples: number): void {
+function printDiffering(summaries: readonly RunSummary[], samples: number, width: (s: string) => number): void {
   const tables = summaries.flatMap((s) => (s.files["lexicon.tsv"] !== undefined ? [narrowTable(s.variety, readFileSync(s.files["lexicon.tsv"], "utf8"))] : []));
   if (samples === 0 || tables.length < 2) return;
   const d = differingSamples(tables, samples);
   const w = (line: string) => process.stdout.write(line + "\n");
   w(`where the varieties differ: ${d.differing} of ${plural(d.compared, "entry", "entries")}${d.samples.length > 0 ? ", for example" : ""}`);
   if (d.samples.length === 0) return;
-  const width = tables.map((t, i) => Math.max(stringWidth(t.variety), ...d.samples.map((x) => stringWidth(x.narrow[i] ?? ""))) + 2);
-  w(`    ${padTo("", 22)} ${tables.map((t, i) => padTo(t.variety, width[i]!)).join("").trimEnd()}`);
-  for (const x of d.samples) w(`    ${padTo(x.word, 22)} ${x.narrow.map((n, i) => padTo(n ?? "", width[i]!)).join("").trimEnd()}`);
+  const cols = tables.map((t, i) => Math.max(width(t.variety), ...d.samples.map((x) => width(x.narrow[i] ?? ""))) + 2);
+  w(`    ${padTo("", 22, width)} ${tables.map((t, i) => padTo(t.variety, cols[i]!, width)).join("").trimEnd()}`);
+  for (const x of d.samples) w(`    ${padTo(x.word, 22, width)} ${x.narrow.map((n, i) => padTo(n ?? "", cols[i]!, width)).join("").trimEnd()}`);
 }
 
 interface BuildCliOptions extends Omit<BuildOptions, "workers"> {
