@@ -19,6 +19,13 @@ function copy(): { dir: string; cache: string } {
 
 const indexFiles = (cache: string) => readdirSync(cache).filter((f) => f.startsWith("grammar-"));
 
+/** Drops the last row of a CSV table (keeps the header and comments). */
+function dropLastRow(file: string): void {
+  const lines = readFileSync(file, "utf8").split("\n");
+  const last = lines.map((l, i) => [l, i] as const).filter(([l]) => l.trim() !== "" && !l.startsWith("#")).pop()![1];
+  writeFileSync(file, lines.filter((_, i) => i !== last).join("\n"));
+}
+
 describe("loadGrammarCached", () => {
   it("a hit gives the grammar and inventory that loading afresh gives", () => {
     const { dir, cache } = copy();
@@ -39,9 +46,7 @@ describe("loadGrammarCached", () => {
   it("sees a change in the diacritics file", () => {
     const { dir, cache } = copy();
     const before = loadGrammarCached(join(dir, "grammar.strata"), cache);
-    const lines = readFileSync(join(dir, "diacritics.csv"), "utf8").split("\n");
-    const last = lines.map((l, i) => [l, i] as const).filter(([l]) => l.trim() !== "" && !l.startsWith("#")).pop()![1];
-    writeFileSync(join(dir, "diacritics.csv"), lines.filter((_, i) => i !== last).join("\n"));
+    dropLastRow(join(dir, "diacritics.csv"));
     const after = loadGrammarCached(join(dir, "grammar.strata"), cache);
     expect(after.inventory?.diacritics.length ?? 0).toBe(before.inventory!.diacritics.length - 1);
   });
@@ -57,10 +62,7 @@ describe("loadGrammarCached", () => {
   it("sees a change in the inventory", () => {
     const { dir, cache } = copy();
     const before = loadGrammarCached(join(dir, "grammar.strata"), cache);
-    const csv = readFileSync(join(dir, "segments.csv"), "utf8").split("\n");
-    // Drop the last segment row (keep the header and comments).
-    const last = csv.map((l, i) => [l, i] as const).filter(([l]) => l.trim() !== "" && !l.startsWith("#")).pop()![1];
-    writeFileSync(join(dir, "segments.csv"), csv.filter((_, i) => i !== last).join("\n"));
+    dropLastRow(join(dir, "segments.csv"));
     const after = loadGrammarCached(join(dir, "grammar.strata"), cache);
     expect(after.inventory?.segments.length ?? 0).not.toBe(before.inventory!.segments.length);
   });
