@@ -6,9 +6,9 @@ import { formatDiagnostic } from "../diagnostics.js";
 import { checkEntry, isWellFormedLanguageTag, PlsError, plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
-import { entryJsonLine, transcribeRow } from "../lexicon/runner.js";
+import { entryJsonLine, entryOf, isRejected, transcription } from "../lexicon/runner.js";
 import { pickLanguage, plsPhonemes, PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
-import { EntryKeys } from "../lexicon/keys.js";
+import { EntryKeys, keyOf } from "../lexicon/keys.js";
 import { Channel } from "../lexicon/channel.js";
 import { InvalidArgumentError } from "commander";
 import {
@@ -138,17 +138,31 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
   if (format === "tsv") await write(tsvHeader());
   const keys = new EntryKeys();
   // Stress hygiene of every entry written (the checks strata lint makes; lexicon/hygiene.ts).
-  const hygiene = new StressHygiene({ inventory: loaded.inventory, assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress") });
+  // The report's lines are kept only for --stress-report; otherwise the findings are only counted.
+  const hygiene = new StressHygiene({ inventory: loaded.inventory, assignsStress: loaded.grammar.steps.some((s) => s.kind === "stress") }, undefined, o.stressReport !== undefined);
   try {
     for await (const batch of reader.batches()) {
       for (const item of batch) {
-        const r = item.kind === "row" ? transcribeRow(loaded.engine, item, keys.next(item.word, item.id), needs) : item;
-        if (r.kind === "reject") {
-          reject(rejectDiagnostic(r));
+        if (item.kind === "reject") {
+          reject(rejectDiagnostic(item));
           continue;
         }
-        if (format === "tsv" || format === "jsonl") {
-          const w = write(format === "tsv" ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : entryJsonLine(r));
+        const n = keys.count(item.word);
+        const t = transcription(loaded.engine, item, needs);
+        if (isRejected(t)) {
+          reject(rejectDiagnostic(t));
+          continue;
+        }
+        if (format === "tsv") {
+          const w = write(formatTsvEntry({ key: keyOf(item.word, item.id, n), word: item.word, narrow: t.narrow, broad: t.broad }));
+          if (w !== undefined) await w;
+          hygiene.observe(item, () => keyOf(item.word, item.id, n));
+          entries++;
+          continue;
+        }
+        const r = entryOf(item, keyOf(item.word, item.id, n), t);
+        if (format === "jsonl") {
+          const w = write(entryJsonLine(r));
           if (w !== undefined) await w;
         } else {
           const mine = plsPhonemes(r, o.plsPhonemes);
@@ -166,7 +180,7 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
             pending = { word: r.word, phonemes: mine, line: r.line, file: r.file };
           }
         }
-        if (item.kind === "row") hygiene.observe(item, r.key);
+        hygiene.observe(item, r.key);
         entries++;
       }
       // A batch is what the input had ready: write its lines now, so a pipeline sees them as rows arrive.

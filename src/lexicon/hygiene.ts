@@ -4,7 +4,7 @@
 // is named with its count, so stress is never changed silently.
 
 import { csvLine } from "../emit/csv.js";
-import { emptyStressCounts, STRESS_CODES, stressFindings, type StressCode, type StressContext } from "./lint-stress.js";
+import { countStressProblems, emptyStressCounts, STRESS_CODES, stressFindings, type StressCode, type StressContext } from "./lint-stress.js";
 import type { LexiconRow } from "./read.js";
 
 /** The report file's name in a variety's folder, and its columns. */
@@ -43,9 +43,12 @@ export class StressCounts {
     for (const l of lines) this.lines.push(l);
   }
 
+  /** Findings counted without a report line (`StressHygiene` with `report: false`). */
+  protected unreported = 0;
+
   /** Findings in all. */
   get total(): number {
-    return this.lines.length;
+    return this.lines.length + this.unreported;
   }
 
   summary(): StressSummary {
@@ -63,17 +66,19 @@ export class StressHygiene extends StressCounts {
   private syllabic: number;
   private stress: number;
 
-  constructor(private readonly ctx: StressContext, private readonly relFile: (file: string) => string = (f) => f) {
+  /** `keepLines`: whether the report's lines are kept (default true); without them the findings are only counted. */
+  constructor(private readonly ctx: StressContext, private readonly relFile: (file: string) => string = (f) => f, private readonly keepLines = true) {
     super();
     this.syllabic = ctx.inventory.featureIndex.get("syllabic") ?? -1;
     this.stress = ctx.inventory.featureIndex.get("stress") ?? -1;
   }
 
-  /** Checks and counts one entry that is written (its row as read, and its key). */
-  observe(row: LexiconRow, key: string): void {
-    for (const f of stressFindings(row, this.ctx)) {
+  /** Checks and counts one entry that is written (its row as read, and its key, or what gives it when a finding needs it). */
+  observe(row: LexiconRow, key: string | (() => string)): void {
+    if (!this.keepLines) this.unreported += countStressProblems(row, this.ctx, this.problems);
+    else for (const f of stressFindings(row, this.ctx)) {
       this.problems[f.code]++;
-      this.lines.push(csvLine([this.relFile(f.file), String(f.line), String(f.column), key, f.word, f.severity, f.code, f.message]));
+      this.lines.push(csvLine([this.relFile(f.file), String(f.line), String(f.column), typeof key === "string" ? key : key(), f.word, f.severity, f.code, f.message]));
     }
     const tags = row.tags;
     if (tags.length > 0) {

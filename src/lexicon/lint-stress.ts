@@ -194,6 +194,18 @@ export function stressFindings(row: LexiconRow, ctx: StressContext, tokens?: rea
   return out.sort((a, b) => a.column - b.column);
 }
 
+/**
+ * Adds the stress findings of one row to `counts` (by code) without positioning them, and returns how
+ * many there were: `stressFindings(row, ctx).length`, its codes counted alike.
+ */
+export function countStressProblems(row: LexiconRow, ctx: StressContext, counts: Record<StressCode, number>): number {
+  const fs = featuresOf(ctx.inventory);
+  if (fs === null) return 0;
+  const problems = problemsOf(row, ctx, fs);
+  for (const p of problems) counts[p.code]++;
+  return problems.length;
+}
+
 /** The column of the mark a problem points at: the n-th (0-based) primary mark of a word, or the mark before a word's last nucleus. */
 function markColumn(tokens: readonly PronToken[], at: Problem["at"], fs: Features): { column: number; length: number } | undefined {
   if (at.kind === "whole") return undefined;

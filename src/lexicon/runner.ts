@@ -118,12 +118,18 @@ export const entryPhonemes = (r: EntryResult): string[] => plsPhonemes(r, "narro
 
 /** `key`: the entry key (see keys.ts; an EntryKeys gives them in file order). */
 export function transcribeRow(engine: Engine, row: LexiconRow, key: string, needs?: Needs, share?: WalkShare): EntryResult | RejectedRow {
+  const t = transcription(engine, row, needs, share);
+  return isRejected(t) ? t : entryOf(row, key, t);
+}
+
+export const isRejected = (t: Transcription | RejectedRow): t is RejectedRow => (t as RejectedRow).kind === "reject";
+
+/** A row's transcription as every format can write it, or its reject (`transcribeRow` without the entry around it). */
+export function transcription(engine: Engine, row: LexiconRow, needs?: Needs, share?: WalkShare): Transcription | RejectedRow {
   const t0 = share !== undefined && engine instanceof MachineEngine ? engine.transcribeWord(row.symbols, needs, share) : engine.transcribeWord(row.symbols, needs);
   if (t0 === undefined) return outsideAlphabet(row);
   const t = asCompound(row, t0, engine.writesSyllables ?? true);
-  const bad = unwritableEntry(row, t);
-  if (bad !== undefined) return bad;
-  return entryOf(row, key, t);
+  return unwritableEntry(row, t) ?? t;
 }
 
 /**

@@ -13,7 +13,7 @@ import { loadInventory } from "../../src/inventory/index.js";
 import { importArpabetDictionary, loadArpabetTable } from "../../src/lexicon/arpabet.js";
 import { importedCsv } from "../../src/cli/import.js";
 import { readLexicon, type LexiconRow } from "../../src/lexicon/read.js";
-import { stressFindings, STRESS_CODES, type StressCode } from "../../src/lexicon/lint-stress.js";
+import { countStressProblems, emptyStressCounts, stressFindings, STRESS_CODES, type StressCode } from "../../src/lexicon/lint-stress.js";
 import { reconcileStressReport } from "../../src/lexicon/reconcile-stress.js";
 import { countInputRecords, csvRecords } from "../../src/lexicon/reconcile.js";
 import { cli } from "../cli/helpers.js";
@@ -48,6 +48,27 @@ const PROBLEMS = [
 ].join("\n") + "\n";
 
 describe("the stress checks (lint-stress.ts)", () => {
+  it("countStressProblems counts what stressFindings finds, code by code", async () => {
+    const csv = PROBLEMS + ["kˈɑmpˈaʊnd#ɹˈum", "ˌa ˌb", "bˈeɪsbˈɔl # ɹˈoʊ", "ðə # ðə"].map((p, i) => `extra${i},${p},\n`).join("");
+    for (const assignsStress of [true, false]) {
+      const c = { inventory: inv, assignsStress };
+      const counted = emptyStressCounts();
+      const found = emptyStressCounts();
+      let n = 0;
+      let total = 0;
+      for (const r of await rows(csv)) {
+        total += countStressProblems(r, c, counted);
+        for (const f of stressFindings(r, c)) {
+          found[f.code]++;
+          n++;
+        }
+      }
+      expect(counted).toEqual(found);
+      expect(total).toBe(n);
+      expect(n).toBeGreaterThan(3);
+    }
+  });
+
   it("find each kind, positioned at the mark at fault or the whole pronunciation", async () => {
     expect(await codes(PROBLEMS)).toEqual([
       ["16 lint/many-primary"],

@@ -1,0 +1,44 @@
+// Entry keys (src/lexicon/keys.ts) against a plain count per word in a map: the same index for
+// every row, whatever order the words come in, with or without the counts of an earlier part.
+
+import { describe, expect, it } from "vitest";
+import fc from "fast-check";
+import { EntryKeys, keyOf } from "../../src/lexicon/keys.js";
+
+const SEED = Number(process.env["STRATA_FC_SEED"] ?? (process.env["CI"] ? 415263 : Date.now() % 2 ** 31));
+console.log(`keys.test: fast-check seed ${SEED} (STRATA_FC_SEED replays it)`);
+
+const model = (before: readonly (readonly [string, number])[], words: readonly string[]): number[] => {
+  const seen = new Map(before);
+  return words.map((w) => {
+    const n = (seen.get(w) ?? 0) + 1;
+    seen.set(w, n);
+    return n;
+  });
+};
+
+describe("EntryKeys", () => {
+  it("counts each word's rows as a map does, sorted or not", () => {
+    const word = fc.constantFrom("a", "b", "ab", "b#", "tram", "Tram", "zoo", "é", "", "a b");
+    // Mostly sorted runs with some out of order, as lexicons are.
+    const words = fc.oneof(fc.array(word, { maxLength: 40 }), fc.array(word, { maxLength: 40 }).map((w) => [...w].sort()));
+    const before = fc.uniqueArray(fc.tuple(word, fc.integer({ min: 1, max: 4 })), { selector: (t) => t[0], maxLength: 5 });
+    fc.assert(
+      fc.property(before, words, (b, ws) => {
+        const keys = new EntryKeys(b.length > 0 ? b : undefined);
+        expect(ws.map((w) => keys.count(w))).toEqual(model(b, ws));
+      }),
+      { seed: SEED, numRuns: 2000 },
+    );
+  });
+
+  it("gives the id when there is one, else word#index", () => {
+    const keys = new EntryKeys();
+    expect(keys.next("tram")).toBe("tram#1");
+    expect(keys.next("tram", "")).toBe("tram#2");
+    expect(keys.next("tram", "t9")).toBe("t9");
+    expect(keys.next("bus")).toBe("bus#1");
+    expect(keys.next("tram")).toBe("tram#4");
+    expect(keyOf("a", undefined, 3)).toBe("a#3");
+  });
+});
