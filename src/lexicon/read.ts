@@ -15,6 +15,7 @@ import { RecordSplitter } from "./records.js";
 import type { SourceRecord } from "./records.js";
 import { applyStress, unstressAll } from "./stress.js";
 import { pronReader } from "./pron.js";
+import { duplicateIdReason, plainColumns, readPlainRow, type PlainColumns } from "./row.js";
 
 export { checkQuoting, columnInField, findForbidden } from "./fields.js";
 export type { Field, FieldSpan, QuoteCheck } from "./fields.js";
@@ -176,7 +177,7 @@ export const idBook = (): IdBook => {
   };
 };
 
-export const duplicateIdReason = (id: string, first: number): string => `The id '${id}' is already used on line ${first}; ids must be unique in the file.`;
+export { duplicateIdReason } from "./row.js";
 
 /** One record with its fields, as the row reader sees it. */
 export interface LineInfo {
@@ -287,6 +288,9 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
  */
 export function recordTaker(inv: Inventory, file: string, stats: Pick<ReadStats, "commentLines" | "blankLines" | "headerLine" | "dataLines">, diagnostics: Diagnostic[], ids: IdBook, header?: HeaderColumns) {
   const reject = (line: number, column: number, code: string, reason: string, raw: string): RejectedRow => ({ kind: "reject", file, line, column, code, reason, raw });
+  // The fast path's columns (row.ts), made once per header, and its field ends, kept between records.
+  let plain: { readonly of: HeaderColumns; readonly cols: PlainColumns } | undefined;
+  const ends: number[] = [];
   const t = {
     header,
     headerFailed: false,
@@ -308,6 +312,9 @@ export function recordTaker(inv: Inventory, file: string, stats: Pick<ReadStats,
         return undefined;
       }
       stats.dataLines++;
+      if (plain?.of !== t.header) plain = { of: t.header, cols: plainColumns(t.header) };
+      const fast = readPlainRow(inv, file, rec.line, rec.raw, plain.cols, ids, ends);
+      if (fast !== undefined) return fast;
       const bad = findForbidden(rec.raw);
       if (bad !== undefined) return reject(rec.line, bad.column, bad.code, bad.reason, rec.raw);
       const q = checkQuoting(rec.raw);
