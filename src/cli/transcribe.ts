@@ -16,6 +16,7 @@ import {
   grammarOptions, loadEngine, outOption, printDiagnostics, resolveGrammar, type EngineKind,
 } from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
+import { putTsvEntry } from "../emit/tsv-batch.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 import { StressHygiene } from "../lexicon/hygiene.js";
 import { ChunkPool } from "../lexicon/chunks.js";
@@ -154,7 +155,12 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
           continue;
         }
         if (format === "tsv") {
-          const w = write(formatTsvEntry({ key: keyOf(item.word, item.id, n), word: item.word, narrow: t.narrow, broad: t.broad }));
+          // To standard output the line goes straight into the byte chunks (emit/tsv-batch.ts).
+          let w: Promise<void> | undefined;
+          if (stdout !== undefined) {
+            putTsvEntry(stdout.bytes, item.id, n, item.word, t.narrow, t.broad);
+            w = stdout.settle();
+          } else w = write(formatTsvEntry({ key: keyOf(item.word, item.id, n), word: item.word, narrow: t.narrow, broad: t.broad }));
           if (w !== undefined) await w;
           hygiene.observe(item, () => keyOf(item.word, item.id, n));
           entries++;

@@ -18,6 +18,19 @@ export class BufferedWriter {
     return this.ready.length > 0 ? this.send() : undefined;
   }
 
+  /**
+   * The chunks being gathered, for bytes put straight into them (tsv-batch.ts); `settle` after
+   * putting them.
+   */
+  get bytes(): ByteChunks {
+    return this.chunks;
+  }
+
+  /** After bytes were put: returns a promise only when a full chunk had to wait for the stream to drain. */
+  settle(): Promise<void> | undefined {
+    return this.ready.length > 0 ? this.send() : undefined;
+  }
+
   /** Writes what is gathered; resolves when the stream can take more. */
   flush(): Promise<void> | undefined {
     this.chunks.flush();

@@ -85,6 +85,58 @@ export class ByteChunks {
     this.buf[this.at++] = 10;
   }
 
+  /**
+   * Makes room for `most` more bytes (flushing what is gathered when the chunk lacks it), for `put`;
+   * false when a whole chunk is too small (the caller then pushes text instead).
+   */
+  room(most: number): boolean {
+    if (this.at + most <= this.buf.length) return true;
+    this.flush();
+    return most <= this.buf.length;
+  }
+
+  /** One byte; the caller made room. */
+  putByte(b: number): void {
+    this.buf[this.at++] = b;
+  }
+
+  /**
+   * `text` as UTF-8 (a lone surrogate as U+FFFD, as TextEncoder writes it), written byte by byte:
+   * for the short strings of one line this is cheaper than an `encodeInto` and the view it needs.
+   * The caller made room: 3 bytes per UTF-16 unit.
+   */
+  put(text: string): void {
+    const buf = this.buf;
+    let at = this.at;
+    const n = text.length;
+    for (let i = 0; i < n; i++) {
+      let c = text.charCodeAt(i);
+      if (c < 0x80) buf[at++] = c;
+      else if (c < 0x800) {
+        buf[at++] = 0xc0 | (c >> 6);
+        buf[at++] = 0x80 | (c & 0x3f);
+      } else {
+        if (c >= 0xd800 && c <= 0xdfff) {
+          const d = i + 1 < n ? text.charCodeAt(i + 1) : 0;
+          if (c <= 0xdbff && d >= 0xdc00 && d <= 0xdfff) {
+            const cp = 0x10000 + ((c - 0xd800) << 10) + (d - 0xdc00);
+            i++;
+            buf[at++] = 0xf0 | (cp >> 18);
+            buf[at++] = 0x80 | ((cp >> 12) & 0x3f);
+            buf[at++] = 0x80 | ((cp >> 6) & 0x3f);
+            buf[at++] = 0x80 | (cp & 0x3f);
+            continue;
+          }
+          c = 0xfffd;
+        }
+        buf[at++] = 0xe0 | (c >> 12);
+        buf[at++] = 0x80 | ((c >> 6) & 0x3f);
+        buf[at++] = 0x80 | (c & 0x3f);
+      }
+    }
+    this.at = at;
+  }
+
   /** Hands on what is gathered (nothing when empty). */
   flush(): void {
     if (this.at === 0) return;
