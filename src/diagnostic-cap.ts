@@ -2,11 +2,12 @@
 // first ones and one more diagnostic counting the rest, so rendering stays small and fast.
 
 import { diagnostic, type Diagnostic } from "./diagnostics.js";
+import { grouped } from "./counts.js";
 
 /** Default most diagnostics kept per file. */
 export const MAX_DIAGNOSTICS_PER_FILE = 100;
 
-const plural = (n: number, one: string, many: string): string => `${n.toLocaleString("en-US")} more ${n === 1 ? one : many}`;
+const plural = (n: number, one: string, many: string): string => `${grouped(n)} more ${n === 1 ? one : many}`;
 
 /**
  * Keeps the first `max` diagnostics of each file (in their order) and, for a file that had more,

@@ -4,6 +4,7 @@
 // is named with its count, so stress is never changed silently.
 
 import { csvLine } from "../emit/csv.js";
+import { plural } from "../counts.js";
 import { countStressProblems, emptyStressCounts, STRESS_CODES, stressFindings, type StressCode, type StressContext } from "./lint-stress.js";
 import type { LexiconRow } from "./read.js";
 
@@ -97,7 +98,6 @@ export class StressHygiene extends StressCounts {
   }
 }
 
-const plural = (n: number, one: string): string => `${n.toLocaleString("en-US")} ${n === 1 ? one : `${one}s`}`;
 
 /** The one-line account of a run's stress: problems by code, and the policies that set stress. */
 export function stressLine(s: StressSummary, reportName?: string): string {
