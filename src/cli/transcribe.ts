@@ -6,7 +6,7 @@ import { formatDiagnostic } from "../diagnostics.js";
 import { checkEntry, isWellFormedLanguageTag, PlsError, plsChunks, type PlsEntry } from "../emit/pls.js";
 import { formatTsvEntry, tsvHeader } from "../emit/tsv.js";
 import { readLexicon, rejectDiagnostic } from "../lexicon/read.js";
-import { entryJsonLine, entryOf, isRejected, transcription } from "../lexicon/runner.js";
+import { entryJsonLine, entryOf, isRejected, narrowForms, transcription } from "../lexicon/runner.js";
 import { pickLanguage, plsPhonemes, PLS_PHONEMES, type PlsPhonemes } from "../lexicon/ipa-options.js";
 import { EntryKeys, keyOf } from "../lexicon/keys.js";
 import { Channel } from "../lexicon/channel.js";
@@ -149,12 +149,12 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
           continue;
         }
         const n = keys.count(item.word);
-        const t = transcription(loaded.engine, item, needs);
-        if (isRejected(t)) {
-          reject(rejectDiagnostic(t));
-          continue;
-        }
         if (format === "tsv") {
+          const t = narrowForms(loaded.engine, item);
+          if ("kind" in t) {
+            reject(rejectDiagnostic(t));
+            continue;
+          }
           // To standard output the line goes straight into the byte chunks (emit/tsv-batch.ts).
           let w: Promise<void> | undefined;
           if (stdout !== undefined) {
@@ -164,6 +164,11 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
           if (w !== undefined) await w;
           hygiene.observe(item, () => keyOf(item.word, item.id, n));
           entries++;
+          continue;
+        }
+        const t = transcription(loaded.engine, item, needs);
+        if (isRejected(t)) {
+          reject(rejectDiagnostic(t));
           continue;
         }
         const r = entryOf(item, keyOf(item.word, item.id, n), t);

@@ -109,6 +109,21 @@ export class MachineEngine implements Engine {
     return this.widened(symbols)?.transcribeWord(symbols, needs);
   }
 
+  /**
+   * The preferred narrow and broad forms alone (what TSV prints): `transcribeWord` with NARROW_ONLY
+   * without the rest of a transcription (no variants, no steps, no flags).
+   */
+  transcribeNarrow(symbols: Word): { readonly narrow: string; readonly broad: string } | undefined {
+    const e = this.encode(symbols);
+    if (e === undefined) return this.widened(symbols)?.transcribeNarrow(symbols);
+    const out: number[] = [];
+    if (!this.compiled.preferred.run(e.ids, out)) return undefined;
+    const narrow = renderIpa(out, this.view, this.render);
+    const bout: number[] = [];
+    if (!this.broad.preferred.run(e.bids, bout)) return undefined;
+    return { narrow, broad: renderIpa(bout, this.broadView, this.broadRender) };
+  }
+
   /** The extended engine that accepts `symbols` (recompiled with their unseen segments), if any. */
   private widened(symbols: Word): MachineEngine | undefined {
     if (this.extend === undefined) return undefined;

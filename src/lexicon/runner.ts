@@ -7,11 +7,11 @@ import type { Diagnostic } from "../diagnostics.js";
 import { capPerFile } from "../diagnostic-cap.js";
 import { jsonRecord } from "../emit/jsonl.js";
 import type { Inventory } from "../inventory/types.js";
-import type { Engine, EntryResult, Needs, Transcription } from "./engine.js";
+import { NARROW_ONLY, type Engine, type EntryResult, type Needs, type Transcription } from "./engine.js";
 import { readLexicon, type LexiconRow, type RejectedRow } from "./read.js";
 import { EntryKeys } from "./keys.js";
 import { countInputRecords, type InputRecords } from "./reconcile.js";
-import { unwritableEntry } from "./writable.js";
+import { unwritableEntry, unwritableForms } from "./writable.js";
 import { VarietyOutput, type VarietyRun } from "./variety-out.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WalkShare } from "./walk-share.js";
@@ -21,7 +21,7 @@ import { ChunkLane } from "./chunk-lane.js";
 import type { WorkerSide } from "./worker.js";
 import type { StressSummary } from "./hygiene.js";
 import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
-import { asCompound } from "./compound.js";
+import { asCompound, compoundBroad, compoundNarrow, isCompound } from "./compound.js";
 
 export type { VarietyRun } from "./variety-out.js";
 
@@ -130,6 +130,23 @@ export function transcription(engine: Engine, row: LexiconRow, needs?: Needs, sh
   if (t0 === undefined) return outsideAlphabet(row);
   const t = asCompound(row, t0, engine.writesSyllables ?? true);
   return unwritableEntry(row, t) ?? t;
+}
+
+/**
+ * A row's preferred narrow and broad forms alone (what TSV prints), or its reject: the forms and
+ * rejects of `transcription` with NARROW_ONLY, without the rest of a transcription.
+ */
+export function narrowForms(engine: Engine, row: LexiconRow): { readonly narrow: string; readonly broad: string } | RejectedRow {
+  // Other engines (the interpreter) give every variant whatever is asked: each is checked as before.
+  if (!(engine instanceof MachineEngine)) return transcription(engine, row, NARROW_ONLY);
+  const t = engine.transcribeNarrow(row.symbols);
+  if (t === undefined) return outsideAlphabet(row);
+  let { narrow, broad } = t;
+  if (isCompound(row)) {
+    narrow = compoundNarrow(narrow, engine.writesSyllables ?? true);
+    broad = compoundBroad(broad);
+  }
+  return unwritableForms(row, [narrow]) ?? { narrow, broad };
 }
 
 /**

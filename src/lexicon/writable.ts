@@ -8,13 +8,18 @@ import type { LexiconRow, RejectedRow } from "./read.js";
 
 /** The reject for a row whose word or narrow forms cannot be written in every format, or undefined. */
 export function unwritableEntry(row: LexiconRow, t: Transcription): RejectedRow | undefined {
+  return unwritableForms(row, [t.narrow, ...t.variants]);
+}
+
+/** `unwritableEntry` of an entry with these narrow forms (the preferred first). */
+export function unwritableForms(row: LexiconRow, forms: readonly string[]): RejectedRow | undefined {
   const reject = (column: number, code: string, reason: string): RejectedRow => ({
     kind: "reject", file: row.file, line: row.line, column, code, raw: `${row.word},${row.pron}`,
     reason: `${reason}; the entry is left out of every output.`,
   });
   const w = plsTextProblem(row.word);
   if (w !== undefined) return reject(1, w.code, `The word ${w.reason}`);
-  for (const form of [t.narrow, ...t.variants]) {
+  for (const form of forms) {
     const p = plsTextProblem(form);
     if (p !== undefined) return reject(row.pronColumn, p.code, `The narrow form '${form}' ${p.reason}`);
   }
