@@ -32,6 +32,20 @@ describe("EntryKeys", () => {
     );
   });
 
+  it("counts as a map does over lists long enough to grow its tables", () => {
+    const word = fc.string({ unit: fc.constantFrom("a", "b", "z", "é", "😀", "\ud800"), minLength: 0, maxLength: 12 });
+    fc.assert(
+      fc.property(fc.array(word, { minLength: 2000, maxLength: 4000 }), fc.nat({ max: 50 }), (ws, shuffled) => {
+        const sorted = [...ws].sort();
+        // Sorted, with a few words moved out of order.
+        for (let k = 0; k < shuffled; k++) sorted.push(ws[(k * 7919) % ws.length]!);
+        const keys = new EntryKeys();
+        expect(sorted.map((w) => keys.count(w))).toEqual(model([], sorted));
+      }),
+      { seed: SEED, numRuns: 20 },
+    );
+  });
+
   it("gives the id when there is one, else word#index", () => {
     const keys = new EntryKeys();
     expect(keys.next("tram")).toBe("tram#1");
