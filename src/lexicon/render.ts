@@ -169,8 +169,17 @@ function grow(buf: Uint16Array, need: number): Uint16Array {
 /** Code units per `String.fromCharCode` call (an argument list that stays well inside the stack). */
 const PIECE = 4096;
 
+/** A plain array the code units of a short text are copied to: `apply` takes it about twice as fast as a typed array's view. */
+const SHORT = 64;
+const shortUnits: number[] = [];
+
 /** `buf[0 … n)` as one string. */
 function textOf(buf: Uint16Array, n: number): string {
+  if (n <= SHORT) {
+    shortUnits.length = n;
+    for (let i = 0; i < n; i++) shortUnits[i] = buf[i]!;
+    return String.fromCharCode.apply(null, shortUnits);
+  }
   if (n <= PIECE) return String.fromCharCode.apply(null, buf.subarray(0, n) as unknown as number[]);
   let text = "";
   for (let at = 0; at < n; at += PIECE) text += String.fromCharCode.apply(null, buf.subarray(at, Math.min(n, at + PIECE)) as unknown as number[]);
