@@ -13,8 +13,15 @@ const PRIMARY = "\u02C8";
 const SECONDARY = "\u02CC";
 
 /** True for a compound: a one-word spelling whose pronunciation holds `#` between parts. */
-export const isCompound = (row: Pick<LexiconRow, "word" | "symbols">): boolean =>
-  !SPACE.test(row.word) && row.symbols.some((s) => s.kind === "boundary" && s.which === "word");
+export function isCompound(row: Pick<LexiconRow, "word" | "symbols">): boolean {
+  // The symbols first: most entries have no inner word boundary, and the spelling's test is dearer.
+  const syms = row.symbols;
+  for (let i = 0; i < syms.length; i++) {
+    const s = syms[i]!;
+    if (s.kind === "boundary" && s.which === "word") return !SPACE.test(row.word);
+  }
+  return false;
+}
 
 /**
  * A narrow form of a compound: the space the IPA writer puts between two words becomes nothing

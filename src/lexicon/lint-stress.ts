@@ -72,9 +72,14 @@ function featuresOf(inv: Inventory): Features | null {
   const stress = f("stress");
   const primary = f("primary");
   const has = (spec: readonly [string, "+" | "-"][]): ((b: Bundle) => boolean) => {
-    const idx = spec.map(([n, v]) => [f(n), v] as const);
-    if (idx.some(([i]) => i < 0)) return () => false;
-    return (b) => idx.every(([i, v]) => b[i] === v);
+    const at = spec.map(([n]) => f(n));
+    const want = spec.map(([, v]) => v);
+    if (at.some((i) => i < 0)) return () => false;
+    // A plain loop: this runs on every nucleus of every entry.
+    return (b) => {
+      for (let k = 0; k < at.length; k++) if (b[at[k]!] !== want[k]) return false;
+      return true;
+    };
   };
   const made = syllabic < 0 || stress < 0 || primary < 0 ? null : {
     syllabic, stress, primary,
