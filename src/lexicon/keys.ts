@@ -11,9 +11,9 @@
  */
 export class EntryKeys {
   /** Word `i` of the list is `units[starts[i] … starts[i + 1])`; `counts[i]` its rows so far. */
-  private units = new Uint16Array(1 << 12);
-  private starts = new Int32Array(1 << 10);
-  private counts = new Int32Array(1 << 10);
+  private units = new Uint16Array(1 << 16);
+  private starts = new Int32Array(1 << 14);
+  private counts = new Int32Array(1 << 14);
   private size = 0;
   /** Words that came out of order (each less than the list's last when first seen). */
   private readonly others = new Map<string, number>();
