@@ -95,6 +95,31 @@ export class ByteChunks {
     return most <= this.buf.length;
   }
 
+  /** The chunk being filled, for a writer that puts bytes itself after `room` (then `moveTo` the position it reached). */
+  get target(): Uint8Array {
+    return this.buf;
+  }
+
+  /** Where the next byte goes in `target`. */
+  get position(): number {
+    return this.at;
+  }
+
+  /** Takes the bytes a writer put into `target` up to `at` (no further than the room it made). */
+  moveTo(at: number): void {
+    this.at = at;
+  }
+
+  /** Bytes as they are (copied). */
+  pushBytes(bytes: Uint8Array): void {
+    if (!this.room(bytes.length)) {
+      this.emit(bytes.slice());
+      return;
+    }
+    this.buf.set(bytes, this.at);
+    this.at += bytes.length;
+  }
+
   /** One byte; the caller made room. */
   putByte(b: number): void {
     this.buf[this.at++] = b;

@@ -4,7 +4,8 @@
 // and in each worker thread (a chunk of the file, worker.ts), so the outputs cannot differ between
 // the two: the main thread only puts the chunks' results together in file order (variety-out.ts).
 
-import { ByteChunks } from "../emit/bytes.js";
+import { ByteChunks, utf8Bytes } from "../emit/bytes.js";
+import { putJsonRecord } from "../emit/jsonl-bytes.js";
 import { formatTsvEntry } from "../emit/tsv.js";
 import type { Engine, EntryResult, Needs } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
@@ -71,8 +72,8 @@ export class SideState {
 interface SharedLines {
   readonly entry: EntryResult;
   readonly tsv: string;
-  /** The JSON Lines record without its line feed. */
-  readonly jsonl: string;
+  /** The JSON Lines record and its line feed, as UTF-8. */
+  readonly jsonl: Uint8Array;
 }
 
 /** Two entries of one row (same source row, hence same key, word, line and input) with the same transcription. */
@@ -146,19 +147,23 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
   for (const step of r.rules) state.changed.set(step, (state.changed.get(step) ?? 0) + 1);
   if (state.tsv !== undefined || state.jsonl !== undefined) {
     const before = shared?.[at];
-    let lines: SharedLines;
-    if (before !== undefined && sameTranscription(before.entry, r)) lines = before;
-    else {
-      lines = {
-        entry: r,
-        tsv: state.tsv !== undefined ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : "",
-        jsonl: state.jsonl !== undefined ? entryJsonRecord(r, state.relFile(r.file)) : "",
-      };
-      // Lines of a variety that did not write a format are no use to the next one.
-      if (shared !== undefined && state.tsv !== undefined && state.jsonl !== undefined) shared[at] = lines;
+    if (before !== undefined && sameTranscription(before.entry, r)) {
+      state.tsv?.push(before.tsv);
+      state.jsonl?.pushBytes(before.jsonl);
+    } else {
+      const tsv = state.tsv !== undefined ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : "";
+      state.tsv?.push(tsv);
+      const j = state.jsonl;
+      if (j !== undefined) {
+        const file = state.relFile(r.file);
+        const start = putJsonRecord(j, r, file, r.line);
+        // Lines of a variety that did not write a format are no use to the next one.
+        if (shared !== undefined && state.tsv !== undefined) {
+          const jsonl = start >= 0 ? j.target.slice(start, j.position) : utf8Bytes(entryJsonRecord(r, file) + "\n");
+          shared[at] = { entry: r, tsv, jsonl };
+        }
+      }
     }
-    state.tsv?.push(lines.tsv);
-    state.jsonl?.pushLine(lines.jsonl);
   }
   if (side.formats.has("pls")) addPhonemes(state.lexemes, r.word, plsPhonemes(r, side.pls), { file: r.file, line: r.line, column: 1 });
 }
