@@ -17,6 +17,7 @@ import { VariantTracer, type DerivationStep, type TracedOutputs } from "./deriva
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
 import { stepKeys, translateIds, type WalkShare } from "./walk-share.js";
+import { touchedSymbols, touches } from "../fst/untouched.js";
 
 export interface MachineEngineOptions {
   /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
@@ -213,6 +214,7 @@ export class MachineEngine implements Engine {
     let derivation: DerivationStep[] = [];
     let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
+    const skip = this.skipUnchanged ? (this.skipTables ??= skipTables(sw)) : [];
     const check = screen ? this.screen : null;
     let single = check !== null;
     // Steps before `unchecked` have been screened; a step with no preferred block (prefer
@@ -250,6 +252,9 @@ export class MachineEngine implements Engine {
         single = check!.identity(unchecked, b.from + 1, cur) && !check!.branchingIn(b.from + 1, b.to);
         unchecked = b.to;
       }
+      // A step that cannot change any symbol of the word leaves it as it is (see skipTables).
+      const t = skip[k];
+      if (t !== null && t !== undefined && !touches(t, cur)) continue;
       const next: number[] = [];
       if (!sw.preferred.runBlock(k, cur, next)) break;
       if (!sameIds(cur, next)) {
@@ -267,6 +272,22 @@ export class MachineEngine implements Engine {
   }
 
   private tracer: VariantTracer | undefined;
+  /** Blame skips a step's run on a word the step cannot change (skipTables); false: every step runs on every word (for checks). */
+  skipUnchanged = true;
+  private skipTables: readonly (Uint8Array | null)[] | undefined;
+}
+
+/**
+ * Per block of the per-step cascade, the symbols its step may change (fst/untouched.ts), or null
+ * where every word must be run. A word with none of them is left as it is: every path of the
+ * step's machine copies it. It is also accepted: blame runs only after the composed preferred
+ * machine accepted the word, that machine is the composition of the same steps, and where each
+ * step is a function (a "functional" or "sequential" runner) the word's one way through them is
+ * the one blame follows, so no step on it rejects. A "search" block (several outputs) is always run.
+ */
+function skipTables(sw: Compiled): (Uint8Array | null)[] {
+  const kinds = sw.preferred.kinds;
+  return sw.preferredBlocks.map((b, k) => (kinds[k] === "functional" || kinds[k] === "sequential" ? touchedSymbols(b.machine) : null));
 }
 
 const NO_BLAME = { changed: [] as string[], derivation: [] as DerivationStep[], single: false };
