@@ -5,6 +5,7 @@
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, SourcePos } from "../diagnostics.js";
 import { writeFileAtomic } from "./atomic.js";
+import { ByteChunks } from "./bytes.js";
 
 /** PLS 1.0 §4.1: the namespace of every PLS element. */
 export const PLS_NAMESPACE = "http://www.w3.org/2005/01/pronunciation-lexicon";
@@ -215,14 +216,7 @@ export async function* plsChunks(
   entries: Iterable<PlsEntry> | AsyncIterable<PlsEntry>,
   opts: PlsOptions,
 ): AsyncGenerator<string, number> {
-  const file = opts.file ?? "<pls>";
-  if (!isWellFormedLanguageTag(opts.lang)) {
-    throw new PlsError(
-      diagnostic("error", "pls/bad-language-tag", `'${printable(opts.lang)}' is not a well-formed BCP 47 language tag (RFC 5646 §2.1), needed for xml:lang`, { file, line: 1, column: 1 }),
-    );
-  }
-  const pretty = opts.prettyPrint ?? true;
-  const { head, tail } = frame(opts.lang, pretty);
+  const { file, pretty, head, tail } = documentFrame(opts);
   yield head;
   let ordinal = 0;
   let batch = "";
@@ -248,6 +242,122 @@ export async function* plsChunks(
   }
   yield batch + tail;
   return ordinal;
+}
+
+/** The document's frame for `opts`, its language tag checked (PlsError when it is not well-formed). */
+function documentFrame(opts: PlsOptions): { file: string; pretty: boolean; head: string; tail: string } {
+  const file = opts.file ?? "<pls>";
+  if (!isWellFormedLanguageTag(opts.lang)) {
+    throw new PlsError(
+      diagnostic("error", "pls/bad-language-tag", `'${printable(opts.lang)}' is not a well-formed BCP 47 language tag (RFC 5646 §2.1), needed for xml:lang`, { file, line: 1, column: 1 }),
+    );
+  }
+  const pretty = opts.prettyPrint ?? true;
+  return { file, pretty, ...frame(opts.lang, pretty) };
+}
+
+/**
+ * `plsChunks` as UTF-8 byte chunks of about 1 MiB (emit/bytes.ts), each lexeme written straight
+ * into the chunk (`putLexeme`) instead of built as text and then encoded: the same bytes
+ * (tests/emit/pls-fast.test.ts compares them on random entries). What `writePls` writes.
+ */
+export async function* plsByteChunks(
+  entries: Iterable<PlsEntry> | AsyncIterable<PlsEntry>,
+  opts: PlsOptions,
+): AsyncGenerator<Uint8Array, number> {
+  const { file, pretty, head, tail } = documentFrame(opts);
+  const full: Uint8Array[] = [];
+  const out = new ByteChunks((c) => void full.push(c));
+  out.push(head);
+  let ordinal = 0;
+  if (Symbol.iterator in entries) {
+    for (const e of entries as Iterable<PlsEntry>) {
+      ordinal++;
+      putLexeme(out, checkEntry(e, ordinal, file), pretty);
+      if (full.length > 0) yield* full.splice(0);
+    }
+  } else {
+    for await (const e of entries) {
+      ordinal++;
+      putLexeme(out, checkEntry(e, ordinal, file), pretty);
+      if (full.length > 0) yield* full.splice(0);
+    }
+  }
+  out.push(tail);
+  out.flush();
+  yield* full.splice(0);
+  return ordinal;
+}
+
+/** `lexemeXml(c, pretty)` put into `out` as UTF-8 (its text is well-formed: checkEntry let it through). */
+function putLexeme(out: ByteChunks, c: CheckedEntry, pretty: boolean): void {
+  let units = c.grapheme.length;
+  for (const p of c.phonemes) units += p.length;
+  for (const x of c.examples) units += x.length;
+  // `&amp;` is 5 bytes for one UTF-16 unit, other units at most 3; the tags around each text.
+  if (!out.room(5 * units + 64 * (2 + c.phonemes.length + c.examples.length))) {
+    out.push(lexemeXml(c, pretty));
+    return;
+  }
+  const buf = out.target;
+  let at = out.position;
+  at = putAscii(buf, at, pretty ? "\n  <lexeme>\n    <grapheme>" : "<lexeme><grapheme>");
+  at = putText(buf, at, c.grapheme);
+  at = putAscii(buf, at, "</grapheme>");
+  const several = c.phonemes.length > 1;
+  for (let i = 0; i < c.phonemes.length; i++) {
+    if (pretty) at = putAscii(buf, at, "\n    ");
+    at = putAscii(buf, at, several && i === c.preferred ? '<phoneme prefer="true">' : "<phoneme>");
+    at = putText(buf, at, c.phonemes[i]!);
+    at = putAscii(buf, at, "</phoneme>");
+  }
+  for (const ex of c.examples) {
+    at = putAscii(buf, at, pretty ? "\n    <example>" : "<example>");
+    at = putText(buf, at, ex);
+    at = putAscii(buf, at, "</example>");
+  }
+  at = putAscii(buf, at, pretty ? "\n  </lexeme>" : "</lexeme>");
+  out.moveTo(at);
+}
+
+function putAscii(buf: Uint8Array, at: number, text: string): number {
+  for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);
+  return at;
+}
+
+/** Text content as `escapeText` escapes it, in UTF-8 (a lone surrogate, which checkEntry refuses, as U+FFFD). */
+function putText(buf: Uint8Array, at: number, s: string): number {
+  const n = s.length;
+  for (let i = 0; i < n; i++) {
+    let c = s.charCodeAt(i);
+    if (c < 0x80) {
+      if (c === 38) at = putAscii(buf, at, "&amp;");
+      else if (c === 60) at = putAscii(buf, at, "&lt;");
+      else if (c === 62) at = putAscii(buf, at, "&gt;");
+      else buf[at++] = c;
+    } else if (c < 0x800) {
+      buf[at++] = 0xc0 | (c >> 6);
+      buf[at++] = 0x80 | (c & 0x3f);
+    } else {
+      if (c >= 0xd800 && c <= 0xdfff) {
+        const d = i + 1 < n ? s.charCodeAt(i + 1) : 0;
+        if (c <= 0xdbff && d >= 0xdc00 && d <= 0xdfff) {
+          const cp = 0x10000 + ((c - 0xd800) << 10) + (d - 0xdc00);
+          i++;
+          buf[at++] = 0xf0 | (cp >> 18);
+          buf[at++] = 0x80 | ((cp >> 12) & 0x3f);
+          buf[at++] = 0x80 | ((cp >> 6) & 0x3f);
+          buf[at++] = 0x80 | (cp & 0x3f);
+          continue;
+        }
+        c = 0xfffd;
+      }
+      buf[at++] = 0xe0 | (c >> 12);
+      buf[at++] = 0x80 | ((c >> 6) & 0x3f);
+      buf[at++] = 0x80 | (c & 0x3f);
+    }
+  }
+  return at;
 }
 
 /**
@@ -300,8 +410,8 @@ export async function writePls(
   opts: PlsOptions,
 ): Promise<PlsResult> {
   let lexemes = 0;
-  async function* counted(): AsyncGenerator<string> {
-    const gen = plsChunks(entries, { ...opts, file: opts.file ?? path });
+  async function* counted(): AsyncGenerator<Uint8Array> {
+    const gen = plsByteChunks(entries, { ...opts, file: opts.file ?? path });
     for (;;) {
       const r = await gen.next();
       if (r.done) {

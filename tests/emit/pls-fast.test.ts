@@ -4,7 +4,7 @@
 import fc from "fast-check";
 import { createCB } from "xmlbuilder2";
 import { describe, expect, it } from "vitest";
-import { findNonXmlChar, plsToString, PLS_NAMESPACE, type PlsEntry } from "../../src/emit/pls.js";
+import { findNonXmlChar, plsByteChunks, plsToString, PLS_NAMESPACE, type PlsEntry } from "../../src/emit/pls.js";
 
 /** The whole document through xmlbuilder2's callback builder, one ele()/txt() per node. */
 function viaXmlbuilder2(entries: readonly PlsEntry[], lang: string, prettyPrint: boolean): string {
@@ -43,5 +43,44 @@ describe("PLS lexemes written directly = xmlbuilder2's serialisation", () => {
       }),
       { numRuns: 200 },
     );
+  });
+});
+
+/** The document `plsByteChunks` writes, decoded. */
+async function viaBytes(entries: PlsEntry[], prettyPrint: boolean): Promise<string> {
+  const chunks: Uint8Array[] = [];
+  // Copies: a chunk's buffer may be filled again once handed on.
+  for await (const c of plsByteChunks(entries, { lang: "en-US", prettyPrint })) chunks.push(Uint8Array.from(c));
+  return Buffer.concat(chunks).toString("utf8");
+}
+
+describe("PLS lexemes written as bytes (what writePls writes)", () => {
+  it.each([true, false])("= xmlbuilder2's serialisation on random entries (prettyPrint %s)", async (prettyPrint) => {
+    await fc.assert(
+      fc.asyncProperty(fc.array(fc.record({ word: text, phonemes: fc.array(text, { minLength: 1, maxLength: 3 }) }), { minLength: 1, maxLength: 6 }), async (entries) => {
+        expect(await viaBytes(entries.map((e) => ({ ...e, preferred: 0 })), prettyPrint)).toBe(viaXmlbuilder2(entries, "en-US", prettyPrint));
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it("= the text writer with preferred phonemes, examples and astral characters", async () => {
+    const astral = fc.constantFrom("\u{1d11e}", "\u{20000}", "x");
+    await fc.assert(
+      fc.asyncProperty(
+        fc.array(fc.record({ word: text, phonemes: fc.array(fc.tuple(text, astral).map(([a, b]) => a + b), { minLength: 1, maxLength: 3 }), examples: fc.array(text, { maxLength: 2 }), pick: fc.nat(2) }), { minLength: 1, maxLength: 6 }),
+        fc.boolean(),
+        async (raw, prettyPrint) => {
+          const entries = raw.map(({ pick, ...e }) => ({ ...e, preferred: pick % e.phonemes.length }));
+          expect(await viaBytes(entries, prettyPrint)).toBe(await plsToString(entries, { lang: "en-US", prettyPrint }));
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+
+  it("writes a lexeme longer than a chunk whole", async () => {
+    const entries = [{ word: "a&b".repeat(120_000), phonemes: ["ˈæ<"] }, { word: "b", phonemes: ["bi"] }];
+    expect(await viaBytes(entries, true)).toBe(await plsToString(entries, { lang: "en-US" }));
   });
 });
