@@ -18,7 +18,8 @@ import { PronReader } from "../src/lexicon/pron.js";
 import { readLexicon, writeRejects, type LexiconRow } from "../src/lexicon/read.js";
 import { countInputRecords, countWritten, reconcile } from "../src/lexicon/reconcile.js";
 import { renderIpa, symbolView } from "../src/lexicon/render.js";
-import { entryJsonRecord, entryPhonemes } from "../src/lexicon/runner.js";
+import { entryPhonemes } from "../src/lexicon/runner.js";
+import { putJsonRecord } from "../src/emit/jsonl-bytes.js";
 import { ByteChunks } from "../src/emit/bytes.js";
 import { StressHygiene, STRESS_REPORT } from "../src/lexicon/hygiene.js";
 import { reconcileStressReport } from "../src/lexicon/reconcile-stress.js";
@@ -196,7 +197,7 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
     for (const r of results) b.push(formatTsvEntry(r));
   })));
   const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), chunked((b) => {
-    for (const r of results) b.pushLine(entryJsonRecord(r));
+    for (const r of results) putJsonRecord(b, r, r.file, r.line);
   })));
   const pls = await time(async () => {
     const lexemes = new Map<string, PlsEntry & { phonemes: string[] }>();
