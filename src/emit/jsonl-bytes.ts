@@ -80,6 +80,12 @@ function putNumber(buf: Uint8Array, at: number, x: number): number {
   return putAscii(buf, at, Number.isInteger(x) && x >= 0 && x < 1e21 ? String(x) : JSON.stringify(x));
 }
 
+/** Copies buf[from … to) (written earlier in this record) to `at`; the position after. */
+function copyBytes(buf: Uint8Array, at: number, from: number, to: number): number {
+  for (let i = from; i < to; i++) buf[at++] = buf[i]!;
+  return at;
+}
+
 /** `["a","b"]` */
 function putStrings(buf: Uint8Array, at: number, list: readonly string[]): number {
   buf[at++] = 91;
@@ -148,13 +154,25 @@ export function putJsonRecord(out: ByteChunks, e: Record, sourceFile?: string, s
   at = putAscii(buf, at, first ? '"word":' : ',"word":');
   at = putJsonString(buf, at, e.word);
   at = putAscii(buf, at, ',"narrow":');
-  at = putJsonString(buf, at, e.narrow);
+  // The narrow form and the rules come back as the first variant, the last derivation form and the
+  // first variant's steps: their bytes are copied from where they were first written.
+  const narrow = e.narrow;
+  const narrowAt = at;
+  at = putJsonString(buf, at, narrow);
+  const narrowEnd = at;
   at = putAscii(buf, at, ',"broad":');
   at = putJsonString(buf, at, e.broad);
-  at = putAscii(buf, at, ',"variants":');
-  at = putStrings(buf, at, e.variants);
-  at = putAscii(buf, at, ',"rules":');
-  at = putStrings(buf, at, e.rules);
+  at = putAscii(buf, at, ',"variants":[');
+  const variants = e.variants;
+  for (let i = 0; i < variants.length; i++) {
+    if (i > 0) buf[at++] = 44;
+    at = variants[i] === narrow ? copyBytes(buf, at, narrowAt, narrowEnd) : putJsonString(buf, at, variants[i]!);
+  }
+  at = putAscii(buf, at, '],"rules":');
+  const rules = e.rules;
+  const rulesAt = at;
+  at = putStrings(buf, at, rules);
+  const rulesEnd = at;
   if (e.id !== undefined) {
     at = putAscii(buf, at, ',"id":');
     at = putJsonString(buf, at, e.id);
@@ -175,7 +193,8 @@ export function putJsonRecord(out: ByteChunks, e: Record, sourceFile?: string, s
       at = putAscii(buf, at, i > 0 ? ',{"step":' : '{"step":');
       at = putJsonString(buf, at, derivation[i]!.step);
       at = putAscii(buf, at, ',"form":');
-      at = putJsonString(buf, at, derivation[i]!.form);
+      const form = derivation[i]!.form;
+      at = form === narrow ? copyBytes(buf, at, narrowAt, narrowEnd) : putJsonString(buf, at, form);
       buf[at++] = 125;
     }
     buf[at++] = 93;
@@ -185,7 +204,7 @@ export function putJsonRecord(out: ByteChunks, e: Record, sourceFile?: string, s
     at = putAscii(buf, at, ',"variantSteps":[');
     for (let i = 0; i < vs.length; i++) {
       if (i > 0) buf[at++] = 44;
-      at = putStrings(buf, at, vs[i]!);
+      at = vs[i] === rules ? copyBytes(buf, at, rulesAt, rulesEnd) : putStrings(buf, at, vs[i]!);
     }
     buf[at++] = 93;
   }
