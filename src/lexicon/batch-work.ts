@@ -28,11 +28,19 @@ export interface Side {
   readonly ov?: Overrides;
 }
 
-/** A PLS lexeme as gathered: the word's phonemes in order of first appearance, and its first row. */
+/**
+ * A PLS lexeme as gathered: the word's phonemes in order of first appearance (one string while
+ * there is one, as most words have: a run keeps a lexeme per word, and fewer objects per lexeme
+ * make less for the garbage collector to copy), and the file and line of its first row.
+ */
 export interface Lexeme {
-  readonly phonemes: string[];
-  readonly source: { readonly file: string; readonly line: number; readonly column: number };
+  phonemes: string | string[];
+  readonly file: string;
+  readonly line: number;
 }
+
+/** A lexeme's phonemes as a list. */
+export const phonemesOf = (lx: Lexeme): string[] => (typeof lx.phonemes === "string" ? [lx.phonemes] : lx.phonemes);
 
 /** The counts a summary gives. */
 export interface SideCounts {
@@ -165,12 +173,27 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
       }
     }
   }
-  if (side.formats.has("pls")) addPhonemes(state.lexemes, r.word, plsPhonemes(r, side.pls), { file: r.file, line: r.line, column: 1 });
+  if (side.formats.has("pls")) {
+    // Most entries have one variant: their one phoneme is the narrow form (or the broad one).
+    const mine = side.pls === "broad" ? r.broad : r.variants.length === 1 && r.variants[0] === r.narrow ? r.narrow : plsPhonemes(r, side.pls);
+    addPhonemes(state.lexemes, r.word, mine, r.file, r.line);
+  }
 }
 
-/** Adds a row's phonemes to its word's lexeme (a new lexeme at the word's first row). */
-export function addPhonemes(lexemes: Map<string, Lexeme>, word: string, mine: string[], source: Lexeme["source"]): void {
+/** Adds a row's phonemes (one, or a list) to its word's lexeme (a new lexeme at the word's first row, `file` and `line`). */
+export function addPhonemes(lexemes: Map<string, Lexeme>, word: string, mine: string | string[], file: string, line: number): void {
   const lx = lexemes.get(word);
-  if (lx === undefined) lexemes.set(word, { phonemes: mine, source });
-  else for (const p of mine) if (!lx.phonemes.includes(p)) lx.phonemes.push(p);
+  if (lx === undefined) {
+    lexemes.set(word, { phonemes: typeof mine === "string" || mine.length !== 1 ? mine : mine[0]!, file, line });
+    return;
+  }
+  if (typeof mine === "string") addOne(lx, mine);
+  else for (const p of mine) addOne(lx, p);
+}
+
+function addOne(lx: Lexeme, p: string): void {
+  const have = lx.phonemes;
+  if (typeof have === "string") {
+    if (have !== p) lx.phonemes = [have, p];
+  } else if (!have.includes(p)) have.push(p);
 }

@@ -112,8 +112,8 @@ function packLexemes(lexemes: ReadonlyMap<string, Lexeme>, file: string): SideCh
   let k = 0;
   for (const [word, lx] of lexemes) {
     words.push(word);
-    phonemes.push(lx.phonemes.join("\0"));
-    lines[k++] = lx.source.line;
+    phonemes.push(typeof lx.phonemes === "string" ? lx.phonemes : lx.phonemes.join("\0"));
+    lines[k++] = lx.line;
   }
   return { words: words.join("\n"), phonemes: phonemes.join("\n"), lines, file };
 }
@@ -124,6 +124,7 @@ export function unpackLexemes(into: Map<string, Lexeme>, p: SideChunk["lexemes"]
   const words = p.words.split("\n");
   const phonemes = p.phonemes.split("\n");
   for (let k = 0; k < words.length; k++) {
-    addPhonemes(into, words[k]!, phonemes[k]!.split("\0"), { file: p.file, line: p.lines[k]!, column: 1 });
+    const ph = phonemes[k]!;
+    addPhonemes(into, words[k]!, ph.includes("\0") ? ph.split("\0") : ph, p.file, p.lines[k]!);
   }
 }

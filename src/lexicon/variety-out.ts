@@ -22,7 +22,7 @@ import { outputError, relativeFiles, summaryJson } from "./summary.js";
 import { STRESS_REPORT } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
 import type { PlsPhonemes } from "./ipa-options.js";
-import { emit, SideState, type Side } from "./batch-work.js";
+import { emit, phonemesOf, SideState, type Side } from "./batch-work.js";
 import type { SideChunk } from "./worker.js";
 import { unpackLexemes } from "./chunk-lane.js";
 
@@ -165,7 +165,7 @@ export class VarietyOutput {
     try {
       if (this.formats.has("pls")) {
         files["lexicon.pls"] = join(outDir, "lexicon.pls");
-        const plsEntries: PlsEntry[] = [...this.state.lexemes].map(([word, lx]) => ({ word, phonemes: lx.phonemes, preferred: 0, source: lx.source }));
+        const plsEntries: PlsEntry[] = [...this.state.lexemes].map(([word, lx]) => ({ word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } }));
         const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
         if (!res.ok) return failWith([res.error]);
       }
