@@ -67,6 +67,9 @@ export class VariantTracer {
     });
   }
 
+  /** Steps that leave every path as it was skip the merging and sorting of paths; false: never (for checks). */
+  shortcuts = true;
+
   trace(input: ArrayLike<number>, cap = 16): TracedOutputs {
     this.frozen ??= this.stepwise.variantBlocks.map((b, k) => (this.asFunction[k]! >= 0 ? (undefined as unknown as FrozenFst) : freeze(b.machine)));
     const blocks = this.stepwise.variantBlocks;
@@ -85,10 +88,20 @@ export class VariantTracer {
           continue;
         }
         // A function: each path has one output (or none); distinct inputs may meet in one output.
-        const next = new Map<string, Path>();
-        for (const p of live) {
+        const outs: (number[] | null)[] = new Array<number[] | null>(live.length);
+        let same = true;
+        for (let i = 0; i < live.length; i++) {
           const o: number[] = [];
-          if (!preferred.runBlock(fn, p.ids, o)) continue;
+          outs[i] = preferred.runBlock(fn, live[i]!.ids, o) ? o : null;
+          if (same && (outs[i] === null || !sameIds(o, live[i]!.ids))) same = false;
+        }
+        // Every path written back as it was: the same distinct paths, in the same key order.
+        if (same && this.shortcuts) continue;
+        const next = new Map<string, Path>();
+        for (let i = 0; i < live.length; i++) {
+          const o = outs[i];
+          if (o === null || o === undefined) continue;
+          const p = live[i]!;
           keep(next, o, sameIds(o, p.ids) ? p.steps : [...p.steps, step]);
         }
         live = sorted(next);
@@ -97,9 +110,13 @@ export class VariantTracer {
       // A branching step that writes every live path back unchanged: the paths (distinct, in key order) stay as they are.
       const screen = this.screen;
       if (screen !== null && blocks[k]!.to === step + 1 && live.every((p) => screen.identityAt(step, p.ids))) continue;
+      const results = live.map((p) => this.frozen![k]!.applyAll(p.ids, cap));
+      // Each path's one output is the path itself: the paths stay as they are (distinct, in key order, within the cap).
+      if (this.shortcuts && results.every((r, i) => !r.capped && r.outputs.length === 1 && sameIds(r.outputs[0]!, live[i]!.ids)) && live.length <= cap) continue;
       const next = new Map<string, Path>();
-      for (const p of live) {
-        const r = this.frozen[k]!.applyAll(p.ids, cap);
+      for (let i = 0; i < live.length; i++) {
+        const r = results[i]!;
+        const p = live[i]!;
         if (r.capped) capped = true;
         for (const o of r.outputs) keep(next, o, sameIds(o, p.ids) ? p.steps : [...p.steps, step]);
       }

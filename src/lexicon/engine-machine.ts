@@ -173,6 +173,7 @@ export class MachineEngine implements Engine {
     let traced: TracedOutputs | undefined;
     if (wantDerivation) {
       this.tracer ??= new VariantTracer(this.stepwise!, this.steps, this.screen);
+      this.tracer.shortcuts = this.skipUnchanged;
       traced = this.tracer.trace(ids, this.maxVariants);
     }
     let capped = false;
@@ -272,7 +273,10 @@ export class MachineEngine implements Engine {
   }
 
   private tracer: VariantTracer | undefined;
-  /** Blame skips a step's run on a word the step cannot change (skipTables); false: every step runs on every word (for checks). */
+  /**
+   * Blame skips a step's run on a word the step cannot change (skipTables), and the variant trace
+   * the merging of paths a step left as they were; false: neither (for checks).
+   */
   skipUnchanged = true;
   private skipTables: readonly (Uint8Array | null)[] | undefined;
 }
