@@ -184,21 +184,21 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
   const all = await time(() => encoded.map((e) => engine.transcribeIds(e.ids, e.bids, ALL_NEEDS)));
   const keys = new EntryKeys();
   const results: EntryResult[] = all.value.map((t, k) => ({ kind: "entry", file: rows[k]!.file, line: rows[k]!.line, word: rows[k]!.word, key: keys.next(rows[k]!.word, rows[k]!.id), input: { pron: rows[k]!.pron, tags: rows[k]!.tags }, ...t! }));
-  // Each writer as the build runs it: lines encoded into 1 MiB chunks (emit/bytes.ts), the file written whole.
-  const chunked = (fill: (b: ByteChunks) => void): Uint8Array[] => {
-    const parts: Uint8Array[] = [];
-    const b = new ByteChunks((c) => void parts.push(c));
-    fill(b);
+  // Each writer as the build runs it: lines put into 1 MiB chunks (emit/bytes.ts), each chunk
+  // written as soon as it is full and its buffer then filled again (emit/atomic.ts).
+  function* streamed(put: (b: ByteChunks, r: EntryResult) => void, head = ""): Generator<Uint8Array> {
+    const ready: Uint8Array[] = [];
+    const b = new ByteChunks((c) => void ready.push(c));
+    if (head !== "") b.push(head);
+    for (const r of results) {
+      put(b, r);
+      if (ready.length > 0) yield* ready.splice(0);
+    }
     b.flush();
-    return parts;
-  };
-  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), chunked((b) => {
-    b.push(tsvHeader());
-    for (const r of results) b.push(formatTsvEntry(r));
-  })));
-  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), chunked((b) => {
-    for (const r of results) putJsonRecord(b, r, r.file, r.line);
-  })));
+    yield* ready.splice(0);
+  }
+  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), streamed((b, r) => b.push(formatTsvEntry(r)), tsvHeader())));
+  const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), streamed((b, r) => void putJsonRecord(b, r, r.file, r.line))));
   const pls = await time(async () => {
     const lexemes = new Map<string, PlsEntry & { phonemes: string[] }>();
     for (const r of results) {
