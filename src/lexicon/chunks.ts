@@ -12,7 +12,6 @@
 import { Worker } from "node:worker_threads";
 import { fileURLToPath } from "node:url";
 import { existsSync } from "node:fs";
-import type { Readable } from "node:stream";
 import { namedProjectRoot } from "../grammar/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { idBook, openFile, type HeaderColumns } from "./read.js";
@@ -172,7 +171,7 @@ export class ChunkPool {
       result.diagnostics.push(diagnostic("error", "lexicon/unreadable", `Cannot read the lexicon: ${o.why}.`, { file: source, line: 1, column: 1 }));
       return result;
     }
-    const stream = o.stream as Readable;
+    const stream = o.chunks;
     let header: HeaderColumns | undefined;
     let headerFailed = false;
     const ids = idBook();
@@ -247,7 +246,7 @@ export class ChunkPool {
     /** An error of the run itself (a worker, a writer), not of reading the file. */
     let sending = false;
     try {
-      for await (const b of stream as AsyncIterable<Buffer>) {
+      for await (const b of stream) {
         carry = carry === undefined ? b : Buffer.concat([carry, b]);
         const want = next === 0 ? FIRST_CHUNK_BYTES : CHUNK_BYTES;
         if (carry.length < want) continue;
@@ -267,7 +266,7 @@ export class ChunkPool {
       result.diagnostics.push(diagnostic("error", "lexicon/unreadable", `Reading the lexicon failed after line ${line - 1}: ${(e as Error).message}.`, { file: source, line: Math.max(1, line - 1), column: 1 }));
       return result;
     } finally {
-      stream.destroy();
+      o.close();
     }
     while (queue.length > 0 && !headerFailed) await takeHead();
     if (header === undefined && !headerFailed) {

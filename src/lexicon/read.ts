@@ -1,8 +1,6 @@
 // The lexicon CSV reader: streams rows (word, IPA pronunciation with stress marks, optional id, pos,
 // tags, note) into symbol strings for the runner, and every row it cannot read into a positioned reject.
 
-import { createReadStream } from "node:fs";
-import type { Readable } from "node:stream";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
@@ -141,7 +139,7 @@ export const rejectDiagnostic = (r: RejectedRow): Diagnostic =>
   diagnostic("error", r.code, r.reason, { file: r.file, line: r.line, column: r.column });
 
 /** Text chunks of the source, decoded as UTF-8 (a multi-byte character split across chunks is kept whole). */
-async function* textChunks(source: NodeJS.ReadableStream): AsyncGenerator<string> {
+async function* textChunks(source: NodeJS.ReadableStream | AsyncIterable<Buffer>): AsyncGenerator<string> {
   const decoder = new StringDecoder("utf8");
   for await (const chunk of source as AsyncIterable<string | Buffer>) {
     const s = typeof chunk === "string" ? chunk : decoder.write(chunk);
@@ -186,20 +184,8 @@ export interface LineInfo {
   readonly fields: readonly Field[];
 }
 
-/** Opens a file for reading, or says why it cannot be read. */
-export async function openFile(path: string): Promise<{ stream: NodeJS.ReadableStream } | { why: string }> {
-  // Reads of 8 KiB (not the stream's 64 KiB): a batch's rows, strings and results then mostly die
-  // young, before the garbage collector's next pass (whole CMU to TSV: CPU 1.68 -> 1.39 s with
-  // 16 KiB, about 7% less again with 8 KiB; peak 116 -> 91 MiB; 4 KiB gained nothing more).
-  const s = createReadStream(path, { highWaterMark: 1 << 13 });
-  const opened = await new Promise<Error | undefined>((resolve) => {
-    s.once("open", () => resolve(undefined));
-    s.once("error", (e) => resolve(e));
-  });
-  if (opened === undefined) return { stream: s };
-  const code = (opened as NodeJS.ErrnoException).code;
-  return { why: code === "ENOENT" ? "there is no such file" : code === "EISDIR" ? "it is a folder" : opened.message };
-}
+import { openFile } from "./open-file.js";
+export { openFile, type OpenFile } from "./open-file.js";
 
 /**
  * Reads a lexicon CSV file (or stream) row by row, streaming: memory does not grow with the number
@@ -218,14 +204,16 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
    * synchronously, so a consumer of batches pays one asynchronous step per chunk, not per row.
    */
   async function* batches(): AsyncGenerator<LexiconItem[]> {
-    let stream: NodeJS.ReadableStream;
+    let stream: NodeJS.ReadableStream | AsyncIterable<Buffer>;
+    let close = (): void => undefined;
     if (typeof source === "string") {
       const o = await openFile(source);
       if ("why" in o) {
         diagnostics.push(diagnostic("error", "lexicon/unreadable", `Cannot read the lexicon: ${o.why}.`, { file, line: 1, column: 1 }));
         return;
       }
-      stream = o.stream;
+      stream = o.chunks;
+      close = o.close;
     } else {
       stream = source;
     }
@@ -265,7 +253,7 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
       return;
     } finally {
       stats.lines = splitter.lines;
-      if (typeof source === "string") (stream as unknown as Readable).destroy();
+      close();
     }
     if (taker.header === undefined) {
       diagnostics.push(diagnostic("error", "lexicon/no-header", "The lexicon has no header line (expected at least the columns word and pron).", { file, line: 1, column: 1 }));
