@@ -135,28 +135,15 @@ export class ByteChunks {
     let at = this.at;
     const n = text.length;
     for (let i = 0; i < n; i++) {
-      let c = text.charCodeAt(i);
+      const c = text.charCodeAt(i);
       if (c < 0x80) buf[at++] = c;
-      else if (c < 0x800) {
-        buf[at++] = 0xc0 | (c >> 6);
-        buf[at++] = 0x80 | (c & 0x3f);
-      } else {
-        if (c >= 0xd800 && c <= 0xdfff) {
-          const d = i + 1 < n ? text.charCodeAt(i + 1) : 0;
-          if (c <= 0xdbff && d >= 0xdc00 && d <= 0xdfff) {
-            const cp = 0x10000 + ((c - 0xd800) << 10) + (d - 0xdc00);
-            i++;
-            buf[at++] = 0xf0 | (cp >> 18);
-            buf[at++] = 0x80 | ((cp >> 12) & 0x3f);
-            buf[at++] = 0x80 | ((cp >> 6) & 0x3f);
-            buf[at++] = 0x80 | (cp & 0x3f);
-            continue;
-          }
-          c = 0xfffd;
+      else {
+        const next = putNonAscii(buf, at, text, i, c);
+        if (next < 0) at = putNonAscii(buf, at, "\ufffd", 0, 0xfffd);
+        else {
+          if (c <= 0xdbff && c >= 0xd800) i++;
+          at = next;
         }
-        buf[at++] = 0xe0 | (c >> 12);
-        buf[at++] = 0x80 | ((c >> 6) & 0x3f);
-        buf[at++] = 0x80 | (c & 0x3f);
       }
     }
     this.at = at;
@@ -174,4 +161,33 @@ export class ByteChunks {
     this.at = 0;
     this.emit(out);
   }
+}
+
+/**
+ * The UTF-8 bytes of the character starting at text[i] (`c`, its first code unit, at least 0x80)
+ * put at `at`: two or three bytes, four for a surrogate pair (the caller then steps over text[i + 1]:
+ * `c` is a high surrogate). Returns the position after, or -1 for a lone surrogate (nothing
+ * written: each writer has its own way with one). The writers that put text straight into chunks
+ * (ByteChunks.put, jsonl-bytes.ts, the PLS lexemes) share it.
+ */
+export function putNonAscii(buf: Uint8Array, at: number, text: string, i: number, c: number): number {
+  if (c < 0x800) {
+    buf[at] = 0xc0 | (c >> 6);
+    buf[at + 1] = 0x80 | (c & 0x3f);
+    return at + 2;
+  }
+  if (c >= 0xd800 && c <= 0xdfff) {
+    const d = i + 1 < text.length ? text.charCodeAt(i + 1) : 0;
+    if (c > 0xdbff || d < 0xdc00 || d > 0xdfff) return -1;
+    const cp = 0x10000 + ((c - 0xd800) << 10) + (d - 0xdc00);
+    buf[at] = 0xf0 | (cp >> 18);
+    buf[at + 1] = 0x80 | ((cp >> 12) & 0x3f);
+    buf[at + 2] = 0x80 | ((cp >> 6) & 0x3f);
+    buf[at + 3] = 0x80 | (cp & 0x3f);
+    return at + 4;
+  }
+  buf[at] = 0xe0 | (c >> 12);
+  buf[at + 1] = 0x80 | ((c >> 6) & 0x3f);
+  buf[at + 2] = 0x80 | (c & 0x3f);
+  return at + 3;
 }

@@ -7,7 +7,7 @@
 // \n \r \t, other controls below U+0020 as \u00xx, a lone surrogate as \udxxx (lower-case hex),
 // everything else as itself; and, as jsonRecord adds, U+2028 and U+2029 as \u2028 and \u2029.
 
-import type { ByteChunks } from "./bytes.js";
+import { putNonAscii, type ByteChunks } from "./bytes.js";
 import { jsonRecord, type JsonlEntry } from "./jsonl.js";
 
 const HEX = "0123456789abcdef";
@@ -45,24 +45,14 @@ export function putJsonString(buf: Uint8Array, at: number, s: string): number {
         buf[at++] = 92;
         buf[at++] = SHORT[c]!;
       } else at = unicodeEscape(buf, at, c);
-    } else if (c < 0x800) {
-      buf[at++] = 0xc0 | (c >> 6);
-      buf[at++] = 0x80 | (c & 0x3f);
-    } else if (c >= 0xd800 && c <= 0xdfff) {
-      const d = i + 1 < n ? s.charCodeAt(i + 1) : 0;
-      if (c <= 0xdbff && d >= 0xdc00 && d <= 0xdfff) {
-        const cp = 0x10000 + ((c - 0xd800) << 10) + (d - 0xdc00);
-        i++;
-        buf[at++] = 0xf0 | (cp >> 18);
-        buf[at++] = 0x80 | ((cp >> 12) & 0x3f);
-        buf[at++] = 0x80 | ((cp >> 6) & 0x3f);
-        buf[at++] = 0x80 | (cp & 0x3f);
-      } else at = unicodeEscape(buf, at, c);
     } else if (c === 0x2028 || c === 0x2029) at = unicodeEscape(buf, at, c);
     else {
-      buf[at++] = 0xe0 | (c >> 12);
-      buf[at++] = 0x80 | ((c >> 6) & 0x3f);
-      buf[at++] = 0x80 | (c & 0x3f);
+      const next = putNonAscii(buf, at, s, i, c);
+      if (next < 0) at = unicodeEscape(buf, at, c);
+      else {
+        if (c <= 0xdbff && c >= 0xd800) i++;
+        at = next;
+      }
     }
   }
   buf[at++] = 34;

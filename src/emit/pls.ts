@@ -5,7 +5,7 @@
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, SourcePos } from "../diagnostics.js";
 import { writeFileAtomic } from "./atomic.js";
-import { ByteChunks } from "./bytes.js";
+import { ByteChunks, putNonAscii } from "./bytes.js";
 
 /** PLS 1.0 §4.1: the namespace of every PLS element. */
 export const PLS_NAMESPACE = "http://www.w3.org/2005/01/pronunciation-lexicon";
@@ -329,32 +329,19 @@ function putAscii(buf: Uint8Array, at: number, text: string): number {
 function putText(buf: Uint8Array, at: number, s: string): number {
   const n = s.length;
   for (let i = 0; i < n; i++) {
-    let c = s.charCodeAt(i);
+    const c = s.charCodeAt(i);
     if (c < 0x80) {
       if (c === 38) at = putAscii(buf, at, "&amp;");
       else if (c === 60) at = putAscii(buf, at, "&lt;");
       else if (c === 62) at = putAscii(buf, at, "&gt;");
       else buf[at++] = c;
-    } else if (c < 0x800) {
-      buf[at++] = 0xc0 | (c >> 6);
-      buf[at++] = 0x80 | (c & 0x3f);
     } else {
-      if (c >= 0xd800 && c <= 0xdfff) {
-        const d = i + 1 < n ? s.charCodeAt(i + 1) : 0;
-        if (c <= 0xdbff && d >= 0xdc00 && d <= 0xdfff) {
-          const cp = 0x10000 + ((c - 0xd800) << 10) + (d - 0xdc00);
-          i++;
-          buf[at++] = 0xf0 | (cp >> 18);
-          buf[at++] = 0x80 | ((cp >> 12) & 0x3f);
-          buf[at++] = 0x80 | ((cp >> 6) & 0x3f);
-          buf[at++] = 0x80 | (cp & 0x3f);
-          continue;
-        }
-        c = 0xfffd;
+      const next = putNonAscii(buf, at, s, i, c);
+      if (next < 0) at = putNonAscii(buf, at, "\ufffd", 0, 0xfffd);
+      else {
+        if (c <= 0xdbff && c >= 0xd800) i++;
+        at = next;
       }
-      buf[at++] = 0xe0 | (c >> 12);
-      buf[at++] = 0x80 | ((c >> 6) & 0x3f);
-      buf[at++] = 0x80 | (c & 0x3f);
     }
   }
   return at;
