@@ -163,6 +163,12 @@ export class ByteChunks {
   }
 }
 
+/** ASCII text (tags, keys, punctuation) at `at`, one byte per character; the position after. */
+export function putAscii(buf: Uint8Array, at: number, text: string): number {
+  for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);
+  return at;
+}
+
 /**
  * The UTF-8 bytes of the character starting at text[i] (`c`, its first code unit, at least 0x80)
  * put at `at`: two or three bytes, four for a surrogate pair (the caller then steps over text[i + 1]:

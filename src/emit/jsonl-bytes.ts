@@ -7,7 +7,7 @@
 // \n \r \t, other controls below U+0020 as \u00xx, a lone surrogate as \udxxx (lower-case hex),
 // everything else as itself; and, as jsonRecord adds, U+2028 and U+2029 as \u2028 and \u2029.
 
-import { putNonAscii, type ByteChunks } from "./bytes.js";
+import { putAscii, putNonAscii, type ByteChunks } from "./bytes.js";
 import { jsonRecord, type JsonlEntry } from "./jsonl.js";
 
 const HEX = "0123456789abcdef";
@@ -56,12 +56,6 @@ export function putJsonString(buf: Uint8Array, at: number, s: string): number {
     }
   }
   buf[at++] = 34;
-  return at;
-}
-
-/** ASCII text (a key and its punctuation), at `at`; the position after. */
-function putAscii(buf: Uint8Array, at: number, text: string): number {
-  for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);
   return at;
 }
 

@@ -5,7 +5,7 @@
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, SourcePos } from "../diagnostics.js";
 import { writeFileAtomic } from "./atomic.js";
-import { ByteChunks, putNonAscii } from "./bytes.js";
+import { ByteChunks, putAscii, putNonAscii } from "./bytes.js";
 
 /** PLS 1.0 §4.1: the namespace of every PLS element. */
 export const PLS_NAMESPACE = "http://www.w3.org/2005/01/pronunciation-lexicon";
@@ -318,11 +318,6 @@ function putLexeme(out: ByteChunks, c: CheckedEntry, pretty: boolean): void {
   }
   at = putAscii(buf, at, pretty ? "\n  </lexeme>" : "</lexeme>");
   out.moveTo(at);
-}
-
-function putAscii(buf: Uint8Array, at: number, text: string): number {
-  for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);
-  return at;
 }
 
 /** Text content as `escapeText` escapes it, in UTF-8 (a lone surrogate, which checkEntry refuses, as U+FFFD). */

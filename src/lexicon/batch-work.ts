@@ -14,7 +14,7 @@ import type { Overrides } from "./overrides.js";
 import { entryJsonRecord, transcribeRow, type OutputFormat } from "./runner.js";
 import { StressHygiene } from "./hygiene.js";
 import type { StressContext } from "./lint-stress.js";
-import { plsPhonemes, type PlsPhonemes } from "./ipa-options.js";
+import { plsPhonemesCompact, type PlsPhonemes } from "./ipa-options.js";
 import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
 
 /** One variety as the batch work sees it. */
@@ -173,11 +173,7 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
       }
     }
   }
-  if (side.formats.has("pls")) {
-    // Most entries have one variant: their one phoneme is the narrow form (or the broad one).
-    const mine = side.pls === "broad" ? r.broad : r.variants.length === 1 && r.variants[0] === r.narrow ? r.narrow : plsPhonemes(r, side.pls);
-    addPhonemes(state.lexemes, r.word, mine, r.file, r.line);
-  }
+  if (side.formats.has("pls")) addPhonemes(state.lexemes, r.word, plsPhonemesCompact(r, side.pls), r.file, r.line);
 }
 
 /** Adds a row's phonemes (one, or a list) to its word's lexeme (a new lexeme at the word's first row, `file` and `line`). */

@@ -12,7 +12,15 @@ export type PlsPhonemes = (typeof PLS_PHONEMES)[number];
 
 /** An entry's PLS pronunciations: the preferred narrow form first, then the other variants; or the broad form alone. */
 export function plsPhonemes(r: EntryResult, form: PlsPhonemes = "narrow"): string[] {
-  return form === "broad" ? [r.broad] : [r.narrow, ...r.variants.filter((v) => v !== r.narrow)];
+  const p = plsPhonemesCompact(r, form);
+  return typeof p === "string" ? [p] : p;
+}
+
+/** `plsPhonemes`, as the string itself when there is one (most entries: the broad form, or one narrow variant). */
+export function plsPhonemesCompact(r: EntryResult, form: PlsPhonemes = "narrow"): string | string[] {
+  if (form === "broad") return r.broad;
+  const v = r.variants;
+  return v.length === 1 && v[0] === r.narrow ? r.narrow : [r.narrow, ...v.filter((x) => x !== r.narrow)];
 }
 
 /**

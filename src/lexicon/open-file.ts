@@ -42,7 +42,7 @@ export async function openFile(path: string): Promise<OpenFile | { why: string }
     closeSync(fd);
     return { why: "it is a folder" };
   }
-  if (kind === "other") return streamed(path, fd);
+  if (kind === "other") return streamed(fd);
   let open = true;
   const close = (): void => {
     if (open) closeSync(fd);
@@ -64,7 +64,7 @@ export async function openFile(path: string): Promise<OpenFile | { why: string }
 }
 
 /** A file that is not a regular one, read as a stream (from the descriptor already open). */
-async function streamed(path: string, fd: number): Promise<OpenFile | { why: string }> {
-  const s = createReadStream(path, { fd, highWaterMark: READ_BYTES });
+function streamed(fd: number): OpenFile {
+  const s = createReadStream("", { fd, highWaterMark: READ_BYTES });
   return { chunks: s as AsyncIterable<Buffer>, close: () => void s.destroy() };
 }

@@ -2,6 +2,7 @@
 // tags, note) into symbol strings for the runner, and every row it cannot read into a positioned reject.
 
 import { StringDecoder } from "node:string_decoder";
+import { openFile } from "./open-file.js";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
 import { tokenise } from "../inventory/index.js";
@@ -184,7 +185,6 @@ export interface LineInfo {
   readonly fields: readonly Field[];
 }
 
-import { openFile } from "./open-file.js";
 export { openFile, type OpenFile } from "./open-file.js";
 
 /**
