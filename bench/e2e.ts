@@ -7,6 +7,7 @@
 import { EntryKeys } from "../src/lexicon/keys.js";
 import { readFileSync, rmSync } from "node:fs";
 import { join } from "node:path";
+import { availableParallelism } from "node:os";
 import type { Grammar } from "../src/grammar/index.js";
 import type { Inventory } from "../src/inventory/types.js";
 import { writeFileAtomic } from "../src/emit/atomic.js";
@@ -41,8 +42,39 @@ export interface EndToEnd {
   readonly inhouseCpuMs: number | null;
   readonly transcribeCpuMs: number | null;
   readonly buildCpuMs: number | null;
+  /** A build's CPU by thread (medians; null off Linux): see `threadSplit`. */
+  readonly buildThreads: ThreadSplit | null;
   readonly stages: readonly Stage[];
   readonly failures: readonly string[];
+}
+
+/**
+ * Where a child's CPU went: its main thread, and every other thread (V8's garbage-collection and
+ * compiler threads, libuv's file-system threads, worker threads when there are any). `boundMs` is
+ * a lower bound on the child's wall time for the same CPU work on this machine: the main thread's
+ * work runs one step after another, and all of it cannot run faster than on every core at once, so
+ * no schedule of this work finishes before max(main-thread CPU, all CPU ÷ cores).
+ */
+export interface ThreadSplit {
+  readonly mainMs: number;
+  readonly otherMs: number;
+  readonly cores: number;
+  readonly boundMs: number;
+  /** Median over the pairs of runs of boundMs ÷ the in-house script's wall time. */
+  readonly boundRatio: number;
+}
+
+/** The thread split of `runs` (null when a run lacks the main thread's CPU), the bound taken against `base` run by run. */
+export function threadSplit(runs: readonly ChildRun[], base: readonly ChildRun[], cores: number): ThreadSplit | null {
+  if (!runs.every((r) => r.cpuMs !== null && r.mainCpuMs !== null)) return null;
+  const bound = (r: ChildRun): number => Math.max(r.mainCpuMs!, r.cpuMs! / cores);
+  return {
+    mainMs: median(runs.map((r) => r.mainCpuMs!)),
+    otherMs: median(runs.map((r) => r.cpuMs! - r.mainCpuMs!)),
+    cores,
+    boundMs: median(runs.map(bound)),
+    boundRatio: median(runs.map((r, k) => bound(r) / base[k]!.wallMs)),
+  };
 }
 
 /** One stage of a build: wall time and CPU time (user + system) of this process while it ran. */
@@ -108,6 +140,7 @@ export async function benchEndToEnd(o: {
     transcribeRatio: pairRatio(runs.transcribe), buildRatio: pairRatio(runs.build),
     transcribeCpuRatio: cpuRatio(runs.transcribe), buildCpuRatio: cpuRatio(runs.build),
     inhouseCpuMs: cpu(runs.inhouse), transcribeCpuMs: cpu(runs.transcribe), buildCpuMs: cpu(runs.build),
+    buildThreads: threadSplit(runs.build, runs.inhouse, availableParallelism()),
   };
   const cpuText = (ms: number | null, ratio: number | null): string => (ms === null ? "n/a" : `${fmtMs(ms)} (${ratio === null ? "n/a" : `${fmt(ratio, 2)}×`})`);
   say();
@@ -117,6 +150,17 @@ export async function benchEndToEnd(o: {
     ["strata transcribe → TSV (stdout), cached machines", fmtMs(res.transcribeMs), `${fmt(res.transcribeRatio, 2)}×`, cpuText(res.transcribeCpuMs, res.transcribeCpuRatio), fmtMB(res.transcribeRss)],
     ["strata build → TSV + JSON Lines + PLS, cached machines", fmtMs(res.buildMs), `${fmt(res.buildRatio, 2)}×`, cpuText(res.buildCpuMs, res.buildCpuRatio), fmtMB(res.buildRss)],
   ]));
+
+  const t = res.buildThreads;
+  if (t !== null) {
+    say();
+    say(`-- the three-format build's CPU by thread (median of ${o.reps}; /proc, to 10 ms), and what that leaves on ${t.cores} cores --`);
+    say(textTable(["", "CPU", "÷ in-house wall"], [
+      ["main thread: reading, the engine, the writers, the reconciliation", fmtMs(t.mainMs), `${fmt(t.mainMs / res.inhouseMs, 2)}×`],
+      ["other threads: V8's garbage collection and compiler, file system", fmtMs(t.otherMs), `${fmt(t.otherMs / res.inhouseMs, 2)}×`],
+      [`lower bound on the wall for this CPU work: max(main thread, all ÷ ${t.cores} cores)`, fmtMs(t.boundMs), `${fmt(t.boundRatio, 2)}× (pairs)`],
+    ]));
+  }
 
   const stages = await buildStages(o, join(o.work, "stages"), failures);
   say();

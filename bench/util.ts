@@ -76,6 +76,8 @@ export interface ChildRun {
    * unknown: on a shared machine steadier than the wall time, which counts the time others ran.
    */
   readonly cpuMs: number | null;
+  /** The main thread's share of `cpuMs` (Linux only, to 10 ms), null when unknown. */
+  readonly mainCpuMs: number | null;
 }
 
 /**
@@ -106,16 +108,18 @@ export function runChild(rssWrapper: string, script: string, args: readonly stri
       const wallMs = performance.now() - t0;
       let maxRssBytes: number | null = null;
       let cpuMs: number | null = null;
+      let mainCpuMs: number | null = null;
       try {
         // Node reports maxRSS in kilobytes (libuv uv_getrusage, ru_maxrss on Linux), CPU time in µs.
-        const [rss, cpu] = readFileSync(rssFile, "utf8").trim().split(" ");
+        const [rss, cpu, main] = readFileSync(rssFile, "utf8").trim().split(" ");
         maxRssBytes = Number(rss) * 1024;
         cpuMs = cpu !== undefined ? Number(cpu) / 1000 : null;
+        mainCpuMs = main !== undefined && main !== "-" ? Number(main) / 1000 : null;
       } catch {
         maxRssBytes = null;
       }
       rmSync(dir, { recursive: true, force: true });
-      resolve({ code, stdout, stderr, wallMs, maxRssBytes, cpuMs });
+      resolve({ code, stdout, stderr, wallMs, maxRssBytes, cpuMs, mainCpuMs });
     });
   });
 }
