@@ -22,10 +22,18 @@ export interface Block {
  * Composes `machines` left to right (Mohri, Pereira & Riley composition, then minimisation). When a
  * composition would pass `maxStates` states, the current block is closed and the next machine
  * starts a new one; applying the blocks in sequence gives the same relation as one machine.
- * `null` entries (identity steps) are skipped.
+ * `null` entries (identity steps) are skipped. `maxStates` 1 or less: nothing is composed, every
+ * machine is a block of its own (per-step blame names a block's changes by its one step; two
+ * one-state steps, such as two rules without context, would otherwise compose into one state).
  */
 export function composeCascade(machines: readonly (Fst | null)[], maxStates: number, budget: Budget = unbounded()): Block[] {
   const blocks: Block[] = [];
+  if (maxStates <= 1) {
+    machines.forEach((m, i) => {
+      if (m !== null) blocks.push({ machine: m, from: i, to: i + 1, states: m.numStates, arcs: m.numArcs() });
+    });
+    return blocks;
+  }
   // The accumulator stays an arc table between compositions (fst/table.ts); a machine only when a block closes.
   let acc: Fst | ArcTable | null = null;
   let from = 0;

@@ -25,12 +25,12 @@ export type { BatchResult, Block } from "./cascade.js";
 export { DEFAULT_LIMITS, type CompileLimits } from "./budget.js";
 
 /** Bumped whenever the compiler's output for a grammar or the stored form of its runners can change (invalidates every cache). */
-export const COMPILER_VERSION = "strata-compile-5";
+export const COMPILER_VERSION = "strata-compile-6";
 
 export interface CompileOptions {
   /** Folder for cached machines (e.g. "build/cache"); no caching when absent. */
   readonly cacheDir?: string;
-  /** Largest composed block, in states, before the cascade starts a new block (default 50 000). */
+  /** Largest composed block, in states, before the cascade starts a new block (default 50 000); 1: one block per step, nothing composed. */
   readonly maxStates?: number;
   /** Shorthand expansion (default: the grammar front end's `desugar`). */
   readonly desugar?: (rule: Rule) => Rule;

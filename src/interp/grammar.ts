@@ -33,8 +33,15 @@ export interface GrammarRun {
   readonly outputs: Sym[][];
   /** The preferred output (optional rules at their preferred setting at every site). */
   readonly preferred: Sym[];
-  /** Per output (same order as `outputs`): the steps that changed it, for regression blame. */
+  /**
+   * Per output (same order as `outputs`): the steps that changed it, for regression blame. Where
+   * two paths meet in one word after a step, the word keeps the steps of the path with fewer
+   * steps, then of the one whose steps come earlier in the grammar (compared step by step): the
+   * rule the compiled engine's variant trace follows (lexicon/derivation.ts).
+   */
   readonly variants: readonly Variant[];
+  /** The steps that changed the preferred word on its own path (a path met on the way does not replace them). */
+  readonly preferredChangedBy: readonly string[];
   /** Per step, in order: whether it changed any variant. */
   readonly trace: readonly { readonly step: string; readonly changed: boolean }[];
   /** True when some step produced more variants than `maxVariants` and some were dropped. */
@@ -48,7 +55,16 @@ export interface GrammarRun {
 interface Live {
   readonly word: Sym[];
   readonly changedBy: string[];
+  /** The indices (in the grammar) of the steps of `changedBy`, for choosing between paths that meet. */
+  readonly changedAt: number[];
   readonly preferred: boolean;
+}
+
+/** Which of two paths that meet in one word it keeps: fewer steps, then the earlier steps (negative: `a`). */
+function fewerSteps(a: readonly number[], b: readonly number[]): number {
+  if (a.length !== b.length) return a.length - b.length;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return a[i]! - b[i]!;
+  return 0;
 }
 
 /** A grammar resolved once for many words. */
@@ -115,11 +131,13 @@ export function prepareGrammar(grammar: Grammar, inv: Inventory, opts: GrammarOp
 export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory, word: Word, opts: GrammarOptions = {}): GrammarRun {
   const g = "steps" in grammar && "inv" in grammar ? grammar : prepareGrammar(grammar, inv, opts);
   const max = Math.max(1, opts.maxVariants ?? 16);
-  let live: Live[] = [{ word: [...word], changedBy: [], preferred: true }];
+  let live: Live[] = [{ word: [...word], changedBy: [], changedAt: [], preferred: true }];
+  const preferredChangedBy: string[] = [];
   const trace: { step: string; changed: boolean }[] = [];
   const lints: Lint[] = [];
   let capped = false;
-  for (const step of g.steps) {
+  for (let at = 0; at < g.steps.length; at++) {
+    const step = g.steps[at]!;
     const next = new Map<string, Live>();
     let changed = false;
     let preferredKey = "";
@@ -157,11 +175,20 @@ export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory,
         const key = wordKey(r.word);
         const didChange = key !== before;
         if (didChange) changed = true;
-        const entry: Live = { word: r.word, changedBy: didChange ? [...v.changedBy, step.name] : v.changedBy, preferred: r.preferred };
+        const entry: Live = didChange
+          ? { word: r.word, changedBy: [...v.changedBy, step.name], changedAt: [...v.changedAt, at], preferred: r.preferred }
+          : { word: r.word, changedBy: v.changedBy, changedAt: v.changedAt, preferred: r.preferred };
         const prior = next.get(key);
         if (prior === undefined) next.set(key, entry);
-        else if (entry.preferred && !prior.preferred) next.set(key, { ...prior, preferred: true });
-        if (r.preferred) preferredKey = key;
+        else {
+          const kept = fewerSteps(entry.changedAt, prior.changedAt) < 0 ? entry : prior;
+          const preferred = entry.preferred || prior.preferred;
+          if (kept !== prior || preferred !== prior.preferred) next.set(key, { ...kept, preferred });
+        }
+        if (r.preferred) {
+          preferredKey = key;
+          if (didChange) preferredChangedBy.push(step.name);
+        }
       }
       // Memory stays bounded (max variants × max outputs each could be millions of words): only
       // the preferred word and the `max` smallest keys can survive the cut below, so drop the rest now.
@@ -184,6 +211,7 @@ export function applyGrammar(grammar: Grammar | PreparedGrammar, inv: Inventory,
     outputs: live.map((v) => v.word),
     preferred: preferred.word,
     variants: live.map((v) => ({ word: v.word, changedBy: v.changedBy })),
+    preferredChangedBy,
     trace,
     capped,
     lints,

@@ -39,7 +39,8 @@ export class InterpreterEngine implements Engine {
     const narrow = ipa(run.preferred);
     const others = run.variants.filter((v) => wordKey(v.word) !== prefKey);
     const variants = [narrow, ...others.map((v) => ipa(v.word))];
-    const rules = preferred?.changedBy ?? [];
+    // The preferred variant's steps are its own path's (as the compiled engine's blame gives them).
+    const rules = preferred !== undefined ? [...run.preferredChangedBy] : [];
     return { narrow, broad: symsToIpa(broadRun.preferred, this.inventory, { syllables: this.syllables, joins: true }), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
   }
 
