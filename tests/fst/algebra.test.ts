@@ -10,7 +10,6 @@ import {
   compose,
   concat,
   determinise,
-  determiniseTransducer,
   freezeDeterministic,
   intersect,
   invert,
@@ -24,7 +23,7 @@ import {
   type Fst,
   type Label,
 } from "../../src/fst/index.js";
-import { allStrings, arbFst, arbSequential, key, language, outputsOf, relation, sameSet, transduce } from "./brute.js";
+import { allStrings, arbFst, arbSequential, determiniseWithin, key, language, outputsOf, relation, sameSet, transduce } from "./brute.js";
 
 const runs = { numRuns: 150 };
 const transducer = arbFst({ maxStates: 4, labels: 2, maxArcs: 9, epsilon: true, finalOutputs: true });
@@ -195,9 +194,14 @@ describe("ε-removal, determinisation, minimisation", () => {
 
   it("determiniseTransducer: sequential result with the same relation, or a true report", () => {
     const functional = fc.oneof(arbSequential(3, 2), arbSequential(3, 2).map(reverse), transducer);
+    let beyond = 0;
     fc.assert(
       fc.property(functional, (t) => {
-        const r = determiniseTransducer(t);
+        const r = determiniseWithin(t);
+        if (r === null) {
+          beyond++;
+          return;
+        }
         if (r.ok) {
           expect(isSequential(r.fst)).toBe(true);
           expect(sameSet(relation(r.fst, L, 10), relation(t, L, 10))).toBe(true);
@@ -214,6 +218,8 @@ describe("ε-removal, determinisation, minimisation", () => {
       }),
       runs,
     );
+    // Nearly every machine was decided within the limit.
+    expect(beyond).toBeLessThan(runs.numRuns / 10);
   });
 });
 
