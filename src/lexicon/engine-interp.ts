@@ -35,12 +35,11 @@ export class InterpreterEngine implements Engine {
     const broadRun = applyGrammar(this.broadOnly, this.inventory, word);
     const ipa = (w: Word): string => symsToIpa(w, this.inventory, this.ipaOptions);
     const prefKey = wordKey(run.preferred);
-    const preferred = run.variants.find((v) => wordKey(v.word) === prefKey);
     const narrow = ipa(run.preferred);
     const others = run.variants.filter((v) => wordKey(v.word) !== prefKey);
     const variants = [narrow, ...others.map((v) => ipa(v.word))];
     // The preferred variant's steps are its own path's (as the compiled engine's blame gives them).
-    const rules = preferred !== undefined ? [...run.preferredChangedBy] : [];
+    const rules = run.preferredChangedBy;
     return { narrow, broad: symsToIpa(broadRun.preferred, this.inventory, { syllables: this.syllables, joins: true }), variants, rules, derivation: this.derivation(word), variantSteps: [rules, ...others.map((v) => v.changedBy)], ...(run.capped ? { capped: true as const } : {}) };
   }
 
