@@ -260,6 +260,10 @@ export function lowerRule(sl: SymbolLowering, rule: Rule, opts: LowerRuleOptions
           continue;
         }
         o[x] = sl.idOf(low.applyChange(c, asg, alphabet.segments[x - FIRST_SEGMENT]!.bundle));
+        // The alphabet holds every bundle a step can write from the segments that reach it
+        // (alphabet.ts), so a changed segment of the step's domain is always there; outside the
+        // domain (segments no word brings to this step) a change may have no segment and is unused.
+        if (o[x]! < 0 && opts.domain[x] === 1) throw lowerError("compile/internal", `Rule '${rule.name}': a changed segment is missing from the alphabet.`, rule.span);
       }
       return o;
     });
