@@ -5,7 +5,7 @@ import fc from "fast-check";
 import { parse } from "csv-parse/sync";
 import { escapeTsvField, formatTsvEntry, tsvHeader, tsvLine, unescapeTsvField } from "../../src/emit/tsv.js";
 import { formatJsonLine } from "../../src/emit/jsonl.js";
-import { csvField, csvLine } from "../../src/emit/csv.js";
+import { csvField, csvLine, csvLineStringified } from "../../src/emit/csv.js";
 
 describe("TSV", () => {
   it("writes word, narrow and broad in that order under a header", () => {
@@ -77,5 +77,17 @@ describe("CSV", () => {
       }),
       { numRuns: 300 },
     );
+  });
+
+  it("writes every record as csv-stringify does, plain fields included (property)", () => {
+    // The characters that decide quoting (delimiter, quote, line breaks, '#', space, tab) made common.
+    const field = fc.array(fc.oneof(fc.constantFrom(",", '"', "\n", "\r", "#", " ", "\t", "a", "ˈ", ""), fc.string({ maxLength: 3 })), { maxLength: 5 }).map((a) => a.join(""));
+    fc.assert(
+      fc.property(fc.array(field, { maxLength: 6 }), (fields) => {
+        expect(csvLine(fields)).toBe(csvLineStringified(fields));
+      }),
+      { numRuns: 2000 },
+    );
+    for (const f of [[], [""], ["", ""], ["a b", "x#", "#x"], ["a ", "b"], ["\tb"], ["ʰ", "1", "note"]]) expect(csvLine(f)).toBe(csvLineStringified(f));
   });
 });
