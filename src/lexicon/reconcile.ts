@@ -6,7 +6,7 @@ import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import { countTag, eachLineBytes, readBackJsonl, readBackTsv } from "./readback.js";
+import { countTag, readBackJsonl, readBackTsv } from "./readback.js";
 
 /** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
 export interface InputRecords {
@@ -102,83 +102,24 @@ function splitStretch(seg: string, first: number, fn: (line: number, raw: string
  * Fields are split by RFC 4180 §2 quoting; the header's `word` column (any case) names the word.
  */
 export async function countInputRecords(path: string): Promise<InputRecords> {
-  const c = new RecordCount();
+  const found: number[] = [];
+  const words: string[] = [];
   let line = 1;
-  // On bytes: decoding the whole file to text cost more than the rest of the count. A line with no
-  // CR and no quote after the header is one record whose fields are split at commas, found on its
-  // bytes (a UTF-8 byte below 0x80 is always that ASCII character); any other line is decoded and
-  // split as text. `countInputRecordsText` is the whole-text reading, the reference in tests.
-  await eachLineBytes(path, (buf, start, end) => {
-    if (c.wordAt !== -2 && plainLine(buf, start, end)) {
-      const at = line++;
-      if (buf[start] === 35 /* # */) return;
-      let i = start;
-      while (i < end && (buf[i] === 32 || buf[i] === 9)) i++;
-      if (i === end) return;
-      c.found.push(at);
-      c.words.push(c.wordAt < 0 ? "" : wordOfBytes(buf, start, end, c.wordAt));
-      return;
-    }
-    const raw = buf.toString("utf8", start, end);
-    line += splitStretch(line === 1 && raw.charCodeAt(0) === 0xfeff ? raw.slice(1) : raw, line, c.record);
-  });
-  return c.result();
-}
-
-/** The records of a count as `splitStretch` gives them: comments and blank records skipped, the first other one the header. */
-class RecordCount {
-  readonly found: number[] = [];
-  readonly words: string[] = [];
-  /** The header's `word` column (-1: none), -2 before the header. */
-  wordAt = -2;
-  readonly record = (at: number, raw: string): void => {
+  let wordAt = -2;
+  const record = (at: number, raw: string): void => {
     if (raw.charCodeAt(0) === 35 /* # */ || /^[ \t]*$/.test(raw)) return;
-    if (this.wordAt === -2) {
-      this.wordAt = (csvRecords(raw)[0] ?? []).findIndex((f) => f.trim().toLowerCase() === "word");
+    if (wordAt === -2) {
+      wordAt = (csvRecords(raw)[0] ?? []).findIndex((f) => f.trim().toLowerCase() === "word");
       return;
     }
-    this.found.push(at);
-    this.words.push(this.wordAt < 0 ? "" : fieldOf(raw, this.wordAt).trim().normalize("NFC"));
+    found.push(at);
+    words.push(wordAt < 0 ? "" : fieldOf(raw, wordAt).trim().normalize("NFC"));
   };
-  result(): InputRecords {
-    return { count: this.found.length, lines: this.found, words: this.words };
-  }
-}
-
-/** Whether bytes `start` … `end` hold neither a CR nor a double quote. */
-function plainLine(buf: Buffer, start: number, end: number): boolean {
-  for (let i = start; i < end; i++) {
-    const c = buf[i]!;
-    if (c === 13 || c === 34) return false;
-  }
-  return true;
-}
-
-/** Field `at` of a line without quotes, as `fieldOf` then trimmed and NFC ("" when the line has fewer fields). */
-function wordOfBytes(buf: Buffer, start: number, end: number, at: number): string {
-  let from = start;
-  for (let k = 0; k < at; k++) {
-    const comma = buf.indexOf(44, from);
-    if (comma < 0 || comma >= end) return "";
-    from = comma + 1;
-  }
-  let to = buf.indexOf(44, from);
-  if (to < 0 || to > end) to = end;
-  let ascii = true;
-  for (let i = from; i < to; i++) if (buf[i]! >= 0x80) { ascii = false; break; }
-  // ASCII text is its own NFC (Unicode UAX #15: every ASCII character is a starter with no decomposition).
-  return ascii ? buf.toString("latin1", from, to).trim() : buf.toString("utf8", from, to).trim().normalize("NFC");
-}
-
-/** `countInputRecords` reading the file as one text (UTF-8, split at LF): the reference its byte reading is checked against. */
-export async function countInputRecordsText(path: string): Promise<InputRecords> {
-  const c = new RecordCount();
-  let line = 1;
   await eachLine(path, (raw) => {
     const text = line === 1 && raw.charCodeAt(0) === 0xfeff ? raw.slice(1) : raw;
-    line += splitStretch(text, line, c.record);
+    line += splitStretch(text, line, record);
   });
-  return c.result();
+  return { count: found.length, lines: found, words };
 }
 
 /**

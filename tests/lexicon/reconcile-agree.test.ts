@@ -8,7 +8,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { countInputRecords, countInputRecordsText } from "../../src/lexicon/reconcile.js";
+import { countInputRecords } from "../../src/lexicon/reconcile.js";
 import { splitRecords } from "../../src/lexicon/records.js";
 import { useSeed } from "../fuzz/seed.js";
 
@@ -34,35 +34,6 @@ describe("record counters agree", () => {
       }),
       { numRuns: 400 },
     );
-  });
-
-  it("the count read on bytes gives what the whole-text reading gives: lines and words (property)", async () => {
-    // NFC cases from Unicode UAX #15: e + U+0301 composes to U+00E9; U+212B ANGSTROM SIGN becomes U+00C5.
-    const wordy = fc.constantFrom("word,pron\n", "pron,word\n", "e\u0301", "\u212b", "ˈ", " x ", "\u00a0y", ",", "\n", "\r", '"', "#", "\ufeff", "z");
-    let k = 0;
-    await fc.assert(
-      fc.asyncProperty(fc.array(wordy, { maxLength: 40 }), fc.uint8Array({ maxLength: 6 }), fc.nat(40), async (ps, junk, at) => {
-        // Bytes that are not UTF-8 too (both readings decode them with U+FFFD in the same places).
-        const bytes = Buffer.from(ps.join(""));
-        const cut = Math.min(at, bytes.length);
-        const p = join(dir, `b${k++}.csv`);
-        writeFileSync(p, Buffer.concat([bytes.subarray(0, cut), junk, bytes.subarray(cut)]));
-        expect(await countInputRecords(p)).toEqual(await countInputRecordsText(p));
-      }),
-      { numRuns: 400 },
-    );
-  });
-
-  it("reads a file of several read buffers with characters across their edges as the whole-text reading does", async () => {
-    const p = join(dir, "big.csv");
-    // CR LF line ends, and lone CRs that the byte reading leaves to the text reading.
-    const lines = ["word,pron"];
-    for (let i = 0; lines.length < 70_000; i++) lines.push(`wörd${i}e\u0301,ˈp ɹ ɒ n${i % 3 === 0 ? "\r" : ""}${i % 5 === 1 ? "\r# a comment after a lone CR" : ""}`);
-    writeFileSync(p, lines.join("\n"));
-    const got = await countInputRecords(p);
-    expect(got).toEqual(await countInputRecordsText(p));
-    expect(got.count).toBe(69_999);
-    expect(got.words[0]).toBe("wörd0\u00e9");
   });
 
   it("found by the property above: a text that starts with an empty line (and has no CR) splits into that blank line and the rest", () => {
