@@ -9,32 +9,26 @@ import { stringify, type Options } from "csv-stringify/sync";
  * field that starts with `#` (an unquoted `#` at the start of a line marks a comment line for our
  * reader), and one with a space or tab at either end (so no reader trims it). Empty fields stay empty.
  */
-const OPTIONS: Options = {
-  record_delimiter: "\n",
-  quoted_match: [/^#/, /^[ \t]|[ \t]$/, /\r/],
-};
+const QUOTED_MATCH = [/^#/, /^[ \t]|[ \t]$/, /\r/];
+const OPTIONS: Options = { record_delimiter: "\n", quoted_match: QUOTED_MATCH };
 
 /** One field as it appears in a record. */
 export function csvField(value: string): string {
   return csvLine([value]).slice(0, -1);
 }
 
-/**
- * A field csv-stringify writes with quotes under OPTIONS: one holding a delimiter, a quote or a
- * line break, or matching a `quoted_match` pattern. Every other field is written as it is.
- */
-const NEEDS_QUOTES = /[,"\n\r]|^[#\t ]|[\t ]$/;
+/** Whether csv-stringify quotes `field` under OPTIONS: it holds the delimiter, a quote or LF, or matches QUOTED_MATCH. */
+const needsQuotes = (field: string): boolean => /[,"\n]/.test(field) || QUOTED_MATCH.some((p) => p.test(field));
 
 /** One record, terminated by LF. */
 export function csvLine(fields: readonly string[]): string {
   // A record of plain fields (most are) is its fields joined: csv-stringify's own output for it,
-  // without its per-call setup (tests/emit/csv.test.ts compares the two on random records).
-  if (!fields.some((f) => NEEDS_QUOTES.test(f))) return fields.join(",") + "\n";
-  // csv-stringify writes a lone empty field as an empty line, exactly as wanted.
-  return stringify([fields as string[]], OPTIONS);
+  // without its per-call setup (tests/emit/lines.test.ts compares the two on random records).
+  return fields.some(needsQuotes) ? csvLineStringified(fields) : fields.join(",") + "\n";
 }
 
 /** `csvLine` without its shortcut: csv-stringify's output for every record (for tests). */
 export function csvLineStringified(fields: readonly string[]): string {
+  // csv-stringify writes a lone empty field as an empty line, exactly as wanted.
   return stringify([fields as string[]], OPTIONS);
 }
