@@ -226,26 +226,27 @@ export function readLexicon(source: string | NodeJS.ReadableStream, opts: ReadOp
       return item;
     };
 
-    try {
-      for await (const chunk of textChunks(stream)) {
-        const recs = splitter.push(chunk);
-        stats.lines = splitter.lines;
-        if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
-        const items: LexiconItem[] = [];
-        for (const rec of recs) {
-          const item = take(rec);
-          if (taker.headerFailed) break;
-          if (item !== undefined) items.push(count(item));
-        }
-        if (items.length > 0) yield items;
-        if (taker.headerFailed) return;
-      }
+    // A chunk's records become its items in this function, so that the generator, while it waits
+    // at a yield, holds the items alone and not the records as well.
+    const itemsOf = (recs: readonly SourceRecord[]): LexiconItem[] => {
+      if (recs.length > stats.maxInFlight) stats.maxInFlight = recs.length;
       const items: LexiconItem[] = [];
-      for (const rec of splitter.end()) {
+      for (const rec of recs) {
         const item = take(rec);
         if (taker.headerFailed) break;
         if (item !== undefined) items.push(count(item));
       }
+      return items;
+    };
+
+    try {
+      for await (const chunk of textChunks(stream)) {
+        const items = itemsOf(splitter.push(chunk));
+        stats.lines = splitter.lines;
+        if (items.length > 0) yield items;
+        if (taker.headerFailed) return;
+      }
+      const items = itemsOf(splitter.end());
       if (items.length > 0) yield items;
       if (taker.headerFailed) return;
     } catch (e) {

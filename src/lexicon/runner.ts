@@ -169,7 +169,7 @@ export async function runLexicon(
 }
 
 /**
- * Runs a lexicon file through several varieties at once, reading it once: each batch of rows is
+ * Runs a lexicon file through several varieties at once, reading it once: each row of a batch is
  * handed to every variety in turn (each writes its own folder as `runLexicon` does), and an entry a
  * variety transcribes exactly as the one before it reuses that one's formatted lines. The
  * varieties' grammars must read pronunciations with `inventory` (the same segments and
