@@ -84,6 +84,11 @@ interface SharedLines {
   readonly jsonl: Uint8Array;
 }
 
+/** The row's lines of the variety before, while the row goes through the varieties in turn. */
+interface SharedSlot {
+  lines: SharedLines | undefined;
+}
+
 /** Two entries of one row (same source row, hence same key, word, line and input) with the same transcription. */
 function sameTranscription(a: EntryResult, b: EntryResult): boolean {
   return a.narrow === b.narrow && a.broad === b.broad && a.capped === b.capped && a.ambiguous === b.ambiguous &&
@@ -123,11 +128,11 @@ export class BatchWork {
    */
   take(batch: readonly LexiconItem[], keys: readonly string[], states: readonly SideState[]): void {
     const { sides, snapAt, plans, leader } = this;
-    const shared: (SharedLines | undefined)[] | undefined = sides.length > 1 ? [undefined] : undefined;
+    const shared: SharedSlot | undefined = sides.length > 1 ? { lines: undefined } : undefined;
     for (let i = 0; i < batch.length; i++) {
       const item = batch[i]!;
-      if (shared !== undefined) shared[0] = undefined;
-      const snaps: WalkSnapshot[] = [];
+      if (shared !== undefined) shared.lines = undefined;
+      const snaps: WalkSnapshot[] | undefined = snapAt.length > 0 ? [] : undefined;
       for (let v = 0; v < sides.length; v++) {
         const side = sides[v]!;
         const state = states[v]!;
@@ -138,10 +143,10 @@ export class BatchWork {
         if (side.ov?.replaced(item, keys[i]!) === true) continue;
         const plan = plans[v];
         const share: WalkShare | undefined =
-          snapAt.length === 0 ? undefined
+          snaps === undefined ? undefined
           : v === 0 ? { snapAt, give: (s) => void snaps.push(s) }
           : plan !== undefined ? { leader: leader!, translate: plan.translate, ...resumeAt(snaps, plan.step) } : undefined;
-        emit(side, state, transcribeRow(side.engine, item, keys[i]!, side.needs, share), shared, 0, item);
+        emit(side, state, transcribeRow(side.engine, item, keys[i]!, side.needs, share), shared, item);
       }
     }
   }
@@ -153,8 +158,8 @@ function resumeAt(snaps: readonly WalkSnapshot[], step: number): { resume?: Walk
   return s !== undefined ? { resume: s } : {};
 }
 
-/** Writes one entry or reject; `shared[at]`, when given, holds (and receives) the row's lines of the variety before. */
-export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow, shared?: (SharedLines | undefined)[], at = 0, row?: LexiconRow): void {
+/** Writes one entry or reject; `shared`, when given, holds (and receives) the row's lines of the variety before. */
+export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow, shared?: SharedSlot, row?: LexiconRow): void {
   if (r.kind === "entry" && row !== undefined) state.hygiene.observe(row, r.key);
   if (r.kind === "reject") {
     state.rejects.push(r);
@@ -168,7 +173,7 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
   c.variantsTotal += r.variants.length;
   for (const step of r.rules) state.changed.set(step, (state.changed.get(step) ?? 0) + 1);
   if (state.tsv !== undefined || state.jsonl !== undefined) {
-    const before = shared?.[at];
+    const before = shared?.lines;
     if (before !== undefined && sameTranscription(before.entry, r)) {
       state.tsv?.push(before.tsv);
       state.jsonl?.pushBytes(before.jsonl);
@@ -182,7 +187,7 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
         // Lines of a variety that did not write a format are no use to the next one.
         if (shared !== undefined && state.tsv !== undefined) {
           const jsonl = start >= 0 ? j.target.slice(start, j.position) : utf8Bytes(entryJsonRecord(r, file) + "\n");
-          shared[at] = { entry: r, tsv, jsonl };
+          shared.lines = { entry: r, tsv, jsonl };
         }
       }
     }

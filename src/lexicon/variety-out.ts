@@ -122,7 +122,7 @@ export class VarietyOutput {
 
   /** Every row read has been taken: the override rows (and their rejects) after the lexicon's own entries. */
   finishRows(): void {
-    if (this.ov !== undefined) for (const t of this.ov.tail()) emit(this.side, this.state, t.kind === "row" ? transcribeRow(this.run.engine, t.row, t.key) : t, undefined, 0, t.kind === "row" ? t.row : undefined);
+    if (this.ov !== undefined) for (const t of this.ov.tail()) emit(this.side, this.state, t.kind === "row" ? transcribeRow(this.run.engine, t.row, t.key) : t, undefined, t.kind === "row" ? t.row : undefined);
   }
 
   /** Fails the file writers (their temporary files go) and removes the staging folder. */
