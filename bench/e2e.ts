@@ -24,7 +24,7 @@ import { putJsonRecord } from "../src/emit/jsonl-bytes.js";
 import { ByteChunks } from "../src/emit/bytes.js";
 import { StressHygiene, STRESS_REPORT } from "../src/lexicon/hygiene.js";
 import { reconcileStressReport } from "../src/lexicon/reconcile-stress.js";
-import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
+import { fmt, fmtMB, fmtMs, median, runChild, strataCli, textTable, type ChildRun } from "./util.js";
 
 export interface EndToEnd {
   readonly inhouseMs: number;
@@ -97,7 +97,7 @@ export async function benchEndToEnd(o: {
   const failures: string[] = [];
   const rssWrapper = join(o.root, "dist", "bench", "rss.js");
   const inhouse = join(o.root, "dist", "bench", "inhouse.js");
-  const cli = join(o.root, "dist", "src", "cli", "main.js");
+  const cli = strataCli(o.root);
   const outRoot = join(o.work, "e2e-out");
   const inhouseOut = join(o.work, "inhouse.tsv");
   const transcribeOut = join(o.work, "transcribe.tsv");

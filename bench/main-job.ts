@@ -19,7 +19,7 @@ import { packArrays, packSymbols, packageRootFrom, readCmuWords, writeCmuFolder,
 import { regexCascade } from "./regex-cascade.js";
 import { SUBSET_RULES, prosodyGrammar, subsetGrammar } from "./subset.js";
 import { randomDfa, walk } from "./table-walk.js";
-import { fmt, fmtMB, fmtMs, fmtRate, median, runChild, sampleIndices, textTable, timeRepeated, type ChildRun } from "./util.js";
+import { fmt, fmtMB, fmtMs, fmtRate, median, runChild, sampleIndices, strataCli, textTable, timeRepeated, type ChildRun } from "./util.js";
 import { writePerformanceSection } from "./readme.js";
 import { benchEndToEnd } from "./e2e.js";
 import { benchFourVarieties, FOUR } from "./varieties.js";
@@ -317,7 +317,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   });
 
   // --- End to end: strata build, and the I/O floor ---------------------------------------------
-  const cli = join(root, "dist", "src", "cli", "main.js");
+  const cli = strataCli(root);
   const outRoot = join(work, "out");
   const builds: ChildRun[] = [];
   let coldBuild: ChildRun | null = null;

@@ -8,7 +8,7 @@ import { cpSync, existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } fr
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { packageRootFrom, writeCmuFolder } from "./cmu.js";
-import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
+import { fmt, fmtMB, fmtMs, median, runChild, strataCli, textTable, type ChildRun } from "./util.js";
 
 const VARIETIES = ["general", "careful"];
 const REPS = 3;
@@ -30,7 +30,7 @@ export async function benchRegress(): Promise<{ ok: boolean }> {
   const root = packageRootFrom(import.meta.url);
   const distBench = dirname(fileURLToPath(import.meta.url));
   const rssWrapper = join(distBench, "rss.js");
-  const cli = join(root, "dist", "src", "cli", "main.js");
+  const cli = strataCli(root);
   const work = join(root, "build", "bench", "regress");
   const say = (s = "") => console.log(s);
   const failures: string[] = [];

@@ -157,3 +157,6 @@ export function textTable(head: readonly string[], rows: readonly (readonly stri
     r.map((c, i) => pad(c, w[i]!, i === 0)).join("  ").trimEnd();
   return [line(head), w.map((n) => "-".repeat(n)).join("  "), ...rows.map(line)].join("\n");
 }
+
+/** The command line as users run it: the bundle the `strata` bin points at (scripts/bundle.mjs). */
+export const strataCli = (root: string): string => join(root, "dist", "bun", "main.js");

@@ -7,7 +7,7 @@
 
 import { copyFileSync, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { fmt, fmtMB, fmtMs, median, runChild, textTable, type ChildRun } from "./util.js";
+import { fmt, fmtMB, fmtMs, median, runChild, strataCli, textTable, type ChildRun } from "./util.js";
 
 export const FOUR = ["general", "careful", "no-nasal-flap", "careful-flap"] as const;
 
@@ -80,7 +80,7 @@ export async function benchFourVarieties(o: { root: string; csv: string; cacheDi
   const failures: string[] = [];
   const dir = writeFourVarieties(o.root, o.csv);
   const rssWrapper = join(o.root, "dist", "bench", "rss.js");
-  const cli = join(o.root, "dist", "src", "cli", "main.js");
+  const cli = strataCli(o.root);
   const out1 = join(o.work, "four-out-1");
   const out4 = join(o.work, "four-out-4");
   const args = (out: string, one: boolean): string[] => ["build", dir, "--out", out, "--cache-dir", o.cacheDir, "--quiet", ...(one ? ["-d", "general"] : [])];

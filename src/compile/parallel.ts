@@ -7,6 +7,7 @@
 
 import { existsSync } from "node:fs";
 import { availableParallelism, loadavg } from "node:os";
+import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { MessageChannel, Worker, receiveMessageOnPort } from "node:worker_threads";
 import { deserialise, serialise, type Fst } from "../fst/index.js";
@@ -29,11 +30,14 @@ export type CascadeReply =
 /** Below this many arcs over the step machines the worker's start (≈ 50 ms) costs more than it saves. */
 const MIN_ARCS = 5_000;
 
-/** The compiled worker script beside this file, or undefined when running from TypeScript sources. */
+/**
+ * The compiled worker script in this file's folder (dist/src/compile, or the bundle's dist/bun), or
+ * undefined when running from TypeScript sources.
+ */
 function script(): string | undefined {
   const here = fileURLToPath(import.meta.url);
   if (!here.endsWith(".js")) return undefined;
-  const w = here.replace(/parallel\.js$/, "compose-worker.js");
+  const w = join(dirname(here), "compose-worker.js");
   return existsSync(w) ? w : undefined;
 }
 

@@ -53,12 +53,17 @@ const sha = (text: string): string => createHash("sha256").update(text).digest("
 const fileSha = (p: string): string => (existsSync(p) ? sha(readFileSync(p, "utf8")) : "");
 
 let codeHash: string | undefined;
-/** Hash of the compiled or source files of src/grammar and src/inventory (this module's siblings). */
+/**
+ * Hash of the code that reads grammars: the compiled or source files of src/grammar and
+ * src/inventory (this module's siblings), or, in the bundle (scripts/bundle.mjs: this module is in
+ * one of dist/bun's files), every file of the bundle.
+ */
 function frontEndCode(): string {
   if (codeHash !== undefined) return codeHash;
   const h = createHash("sha256");
   const here = path.dirname(fileURLToPath(import.meta.url));
-  for (const dir of [here, path.join(here, "..", "inventory")]) {
+  const dirs = path.basename(here) === "grammar" ? [here, path.join(here, "..", "inventory")] : [here];
+  for (const dir of dirs) {
     for (const f of readdirSync(dir).filter((n) => /\.(js|ts)$/.test(n)).sort()) {
       h.update(f).update(readFileSync(path.join(dir, f)));
     }

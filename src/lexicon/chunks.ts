@@ -10,6 +10,7 @@
 // TypeScript test runner the runner stays on one thread.
 
 import { Worker } from "node:worker_threads";
+import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { existsSync } from "node:fs";
 import { namedProjectRoot } from "../grammar/index.js";
@@ -83,11 +84,14 @@ export class ChunkPool {
     return this.lanes.length;
   }
 
-  /** The compiled worker script beside this file, or undefined when running from TypeScript sources. */
+  /**
+   * The compiled worker script in this file's folder (dist/src/lexicon, or the bundle's dist/bun),
+   * or undefined when running from TypeScript sources.
+   */
   static script(): string | undefined {
     const here = fileURLToPath(import.meta.url);
     if (!here.endsWith(".js")) return undefined;
-    const w = here.replace(/chunks\.js$/, "worker.js");
+    const w = join(dirname(here), "worker.js");
     return existsSync(w) ? w : undefined;
   }
 

@@ -189,10 +189,14 @@ describe("the process: broken pipes, half documents, exit codes (compiled CLI)",
     const out = execFileSync("npm", ["pack", "--dry-run", "--json", "--ignore-scripts"], { cwd: ROOT, encoding: "utf8", stdio: ["ignore", "pipe", "ignore"] });
     const files = (JSON.parse(out) as { files: { path: string }[] }[])[0]!.files.map((f) => f.path);
     expect(files).toContain("dist/src/cli/main.js");
+    // The bin is the bundle (scripts/bundle.mjs), with its worker scripts beside it.
+    const bin = (JSON.parse(readFileSync(join(ROOT, "package.json"), "utf8")) as { bin: { strata: string } }).bin.strata;
+    expect(bin).toBe("dist/bun/main.js");
+    for (const f of [bin, "dist/bun/worker.js", "dist/bun/compose-worker.js"]) expect(files).toContain(f);
     expect(files).toContain("lexicons/en-us/grammar.strata");
     expect(files).toContain("lexicons/demo/varieties.json");
     expect(files).toContain("lexicons/.strata-root"); // the project root of the shipped grammars (varieties across folders)
-    expect(files.filter((f) => /^(tests|bench|src|dist\/bench)\//.test(f) || f.endsWith(".ts") || f.endsWith(".map"))).toEqual([]);
+    expect(files.filter((f) => /^(tests|bench|src|scripts|dist\/bench)\//.test(f) || f.endsWith(".ts") || f.endsWith(".map"))).toEqual([]);
   });
 
   it("the compiled compiler composes the variants cascade on a worker thread and caches the same machines as on one thread", () => {
