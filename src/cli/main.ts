@@ -2,6 +2,7 @@
 // The `strata` command line: a thin commander layer; each command lives in its own file under cli/,
 // the program around them (version, errors, exit codes) in program.ts.
 
+import "./v8-settings.js"; // first: V8 settings before the command runs
 import type { Command } from "commander";
 import { createProgram, runProgram } from "./program.js";
 
