@@ -16,6 +16,7 @@ import { StressHygiene } from "./hygiene.js";
 import type { StressContext } from "./lint-stress.js";
 import { plsPhonemesCompact, type PlsPhonemes } from "./ipa-options.js";
 import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
+import { LexemeBook, WordIds } from "./lexemes.js";
 
 /** One variety as the batch work sees it. */
 export interface Side {
@@ -27,20 +28,6 @@ export interface Side {
   /** The variety's overrides (main thread only): rows of their words are left out. */
   readonly ov?: Overrides;
 }
-
-/**
- * A PLS lexeme as gathered: the word's phonemes in order of first appearance (one string while
- * there is one, as most words have: a run keeps a lexeme per word, and fewer objects per lexeme
- * make less for the garbage collector to copy), and the file and line of its first row.
- */
-export interface Lexeme {
-  phonemes: string | string[];
-  readonly file: string;
-  readonly line: number;
-}
-
-/** A lexeme's phonemes as a list. */
-export const phonemesOf = (lx: Lexeme): string[] => (typeof lx.phonemes === "string" ? [lx.phonemes] : lx.phonemes);
 
 /** The counts a summary gives. */
 export interface SideCounts {
@@ -56,7 +43,7 @@ export const noCounts = (): SideCounts => ({ entries: 0, withVariants: 0, varian
 /** What the batches of one variety have produced so far (the whole run, or one chunk of it). */
 export class SideState {
   readonly rejects: RejectedRow[] = [];
-  readonly lexemes = new Map<string, Lexeme>();
+  readonly lexemes: LexemeBook;
   readonly counts = noCounts();
   /** Entries each step changed (steps that changed none may be missing). */
   readonly changed = new Map<string, number>();
@@ -68,8 +55,11 @@ export class SideState {
     readonly relFile: (file: string) => string,
     readonly tsv: ByteChunks | undefined,
     readonly jsonl: ByteChunks | undefined,
+    /** The numbers of words, shared by the states of one run's varieties (the batch work looks a row's word up once). */
+    words: WordIds = new WordIds(),
   ) {
     this.hygiene = new StressHygiene(stress, relFile);
+    this.lexemes = new LexemeBook(words);
   }
 }
 
@@ -84,9 +74,23 @@ interface SharedLines {
   readonly jsonl: Uint8Array;
 }
 
-/** The row's lines of the variety before, while the row goes through the varieties in turn. */
+/**
+ * The row's lines of the variety before, while the row goes through the varieties in turn. A
+ * record's bytes are copied into `scratch` (one buffer for the whole batch, grown as needed): a
+ * copy of its own per record (`slice`) is a new ArrayBuffer outside the heap, and those cost about
+ * 0.2 s of a four-variety CMU build's 8 s (CPU profile) in allocation and collection.
+ */
 interface SharedSlot {
   lines: SharedLines | undefined;
+  scratch: Uint8Array;
+}
+
+/** `bytes[from … to)` copied into the slot's scratch buffer; a view of the copy. */
+function keepBytes(slot: SharedSlot, bytes: Uint8Array, from: number, to: number): Uint8Array {
+  const n = to - from;
+  if (n > slot.scratch.length) slot.scratch = new Uint8Array(Math.max(n, 2 * slot.scratch.length));
+  slot.scratch.set(bytes.subarray(from, to));
+  return slot.scratch.subarray(0, n);
 }
 
 /** Two entries of one row (same source row, hence same key, word, line and input) with the same transcription. */
@@ -128,10 +132,14 @@ export class BatchWork {
    */
   take(batch: readonly LexiconItem[], keys: readonly string[], states: readonly SideState[]): void {
     const { sides, snapAt, plans, leader } = this;
-    const shared: SharedSlot | undefined = sides.length > 1 ? { lines: undefined } : undefined;
+    // The row's word is numbered once for every variety that writes PLS (their books share the numbers).
+    const words = sides.some((s) => s.formats.has("pls")) ? states[0]?.lexemes.words : undefined;
+    if (words !== undefined && states.some((st) => st.lexemes.words !== words)) throw new Error("the varieties' states do not share their word numbers");
+    const shared: SharedSlot | undefined = sides.length > 1 ? { lines: undefined, scratch: new Uint8Array(4096) } : undefined;
     for (let i = 0; i < batch.length; i++) {
       const item = batch[i]!;
       if (shared !== undefined) shared.lines = undefined;
+      const wordId = words !== undefined && item.kind === "row" ? words.idOf(item.word) : undefined;
       const snaps: WalkSnapshot[] | undefined = snapAt.length > 0 ? [] : undefined;
       for (let v = 0; v < sides.length; v++) {
         const side = sides[v]!;
@@ -146,7 +154,7 @@ export class BatchWork {
           snaps === undefined ? undefined
           : v === 0 ? { snapAt, give: (s) => void snaps.push(s) }
           : plan !== undefined ? { leader: leader!, translate: plan.translate, ...resumeAt(snaps, plan.step) } : undefined;
-        emit(side, state, transcribeRow(side.engine, item, keys[i]!, side.needs, share), shared, item);
+        emit(side, state, transcribeRow(side.engine, item, keys[i]!, side.needs, share), shared, item, wordId);
       }
     }
   }
@@ -158,8 +166,11 @@ function resumeAt(snaps: readonly WalkSnapshot[], step: number): { resume?: Walk
   return s !== undefined ? { resume: s } : {};
 }
 
-/** Writes one entry or reject; `shared`, when given, holds (and receives) the row's lines of the variety before. */
-export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow, shared?: SharedSlot, row?: LexiconRow): void {
+/**
+ * Writes one entry or reject; `shared`, when given, holds (and receives) the row's lines of the
+ * variety before; `wordId`, when given, is the number of the row's word in `state.lexemes.words`.
+ */
+export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow, shared?: SharedSlot, row?: LexiconRow, wordId?: number): void {
   if (r.kind === "entry" && row !== undefined) state.hygiene.observe(row, r.key);
   if (r.kind === "reject") {
     state.rejects.push(r);
@@ -186,29 +197,12 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
         const start = putJsonRecord(j, r, file, r.line);
         // Lines of a variety that did not write a format are no use to the next one.
         if (shared !== undefined && state.tsv !== undefined) {
-          const jsonl = start >= 0 ? j.target.slice(start, j.position) : utf8Bytes(entryJsonRecord(r, file) + "\n");
+          // The next variety copies these bytes before it writes its own lines into the slot.
+          const jsonl = start >= 0 ? keepBytes(shared, j.target, start, j.position) : utf8Bytes(entryJsonRecord(r, file) + "\n");
           shared.lines = { entry: r, tsv, jsonl };
         }
       }
     }
   }
-  if (side.formats.has("pls")) addPhonemes(state.lexemes, r.word, plsPhonemesCompact(r, side.pls), r.file, r.line);
-}
-
-/** Adds a row's phonemes (one, or a list) to its word's lexeme (a new lexeme at the word's first row, `file` and `line`). */
-export function addPhonemes(lexemes: Map<string, Lexeme>, word: string, mine: string | string[], file: string, line: number): void {
-  const lx = lexemes.get(word);
-  if (lx === undefined) {
-    lexemes.set(word, { phonemes: typeof mine === "string" || mine.length !== 1 ? mine : mine[0]!, file, line });
-    return;
-  }
-  if (typeof mine === "string") addOne(lx, mine);
-  else for (const p of mine) addOne(lx, p);
-}
-
-function addOne(lx: Lexeme, p: string): void {
-  const have = lx.phonemes;
-  if (typeof have === "string") {
-    if (have !== p) lx.phonemes = [have, p];
-  } else if (!have.includes(p)) have.push(p);
+  if (side.formats.has("pls")) state.lexemes.add(r.word, plsPhonemesCompact(r, side.pls), r.file, r.line, wordId);
 }

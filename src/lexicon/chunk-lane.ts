@@ -7,7 +7,8 @@
 
 import { ByteChunks } from "../emit/bytes.js";
 import type { Inventory } from "../inventory/types.js";
-import { addPhonemes, BatchWork, SideState, type Lexeme, type Side } from "./batch-work.js";
+import { BatchWork, SideState, type Side } from "./batch-work.js";
+import { WordIds, type LexemeBook } from "./lexemes.js";
 import { EntryKeys } from "./keys.js";
 import { duplicateId, readChunk, type ChunkRead } from "./read-chunk.js";
 import type { LexiconItem } from "./read.js";
@@ -55,12 +56,13 @@ export class ChunkLane {
     const keys = new EntryKeys(before);
     const rowKeys = items.map((item) => (item.kind === "row" ? keys.next(item.word, item.id) : ""));
     const transfer: ArrayBuffer[] = [];
+    const words = new WordIds();
     const states = this.sides.map((s, i) => {
       const tsv: Uint8Array[] = [];
       const jsonl: Uint8Array[] = [];
       const state = new SideState({ inventory: this.inventory, assignsStress: this.assignsStress[i]! }, this.relFile,
         s.formats.has("tsv") ? new ByteChunks((b) => void tsv.push(b)) : undefined,
-        s.formats.has("jsonl") ? new ByteChunks((b) => void jsonl.push(b)) : undefined);
+        s.formats.has("jsonl") ? new ByteChunks((b) => void jsonl.push(b)) : undefined, words);
       return { state, tsv, jsonl };
     });
     this.work.take(items, rowKeys, states.map((s) => s.state));
@@ -105,13 +107,13 @@ function chunkWords(chunk: number, c: ChunkRead): ChunkWords {
 }
 
 /** A chunk's lexemes in a few strings (one structured clone each, not one per lexeme). */
-function packLexemes(lexemes: ReadonlyMap<string, Lexeme>, file: string): SideChunk["lexemes"] {
+function packLexemes(lexemes: LexemeBook, file: string): SideChunk["lexemes"] {
   const words: string[] = [];
   const phonemes: string[] = [];
   const lines = new Int32Array(lexemes.size);
   let k = 0;
-  for (const [word, lx] of lexemes) {
-    words.push(word);
+  for (const lx of lexemes) {
+    words.push(lx.word);
     phonemes.push(typeof lx.phonemes === "string" ? lx.phonemes : lx.phonemes.join("\0"));
     lines[k++] = lx.line;
   }
@@ -119,12 +121,12 @@ function packLexemes(lexemes: ReadonlyMap<string, Lexeme>, file: string): SideCh
 }
 
 /** Adds a chunk's packed lexemes to the run's, in file order (as the rows would have been added one by one). */
-export function unpackLexemes(into: Map<string, Lexeme>, p: SideChunk["lexemes"]): void {
+export function unpackLexemes(into: LexemeBook, p: SideChunk["lexemes"]): void {
   if (p.lines.length === 0) return;
   const words = p.words.split("\n");
   const phonemes = p.phonemes.split("\n");
   for (let k = 0; k < words.length; k++) {
     const ph = phonemes[k]!;
-    addPhonemes(into, words[k]!, ph.includes("\0") ? ph.split("\0") : ph, p.file, p.lines[k]!);
+    into.add(words[k]!, ph.includes("\0") ? ph.split("\0") : ph, p.file, p.lines[k]!);
   }
 }

@@ -22,7 +22,8 @@ import { outputError, relativeFiles, summaryJson } from "./summary.js";
 import { STRESS_REPORT } from "./hygiene.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
 import type { PlsPhonemes } from "./ipa-options.js";
-import { emit, phonemesOf, SideState, type Side } from "./batch-work.js";
+import { emit, SideState, type Side } from "./batch-work.js";
+import { phonemesOf, type WordIds } from "./lexemes.js";
 import type { SideChunk } from "./worker.js";
 import { unpackLexemes } from "./chunk-lane.js";
 
@@ -57,6 +58,7 @@ export class VarietyOutput {
     private readonly t0: number,
     inventory: Inventory,
     pls: PlsPhonemes | undefined,
+    words: WordIds | undefined,
   ) {
     this.tsv = formats.has("tsv") ? this.open("lexicon.tsv") : undefined;
     this.jsonl = formats.has("jsonl") ? this.open("lexicon.jsonl") : undefined;
@@ -67,19 +69,20 @@ export class VarietyOutput {
     const jsonl = this.jsonl;
     this.state = new SideState({ inventory, assignsStress: run.assignsStress ?? run.engine.steps.includes("stress") }, relativeFiles(root),
       tsv !== undefined ? new ByteChunks((c) => tsv.push(c)) : undefined,
-      jsonl !== undefined ? new ByteChunks((c) => jsonl.push(c)) : undefined);
+      jsonl !== undefined ? new ByteChunks((c) => jsonl.push(c)) : undefined, words);
     this.side = { engine: run.engine, formats, ...(pls !== undefined ? { pls } : {}), ...(ov !== undefined ? { ov } : {}) };
   }
 
   /** Opens the variety's staging folder; a folder that cannot be made is the variety's failed summary. */
-  static async open(run: VarietyRun, inventory: Inventory, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number, pls?: PlsPhonemes): Promise<VarietyOutput | RunSummary> {
+  /** `words`: the numbers of words, shared by the varieties of one run (lexemes.ts). */
+  static async open(run: VarietyRun, inventory: Inventory, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number, pls?: PlsPhonemes, words?: WordIds): Promise<VarietyOutput | RunSummary> {
     // The override file is read whole first: a file that cannot be read stops the variety before anything is written.
     const ov = run.overrides !== undefined ? await Overrides.read(run.overrides, inventory) : undefined;
     if (ov?.failed === true) {
       return { ...failedSummary(run.variety.name, lexiconPath, [], t0, ov.diagnostics.filter((d) => d.severity === "error")), overrideDiagnostics: ov.diagnostics.filter((d) => d.severity !== "error") };
     }
     try {
-      return new VarietyOutput(run, ov, await stageFolder(run.outDir), formats, lexiconPath, root, t0, inventory, pls);
+      return new VarietyOutput(run, ov, await stageFolder(run.outDir), formats, lexiconPath, root, t0, inventory, pls, words);
     } catch (err) {
       return failedSummary(run.variety.name, lexiconPath, [], t0, [outputError(run.outDir, err)]);
     }
@@ -165,7 +168,7 @@ export class VarietyOutput {
     try {
       if (this.formats.has("pls")) {
         files["lexicon.pls"] = join(outDir, "lexicon.pls");
-        const plsEntries: PlsEntry[] = [...this.state.lexemes].map(([word, lx]) => ({ word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } }));
+        const plsEntries: PlsEntry[] = [...this.state.lexemes].map((lx) => ({ word: lx.word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } }));
         const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
         if (!res.ok) return failWith([res.error]);
       }
