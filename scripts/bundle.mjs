@@ -1,5 +1,5 @@
 // The command line as a few files: esbuild bundles tsc's output (dist/src) into dist/bun, with the
-// command-line entry and the two worker-thread scripts as entries, the code they share in chunks,
+// command-line entry and the three worker-thread scripts as entries, the code they share in chunks,
 // and each command's code in its own chunk (loaded when that command runs, as cli/main.ts asks).
 //
 // Why: Node loads an ES module at a time (a file read, a resolution and a compile each), and
@@ -15,7 +15,7 @@ import { existsSync, rmSync } from "node:fs";
 import { join, resolve } from "node:path";
 
 const [from = "dist/src", to = "dist/bun"] = process.argv.slice(2);
-const entries = { main: "cli/main.js", worker: "lexicon/worker.js", "compose-worker": "compile/compose-worker.js" };
+const entries = { main: "cli/main.js", worker: "lexicon/worker.js", "check-worker": "lexicon/check-worker.js", "compose-worker": "compile/compose-worker.js" };
 for (const rel of Object.values(entries)) {
   if (!existsSync(join(from, rel))) {
     process.stderr.write(`bundle: ${join(from, rel)} is missing (run tsc first)\n`);

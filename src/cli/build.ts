@@ -95,17 +95,14 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
   const cacheDir = cache.dir;
   const tty = process.stderr.isTTY === true && !quiet && o.json !== true;
   const c = colours(process.stdout);
-  // The lexicon's records, counted once for every variety (the reconciliation checks each
-  // variety's outputs against them; a file that cannot be read is reported by the reader).
-  const inputRecords = countInputRecords(manifest.lexicon);
-  // A file that cannot be read is reported by the reader; the count is then not waited for.
-  inputRecords.catch(() => undefined);
+  // The lexicon's records, for the progress bar's total (on a terminal only): counted first, and
+  // given to the reconciliation. Otherwise the reconciliation counts them itself, once per run, on
+  // the thread that checks the written files (lexicon/check-written.ts). A file that cannot be read
+  // is reported by the reader; the count is then not waited for.
+  const inputRecords = tty ? countInputRecords(manifest.lexicon) : undefined;
+  inputRecords?.catch(() => undefined);
   const threads = engine === "machine" && ChunkPool.script() !== undefined ? workerCount(o.workers, await approxRows(manifest.lexicon), WORKERS_FROM_ROWS.build) : 0;
-  // With worker threads the count runs beside the build (the main thread waits for them at times);
-  // on one thread it is done first (its record arrays and the run's would be held at once: +28 MB
-  // peak on the CMU dictionary), and the progress bar's total always waits for it.
-  const lines = tty || threads === 0 ? await inputRecords.then((r) => r.count + 1, () => 0) : 0;
-  const total = tty ? lines : 0;
+  const total = inputRecords !== undefined ? await inputRecords.then((r) => r.count + 1, () => 0) : 0;
   held.workers = threads;
   let failed = false;
   let internal = false;
@@ -148,7 +145,7 @@ async function buildLocked(dirArg: string | undefined, o: BuildOptions, held: { 
         formats,
         sourceRoot: dirname(manifest.file),
         ...(o.plsPhonemes !== undefined ? { plsPhonemes: o.plsPhonemes } : {}),
-        inputRecords,
+        ...(inputRecords !== undefined ? { inputRecords } : {}),
         ...(threads > 0 ? { workers: { count: threads, engines: workerEngines } } : {}),
         ...(bar !== undefined ? { onProgress: (n: number) => bar.update(n), progressEvery: 500 } : {}),
       });

@@ -260,9 +260,8 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
   };
   check("lexicon.tsv", w.tsv);
   check("lexicon.jsonl", w.jsonl);
-  if (w.plsLexemes !== undefined && w.tsvWords !== undefined && w.plsLexemes !== w.tsvWords) {
-    fail(`lexicon.pls holds ${w.plsLexemes} lexemes but lexicon.tsv ${w.tsvWords} distinct words.`);
-  }
+  const pls = plsMismatch(lexicon, w.plsLexemes, w.tsvWords);
+  if (pls !== undefined) out.push(pls);
   if (w.jsonlLines === undefined) return out;
   const found = (over === undefined ? findingsByLine(input, w) : undefined) ?? findingsByTag(input, w, over);
   const list = (ls: readonly string[]): string => ls.slice(0, 5).join(", ") + (ls.length > 5 ? `, … (${ls.length} in all)` : "");
@@ -272,6 +271,12 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
   if (moved.length > 0) fail(`The entr${moved.length === 1 ? "y" : "ies"} written for line${moved.length === 1 ? "" : "s"} ${list(moved.map((r) => r.shown))} of the ${over === undefined ? "lexicon" : "input"} ${moved.length === 1 ? "does" : "do"} not hold the word on that line.`, moved[0]!.line);
   if (stray.length > 0) fail(`Entries or rejects name line${stray.length === 1 ? "" : "s"} ${list(stray.map((r) => r.shown))}, which ${stray.length === 1 ? "is not a record" : "are not records"} of the ${over === undefined ? "lexicon" : "input"}.`, found.strayLine);
   return out;
+}
+
+/** The error when the PLS file's lexemes are not the TSV's distinct words (both counted). */
+export function plsMismatch(lexicon: string, plsLexemes: number | undefined, tsvWords: number | undefined): Diagnostic | undefined {
+  if (plsLexemes === undefined || tsvWords === undefined || plsLexemes === tsvWords) return undefined;
+  return diagnostic("error", "run/unreconciled", `lexicon.pls holds ${plsLexemes} lexemes but lexicon.tsv ${tsvWords} distinct words. This is a bug in Strata; please report it with the lexicon.`, { file: lexicon, line: 1, column: 1 });
 }
 
 /** A record line found missing, doubled, moved or stray: as a message names it, and its line. */

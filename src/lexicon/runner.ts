@@ -17,6 +17,7 @@ import { MachineEngine } from "./engine-machine.js";
 import type { WalkShare } from "./walk-share.js";
 import { BatchWork } from "./batch-work.js";
 import { WordIds } from "./lexemes.js";
+import { Checker } from "./check-written.js";
 import { ChunkPool } from "./chunks.js";
 import { ChunkLane } from "./chunk-lane.js";
 import type { WorkerSide } from "./worker.js";
@@ -51,6 +52,8 @@ export interface RunOptions {
    * them already: a build counts them once for all its varieties. Counted here when absent.
    */
   readonly inputRecords?: Promise<InputRecords>;
+  /** False: the written files are checked on this thread, never on a worker thread (check-written.ts). */
+  readonly checkThread?: boolean;
   /** Whether the grammar has a `stress` step (default: the engine has a step named `stress`); for the stress checks (runLexicon; runVarieties takes one per variety). */
   readonly assignsStress?: boolean;
   /** What PLS phonemes hold: every narrow variant (default) or the broad form alone (ipa-options.ts). */
@@ -227,10 +230,31 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
     for (const o of live) await o.abort(err);
     throw err;
   }
-  const input = opts.inputRecords ?? countInputRecords(lexiconPath);
-  const summaries: RunSummary[] = [];
-  for (const o of opened) summaries.push(o instanceof VarietyOutput ? await o.finish(diagnostics, input) : o);
-  return summaries;
+  // Each variety's files are written, then checked against the input while the next one's are
+  // written (check-written.ts); the varieties are put in place in order once their checks are back.
+  const checker = new Checker(lexiconPath, opts.inputRecords, opts.checkThread ?? true);
+  try {
+    const rest: (() => Promise<RunSummary>)[] = [];
+    try {
+      for (const o of opened) rest.push(o instanceof VarietyOutput ? await o.finish(diagnostics, checker) : async () => o);
+    } catch (err) {
+      for (const o of opened) if (o instanceof VarietyOutput) await o.discard();
+      throw err;
+    }
+    const summaries: RunSummary[] = [];
+    for (let k = 0; k < rest.length; k++) {
+      try {
+        summaries.push(await rest[k]!());
+      } catch (err) {
+        // The run ends here: the varieties not yet put in place leave nothing behind.
+        for (const o of opened.slice(k + 1)) if (o instanceof VarietyOutput) await o.discard();
+        throw err;
+      }
+    }
+    return summaries;
+  } finally {
+    await checker.close();
+  }
 }
 
 export function failedSummary(variety: string, lexicon: string, diagnostics: Diagnostic[], t0: number, outputErrors: Diagnostic[] = []): RunSummary {

@@ -14,13 +14,15 @@ import { Channel } from "./channel.js";
 import type { Engine } from "./engine.js";
 import { writeRejects } from "./read.js";
 import { stageFolder } from "./outdir.js";
-import { countInputRecords, countWritten, reconcile, type InputRecords } from "./reconcile.js";
+import { plsMismatch } from "./reconcile.js";
+import { countTag } from "./readback.js";
+import type { Checker, CheckResult } from "./check-written.js";
 import { Overrides, writeReplaced } from "./overrides.js";
 import type { Inventory } from "../inventory/types.js";
 import { failedSummary, transcribeRow, type OutputFormat, type RunSummary } from "./runner.js";
 import { outputError, relativeFiles, summaryJson } from "./summary.js";
+import { isFsError } from "../tempfile.js";
 import { STRESS_REPORT } from "./hygiene.js";
-import { reconcileStressReport } from "./reconcile-stress.js";
 import type { PlsPhonemes } from "./ipa-options.js";
 import { emit, SideState, type Side } from "./batch-work.js";
 import { phonemesOf, type WordIds } from "./lexemes.js";
@@ -128,6 +130,11 @@ export class VarietyOutput {
     if (this.ov !== undefined) for (const t of this.ov.tail()) emit(this.side, this.state, t.kind === "row" ? transcribeRow(this.run.engine, t.row, t.key) : t, undefined, t.kind === "row" ? t.row : undefined);
   }
 
+  /** Removes the staging folder (after `finish`, when the run ends before this variety is put in place). */
+  discard(): Promise<void> {
+    return this.stage.abort();
+  }
+
   /** Fails the file writers (their temporary files go) and removes the staging folder. */
   async abort(err: unknown): Promise<void> {
     for (const ch of this.channels) ch.fail(err);
@@ -136,17 +143,20 @@ export class VarietyOutput {
   }
 
   /**
-   * After the last row: closes the files, writes the PLS and rejects, reads everything back and
-   * reconciles it with the input's records, writes summary.json and puts the folder in place.
+   * After the last row: closes the files, writes the rejects and the stress report, hands the
+   * reconciliation of what was written with the input's records to `checker` (check-written.ts),
+   * and writes the PLS file and counts its lexemes meanwhile. Returns what is left to do once the
+   * check is back: summary.json, and the folder put in place (or the variety's failed summary).
    * `diagnostics`: the reader's (file-level problems); with an error among them nothing is kept.
    */
-  async finish(diagnostics: readonly Diagnostic[], input: Promise<InputRecords>): Promise<RunSummary> {
+  async finish(diagnostics: readonly Diagnostic[], checker: Checker): Promise<() => Promise<RunSummary>> {
     const { variety, outDir } = this.run;
     const lexiconPath = this.lexiconPath;
     const t0 = this.t0;
+    const done = (s: RunSummary) => async (): Promise<RunSummary> => s;
     if (diagnostics.some((d) => d.severity === "error")) {
       await this.abort(new Error(diagnostics.map(formatDiagnostic).join("\n")));
-      return failedSummary(variety.name, lexiconPath, [...diagnostics], t0);
+      return done(failedSummary(variety.name, lexiconPath, [...diagnostics], t0));
     }
     this.state.tsv?.flush();
     this.state.jsonl?.flush();
@@ -160,18 +170,14 @@ export class VarietyOutput {
     const failWrite = (err: unknown): Promise<RunSummary> => failWith([outputError(outDir, err)]);
     const settled = await Promise.allSettled(this.writers);
     const broken = settled.find((r): r is PromiseRejectedResult => r.status === "rejected");
-    if (broken !== undefined) return failWrite(broken.reason);
+    if (broken !== undefined) return done(await failWrite(broken.reason));
     const files = this.files;
     const staged = (name: string): string => this.staged(name);
-    let rowsRead: number;
-    let reconcileErrors: Diagnostic[];
+    let check: Promise<CheckResult>;
+    let plsLexemes: number | undefined;
     try {
-      if (this.formats.has("pls")) {
-        files["lexicon.pls"] = join(outDir, "lexicon.pls");
-        const plsEntries: PlsEntry[] = [...this.state.lexemes].map((lx) => ({ word: lx.word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } }));
-        const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
-        if (!res.ok) return failWith([res.error]);
-      }
+      // The files in summary.json's order: the PLS file first (it is written after the check starts).
+      if (this.formats.has("pls")) files["lexicon.pls"] = join(outDir, "lexicon.pls");
       files["rejects.csv"] = join(outDir, "rejects.csv");
       await writeRejects(staged("rejects.csv"), this.state.rejects.map((r) => ({ ...r, file: this.state.relFile(r.file) })));
       const ov = this.ov;
@@ -182,24 +188,58 @@ export class VarietyOutput {
       }
       files[STRESS_REPORT] = join(outDir, STRESS_REPORT);
       await writeFileAtomic(staged(STRESS_REPORT), this.state.hygiene.report());
-      const counted = await input;
-      const written = await countWritten({
-        ...(this.formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
-        ...(this.formats.has("jsonl") ? { jsonl: staged("lexicon.jsonl") } : {}),
-        ...(this.formats.has("pls") ? { pls: staged("lexicon.pls") } : {}),
-        rejects: staged("rejects.csv"),
-        ...(ov !== undefined ? { replaced: staged("replaced.csv") } : {}),
+      check = checker.run({
+        lexicon: lexiconPath,
+        relLexicon: this.state.relFile(lexiconPath),
+        ...(overrides !== undefined ? { overrides, relOverrides: this.state.relFile(overrides) } : {}),
+        files: {
+          ...(this.formats.has("tsv") ? { tsv: staged("lexicon.tsv") } : {}),
+          ...(this.formats.has("jsonl") ? { jsonl: staged("lexicon.jsonl") } : {}),
+          rejects: staged("rejects.csv"),
+          ...(ov !== undefined ? { replaced: staged("replaced.csv") } : {}),
+          stress: staged(STRESS_REPORT),
+        },
+        stressTotal: this.state.hygiene.total,
       });
-      const overInput = overrides !== undefined ? await countInputRecords(overrides) : undefined;
-      rowsRead = counted.count + (overInput?.count ?? 0);
-      reconcileErrors = reconcile(lexiconPath, counted, written, overInput !== undefined ? { lexicon: this.state.relFile(lexiconPath), overrides: this.state.relFile(overrides!), input: overInput } : undefined);
-      const sources = [{ file: this.state.relFile(lexiconPath), input: counted }, ...(overInput !== undefined ? [{ file: this.state.relFile(overrides!), input: overInput }] : [])];
-      const notEntries = [...written.rejectLines.map((line, i) => ({ file: written.rejectFiles[i] ?? "", line })), ...(written.replaced ?? []).map((r) => ({ file: r.file, line: r.line }))];
-      reconcileErrors.push(...(await reconcileStressReport(lexiconPath, staged(STRESS_REPORT), this.state.hygiene.total, sources, notEntries)));
+      // Settled here too: a failure after this point must not leave it unhandled.
+      check.catch(() => undefined);
+      if (this.formats.has("pls")) {
+        const plsEntries: PlsEntry[] = [...this.state.lexemes].map((lx) => ({ word: lx.word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } }));
+        const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
+        if (!res.ok) return done(await failWith([res.error]));
+        // Counted in the bytes (the tag is ASCII; UTF-8 never repeats an ASCII byte inside a character).
+        plsLexemes = await countTag(staged("lexicon.pls"), "<lexeme>");
+      }
     } catch (err) {
-      return failWrite(err);
+      return done(await failWrite(err));
     }
-    if (reconcileErrors.length > 0) return failWith(reconcileErrors);
+    return async () => {
+      let rowsRead: number;
+      let reconcileErrors: Diagnostic[];
+      try {
+        const checked = await check;
+        rowsRead = checked.rowsRead;
+        reconcileErrors = [...checked.errors];
+        const pls = plsMismatch(lexiconPath, plsLexemes, checked.tsvWords);
+        if (pls !== undefined) reconcileErrors.push(pls);
+      } catch (err) {
+        // Anything but a file that cannot be read (the check's thread stopped, a bug) ends the run:
+        // the staging folder goes first.
+        if (!isFsError(err)) await this.stage.abort();
+        return failWrite(err);
+      }
+      if (reconcileErrors.length > 0) return failWith(reconcileErrors);
+      return this.complete(diagnostics, rowsRead, failWrite);
+    };
+  }
+
+  /** summary.json, and the folder put in place. */
+  private async complete(diagnostics: readonly Diagnostic[], rowsRead: number, failWrite: (err: unknown) => Promise<RunSummary>): Promise<RunSummary> {
+    const { variety, outDir } = this.run;
+    const lexiconPath = this.lexiconPath;
+    const t0 = this.t0;
+    const files = this.files;
+    const staged = (name: string): string => this.staged(name);
     const outputErrors: Diagnostic[] = [];
     const engine = this.run.engine;
     const summary: RunSummary = {

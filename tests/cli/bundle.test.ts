@@ -51,9 +51,9 @@ function built(cli: string, workers: number, cache: string): Record<string, Reco
 }
 
 describe("the bundle", () => {
-  it("holds the entry and both worker scripts, and the commands in chunks of their own", () => {
+  it("holds the entry and the three worker scripts, and the commands in chunks of their own", () => {
     const names = readdirSync(join(DIST, "bun"));
-    for (const f of ["main.js", "worker.js", "compose-worker.js"]) expect(names).toContain(f);
+    for (const f of ["main.js", "worker.js", "check-worker.js", "compose-worker.js"]) expect(names).toContain(f);
     expect(names.some((n) => /^transcribe-[A-Z0-9]+\.js$/.test(n))).toBe(true);
     expect(names.some((n) => /^build-[A-Z0-9]+\.js$/.test(n))).toBe(true);
     expect(readFileSync(BUNDLE, "utf8").startsWith("#!/usr/bin/env node\n")).toBe(true);
@@ -101,6 +101,18 @@ describe("the bundle", () => {
       if (args[0] !== "--version") expect(m!.status, args.join(" ")).not.toBe(0);
     }
   });
+
+  it("the thread checking the written files: its death fails the build and leaves the previous outputs as they were", () => {
+    const out = mkdtempSync(join(work, "out-check-"));
+    const args = ["build", lexDir, "--out", out, "--cache-dir", join(work, "cache-transcribe"), "--quiet", "--allow-rejects"];
+    expect(run(BUNDLE, args).status).toBe(0);
+    const before = Object.fromEntries(["general", "careful"].map((v) => [v, folderBytes(join(out, "words", v))]));
+    const r = run(BUNDLE, args, { STRATA_TEST_CHECK_EXIT: "1" });
+    expect(r.status).toBe(70);
+    expect(r.stderr).toContain("the thread checking the written files stopped");
+    expect(readdirSync(join(out, "words")).filter((n) => n.startsWith("."))).toEqual([]);
+    expect(Object.fromEntries(["general", "careful"].map((v) => [v, folderBytes(join(out, "words", v))]))).toEqual(before);
+  }, 300_000);
 
   it("a worker thread that dies fails the bundled build, as it fails tsc's", () => {
     const out = mkdtempSync(join(work, "out-dies-"));

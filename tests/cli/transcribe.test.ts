@@ -192,7 +192,7 @@ describe("the process: broken pipes, half documents, exit codes (compiled CLI)",
     // The bin is the bundle (scripts/bundle.mjs), with its worker scripts beside it.
     const bin = (JSON.parse(readFileSync(join(ROOT, "package.json"), "utf8")) as { bin: { strata: string } }).bin.strata;
     expect(bin).toBe("dist/bun/main.js");
-    for (const f of [bin, "dist/bun/worker.js", "dist/bun/compose-worker.js"]) expect(files).toContain(f);
+    for (const f of [bin, "dist/bun/worker.js", "dist/bun/check-worker.js", "dist/bun/compose-worker.js"]) expect(files).toContain(f);
     expect(files).toContain("lexicons/en-us/grammar.strata");
     expect(files).toContain("lexicons/demo/varieties.json");
     expect(files).toContain("lexicons/.strata-root"); // the project root of the shipped grammars (varieties across folders)
