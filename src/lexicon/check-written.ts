@@ -89,9 +89,9 @@ export class Checker {
 
   /**
    * `known`: the lexicon's records when the caller has counted them (the main thread then uses
-   * them; the worker counts again, on its own thread); `threads`: false keeps the jobs here.
+   * them; the worker counts again, on its own thread).
    */
-  constructor(lexicon: string, known: Promise<InputRecords> | undefined, private readonly threads = true) {
+  constructor(lexicon: string, known: Promise<InputRecords> | undefined) {
     if (known !== undefined) this.inputs.set(lexicon, known);
   }
 
@@ -104,7 +104,7 @@ export class Checker {
   }
 
   run(job: CheckJob): Promise<CheckResult> {
-    const script = this.threads && availableParallelism() >= 2 ? Checker.script() : undefined;
+    const script = availableParallelism() >= 2 ? Checker.script() : undefined;
     if (script === undefined) return checkWritten(job, (p) => this.inputOf(p));
     if (this.broken !== undefined) return Promise.reject(this.broken);
     const w = (this.worker ??= this.startWorker(script));

@@ -2,7 +2,7 @@
 // appearance, in the order of the words' first rows. The varieties of a run on one thread share
 // the numbers of their words (`WordIds`), so a row's word is looked up in a map once, not once per
 // variety: in a four-variety build of the CMU dictionary the four maps of 135,000 words took about
-// 0.37 s of the main thread's CPU (a CPU profile; a lookup in a map that large mostly waits for memory).
+// 0.37 s of the main thread's CPU (a CPU profile).
 
 /**
  * A PLS lexeme as gathered: the word's phonemes in order of first appearance (one string while

@@ -52,8 +52,6 @@ export interface RunOptions {
    * them already: a build counts them once for all its varieties. Counted here when absent.
    */
   readonly inputRecords?: Promise<InputRecords>;
-  /** False: the written files are checked on this thread, never on a worker thread (check-written.ts). */
-  readonly checkThread?: boolean;
   /** Whether the grammar has a `stress` step (default: the engine has a step named `stress`); for the stress checks (runLexicon; runVarieties takes one per variety). */
   readonly assignsStress?: boolean;
   /** What PLS phonemes hold: every narrow variant (default) or the broad form alone (ipa-options.ts). */
@@ -232,7 +230,7 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   }
   // Each variety's files are written, then checked against the input while the next one's are
   // written (check-written.ts); the varieties are put in place in order once their checks are back.
-  const checker = new Checker(lexiconPath, opts.inputRecords, opts.checkThread ?? true);
+  const checker = new Checker(lexiconPath, opts.inputRecords);
   try {
     const rest: (() => Promise<RunSummary>)[] = [];
     try {
