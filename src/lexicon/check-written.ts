@@ -103,8 +103,18 @@ export class Checker {
     return existsSync(w) ? w : undefined;
   }
 
+  /**
+   * Starts the worker thread now, counting the records of `lexicon` while the run works on its rows,
+   * so that they are ready when the first check comes (on this thread they are counted then).
+   */
+  begin(lexicon: string): void {
+    const script = this.workerScript();
+    if (script === undefined || this.broken !== undefined) return;
+    (this.worker ??= this.startWorker(script)).postMessage({ count: lexicon });
+  }
+
   run(job: CheckJob): Promise<CheckResult> {
-    const script = availableParallelism() >= 2 ? Checker.script() : undefined;
+    const script = this.workerScript();
     if (script === undefined) return checkWritten(job, (p) => this.inputOf(p));
     if (this.broken !== undefined) return Promise.reject(this.broken);
     const w = (this.worker ??= this.startWorker(script));
@@ -120,6 +130,10 @@ export class Checker {
     const w = this.worker;
     this.worker = undefined;
     if (w !== undefined) await w.terminate();
+  }
+
+  private workerScript(): string | undefined {
+    return availableParallelism() >= 2 ? Checker.script() : undefined;
   }
 
   private inputOf(path: string): Promise<InputRecords> {

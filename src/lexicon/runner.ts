@@ -191,6 +191,11 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
     for (let k = seen + every - (seen % every); k <= seen + n; k += every) opts.onProgress(k);
     seen += n;
   };
+  // Each variety's files are written, then checked against the input while the next one's are
+  // written (check-written.ts); the varieties are put in place in order once their checks are back.
+  // The checking thread counts the input's records while the rows are worked on.
+  const checker = new Checker(lexiconPath, opts.inputRecords);
+  if (live.length > 0) checker.begin(lexiconPath);
   let diagnostics: Diagnostic[];
   const w = opts.workers;
   const engines = live.map((o) => w?.engines[opened.indexOf(o)]);
@@ -226,11 +231,9 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
     for (const o of live) o.finishRows();
   } catch (err) {
     for (const o of live) await o.abort(err);
+    await checker.close();
     throw err;
   }
-  // Each variety's files are written, then checked against the input while the next one's are
-  // written (check-written.ts); the varieties are put in place in order once their checks are back.
-  const checker = new Checker(lexiconPath, opts.inputRecords);
   try {
     const rest: (() => Promise<RunSummary>)[] = [];
     try {
