@@ -110,14 +110,31 @@ interface Scan {
  * Run the branches of one site: the rewrite (one per change variant) and, for an optional rule
  * or where no site holds, the copy; the preferred branch goes first.
  */
-function branch(p: PreparedRule, scan: Scan, changes: readonly Sym[][], apply: (c: Sym[], pref: boolean) => void, copy: (pref: boolean) => void, pref: boolean): void {
-  const tasks: (() => void)[] = changes.map((c, idx) => () => apply(c, pref && idx === 0 && !(p.optional && p.prefer === "unapplied")));
+function branch(p: PreparedRule, scan: Scan, changes: readonly Sym[][], apply: (c: Sym[], pref: boolean) => void, copy: (pref: boolean) => void, pref: boolean, same?: Sym): void {
+  const tasks: { run: () => void; pref: boolean; copies: boolean }[] = changes.map((c, idx) => {
+    const pr = pref && idx === 0 && !(p.optional && p.prefer === "unapplied");
+    // A one-symbol change to the symbol already there writes what the copy writes, and both go on
+    // from the next symbol: the two branches are the same search.
+    return { run: () => apply(c, pr), pref: pr, copies: same !== undefined && c.length === 1 && toKey(c[0]!) === toKey(same) };
+  });
   if (changes.length === 0 || p.optional) {
-    const copyTask = (): void => copy(pref && !(changes.length > 0 && p.prefer === "applied"));
+    const pr = pref && !(changes.length > 0 && p.prefer === "applied");
+    const copyTask = { run: (): void => copy(pr), pref: pr, copies: true };
     if (changes.length > 0 && p.prefer === "unapplied") tasks.unshift(copyTask);
     else tasks.push(copyTask);
   }
-  for (const t of tasks) {
+  // Of two branches that are the same search, the later adds no output (the earlier one found them
+  // all, or the search is over); it is left out unless it carries the preferred choice. Without
+  // this, an optional rule whose change leaves many sites as they were took time exponential in
+  // their number (2^n identical paths) in a random grammar of the property tests.
+  let copied = false;
+  const kept = tasks.filter((t) => {
+    if (!t.copies) return true;
+    if (copied && !t.pref) return false;
+    copied = true;
+    return true;
+  });
+  for (const { run: t } of kept) {
     if (scan.full()) return;
     t();
   }
@@ -157,6 +174,7 @@ function forward(p: PreparedRule, v: View, scan: Scan): void {
       (c, pr) => go(k + (n === 0 ? 1 : n), [...out, ...splice(v, k, n, c)], [...outView, ...(n === 0 ? [...c, view[k] as Sym] : c)], pr),
       (pr) => go(k + 1, [...out, ...(v.dots[k] as Sym[]), view[k] as Sym], [...outView, view[k] as Sym], pr),
       pref,
+      n === 1 ? view[k] : undefined,
     );
   };
   go(0, [], [], true);
@@ -193,6 +211,7 @@ function backward(p: PreparedRule, v: View, scan: Scan): void {
       (c, pr) => go(k, [...splice(v, k, n, c), ...out], [...c, ...outView], pr),
       (pr) => go(j, [...(v.dots[j] as Sym[]), view[j] as Sym, ...out], [view[j] as Sym, ...outView], pr),
       pref,
+      n === 1 ? view[j] : undefined,
     );
   };
   go(view.length, [...v.trailing], [], true);
