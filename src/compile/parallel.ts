@@ -5,12 +5,10 @@
 // serialised copies of the step machines). Only from compiled JavaScript (dist/); under a
 // TypeScript test runner, with one core, or for a small cascade, everything runs on one thread.
 
-import { existsSync } from "node:fs";
 import { availableParallelism, loadavg } from "node:os";
-import { dirname, join } from "node:path";
-import { fileURLToPath } from "node:url";
 import { MessageChannel, Worker, receiveMessageOnPort } from "node:worker_threads";
 import { deserialise, serialise, type Fst } from "../fst/index.js";
+import { workerScript } from "../worker-script.js";
 import { CompileLimitError, type Budget, type LimitKind } from "./budget.js";
 import { composeCascade, type Block } from "./cascade.js";
 
@@ -35,10 +33,7 @@ const MIN_ARCS = 5_000;
  * undefined when running from TypeScript sources.
  */
 function script(): string | undefined {
-  const here = fileURLToPath(import.meta.url);
-  if (!here.endsWith(".js")) return undefined;
-  const w = join(dirname(here), "compose-worker.js");
-  return existsSync(w) ? w : undefined;
+  return workerScript(import.meta.url, "compose-worker.js");
 }
 
 /** A cascade being composed: `blocks()` waits for it (synchronously). */

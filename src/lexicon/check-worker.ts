@@ -3,33 +3,23 @@
 // jobs when a `count` message asks for it.
 
 import { parentPort } from "node:worker_threads";
-import { checkWritten, passError, type CheckJob, type CheckReply } from "./check-written.js";
-import { countInputRecords, type InputRecords } from "./reconcile.js";
+import { checkWritten, InputCounts, passError, type CheckJob, type CheckReply } from "./check-written.js";
 
-const inputs = new Map<string, Promise<InputRecords>>();
-const inputOf = (path: string): Promise<InputRecords> => {
-  let p = inputs.get(path);
-  if (p === undefined) {
-    inputs.set(path, (p = countInputRecords(path)));
-    // Counted ahead (a `count` message): a failure is the first job's to report.
-    p.catch(() => undefined);
-  }
-  return p;
-};
+const inputs = new InputCounts();
 // For the tests: the worker dies at its first job, as a crash would end it.
 const dieAtFirstJob = process.env["STRATA_TEST_CHECK_EXIT"] !== undefined;
 
 let queue: Promise<void> = Promise.resolve();
 parentPort!.on("message", (m: { id: number; job: CheckJob } | { count: string }) => {
   if ("count" in m) {
-    void inputOf(m.count);
+    void inputs.of(m.count);
     return;
   }
   if (dieAtFirstJob) process.exit(3);
   queue = queue.then(async () => {
     let reply: CheckReply;
     try {
-      reply = { id: m.id, result: await checkWritten(m.job, inputOf) };
+      reply = { id: m.id, result: await checkWritten(m.job, (p) => inputs.of(p)) };
     } catch (e) {
       reply = { id: m.id, error: passError(e) };
     }

@@ -11,11 +11,9 @@
 // (CPU profile). Without the worker the same function runs on the main thread.
 
 import { availableParallelism } from "node:os";
-import { dirname, join } from "node:path";
-import { existsSync } from "node:fs";
-import { fileURLToPath } from "node:url";
 import { Worker } from "node:worker_threads";
 import type { Diagnostic } from "../diagnostics.js";
+import { workerScript } from "../worker-script.js";
 import { countInputRecords, countWritten, reconcile, type InputRecords } from "./reconcile.js";
 import { reconcileStressReport } from "./reconcile-stress.js";
 
@@ -55,6 +53,26 @@ export async function checkWritten(job: CheckJob, inputOf: (path: string) => Pro
   return { rowsRead: counted.count + (overInput?.count ?? 0), errors, ...(written.tsvWords !== undefined ? { tsvWords: written.tsvWords } : {}) };
 }
 
+/** A run's input files' records, each file counted once: the first asking starts the count. */
+export class InputCounts {
+  private readonly counts = new Map<string, Promise<InputRecords>>();
+
+  of(path: string): Promise<InputRecords> {
+    let p = this.counts.get(path);
+    if (p === undefined) {
+      this.counts.set(path, (p = countInputRecords(path)));
+      // Counted ahead of the checks (`Checker.begin`): a failure is reported to the first check that awaits it.
+      p.catch(() => undefined);
+    }
+    return p;
+  }
+
+  /** Records the caller has counted already. */
+  know(path: string, records: Promise<InputRecords>): void {
+    this.counts.set(path, records);
+  }
+}
+
 /** A file-system error as it crosses from the worker (code, syscall and path kept, so it is reported as one). */
 export interface PassedError {
   readonly message: string;
@@ -84,38 +102,35 @@ export class Checker {
   private worker: Worker | undefined;
   private readonly pending = new Map<number, { resolve: (r: CheckResult) => void; reject: (e: unknown) => void }>();
   private next = 0;
-  private readonly inputs = new Map<string, Promise<InputRecords>>();
+  private readonly inputs = new InputCounts();
   private broken: Error | undefined;
 
   /**
    * `known`: the lexicon's records when the caller has counted them (the main thread then uses
    * them; the worker counts again, on its own thread).
    */
-  constructor(lexicon: string, known: Promise<InputRecords> | undefined) {
-    if (known !== undefined) this.inputs.set(lexicon, known);
+  constructor(private readonly lexicon: string, known: Promise<InputRecords> | undefined) {
+    if (known !== undefined) this.inputs.know(lexicon, known);
   }
 
   /** The compiled worker script in this file's folder (dist/src/lexicon, or the bundle's dist/bun), or undefined from TypeScript sources. */
   static script(): string | undefined {
-    const here = fileURLToPath(import.meta.url);
-    if (!here.endsWith(".js")) return undefined;
-    const w = join(dirname(here), "check-worker.js");
-    return existsSync(w) ? w : undefined;
+    return workerScript(import.meta.url, "check-worker.js");
   }
 
   /**
-   * Starts the worker thread now, counting the records of `lexicon` while the run works on its rows,
+   * Starts the worker thread now, counting the lexicon's records while the run works on its rows,
    * so that they are ready when the first check comes (on this thread they are counted then).
    */
-  begin(lexicon: string): void {
+  begin(): void {
     const script = this.workerScript();
     if (script === undefined || this.broken !== undefined) return;
-    (this.worker ??= this.startWorker(script)).postMessage({ count: lexicon });
+    (this.worker ??= this.startWorker(script)).postMessage({ count: this.lexicon });
   }
 
   run(job: CheckJob): Promise<CheckResult> {
     const script = this.workerScript();
-    if (script === undefined) return checkWritten(job, (p) => this.inputOf(p));
+    if (script === undefined) return checkWritten(job, (p) => this.inputs.of(p));
     if (this.broken !== undefined) return Promise.reject(this.broken);
     const w = (this.worker ??= this.startWorker(script));
     const id = this.next++;
@@ -134,12 +149,6 @@ export class Checker {
 
   private workerScript(): string | undefined {
     return availableParallelism() >= 2 ? Checker.script() : undefined;
-  }
-
-  private inputOf(path: string): Promise<InputRecords> {
-    let p = this.inputs.get(path);
-    if (p === undefined) this.inputs.set(path, (p = countInputRecords(path)));
-    return p;
   }
 
   private startWorker(script: string): Worker {

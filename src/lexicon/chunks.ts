@@ -10,9 +10,7 @@
 // TypeScript test runner the runner stays on one thread.
 
 import { Worker } from "node:worker_threads";
-import { dirname, join } from "node:path";
-import { fileURLToPath } from "node:url";
-import { existsSync } from "node:fs";
+import { workerScript } from "../worker-script.js";
 import { namedProjectRoot } from "../grammar/index.js";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { idBook, openFile, type HeaderColumns } from "./read.js";
@@ -89,10 +87,7 @@ export class ChunkPool {
    * or undefined when running from TypeScript sources.
    */
   static script(): string | undefined {
-    const here = fileURLToPath(import.meta.url);
-    if (!here.endsWith(".js")) return undefined;
-    const w = join(dirname(here), "worker.js");
-    return existsSync(w) ? w : undefined;
+    return workerScript(import.meta.url, "worker.js");
   }
 
   /**

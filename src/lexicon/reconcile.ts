@@ -247,9 +247,7 @@ export interface OverrideInput {
  */
 export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts, over?: OverrideInput): Diagnostic[] {
   const out: Diagnostic[] = [];
-  const fail = (message: string, line = 1): void => {
-    out.push(diagnostic("error", "run/unreconciled", `${message} This is a bug in Strata; please report it with the lexicon.`, { file: lexicon, line, column: 1 }));
-  };
+  const fail = (message: string, line = 1): void => void out.push(unreconciled(lexicon, message, line));
   const replaced = w.replaced ?? [];
   const total = input.count + (over?.input.count ?? 0);
   const check = (name: string, n: number | undefined): void => {
@@ -273,10 +271,15 @@ export function reconcile(lexicon: string, input: InputRecords, w: WrittenCounts
   return out;
 }
 
+/** A reconciliation error (`run/unreconciled`, a bug in Strata) at `line` of the lexicon. */
+function unreconciled(lexicon: string, message: string, line = 1): Diagnostic {
+  return diagnostic("error", "run/unreconciled", `${message} This is a bug in Strata; please report it with the lexicon.`, { file: lexicon, line, column: 1 });
+}
+
 /** The error when the PLS file's lexemes are not the TSV's distinct words (both counted). */
 export function plsMismatch(lexicon: string, plsLexemes: number | undefined, tsvWords: number | undefined): Diagnostic | undefined {
   if (plsLexemes === undefined || tsvWords === undefined || plsLexemes === tsvWords) return undefined;
-  return diagnostic("error", "run/unreconciled", `lexicon.pls holds ${plsLexemes} lexemes but lexicon.tsv ${tsvWords} distinct words. This is a bug in Strata; please report it with the lexicon.`, { file: lexicon, line: 1, column: 1 });
+  return unreconciled(lexicon, `lexicon.pls holds ${plsLexemes} lexemes but lexicon.tsv ${tsvWords} distinct words.`);
 }
 
 /** A record line found missing, doubled, moved or stray: as a message names it, and its line. */

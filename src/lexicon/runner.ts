@@ -195,7 +195,7 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   // written (check-written.ts); the varieties are put in place in order once their checks are back.
   // The checking thread counts the input's records while the rows are worked on.
   const checker = new Checker(lexiconPath, opts.inputRecords);
-  if (live.length > 0) checker.begin(lexiconPath);
+  if (live.length > 0) checker.begin();
   let diagnostics: Diagnostic[];
   const w = opts.workers;
   const engines = live.map((o) => w?.engines[opened.indexOf(o)]);
