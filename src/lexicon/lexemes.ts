@@ -1,8 +1,10 @@
 // The PLS lexemes a run gathers, one book per variety: each word's phonemes in order of first
 // appearance, in the order of the words' first rows. The varieties of a run on one thread share
-// the numbers of their words (`WordIds`), so a row's word is looked up in a map once, not once per
+// the numbers of their words (`WordIds`), so a row's word is looked up once (word-table.ts), not once per
 // variety: in a four-variety build of the CMU dictionary the four maps of 135,000 words took about
 // 0.37 s of the main thread's CPU (a CPU profile).
+
+import { WordTable } from "./word-table.js";
 
 /**
  * A PLS lexeme as gathered: the word's phonemes in order of first appearance (one string while
@@ -21,15 +23,10 @@ export const phonemesOf = (lx: Lexeme): string[] => (typeof lx.phonemes === "str
 
 /** Numbers for words, 0, 1, 2, … in order of first asking; shared by the books of one run's varieties on one thread. */
 export class WordIds {
-  private readonly ids = new Map<string, number>();
+  private readonly table = new WordTable();
 
   idOf(word: string): number {
-    let id = this.ids.get(word);
-    if (id === undefined) {
-      id = this.ids.size;
-      this.ids.set(word, id);
-    }
-    return id;
+    return this.table.numberOf(word);
   }
 }
 
