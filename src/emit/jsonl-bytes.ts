@@ -59,6 +59,27 @@ export function putJsonString(buf: Uint8Array, at: number, s: string): number {
   return at;
 }
 
+/**
+ * The JSON bytes of strings a run writes in every record (step names, the source file, tags): each
+ * is escaped and encoded once. The map is kept small; a string past its limit is written as any other.
+ */
+const known = new Map<string, Uint8Array>();
+const KNOWN_MOST = 512;
+const KNOWN_LONGEST = 64;
+
+/** `s` as putJsonString writes it, copied from `known` (escaped and encoded the first time it comes). */
+function putKnownString(buf: Uint8Array, at: number, s: string): number {
+  let b = known.get(s);
+  if (b === undefined) {
+    if (known.size >= KNOWN_MOST || s.length > KNOWN_LONGEST) return putJsonString(buf, at, s);
+    const tmp = new Uint8Array(6 * s.length + 2);
+    b = tmp.slice(0, putJsonString(tmp, 0, s));
+    known.set(s, b);
+  }
+  for (let i = 0; i < b.length; i++) buf[at++] = b[i]!;
+  return at;
+}
+
 /** A non-negative whole number's digits (anything else as JSON.stringify writes it). */
 function putNumber(buf: Uint8Array, at: number, x: number): number {
   return putAscii(buf, at, Number.isInteger(x) && x >= 0 && x < 1e21 ? String(x) : JSON.stringify(x));
@@ -70,12 +91,12 @@ function copyBytes(buf: Uint8Array, at: number, from: number, to: number): numbe
   return at;
 }
 
-/** `["a","b"]` */
+/** `["a","b"]` (step names or tags: strings that come again and again) */
 function putStrings(buf: Uint8Array, at: number, list: readonly string[]): number {
   buf[at++] = 91;
   for (let i = 0; i < list.length; i++) {
     if (i > 0) buf[at++] = 44;
-    at = putJsonString(buf, at, list[i]!);
+    at = putKnownString(buf, at, list[i]!);
   }
   buf[at++] = 93;
   return at;
@@ -163,7 +184,7 @@ export function putJsonRecord(out: ByteChunks, e: Record, sourceFile?: string, s
   }
   if (sourceFile !== undefined) {
     at = putAscii(buf, at, ',"source":{"file":');
-    at = putJsonString(buf, at, sourceFile);
+    at = putKnownString(buf, at, sourceFile);
     if (sourceLine !== undefined) {
       at = putAscii(buf, at, ',"line":');
       at = putNumber(buf, at, sourceLine);
@@ -175,7 +196,7 @@ export function putJsonRecord(out: ByteChunks, e: Record, sourceFile?: string, s
     at = putAscii(buf, at, ',"derivation":[');
     for (let i = 0; i < derivation.length; i++) {
       at = putAscii(buf, at, i > 0 ? ',{"step":' : '{"step":');
-      at = putJsonString(buf, at, derivation[i]!.step);
+      at = putKnownString(buf, at, derivation[i]!.step);
       at = putAscii(buf, at, ',"form":');
       const form = derivation[i]!.form;
       at = form === narrow ? copyBytes(buf, at, narrowAt, narrowEnd) : putJsonString(buf, at, form);

@@ -163,9 +163,8 @@ export class MachineEngine implements Engine {
     const wantDerivation = wantRules && (this.render.derivations ?? true);
     const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation, share) : NO_BLAME;
     const ruleList = wantRules ? walk.changed : [];
-    const flags = { ...(ambiguous ? { ambiguous: true as const } : {}) };
     if (!wantVariants || walk.single) {
-      return { narrow, broad: broadText, variants: [narrow], rules: ruleList, derivation: walk.derivation, variantSteps: [ruleList], ...flags };
+      return flagged({ narrow, broad: broadText, variants: [narrow], rules: ruleList, derivation: walk.derivation, variantSteps: [ruleList] }, false, ambiguous);
     }
     // Several variants can exist. With the derivation wanted, the traced run through the steps gives
     // every output with its steps; the composed variants cascade runs only when the trace was cut
@@ -186,8 +185,7 @@ export class MachineEngine implements Engine {
     }
     const texts = outputs.map((o) => renderIpa(o, this.view, this.render));
     const variants = [narrow, ...[...new Set(texts)].filter((x) => x !== narrow)];
-    if (capped) Object.assign(flags, { capped: true as const });
-    if (!wantDerivation) return { narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])), ...flags };
+    if (!wantDerivation) return flagged({ narrow, broad: broadText, variants, rules: ruleList, derivation: [], variantSteps: variants.map((_, i) => (i === 0 ? ruleList : [])) }, capped, ambiguous);
     let variantSteps: (readonly string[])[] = [ruleList];
     if (variants.length > 1) {
       // Each variant's steps: of the traced outputs (in key order) the first that renders as it.
@@ -201,7 +199,7 @@ export class MachineEngine implements Engine {
       // A variant the traced run dropped at its cap (more than maxVariants on the way) gets no steps.
       variantSteps = variants.map((v, i) => (i === 0 ? ruleList : byText.get(v) ?? []));
     }
-    return { narrow, broad: broadText, variants, rules: ruleList, derivation: walk.derivation, variantSteps, ...flags };
+    return flagged({ narrow, broad: broadText, variants, rules: ruleList, derivation: walk.derivation, variantSteps }, capped, ambiguous);
   }
 
   /**
@@ -292,6 +290,17 @@ export class MachineEngine implements Engine {
 function skipTables(sw: Compiled): (Uint8Array | null)[] {
   const kinds = sw.preferred.kinds;
   return sw.preferredBlocks.map((b, k) => (kinds[k] === "functional" || kinds[k] === "sequential" ? touchedSymbols(b.machine) : null));
+}
+
+/**
+ * A transcription with its flags when set (`ambiguous` first, as before).
+ * Set on the object made (most entries have neither): spreading a flags object into every
+ * transcription cost about 30 ms of a CMU build.
+ */
+function flagged(t: { -readonly [K in keyof Transcription]: Transcription[K] }, capped: boolean, ambiguous: boolean): Transcription {
+  if (ambiguous) t.ambiguous = true;
+  if (capped) t.capped = true;
+  return t;
 }
 
 const NO_BLAME = { changed: [] as string[], derivation: [] as DerivationStep[], single: false };
