@@ -110,10 +110,15 @@ export const entryJsonLine = (r: EntryResult, file = r.file): string => entryJso
 export const entryJsonRecord = (r: EntryResult, file = r.file): string => jsonRecord(r, file, r.line);
 
 /** A read row and its transcription as one entry. */
-export const entryOf = (row: LexiconRow, key: string, t: Transcription): EntryResult => ({
-  kind: "entry", file: row.file, line: row.line, word: row.word, key, ...(row.id !== undefined ? { id: row.id } : {}), ...t,
-  input: { pron: row.pron, ...(row.pos !== undefined ? { pos: row.pos } : {}), tags: row.tags },
-});
+export function entryOf(row: LexiconRow, key: string, t: Transcription): EntryResult {
+  const input = row.pos !== undefined ? { pron: row.pron, pos: row.pos, tags: row.tags } : { pron: row.pron, tags: row.tags };
+  // The usual entry (no id, no flags) written out field by field: a Transcription's fields, in the
+  // order the spread below gives them. Spreading into every entry cost about 25 ms of a CMU build.
+  if (row.id === undefined && t.ambiguous === undefined && t.capped === undefined) {
+    return { kind: "entry", file: row.file, line: row.line, word: row.word, key, narrow: t.narrow, broad: t.broad, variants: t.variants, rules: t.rules, derivation: t.derivation, variantSteps: t.variantSteps, input };
+  }
+  return { kind: "entry", file: row.file, line: row.line, word: row.word, key, ...(row.id !== undefined ? { id: row.id } : {}), ...t, input };
+}
 
 /** An entry's pronunciations for PLS: the preferred narrow form first, then the other variants. */
 export const entryPhonemes = (r: EntryResult): string[] => plsPhonemes(r, "narrow");
