@@ -2,7 +2,7 @@
 // bytes as `formatTsvEntry` encoded as UTF-8. The key `word#n` is written from its parts.
 
 import type { ByteChunks } from "./bytes.js";
-import { escapeTsvField, formatTsvEntry } from "./tsv.js";
+import { escapeTsvField, formatTsvEntry, type TsvEntry } from "./tsv.js";
 
 const TAB = 9;
 const LF = 10;
@@ -47,4 +47,28 @@ export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, 
   out.putByte(TAB);
   putField(out, broad);
   out.putByte(LF);
+}
+
+/**
+ * One entry's line with its key as given (a build's entries carry theirs). Returns where the line
+ * starts in `out.target` (it ends at `out.position`), or -1 when it was too long for a chunk and
+ * went in as text. Written as a string and then encoded, the lines cost about 0.1 s of a
+ * one-variety CMU build (a CPU profile).
+ */
+export function putTsvLine(out: ByteChunks, e: TsvEntry): number {
+  // Escaping at most doubles a field; 3 bytes per UTF-16 unit; the tabs and line feed.
+  if (!out.room(6 * (e.key.length + e.word.length + e.narrow.length + e.broad.length) + 4)) {
+    out.push(formatTsvEntry(e));
+    return -1;
+  }
+  const start = out.position;
+  putField(out, e.key);
+  out.putByte(TAB);
+  putField(out, e.word);
+  out.putByte(TAB);
+  putField(out, e.narrow);
+  out.putByte(TAB);
+  putField(out, e.broad);
+  out.putByte(LF);
+  return start;
 }

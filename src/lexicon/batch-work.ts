@@ -7,6 +7,7 @@
 import { ByteChunks, utf8Bytes } from "../emit/bytes.js";
 import { putJsonRecord } from "../emit/jsonl-bytes.js";
 import { formatTsvEntry } from "../emit/tsv.js";
+import { putTsvLine } from "../emit/tsv-batch.js";
 import type { Engine, EntryResult, Needs } from "./engine.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { LexiconItem, LexiconRow, RejectedRow } from "./read.js";
@@ -69,8 +70,8 @@ export class SideState {
  */
 interface SharedLines {
   readonly entry: EntryResult;
-  readonly tsv: string;
-  /** The JSON Lines record and its line feed, as UTF-8. */
+  /** The TSV line and the JSON Lines record, each with its line feed, as UTF-8. */
+  readonly tsv: Uint8Array;
   readonly jsonl: Uint8Array;
 }
 
@@ -82,15 +83,17 @@ interface SharedLines {
  */
 interface SharedSlot {
   lines: SharedLines | undefined;
-  scratch: Uint8Array;
+  /** For the JSON Lines record ([0]) and the TSV line ([1]). */
+  readonly scratch: Uint8Array[];
 }
 
-/** `bytes[from … to)` copied into the slot's scratch buffer; a view of the copy. */
-function keepBytes(slot: SharedSlot, bytes: Uint8Array, from: number, to: number): Uint8Array {
+/** `bytes[from … to)` copied into the slot's scratch buffer `k`; a view of the copy. */
+function keepBytes(slot: SharedSlot, k: number, bytes: Uint8Array, from: number, to: number): Uint8Array {
   const n = to - from;
-  if (n > slot.scratch.length) slot.scratch = new Uint8Array(Math.max(n, 2 * slot.scratch.length));
-  slot.scratch.set(bytes.subarray(from, to));
-  return slot.scratch.subarray(0, n);
+  let room = slot.scratch[k]!;
+  if (n > room.length) room = slot.scratch[k] = new Uint8Array(Math.max(n, 2 * room.length));
+  room.set(bytes.subarray(from, to));
+  return room.subarray(0, n);
 }
 
 /** Two entries of one row (same source row, hence same key, word, line and input) with the same transcription. */
@@ -135,7 +138,7 @@ export class BatchWork {
     // The row's word is numbered once for every variety that writes PLS (their books share the numbers).
     const words = sides.some((s) => s.formats.has("pls")) ? states[0]?.lexemes.words : undefined;
     if (words !== undefined && states.some((st) => st.lexemes.words !== words)) throw new Error("the varieties' states do not share their word numbers");
-    const shared: SharedSlot | undefined = sides.length > 1 ? { lines: undefined, scratch: new Uint8Array(4096) } : undefined;
+    const shared: SharedSlot | undefined = sides.length > 1 ? { lines: undefined, scratch: [new Uint8Array(4096), new Uint8Array(1024)] } : undefined;
     for (let i = 0; i < batch.length; i++) {
       const item = batch[i]!;
       if (shared !== undefined) shared.lines = undefined;
@@ -186,19 +189,21 @@ export function emit(side: Side, state: SideState, r: EntryResult | RejectedRow,
   if (state.tsv !== undefined || state.jsonl !== undefined) {
     const before = shared?.lines;
     if (before !== undefined && sameTranscription(before.entry, r)) {
-      state.tsv?.push(before.tsv);
+      state.tsv?.pushBytes(before.tsv);
       state.jsonl?.pushBytes(before.jsonl);
     } else {
-      const tsv = state.tsv !== undefined ? formatTsvEntry({ key: r.key, word: r.word, narrow: r.narrow, broad: r.broad }) : "";
-      state.tsv?.push(tsv);
+      const t = state.tsv;
+      const tsvLine = { key: r.key, word: r.word, narrow: r.narrow, broad: r.broad };
+      const tsvAt = t !== undefined ? putTsvLine(t, tsvLine) : -1;
       const j = state.jsonl;
       if (j !== undefined) {
         const file = state.relFile(r.file);
         const start = putJsonRecord(j, r, file, r.line);
         // Lines of a variety that did not write a format are no use to the next one.
-        if (shared !== undefined && state.tsv !== undefined) {
+        if (shared !== undefined && t !== undefined) {
           // The next variety copies these bytes before it writes its own lines into the slot.
-          const jsonl = start >= 0 ? keepBytes(shared, j.target, start, j.position) : utf8Bytes(entryJsonRecord(r, file) + "\n");
+          const tsv = tsvAt >= 0 ? keepBytes(shared, 1, t.target, tsvAt, t.position) : utf8Bytes(formatTsvEntry(tsvLine));
+          const jsonl = start >= 0 ? keepBytes(shared, 0, j.target, start, j.position) : utf8Bytes(entryJsonRecord(r, file) + "\n");
           shared.lines = { entry: r, tsv, jsonl };
         }
       }

@@ -1,12 +1,13 @@
 // TSV lines put straight into byte chunks (src/emit/tsv-batch.ts) against `formatTsvEntry` encoded
 // by TextEncoder: the same bytes for any fields (escapes, non-ASCII, astral characters, lone
-// surrogates), small chunks and lines longer than a chunk included.
+// surrogates), small chunks and lines longer than a chunk included; and `putTsvLine`, the same
+// line with its key as given (a build's entries), likewise.
 
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { ByteChunks } from "../../src/emit/bytes.js";
 import { formatTsvEntry } from "../../src/emit/tsv.js";
-import { putTsvEntry } from "../../src/emit/tsv-batch.js";
+import { putTsvEntry, putTsvLine } from "../../src/emit/tsv-batch.js";
 
 const SEED = Number(process.env["STRATA_FC_SEED"] ?? (process.env["CI"] ? 415263 : Date.now() % 2 ** 31));
 console.log(`tsv-batch.test: fast-check seed ${SEED} (STRATA_FC_SEED replays it)`);
@@ -38,6 +39,25 @@ describe("putTsvEntry", () => {
         }
         chunks.flush();
         expect(joined(got)).toEqual(new TextEncoder().encode(want));
+      }),
+      { seed: SEED, numRuns: 2000 },
+    );
+  });
+
+  it("puts the bytes of formatTsvEntry's line with the key as given (putTsvLine), and says where the line starts", () => {
+    const entry = fc.record({ key: text, word: text, narrow: text, broad: text });
+    fc.assert(
+      fc.property(fc.array(entry, { minLength: 1, maxLength: 8 }), fc.constantFrom(64, 256, 1 << 16), (entries, size) => {
+        const got: Uint8Array[] = [];
+        const chunks = new ByteChunks((c) => void got.push(c.slice()), size);
+        for (const e of entries) {
+          const at = putTsvLine(chunks, e);
+          const line = new TextEncoder().encode(formatTsvEntry(e));
+          // The line is where it says (it went in as text when -1).
+          if (at >= 0) expect(chunks.target.slice(at, chunks.position)).toEqual(line);
+        }
+        chunks.flush();
+        expect(joined(got)).toEqual(new TextEncoder().encode(entries.map(formatTsvEntry).join("")));
       }),
       { seed: SEED, numRuns: 2000 },
     );
