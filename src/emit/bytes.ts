@@ -125,30 +125,6 @@ export class ByteChunks {
     this.buf[this.at++] = b;
   }
 
-  /**
-   * `text` as UTF-8 (a lone surrogate as U+FFFD, as TextEncoder writes it), written byte by byte:
-   * for the short strings of one line this is cheaper than an `encodeInto` and the view it needs.
-   * The caller made room: 3 bytes per UTF-16 unit.
-   */
-  put(text: string): void {
-    const buf = this.buf;
-    let at = this.at;
-    const n = text.length;
-    for (let i = 0; i < n; i++) {
-      const c = text.charCodeAt(i);
-      if (c < 0x80) buf[at++] = c;
-      else {
-        const next = putNonAscii(buf, at, text, i, c);
-        if (next < 0) at = putNonAscii(buf, at, "\ufffd", 0, 0xfffd);
-        else {
-          if (c <= 0xdbff && c >= 0xd800) i++;
-          at = next;
-        }
-      }
-    }
-    this.at = at;
-  }
-
   /** Hands on what is gathered (nothing when empty). */
   flush(): void {
     if (this.at === 0) return;
@@ -174,7 +150,7 @@ export function putAscii(buf: Uint8Array, at: number, text: string): number {
  * put at `at`: two or three bytes, four for a surrogate pair (the caller then steps over text[i + 1]:
  * `c` is a high surrogate). Returns the position after, or -1 for a lone surrogate (nothing
  * written: each writer has its own way with one). The writers that put text straight into chunks
- * (ByteChunks.put, jsonl-bytes.ts, the PLS lexemes) share it.
+ * (tsv-batch.ts, jsonl-bytes.ts, the PLS lexemes) share it.
  */
 export function putNonAscii(buf: Uint8Array, at: number, text: string, i: number, c: number): number {
   if (c < 0x800) {

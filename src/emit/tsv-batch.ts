@@ -1,24 +1,37 @@
 // TSV lines put straight into byte chunks (emit/bytes.ts), without the line as a string: the same
-// bytes as `formatTsvEntry` encoded as UTF-8. The key `word#n` is written from its parts.
+// bytes as `formatTsvEntry` encoded as UTF-8 (a lone surrogate as U+FFFD, as TextEncoder writes
+// it). Each field is escaped and encoded in one pass. The key `word#n` is written from its parts.
 
-import type { ByteChunks } from "./bytes.js";
-import { escapeTsvField, formatTsvEntry, type TsvEntry } from "./tsv.js";
+import { putAscii, putNonAscii, type ByteChunks } from "./bytes.js";
+import { formatTsvEntry, type TsvEntry } from "./tsv.js";
 
 const TAB = 9;
 const LF = 10;
 const HASH = 35;
 
-/** Whether a field needs `escapeTsvField` (a backslash, tab, line feed or carriage return). */
-function plain(s: string): boolean {
-  for (let i = 0; i < s.length; i++) {
+/** `s` escaped as escapeTsvField escapes it, in UTF-8 at `at`; the position after. At most 3 bytes per UTF-16 unit. */
+function putField(buf: Uint8Array, at: number, s: string): number {
+  const n = s.length;
+  for (let i = 0; i < n; i++) {
     const c = s.charCodeAt(i);
-    if (c === 92 || c === TAB || c === LF || c === 13) return false;
+    if (c < 0x80) {
+      if (c === 92) {
+        buf[at++] = 92;
+        buf[at++] = 92;
+      } else if (c === TAB || c === LF || c === 13) {
+        buf[at++] = 92;
+        buf[at++] = c === TAB ? 116 : c === LF ? 110 : 114;
+      } else buf[at++] = c;
+    } else {
+      const next = putNonAscii(buf, at, s, i, c);
+      if (next < 0) at = putNonAscii(buf, at, "\ufffd", 0, 0xfffd);
+      else {
+        if (c <= 0xdbff && c >= 0xd800) i++;
+        at = next;
+      }
+    }
   }
-  return true;
-}
-
-function putField(out: ByteChunks, s: string): void {
-  out.put(plain(s) ? s : escapeTsvField(s));
+  return at;
 }
 
 /**
@@ -27,26 +40,29 @@ function putField(out: ByteChunks, s: string): void {
  */
 export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, word: string, narrow: string, broad: string): void {
   const keyed = id !== undefined && id !== "";
-  // Escaping at most doubles a field; 3 bytes per UTF-16 unit; the index's digits, tabs and line feed.
-  const most = 6 * ((keyed ? id.length : word.length) + word.length + narrow.length + broad.length) + 24;
+  // 3 bytes per UTF-16 unit (an escape is 2 for 1); the index's digits, tabs and line feed.
+  const most = 3 * ((keyed ? id.length : word.length) + word.length + narrow.length + broad.length) + 24;
   if (!out.room(most)) {
     out.push(formatTsvEntry({ key: keyed ? id : `${word}#${n}`, word, narrow, broad }));
     return;
   }
-  if (keyed) putField(out, id);
+  const buf = out.target;
+  let at = out.position;
+  if (keyed) at = putField(buf, at, id);
   else {
-    putField(out, word);
-    out.putByte(HASH);
-    if (n < 10) out.putByte(48 + n);
-    else out.put(String(n));
+    at = putField(buf, at, word);
+    buf[at++] = HASH;
+    if (n < 10) buf[at++] = 48 + n;
+    else at = putAscii(buf, at, String(n));
   }
-  out.putByte(TAB);
-  putField(out, word);
-  out.putByte(TAB);
-  putField(out, narrow);
-  out.putByte(TAB);
-  putField(out, broad);
-  out.putByte(LF);
+  buf[at++] = TAB;
+  at = putField(buf, at, word);
+  buf[at++] = TAB;
+  at = putField(buf, at, narrow);
+  buf[at++] = TAB;
+  at = putField(buf, at, broad);
+  buf[at++] = LF;
+  out.moveTo(at);
 }
 
 /**
@@ -56,19 +72,20 @@ export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, 
  * one-variety CMU build (a CPU profile).
  */
 export function putTsvLine(out: ByteChunks, e: TsvEntry): number {
-  // Escaping at most doubles a field; 3 bytes per UTF-16 unit; the tabs and line feed.
-  if (!out.room(6 * (e.key.length + e.word.length + e.narrow.length + e.broad.length) + 4)) {
+  if (!out.room(3 * (e.key.length + e.word.length + e.narrow.length + e.broad.length) + 4)) {
     out.push(formatTsvEntry(e));
     return -1;
   }
+  const buf = out.target;
   const start = out.position;
-  putField(out, e.key);
-  out.putByte(TAB);
-  putField(out, e.word);
-  out.putByte(TAB);
-  putField(out, e.narrow);
-  out.putByte(TAB);
-  putField(out, e.broad);
-  out.putByte(LF);
+  let at = putField(buf, start, e.key);
+  buf[at++] = TAB;
+  at = putField(buf, at, e.word);
+  buf[at++] = TAB;
+  at = putField(buf, at, e.narrow);
+  buf[at++] = TAB;
+  at = putField(buf, at, e.broad);
+  buf[at++] = LF;
+  out.moveTo(at);
   return start;
 }
