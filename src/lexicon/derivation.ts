@@ -70,13 +70,22 @@ export class VariantTracer {
   /** Steps that leave every path as it was skip the merging and sorting of paths; false: never (for checks). */
   shortcuts = true;
 
-  trace(input: ArrayLike<number>, cap = 16): TracedOutputs {
+  /**
+   * `from`: where the caller's walk through the preferred blocks stood when the screen first could
+   * not prove the entry single (engine-machine.ts, `blame`): the word entering step `from.step` and
+   * the steps (indices) that had changed it. Every step before is a function or one the screen
+   * proved identity-only on that one path, so the trace from the start reaches the same one path
+   * there; it starts from it instead.
+   */
+  trace(input: ArrayLike<number>, cap = 16, from?: TraceStart): TracedOutputs {
     this.frozen ??= this.stepwise.variantBlocks.map((b, k) => (this.asFunction[k]! >= 0 ? (undefined as unknown as FrozenFst) : freeze(b.machine)));
     const blocks = this.stepwise.variantBlocks;
     const preferred = this.stepwise.preferred;
-    let live: Path[] = [{ ids: Array.from(input), steps: [] }];
+    let live: Path[] = [from !== undefined ? { ids: from.ids, steps: from.steps } : { ids: Array.from(input), steps: [] }];
     let capped = false;
-    for (let k = 0; k < blocks.length; k++) {
+    let k = 0;
+    if (from !== undefined) while (k < blocks.length && blocks[k]!.from < from.step) k++;
+    for (; k < blocks.length; k++) {
       const step = blocks[k]!.from;
       const fn = this.asFunction[k]!;
       if (fn >= 0) {
@@ -125,6 +134,13 @@ export class VariantTracer {
     }
     return { paths: live.map((p) => ({ ids: p.ids, steps: p.steps.map((s) => this.stepNames[s]!) })), capped };
   }
+}
+
+/** Where a trace may start (`VariantTracer.trace`): the word entering step `step` and the steps that changed it before. */
+export interface TraceStart {
+  readonly step: number;
+  readonly ids: number[];
+  readonly steps: number[];
 }
 
 /** Adds a path to its output, keeping the one with fewer (then earlier) steps when two meet. */

@@ -13,7 +13,7 @@ import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine
 import { prosodyOnly } from "./engine-interp.js";
 import { renderIpa, symbolView, type RenderOptions, type SymbolView } from "./render.js";
 import { tiedView } from "./ties.js";
-import { VariantTracer, type DerivationStep, type TracedOutputs } from "./derivation.js";
+import { VariantTracer, type DerivationStep, type TraceStart, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
 import { VariantScreen } from "./variants.js";
 import { stepKeys, translateIds, type WalkShare } from "./walk-share.js";
@@ -173,7 +173,7 @@ export class MachineEngine implements Engine {
     if (wantDerivation) {
       this.tracer ??= new VariantTracer(this.stepwise!, this.steps, this.screen);
       this.tracer.shortcuts = this.skipUnchanged;
-      traced = this.tracer.trace(ids, this.maxVariants);
+      traced = this.tracer.trace(ids, this.maxVariants, walk.traceFrom);
     }
     let capped = false;
     let outputs: readonly (readonly number[])[];
@@ -207,9 +207,14 @@ export class MachineEngine implements Engine {
    * narrow form after each when `forms`, and — when `screen` — whether the screen proved that the
    * entry has exactly one variant.
    */
-  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean, share?: WalkShare): { changed: string[]; derivation: DerivationStep[]; single: boolean } {
+  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean, share?: WalkShare): Walk {
     const sw = this.stepwise!;
     let changed: string[] = [];
+    // The steps (indices) that changed the word, and where the screen first failed (for the trace).
+    const changedAt: number[] = [];
+    let traceFrom: TraceStart | undefined;
+    // Not after taking over a leader's walk (its steps' indices are not here), nor in the checks without shortcuts.
+    let tracing = this.skipUnchanged;
     let derivation: DerivationStep[] = [];
     let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
@@ -230,6 +235,7 @@ export class MachineEngine implements Engine {
         k = kb;
         cur = resumed;
         changed = [...r.changed];
+        tracing = false;
         derivation = [...r.derivation];
         if (check !== null) {
           single = r.single;
@@ -249,6 +255,7 @@ export class MachineEngine implements Engine {
       }
       if (single) {
         single = check!.identity(unchecked, b.from + 1, cur) && !check!.branchingIn(b.from + 1, b.to);
+        if (!single && forms && tracing) traceFrom = { step: unchecked, ids: Array.from(cur), steps: [...changedAt] };
         unchecked = b.to;
       }
       // A step that cannot change any symbol of the word leaves it as it is (see skipTables).
@@ -259,6 +266,7 @@ export class MachineEngine implements Engine {
       if (!sameIds(cur, next)) {
         const step = this.steps[b.from]!;
         changed.push(step);
+        changedAt.push(b.from);
         if (forms) derivation.push({ step, form: renderIpa(next, this.view, this.render) });
       }
       cur = next;
@@ -266,8 +274,11 @@ export class MachineEngine implements Engine {
     if (k === blocks.length) {
       for (; snaps !== undefined && given < snaps.length; given++) if (blocks.length === 0 || blocks[blocks.length - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
     }
-    if (single) single = k === blocks.length && check!.identity(unchecked, Number.MAX_SAFE_INTEGER, cur);
-    return { changed, derivation, single };
+    if (single) {
+      single = k === blocks.length && check!.identity(unchecked, Number.MAX_SAFE_INTEGER, cur);
+      if (!single && k === blocks.length && forms && tracing) traceFrom = { step: unchecked, ids: Array.from(cur), steps: changedAt };
+    }
+    return traceFrom !== undefined ? { changed, derivation, single, traceFrom } : { changed, derivation, single };
   }
 
   private tracer: VariantTracer | undefined;
@@ -303,7 +314,15 @@ function flagged(t: { -readonly [K in keyof Transcription]: Transcription[K] }, 
   return t;
 }
 
-const NO_BLAME = { changed: [] as string[], derivation: [] as DerivationStep[], single: false };
+/** What blame's walk gives (`traceFrom`: where the variant trace may start, when the screen failed on the way). */
+interface Walk {
+  readonly changed: string[];
+  readonly derivation: DerivationStep[];
+  readonly single: boolean;
+  readonly traceFrom?: TraceStart;
+}
+
+const NO_BLAME: Walk = { changed: [], derivation: [], single: false };
 
 function sameIds(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
   if (a.length !== b.length) return false;

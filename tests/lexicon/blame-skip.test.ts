@@ -1,5 +1,6 @@
-// Per-step blame skips a step's run on a word the step cannot change, and the variant trace skips
-// merging paths a step left alone (MachineEngine.skipUnchanged, fst/untouched.ts). On random
+// Per-step blame skips a step's run on a word the step cannot change, the variant trace skips
+// merging paths a step left alone, and it starts where blame's walk stood when the variant screen
+// first failed (MachineEngine.skipUnchanged, fst/untouched.ts, VariantTracer.trace). On random
 // grammars (insertion, deletion, optional rules, syllabify, stress) and random words, the
 // transcription with the shortcuts is the one without: same forms, steps, derivation, variants and
 // each variant's steps; and the variants, the preferred variant's steps and every other variant's
