@@ -12,7 +12,8 @@ import type { Grammar } from "../src/grammar/index.js";
 import type { Inventory } from "../src/inventory/types.js";
 import { writeFileAtomic } from "../src/emit/atomic.js";
 import { writePls, type PlsEntry } from "../src/emit/pls.js";
-import { formatTsvEntry, tsvHeader } from "../src/emit/tsv.js";
+import { tsvHeader } from "../src/emit/tsv.js";
+import { putTsvLine } from "../src/emit/tsv-batch.js";
 import { ALL_NEEDS, NARROW_ONLY, type EntryResult } from "../src/lexicon/engine.js";
 import { machineEngine } from "../src/lexicon/engine-machine.js";
 import { PronReader } from "../src/lexicon/pron.js";
@@ -241,7 +242,7 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
     b.flush();
     yield* ready.splice(0);
   }
-  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), streamed((b, r) => b.push(formatTsvEntry(r)), tsvHeader())));
+  const tsv = await time(() => writeFileAtomic(join(outDir, "lexicon.tsv"), streamed((b, r) => void putTsvLine(b, r), tsvHeader())));
   const jsonl = await time(() => writeFileAtomic(join(outDir, "lexicon.jsonl"), streamed((b, r) => void putJsonRecord(b, r, r.file, r.line))));
   const pls = await time(async () => {
     const lexemes = new Map<string, PlsEntry & { phonemes: string[] }>();
