@@ -8,6 +8,8 @@ import { EntryKeys } from "../src/lexicon/keys.js";
 import { readFileSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { availableParallelism } from "node:os";
+import { setFlagsFromString } from "node:v8";
+import { runInNewContext } from "node:vm";
 import type { Grammar } from "../src/grammar/index.js";
 import type { Inventory } from "../src/inventory/types.js";
 import { writeFileAtomic } from "../src/emit/atomic.js";
@@ -192,7 +194,13 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
   const built = machineEngine(o.grammar, inv, { cacheDir: o.cacheDir });
   const engine = built.engine;
   if (engine === undefined) throw new Error("the en-us grammar does not compile");
+  // Each stage starts after a full collection: the garbage of the stages before (the entries of the
+  // whole dictionary) is otherwise collected in whichever stage comes next, and one run showed the
+  // TSV writer at 0.45 s against 0.1 s in the next.
+  setFlagsFromString("--expose-gc");
+  const collect = runInNewContext("gc") as () => void;
   const time = async <T>(fn: () => T | Promise<T>): Promise<{ ms: number; cpu: number; value: T }> => {
+    collect();
     const c0 = process.cpuUsage();
     const t0 = performance.now();
     const value = await fn();
