@@ -194,13 +194,15 @@ export async function buildStages(o: { csv: string; grammar: Grammar; inventory:
   const built = machineEngine(o.grammar, inv, { cacheDir: o.cacheDir });
   const engine = built.engine;
   if (engine === undefined) throw new Error("the en-us grammar does not compile");
-  // Each stage starts after a full collection: the garbage of the stages before (the entries of the
-  // whole dictionary) is otherwise collected in whichever stage comes next, and one run showed the
-  // TSV writer at 0.45 s against 0.1 s in the next.
+  // Each stage starts after a full collection and a pause for V8's helper threads to finish sweeping
+  // after it: the garbage of the stages before (the entries of the whole dictionary) is otherwise
+  // collected in whichever stage comes next, and one run showed the TSV writer at 0.45 s against
+  // 0.1 s in the next. Without the pause the sweeping ran into the next stage (CPU above its wall time).
   setFlagsFromString("--expose-gc");
   const collect = runInNewContext("gc") as () => void;
   const time = async <T>(fn: () => T | Promise<T>): Promise<{ ms: number; cpu: number; value: T }> => {
     collect();
+    await new Promise((res) => setTimeout(res, 150));
     const c0 = process.cpuUsage();
     const t0 = performance.now();
     const value = await fn();
