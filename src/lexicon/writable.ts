@@ -8,7 +8,7 @@ import type { LexiconRow, RejectedRow } from "./read.js";
 
 /** The reject for a row whose word or narrow forms cannot be written in every format, or undefined. */
 export function unwritableEntry(row: LexiconRow, t: Transcription): RejectedRow | undefined {
-  // The common case without a list of the forms: every form plain XML text (plsTextProblem's own first test).
+  // The common case, without building a list of the forms: neither the word nor any form has a problem.
   if (plsTextProblem(row.word) === undefined && plsTextProblem(t.narrow) === undefined && t.variants.every((v) => plsTextProblem(v) === undefined)) return undefined;
   return unwritableForms(row, [t.narrow, ...t.variants]);
 }
