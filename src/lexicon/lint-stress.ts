@@ -120,24 +120,27 @@ function problemsOf(row: LexiconRow, ctx: StressContext, fs: Features): Problem[
   let last: Bundle | undefined;
   let beforeLast: Bundle | undefined;
   let consonantAfterLast = false;
-  const endWord = (): void => {
-    if (primaries > 1 && !compound) out.push({ code: "lint/many-primary", message: `${primaries} primary stress marks in one word.`, at: { kind: "primary", word, nth: 1 } });
-    compoundPrimaries += primaries;
-    if (nuclei > 0 && allReduced && !reducedWordFound && !weak && last![fs.stress] === "0" && ctx.assignsStress) reducedWordFound = true;
-    if (nuclei > 1 && last![fs.stress] === "+" && last![fs.primary] === "-" && beforeLast![fs.stress] === "-" && !consonantAfterLast && (fs.reduced(last!) || fs.highFront(last!))) {
-      out.push({ code: "lint/final-secondary", message: "secondary stress on the last syllable, which looks weak (open, after an unstressed syllable, with a reduced or high front vowel).", at: { kind: "last-nucleus", word } });
-    }
-    word++;
-    nuclei = 0;
-    primaries = 0;
-    allReduced = true;
-    last = undefined;
-    beforeLast = undefined;
-    consonantAfterLast = false;
-  };
-  for (const s of row.symbols) {
-    if (s.kind !== "segment") {
-      if (s.which === "word") endWord();
+  // One pass and one step past the end, which ends the last word as a word boundary ends the others.
+  // The word's end is written out here, not as a closure: variables a closure captures live on the
+  // heap, and every read of them in this loop (which runs for every entry of a build) went there.
+  const symbols = row.symbols;
+  for (let i = 0; i <= symbols.length; i++) {
+    const s = i < symbols.length ? symbols[i]! : undefined;
+    if (s !== undefined && s.kind !== "segment" && s.which !== "word") continue;
+    if (s === undefined || s.kind !== "segment") {
+      if (primaries > 1 && !compound) out.push({ code: "lint/many-primary", message: `${primaries} primary stress marks in one word.`, at: { kind: "primary", word, nth: 1 } });
+      compoundPrimaries += primaries;
+      if (nuclei > 0 && allReduced && !reducedWordFound && !weak && last![fs.stress] === "0" && ctx.assignsStress) reducedWordFound = true;
+      if (nuclei > 1 && last![fs.stress] === "+" && last![fs.primary] === "-" && beforeLast![fs.stress] === "-" && !consonantAfterLast && (fs.reduced(last!) || fs.highFront(last!))) {
+        out.push({ code: "lint/final-secondary", message: "secondary stress on the last syllable, which looks weak (open, after an unstressed syllable, with a reduced or high front vowel).", at: { kind: "last-nucleus", word } });
+      }
+      word++;
+      nuclei = 0;
+      primaries = 0;
+      allReduced = true;
+      last = undefined;
+      beforeLast = undefined;
+      consonantAfterLast = false;
       continue;
     }
     const b = s.bundle;
@@ -160,7 +163,6 @@ function problemsOf(row: LexiconRow, ctx: StressContext, fs: Features): Problem[
       }
     } else if (st === "0") anyUnassigned = true;
   }
-  endWord();
   if (compound && compoundPrimaries > 1) out.unshift({ code: "lint/many-primary", message: `${compoundPrimaries} primary stress marks in one compound.`, at: { kind: "primary", word: "all", nth: 1 } });
   if (anyStress && !anyPrimary) out.push({ code: "lint/no-primary", message: "the entry has stress marks but no primary stress (ˈ).", at: { kind: "whole" } });
   if (anyNucleus && anyUnassigned && !ctx.assignsStress) {
