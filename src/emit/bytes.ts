@@ -139,6 +139,16 @@ export class ByteChunks {
   }
 }
 
+/**
+ * The character starting at text[i] (`c`, its first code unit, at least 0x80) as UTF-8 at `at`, a
+ * lone surrogate as U+FFFD (as TextEncoder writes it); the position after. Four bytes exactly when
+ * it wrote a surrogate pair: the caller then steps over text[i + 1]. The TSV and PLS writers share it.
+ */
+export function putUtf8(buf: Uint8Array, at: number, text: string, i: number, c: number): number {
+  const next = putNonAscii(buf, at, text, i, c);
+  return next < 0 ? putNonAscii(buf, at, "\ufffd", 0, 0xfffd) : next;
+}
+
 /** ASCII text (tags, keys, punctuation) at `at`, one byte per character; the position after. */
 export function putAscii(buf: Uint8Array, at: number, text: string): number {
   for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);

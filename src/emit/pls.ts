@@ -5,7 +5,7 @@
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic, SourcePos } from "../diagnostics.js";
 import { writeFileAtomic } from "./atomic.js";
-import { ByteChunks, putAscii, putNonAscii } from "./bytes.js";
+import { ByteChunks, putAscii, putUtf8 } from "./bytes.js";
 
 /** PLS 1.0 §4.1: the namespace of every PLS element. */
 export const PLS_NAMESPACE = "http://www.w3.org/2005/01/pronunciation-lexicon";
@@ -344,12 +344,9 @@ function putText(buf: Uint8Array, at: number, s: string): number {
       else if (c === 62) at = putAscii(buf, at, "&gt;");
       else buf[at++] = c;
     } else {
-      const next = putNonAscii(buf, at, s, i, c);
-      if (next < 0) at = putNonAscii(buf, at, "\ufffd", 0, 0xfffd);
-      else {
-        if (c <= 0xdbff && c >= 0xd800) i++;
-        at = next;
-      }
+      const next = putUtf8(buf, at, s, i, c);
+      if (next - at === 4) i++;
+      at = next;
     }
   }
   return at;

@@ -2,7 +2,7 @@
 // bytes as `formatTsvEntry` encoded as UTF-8 (a lone surrogate as U+FFFD, as TextEncoder writes
 // it). Each field is escaped and encoded in one pass. The key `word#n` is written from its parts.
 
-import { putAscii, putNonAscii, type ByteChunks } from "./bytes.js";
+import { putAscii, putUtf8, type ByteChunks } from "./bytes.js";
 import { formatTsvEntry, type TsvEntry } from "./tsv.js";
 
 const TAB = 9;
@@ -23,14 +23,23 @@ function putField(buf: Uint8Array, at: number, s: string): number {
         buf[at++] = c === TAB ? 116 : c === LF ? 110 : 114;
       } else buf[at++] = c;
     } else {
-      const next = putNonAscii(buf, at, s, i, c);
-      if (next < 0) at = putNonAscii(buf, at, "\ufffd", 0, 0xfffd);
-      else {
-        if (c <= 0xdbff && c >= 0xd800) i++;
-        at = next;
-      }
+      const next = putUtf8(buf, at, s, i, c);
+      if (next - at === 4) i++;
+      at = next;
     }
   }
+  return at;
+}
+
+/** A line after its key: a tab before each of word, narrow and broad, and the line feed; the position after. */
+function putRest(buf: Uint8Array, at: number, word: string, narrow: string, broad: string): number {
+  buf[at++] = TAB;
+  at = putField(buf, at, word);
+  buf[at++] = TAB;
+  at = putField(buf, at, narrow);
+  buf[at++] = TAB;
+  at = putField(buf, at, broad);
+  buf[at++] = LF;
   return at;
 }
 
@@ -55,14 +64,7 @@ export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, 
     if (n < 10) buf[at++] = 48 + n;
     else at = putAscii(buf, at, String(n));
   }
-  buf[at++] = TAB;
-  at = putField(buf, at, word);
-  buf[at++] = TAB;
-  at = putField(buf, at, narrow);
-  buf[at++] = TAB;
-  at = putField(buf, at, broad);
-  buf[at++] = LF;
-  out.moveTo(at);
+  out.moveTo(putRest(buf, at, word, narrow, broad));
 }
 
 /**
@@ -78,14 +80,6 @@ export function putTsvLine(out: ByteChunks, e: TsvEntry): number {
   }
   const buf = out.target;
   const start = out.position;
-  let at = putField(buf, start, e.key);
-  buf[at++] = TAB;
-  at = putField(buf, at, e.word);
-  buf[at++] = TAB;
-  at = putField(buf, at, e.narrow);
-  buf[at++] = TAB;
-  at = putField(buf, at, e.broad);
-  buf[at++] = LF;
-  out.moveTo(at);
+  out.moveTo(putRest(buf, putField(buf, start, e.key), e.word, e.narrow, e.broad));
   return start;
 }

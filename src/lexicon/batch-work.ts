@@ -17,7 +17,8 @@ import { StressHygiene } from "./hygiene.js";
 import type { StressContext } from "./lint-stress.js";
 import { plsPhonemesCompact, type PlsPhonemes } from "./ipa-options.js";
 import { followerPlan, type WalkSnapshot, type WalkShare } from "./walk-share.js";
-import { LexemeBook, WordIds } from "./lexemes.js";
+import { LexemeBook } from "./lexemes.js";
+import { WordTable } from "./word-table.js";
 
 /** One variety as the batch work sees it. */
 export interface Side {
@@ -57,7 +58,7 @@ export class SideState {
     readonly tsv: ByteChunks | undefined,
     readonly jsonl: ByteChunks | undefined,
     /** The numbers of words, shared by the states of one run's varieties (the batch work looks a row's word up once). */
-    words: WordIds = new WordIds(),
+    words: WordTable = new WordTable(),
   ) {
     this.hygiene = new StressHygiene(stress, relFile);
     this.lexemes = new LexemeBook(words);
@@ -142,7 +143,7 @@ export class BatchWork {
     for (let i = 0; i < batch.length; i++) {
       const item = batch[i]!;
       if (shared !== undefined) shared.lines = undefined;
-      const wordId = words !== undefined && item.kind === "row" ? words.idOf(item.word) : undefined;
+      const wordId = words !== undefined && item.kind === "row" ? words.numberOf(item.word) : undefined;
       const snaps: WalkSnapshot[] | undefined = snapAt.length > 0 ? [] : undefined;
       for (let v = 0; v < sides.length; v++) {
         const side = sides[v]!;

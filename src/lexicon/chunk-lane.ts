@@ -8,7 +8,8 @@
 import { ByteChunks } from "../emit/bytes.js";
 import type { Inventory } from "../inventory/types.js";
 import { BatchWork, SideState, type Side } from "./batch-work.js";
-import { WordIds, type LexemeBook } from "./lexemes.js";
+import type { LexemeBook } from "./lexemes.js";
+import { WordTable } from "./word-table.js";
 import { EntryKeys } from "./keys.js";
 import { duplicateId, readChunk, type ChunkRead } from "./read-chunk.js";
 import type { LexiconItem } from "./read.js";
@@ -56,7 +57,7 @@ export class ChunkLane {
     const keys = new EntryKeys(before);
     const rowKeys = items.map((item) => (item.kind === "row" ? keys.next(item.word, item.id) : ""));
     const transfer: ArrayBuffer[] = [];
-    const words = new WordIds();
+    const words = new WordTable();
     const states = this.sides.map((s, i) => {
       const tsv: Uint8Array[] = [];
       const jsonl: Uint8Array[] = [];

@@ -1,6 +1,6 @@
 // The PLS lexemes a run gathers, one book per variety: each word's phonemes in order of first
 // appearance, in the order of the words' first rows. The varieties of a run on one thread share
-// the numbers of their words (`WordIds`), so a row's word is looked up once (word-table.ts), not once per
+// the numbers of their words (a WordTable, word-table.ts), so a row's word is looked up once, not once per
 // variety: in a four-variety build of the CMU dictionary the four maps of 135,000 words took about
 // 0.37 s of the main thread's CPU (a CPU profile).
 
@@ -21,21 +21,12 @@ export interface Lexeme {
 /** A lexeme's phonemes as a list. */
 export const phonemesOf = (lx: Lexeme): string[] => (typeof lx.phonemes === "string" ? [lx.phonemes] : lx.phonemes);
 
-/** Numbers for words, 0, 1, 2, … in order of first asking; shared by the books of one run's varieties on one thread. */
-export class WordIds {
-  private readonly table = new WordTable();
-
-  idOf(word: string): number {
-    return this.table.numberOf(word);
-  }
-}
-
-/** One variety's lexemes, found by the numbers `words` gives their words. */
+/** One variety's lexemes, found by the numbers `words` gives their words (shared by the books of one run's varieties on one thread). */
 export class LexemeBook {
   private readonly byId: (Lexeme | undefined)[] = [];
   private readonly list: Lexeme[] = [];
 
-  constructor(readonly words: WordIds = new WordIds()) {}
+  constructor(readonly words: WordTable = new WordTable()) {}
 
   /** Distinct words. */
   get size(): number {
@@ -51,7 +42,7 @@ export class LexemeBook {
    * Adds a row's phonemes (one, or a list) to its word's lexeme (a new lexeme at the word's first
    * row, `file` and `line`). `id`: the word's number from this book's `words`, when the caller has it.
    */
-  add(word: string, mine: string | string[], file: string, line: number, id = this.words.idOf(word)): void {
+  add(word: string, mine: string | string[], file: string, line: number, id = this.words.numberOf(word)): void {
     const byId = this.byId;
     // Kept dense (no holes far ahead of the end, which would turn the array into a dictionary).
     while (byId.length <= id) byId.push(undefined);

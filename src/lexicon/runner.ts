@@ -16,7 +16,7 @@ import { VarietyOutput, type VarietyRun } from "./variety-out.js";
 import { MachineEngine } from "./engine-machine.js";
 import type { WalkShare } from "./walk-share.js";
 import { BatchWork } from "./batch-work.js";
-import { WordIds } from "./lexemes.js";
+import { WordTable } from "./word-table.js";
 import { Checker } from "./check-written.js";
 import { ChunkPool } from "./chunks.js";
 import { ChunkLane } from "./chunk-lane.js";
@@ -186,7 +186,7 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   const t0 = performance.now();
   const formats = new Set(opts.formats ?? ALL_FORMATS);
   const root = opts.sourceRoot ?? dirname(lexiconPath);
-  const words = new WordIds();
+  const words = new WordTable();
   const opened = await Promise.all(runs.map((r) => VarietyOutput.open(r, inventory, formats, lexiconPath, root, t0, opts.plsPhonemes, words)));
   const live = opened.filter((o): o is VarietyOutput => o instanceof VarietyOutput);
   const every = opts.progressEvery ?? 1000;

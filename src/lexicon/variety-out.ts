@@ -25,7 +25,8 @@ import { isFsError } from "../tempfile.js";
 import { STRESS_REPORT } from "./hygiene.js";
 import type { PlsPhonemes } from "./ipa-options.js";
 import { emit, SideState, type Side } from "./batch-work.js";
-import { phonemesOf, type WordIds } from "./lexemes.js";
+import { phonemesOf } from "./lexemes.js";
+import type { WordTable } from "./word-table.js";
 import type { SideChunk } from "./worker.js";
 import { unpackLexemes } from "./chunk-lane.js";
 
@@ -60,7 +61,7 @@ export class VarietyOutput {
     private readonly t0: number,
     inventory: Inventory,
     pls: PlsPhonemes | undefined,
-    words: WordIds | undefined,
+    words: WordTable | undefined,
   ) {
     this.tsv = formats.has("tsv") ? this.open("lexicon.tsv") : undefined;
     this.jsonl = formats.has("jsonl") ? this.open("lexicon.jsonl") : undefined;
@@ -77,7 +78,7 @@ export class VarietyOutput {
 
   /** Opens the variety's staging folder; a folder that cannot be made is the variety's failed summary. */
   /** `words`: the numbers of words, shared by the varieties of one run (lexemes.ts). */
-  static async open(run: VarietyRun, inventory: Inventory, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number, pls?: PlsPhonemes, words?: WordIds): Promise<VarietyOutput | RunSummary> {
+  static async open(run: VarietyRun, inventory: Inventory, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number, pls?: PlsPhonemes, words?: WordTable): Promise<VarietyOutput | RunSummary> {
     // The override file is read whole first: a file that cannot be read stops the variety before anything is written.
     const ov = run.overrides !== undefined ? await Overrides.read(run.overrides, inventory) : undefined;
     if (ov?.failed === true) {

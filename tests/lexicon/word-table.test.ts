@@ -4,7 +4,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { WordTable } from "../../src/lexicon/word-table.js";
-import { WordIds } from "../../src/lexicon/lexemes.js";
+import { LexemeBook } from "../../src/lexicon/lexemes.js";
 
 const model = (words: readonly string[]): number[] => {
   const seen = new Map<string, number>();
@@ -48,8 +48,9 @@ describe("WordTable", () => {
     expect(t.size).toBe(40_001);
   });
 
-  it("is what WordIds numbers a run's words with", () => {
-    const ids = new WordIds();
-    expect(["b", "a", "c", "b", "a"].map((w) => ids.idOf(w))).toEqual([0, 1, 2, 0, 1]);
+  it("is what a run's lexeme books number their words with", () => {
+    const book = new LexemeBook();
+    expect(book.words).toBeInstanceOf(WordTable);
+    expect(["b", "a", "c", "b", "a"].map((w) => book.words.numberOf(w))).toEqual([0, 1, 2, 0, 1]);
   });
 });
