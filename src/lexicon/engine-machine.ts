@@ -8,6 +8,7 @@ import type { Grammar } from "../grammar/ast.js";
 import type { Inventory } from "../inventory/types.js";
 import { WORD_EDGE, type Word } from "../interp/index.js";
 import { compileGrammar, segmentsOutside, type Compiled } from "../compile/index.js";
+import { freeze } from "../fst/index.js";
 import type { Bundle } from "../inventory/types.js";
 import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
@@ -15,9 +16,9 @@ import { renderIpa, symbolView, type RenderOptions, type SymbolView } from "./re
 import { tiedView } from "./ties.js";
 import { VariantTracer, type DerivationStep, type TraceStart, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
-import { VariantScreen } from "./variants.js";
+import { IdentityScreen, VariantScreen } from "./variants.js";
 import { stepKeys, translateIds, type WalkShare } from "./walk-share.js";
-import { touchedSymbols, touches } from "../fst/untouched.js";
+import { runsBlock, touchedSymbols, TouchMasks } from "../fst/untouched.js";
 
 export interface MachineEngineOptions {
   /** Cache folder for compiled machines (e.g. build/cache); none when absent. */
@@ -218,7 +219,9 @@ export class MachineEngine implements Engine {
     let derivation: DerivationStep[] = [];
     let cur: ArrayLike<number> = ids;
     const blocks = sw.preferredBlocks;
-    const skip = this.skipUnchanged ? (this.skipTables ??= skipTables(sw)) : [];
+    const masks = this.skipUnchanged ? (this.touchMasks ??= new TouchMasks(skipTables(sw))) : null;
+    const mask = masks !== null ? (this.mask ??= new Int32Array(masks.width)) : null;
+    const same = masks !== null ? (this.sameScreens ??= sameScreens(sw)) : null;
     const check = screen ? this.screen : null;
     let single = check !== null;
     // Steps before `unchecked` have been screened; a step with no preferred block (prefer
@@ -243,6 +246,7 @@ export class MachineEngine implements Engine {
         }
       }
     }
+    if (masks !== null) masks.fill(cur, mask!);
     const snaps = share?.snapAt;
     let given = 0;
     const snapshot = (step: number): void => share!.give!({ engine: this, step, ids: Array.from(cur), changed: [...changed], derivation: [...derivation], screened: check !== null, single, unchecked });
@@ -258,9 +262,12 @@ export class MachineEngine implements Engine {
         if (!single && forms && tracing) traceFrom = { step: unchecked, ids: Array.from(cur), steps: [...changedAt] };
         unchecked = b.to;
       }
-      // A step that cannot change any symbol of the word leaves it as it is (see skipTables).
-      const t = skip[k];
-      if (t !== null && t !== undefined && !touches(t, cur)) continue;
+      // A step that cannot change any symbol of the word leaves it as it is (see skipTables); nor
+      // does one whose machine copies this word on every path (see sameScreens). Of the 1.03 M
+      // step runs left by the first test on the CMU dictionary under en-us, 0.72 M changed nothing.
+      if (mask !== null && !runsBlock(mask, k)) continue;
+      const sc = same !== null ? same[k] : null;
+      if (sc !== null && sc !== undefined && sc.identityOnly(cur)) continue;
       const next: number[] = [];
       if (!sw.preferred.runBlock(k, cur, next)) break;
       if (!sameIds(cur, next)) {
@@ -268,6 +275,7 @@ export class MachineEngine implements Engine {
         changed.push(step);
         changedAt.push(b.from);
         if (forms) derivation.push({ step, form: renderIpa(next, this.view, this.render) });
+        if (masks !== null) masks.fill(next, mask!);
       }
       cur = next;
     }
@@ -287,7 +295,11 @@ export class MachineEngine implements Engine {
    * the merging of paths a step left as they were; false: neither (for checks).
    */
   skipUnchanged = true;
-  private skipTables: readonly (Uint8Array | null)[] | undefined;
+  /** The blocks' skipTables as bits per symbol (one pass over the word tells every block). */
+  private touchMasks: TouchMasks | undefined;
+  private sameScreens: readonly (IdentityScreen | null)[] | undefined;
+  /** The blocks the current word of blame's walk must be run through (TouchMasks.fill). */
+  private mask: Int32Array | undefined;
 }
 
 /**
@@ -301,6 +313,18 @@ export class MachineEngine implements Engine {
 function skipTables(sw: Compiled): (Uint8Array | null)[] {
   const kinds = sw.preferred.kinds;
   return sw.preferredBlocks.map((b, k) => (kinds[k] === "functional" || kinds[k] === "sequential" ? touchedSymbols(b.machine) : null));
+}
+
+/**
+ * Per block of the per-step cascade, a screen that proves a word is copied by every accepting path
+ * of the block's machine (variants.ts), or null where the block must always be run. Where the step
+ * is a function, its one output on such a word is the word itself. One pass over the word with a
+ * table look-up per symbol, no output written: cheaper than the run it saves (blame: 0.26 s to
+ * 0.20 s of a CMU pass, in process, best of 7, with the flat transition table).
+ */
+function sameScreens(sw: Compiled): (IdentityScreen | null)[] {
+  const kinds = sw.preferred.kinds;
+  return sw.preferredBlocks.map((b, k) => (kinds[k] === "functional" || kinds[k] === "sequential" ? new IdentityScreen(freeze(b.machine), sw.alphabet.size) : null));
 }
 
 /**

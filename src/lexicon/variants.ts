@@ -9,7 +9,8 @@
 // deletions or final output), its image is that one string. So if every branching step is
 // identity-only on the preferred derivation's string before it, the whole image is the preferred
 // output alone. "Identity-only" is decided by a lazily built subset automaton over configurations
-// (state, changed-flag) of the step's machine: one table look-up per symbol once warm.
+// (state, changed-flag) of the step's machine: one table look-up per symbol once warm. Per-step
+// blame uses the same screen on steps that are functions, to skip runs that would copy the word.
 
 import { EPSILON, freeze, type FrozenFst } from "../fst/index.js";
 import type { Compiled } from "../compile/index.js";
@@ -18,11 +19,14 @@ import type { Compiled } from "../compile/index.js";
 const MAX_SUBSETS = 20_000;
 
 /** Identity-only decision for one machine over inputs of an alphabet of `size` symbols. */
-class IdentityScreen {
+export class IdentityScreen {
   private readonly m: FrozenFst;
   private readonly size: number;
-  /** Per subset state: its transitions by symbol (-1 unknown, -2 none alive), created lazily. */
-  private readonly next: Int32Array[] = [];
+  /**
+   * Transitions of the subset states, `size` per state (-1 unknown, -2 none alive), created lazily:
+   * one flat table, grown by doubling, so a warm step is one look-up.
+   */
+  private next = new Int32Array(0);
   /** Per subset state: 1 when a changed configuration accepts (or a clean one with final output), 2 when only clean ones accept, 0 none. */
   private readonly verdict: number[] = [];
   private readonly configs: Int32Array[] = [];
@@ -67,7 +71,11 @@ class IdentityScreen {
     }
     this.byKey.set(key, d);
     this.configs.push(Int32Array.from(configs));
-    this.next.push(new Int32Array(this.size).fill(-1));
+    if (this.next.length < (d + 1) * this.size) {
+      const grown = new Int32Array(Math.max(16, 2 * (d + 1)) * this.size).fill(-1);
+      grown.set(this.next);
+      this.next = grown;
+    }
     const m = this.m;
     let v = 0;
     for (const c of configs) {
@@ -94,7 +102,7 @@ class IdentityScreen {
       }
     }
     const t = seed.length === 0 ? -2 : this.state(this.closure(seed));
-    if (t !== -1) this.next[d]![x] = t;
+    if (t !== -1) this.next[d * this.size + x] = t;
     return t;
   }
 
@@ -102,10 +110,11 @@ class IdentityScreen {
   identityOnly(input: ArrayLike<number>): boolean {
     let d = this.start;
     if (d < 0) return false;
+    const size = this.size;
     for (let i = 0; i < input.length; i++) {
       const x = input[i]!;
-      if (x <= EPSILON || x >= this.size) return false;
-      let t = this.next[d]![x]!;
+      if (x <= EPSILON || x >= size) return false;
+      let t = this.next[d * size + x]!;
       if (t === -1) {
         if (this.full) return false;
         t = this.step(d, x);

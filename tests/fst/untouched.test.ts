@@ -1,11 +1,11 @@
 // The symbols a transducer may change (fst/untouched.ts), against an exhaustive search of its
 // outputs (brute.ts): on random machines, every string made only of unmarked symbols is copied by
-// every accepting path.
+// every accepting path. The blocks' tables as bit masks (TouchMasks) agree with `touches` block by block.
 
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { Fst } from "../../src/fst/fst.js";
-import { touchedSymbols, touches } from "../../src/fst/untouched.js";
+import { runsBlock, touchedSymbols, touches, TouchMasks } from "../../src/fst/untouched.js";
 import { allStrings, arbFst, transduce } from "./brute.js";
 
 const LABELS = 3;
@@ -57,5 +57,30 @@ describe("touchedSymbols", () => {
     const g = new Fst();
     g.setFinal(g.addState(), [1]);
     expect(touchedSymbols(g)).toBeNull();
+  });
+});
+
+describe("TouchMasks", () => {
+  // Tables of different lengths (a symbol past a table's end counts as touched), some blocks with
+  // none (always run), and cascades of more than 32 blocks (masks of several words).
+  const table = fc.option(fc.array(fc.integer({ min: 0, max: 1 }), { maxLength: 9 }).map((a) => Uint8Array.from(a)), { nil: null, freq: 4 });
+  it("runs a block exactly when touches() says the word holds a symbol it may change (property)", () => {
+    let skipped = 0;
+    fc.assert(
+      fc.property(fc.array(table, { minLength: 1, maxLength: 70, size: "max" }), fc.array(fc.array(fc.integer({ min: 0, max: 11 }), { maxLength: 8 }), { minLength: 1, maxLength: 10 }), (tables, words) => {
+        const masks = new TouchMasks(tables);
+        const mask = new Int32Array(masks.width);
+        for (const w of words) {
+          masks.fill(w, mask);
+          tables.forEach((t, k) => {
+            const runs = t === null || touches(t, w);
+            if (!runs) skipped++;
+            expect(runsBlock(mask, k)).toBe(runs);
+          });
+        }
+      }),
+      { numRuns: 300 },
+    );
+    expect(skipped).toBeGreaterThan(1000);
   });
 });
