@@ -10,6 +10,15 @@ import { ByteChunks, releaseChunk, utf8Bytes } from "./bytes.js";
 /** What can be written: one string or buffer, or a (possibly asynchronous) sequence of string or byte chunks. */
 export type AtomicData = string | Uint8Array | Iterable<string | Uint8Array> | AsyncIterable<string | Uint8Array>;
 
+export interface AtomicOptions {
+  /**
+   * Told after each chunk of a sequence is written: the temporary file and the bytes in it so far
+   * (for a reader that follows the file as it grows; the file is renamed, not copied, at the end,
+   * so a handle opened on it reads the finished file).
+   */
+  readonly written?: (temp: string, bytes: number) => void;
+}
+
 /**
  * Writes `data` to `path` atomically and returns the number of bytes written. A chunk of `data`
  * that a ByteChunks made is given back to it once written (emit/bytes.ts): the caller does not
@@ -20,7 +29,7 @@ export type AtomicData = string | Uint8Array | Iterable<string | Uint8Array> | A
  * fails (including an exception thrown by the chunk iterator) the temporary file is removed, the
  * target keeps its previous content (or stays absent) and the error is re-thrown.
  */
-export async function writeFileAtomic(path: string, data: AtomicData): Promise<number> {
+export async function writeFileAtomic(path: string, data: AtomicData, opts: AtomicOptions = {}): Promise<number> {
   const dir = dirname(path);
   await mkdir(dir, { recursive: true });
   // Named after this process (src/tempfile.ts), so a later run removes it if this one is killed.
@@ -42,6 +51,7 @@ export async function writeFileAtomic(path: string, data: AtomicData): Promise<n
         for (const c of full.splice(0)) {
           await writeAll(h, c);
           bytes += c.byteLength;
+          opts.written?.(temp, bytes);
           // Written: a ByteChunks' chunk goes back to be filled again (emit/bytes.ts).
           releaseChunk(c);
         }

@@ -3,7 +3,7 @@
 // cost more than writing it. Lines end at LF (one CR before it dropped), as `eachLine` in
 // reconcile.ts reads them; the fields are found with the same rules as its regular expressions.
 
-import { open } from "node:fs/promises";
+import { open, type FileHandle } from "node:fs/promises";
 
 /** Bytes read per call (the buffer grows only for a line longer than this). */
 const READ_BYTES = 1 << 20;
@@ -15,33 +15,66 @@ const READ_BYTES = 1 << 20;
  * allocated twice the file's size outside the heap, which made the garbage collector sweep a
  * build's whole heap again and again while its outputs were read back. `size`: bytes per read.
  */
-export async function eachLineBytes(path: string, fn: (buf: Buffer, start: number, end: number) => void, size = READ_BYTES): Promise<void> {
+export async function eachLineBytes(path: string, fn: LineFn, size = READ_BYTES): Promise<void> {
   const h = await open(path, "r");
   try {
-    let buf = Buffer.allocUnsafe(Math.max(1, size));
-    let kept = 0;
-    for (;;) {
+    const lines = new LineFeeder(fn, size);
+    await lines.feed(h);
+    lines.end();
+  } finally {
+    await h.close();
+  }
+}
+
+/** What gets each line: bytes `start` … `end` of `buf` (no line end). */
+export type LineFn = (buf: Buffer, start: number, end: number) => void;
+
+/**
+ * The lines of a file read in steps (`feed`, then `end` once the file is complete): each read goes
+ * on from where the one before stopped, and a line cut by the end of a read waits for the rest.
+ * A build's checking thread reads a file this way while it is being written (check-written.ts).
+ */
+export class LineFeeder {
+  private buf: Buffer;
+  private kept = 0;
+  /** Bytes of the file read so far. */
+  position = 0;
+
+  constructor(private readonly fn: LineFn, size = READ_BYTES) {
+    this.buf = Buffer.allocUnsafe(Math.max(1, size));
+  }
+
+  /** Reads from `h` (from `position` on) up to byte `upTo` of the file, or to its end when absent. */
+  async feed(h: FileHandle, upTo = Infinity): Promise<void> {
+    while (this.position < upTo) {
+      let buf = this.buf;
+      const kept = this.kept;
       if (kept === buf.length) {
         const bigger = Buffer.allocUnsafe(buf.length * 2);
         buf.copy(bigger, 0, 0, kept);
-        buf = bigger;
+        this.buf = buf = bigger;
       }
-      const { bytesRead } = await h.read(buf, kept, buf.length - kept, null);
+      const { bytesRead } = await h.read(buf, kept, Math.min(buf.length - kept, upTo - this.position), this.position);
       if (bytesRead === 0) break;
+      this.position += bytesRead;
       const filled = kept + bytesRead;
       const view = buf.subarray(0, filled);
       let start = 0;
       // `view` is a new object per read (the same memory): callers may key what they found on it.
       for (let nl = view.indexOf(10); nl >= 0; nl = view.indexOf(10, start)) {
-        fn(view, start, nl > start && view[nl - 1] === 13 ? nl - 1 : nl);
+        this.fn(view, start, nl > start && view[nl - 1] === 13 ? nl - 1 : nl);
         start = nl + 1;
       }
       buf.copy(buf, 0, start, filled);
-      kept = filled - start;
+      this.kept = filled - start;
     }
-    if (kept > 0) fn(buf.subarray(0, kept), 0, buf[kept - 1] === 13 ? kept - 1 : kept);
-  } finally {
-    await h.close();
+  }
+
+  /** The file is complete: its last line, when it has no line end. */
+  end(): void {
+    const kept = this.kept;
+    this.kept = 0;
+    if (kept > 0) this.fn(this.buf.subarray(0, kept), 0, this.buf[kept - 1] === 13 ? kept - 1 : kept);
   }
 }
 
@@ -105,35 +138,51 @@ const SOURCE = Buffer.from('"source":{"file":"');
 const LINE = Buffer.from(',"line":');
 const WORD = Buffer.from('"word":"');
 
-/**
- * JSON Lines read back: the line count, and each record's `source.line` (0 when absent),
- * `source.file` ("" when absent) and `word` ("" when absent).
- */
-export async function readBackJsonl(path: string): Promise<{ count: number; lines: number[]; files: string[]; words: string[] }> {
-  const lines: number[] = [];
-  const files: string[] = [];
-  const words: string[] = [];
-  const source = new Finder(SOURCE);
-  const word = new Finder(WORD);
+/** What a JSON Lines file read back gives: the line count, and each record's `source.line` (0 when absent), `source.file` ("" when absent) and `word` ("" when absent). */
+export interface JsonlBack {
+  count: number;
+  lines: number[];
+  files: string[];
+  words: string[];
+}
+
+/** JSON Lines read back (`JsonlReader.line` for each line). */
+export async function readBackJsonl(path: string): Promise<JsonlBack> {
+  const r = new JsonlReader();
+  await eachLineBytes(path, r.line);
+  return r.result();
+}
+
+/** The JSON Lines read-back, line by line. */
+export class JsonlReader {
+  private readonly lines: number[] = [];
+  private readonly files: string[] = [];
+  private readonly words: string[] = [];
+  private readonly source = new Finder(SOURCE);
+  private readonly word = new Finder(WORD);
   // Every record of a run names one file or two: its JSON string is decoded once per change (the
   // bytes compared with the last ones in place, no string made per record).
-  let lastRaw: Buffer = Buffer.alloc(0);
-  let lastFile = "";
-  await eachLineBytes(path, (buf, start, end) => {
-    const s = sourceOf(buf, start, end, source);
-    lines.push(s === undefined ? 0 : s.line);
-    if (s === undefined) files.push("");
+  private lastRaw: Buffer = Buffer.alloc(0);
+  private lastFile = "";
+
+  readonly line: LineFn = (buf, start, end) => {
+    const s = sourceOf(buf, start, end, this.source);
+    this.lines.push(s === undefined ? 0 : s.line);
+    if (s === undefined) this.files.push("");
     else {
       const n = s.close - s.open;
-      if (n !== lastRaw.length || buf.compare(lastRaw, 0, n, s.open, s.close) !== 0) {
-        lastRaw = Buffer.from(buf.subarray(s.open, s.close));
-        lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string;
+      if (n !== this.lastRaw.length || buf.compare(this.lastRaw, 0, n, s.open, s.close) !== 0) {
+        this.lastRaw = Buffer.from(buf.subarray(s.open, s.close));
+        this.lastFile = JSON.parse(buf.toString("utf8", s.open, s.close)) as string;
       }
-      files.push(lastFile);
+      this.files.push(this.lastFile);
     }
-    words.push(wordOf(buf, start, end, word));
-  });
-  return { count: lines.length, lines, files, words };
+    this.words.push(wordOf(buf, start, end, this.word));
+  };
+
+  result(): JsonlBack {
+    return { count: this.lines.length, lines: this.lines, files: this.files, words: this.words };
+  }
 }
 
 /**
@@ -177,27 +226,44 @@ function wordOf(buf: Buffer, start: number, end: number, finder: Finder): string
   return "";
 }
 
-/** TSV read back: entry lines (header excluded) and the number of distinct values of its `word` column. */
-export async function readBackTsv(path: string): Promise<{ entries: number; words: number }> {
-  let wordAt = -1;
-  const words = new Set<string>();
-  let n = -1;
-  await eachLineBytes(path, (buf, start, end) => {
-    if (n === -1) wordAt = buf.toString("utf8", start, end).split("\t").indexOf("word");
-    else if (wordAt >= 0) {
+/** What a TSV file read back gives: entry lines (header excluded) and the number of distinct values of its `word` column. */
+export interface TsvBack {
+  entries: number;
+  words: number;
+}
+
+/** TSV read back (`TsvReader.line` for each line). */
+export async function readBackTsv(path: string): Promise<TsvBack> {
+  const r = new TsvReader();
+  await eachLineBytes(path, r.line);
+  return r.result();
+}
+
+/** The TSV read-back, line by line. */
+export class TsvReader {
+  private wordAt = -1;
+  private readonly words = new Set<string>();
+  private n = -1;
+
+  readonly line: LineFn = (buf, start, end) => {
+    if (this.n === -1) this.wordAt = buf.toString("utf8", start, end).split("\t").indexOf("word");
+    else if (this.wordAt >= 0) {
       let from = start;
-      for (let k = 0; k < wordAt && from >= 0; k++) {
+      for (let k = 0; k < this.wordAt && from >= 0; k++) {
         const tab = buf.indexOf(9, from);
         from = tab >= 0 && tab < end ? tab + 1 : -1;
       }
-      if (from < 0) words.add("");
+      if (from < 0) this.words.add("");
       else {
         const tab = buf.indexOf(9, from);
         // Distinct byte strings are distinct latin1 strings: no UTF-8 decoding needed to count them.
-        words.add(buf.toString("latin1", from, tab >= 0 && tab < end ? tab : end));
+        this.words.add(buf.toString("latin1", from, tab >= 0 && tab < end ? tab : end));
       }
     }
-    n++;
-  });
-  return { entries: Math.max(0, n), words: words.size };
+    this.n++;
+  };
+
+  result(): TsvBack {
+    return { entries: Math.max(0, this.n), words: this.words.size };
+  }
 }

@@ -6,7 +6,7 @@ import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
-import { countTag, readBackJsonl, readBackTsv } from "./readback.js";
+import { countTag, readBackJsonl, readBackTsv, type JsonlBack, type TsvBack } from "./readback.js";
 
 /** The data records of a lexicon file: how many, the 1-based line of each, and each one's word. */
 export interface InputRecords {
@@ -186,11 +186,15 @@ export interface WrittenCounts {
 }
 
 /** Reads back the files of one variety's staging folder (each path given is a file that was written; readback.ts reads them on bytes). */
-export async function countWritten(files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string; readonly replaced?: string }): Promise<WrittenCounts> {
+export async function countWritten(
+  files: { readonly tsv?: string; readonly jsonl?: string; readonly pls?: string; readonly rejects: string; readonly replaced?: string },
+  /** The TSV and JSON Lines files already read back (as they were written, check-written.ts): not read again. */
+  known: { readonly tsv?: TsvBack; readonly jsonl?: JsonlBack } = {},
+): Promise<WrittenCounts> {
   let tsv: number | undefined;
   let tsvWords: number | undefined;
   if (files.tsv !== undefined) {
-    const t = await readBackTsv(files.tsv);
+    const t = known.tsv ?? (await readBackTsv(files.tsv));
     tsv = t.entries;
     tsvWords = t.words;
   }
@@ -199,7 +203,7 @@ export async function countWritten(files: { readonly tsv?: string; readonly json
   let jsonlWords: string[] | undefined;
   let jsonlFiles: string[] | undefined;
   if (files.jsonl !== undefined) {
-    const j = await readBackJsonl(files.jsonl);
+    const j = known.jsonl ?? (await readBackJsonl(files.jsonl));
     jsonl = j.count;
     jsonlLines = j.lines;
     jsonlWords = j.words;

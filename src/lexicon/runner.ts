@@ -201,6 +201,11 @@ export async function runVarieties(inventory: Inventory, lexiconPath: string, ru
   // The checking thread counts the input's records while the rows are worked on.
   const checker = new Checker(lexiconPath, opts.inputRecords);
   if (live.length > 0) checker.begin();
+  // The first variety's TSV and JSON Lines are read back as they are written; the others' checks
+  // come while the main thread writes the PLS files, and following them too held every variety's
+  // read-back in memory at once (four varieties of the CMU dictionary: 70 MB more peak RSS, no
+  // faster).
+  live[0]?.follow(checker);
   let diagnostics: Diagnostic[];
   const w = opts.workers;
   const engines = live.map((o) => w?.engines[opened.indexOf(o)]);

@@ -16,7 +16,7 @@ import { writeRejects } from "./read.js";
 import { stageFolder } from "./outdir.js";
 import { plsMismatch } from "./reconcile.js";
 import { countTag } from "./readback.js";
-import type { Checker, CheckResult } from "./check-written.js";
+import type { Checker, CheckResult, Follow } from "./check-written.js";
 import { Overrides, writeReplaced } from "./overrides.js";
 import type { Inventory } from "../inventory/types.js";
 import { failedSummary, transcribeRow, type OutputFormat, type RunSummary } from "./runner.js";
@@ -47,6 +47,8 @@ export class VarietyOutput {
   private readonly writers: Promise<number>[] = [];
   private readonly tsv: Channel<string | Uint8Array> | undefined;
   private readonly jsonl: Channel<string | Uint8Array> | undefined;
+  /** The TSV and JSON Lines files as the checking thread follows them while they are written (`follow`). */
+  private readonly follows = new Map<string, Follow>();
   /** What the variety's entries have given so far (batches done on this thread write into it; chunks from workers are added to it). */
   readonly state: SideState;
   readonly side: Side;
@@ -99,8 +101,27 @@ export class VarietyOutput {
     const ch = new Channel<string | Uint8Array>();
     this.files[name] = join(this.run.outDir, name);
     this.channels.push(ch);
-    this.writers.push(writeFileAtomic(this.staged(name), ch));
+    this.writers.push(writeFileAtomic(this.staged(name), ch, { written: (temp, bytes) => this.follows.get(name)?.written(temp, bytes) }));
     return ch;
+  }
+
+  /**
+   * Has `checker` read the TSV and JSON Lines files back as they are written, when it checks on a
+   * worker thread (check-written.ts): at the end of the rows only their last chunks are left to
+   * read. Called before the rows.
+   */
+  follow(checker: Checker): void {
+    for (const [name, kind] of [["lexicon.tsv", "tsv"], ["lexicon.jsonl", "jsonl"]] as const) {
+      if (!(name in this.files)) continue;
+      const f = checker.follow(kind);
+      if (f !== undefined) this.follows.set(name, f);
+    }
+  }
+
+  /** Stops following the files (the variety will not be checked). */
+  private unfollow(): void {
+    for (const f of this.follows.values()) f.drop();
+    this.follows.clear();
   }
 
   /** Lets the file writers drain (memory stays bounded by the back-log, not the lexicon). */
@@ -133,11 +154,13 @@ export class VarietyOutput {
 
   /** Removes the staging folder (after `finish`, when the run ends before this variety is put in place). */
   discard(): Promise<void> {
+    this.unfollow();
     return this.stage.abort();
   }
 
   /** Fails the file writers (their temporary files go) and removes the staging folder. */
   async abort(err: unknown): Promise<void> {
+    this.unfollow();
     for (const ch of this.channels) ch.fail(err);
     await Promise.allSettled(this.writers);
     await this.stage.abort();
@@ -164,6 +187,7 @@ export class VarietyOutput {
     for (const ch of this.channels) ch.close();
     // Every file of the variety, or none: a failed write (or PLS, or reconciliation) leaves outDir as it was.
     const failWith = async (errors: Diagnostic[]): Promise<RunSummary> => {
+      this.unfollow();
       await this.stage.abort();
       return failedSummary(variety.name, lexiconPath, [...diagnostics], t0, errors);
     };
@@ -201,7 +225,13 @@ export class VarietyOutput {
           stress: staged(STRESS_REPORT),
         },
         stressTotal: this.state.hygiene.total,
+        followed: {
+          ...(this.follows.has("lexicon.tsv") ? { tsv: this.follows.get("lexicon.tsv")!.key } : {}),
+          ...(this.follows.has("lexicon.jsonl") ? { jsonl: this.follows.get("lexicon.jsonl")!.key } : {}),
+        },
       });
+      // Taken by the job: nothing is left to drop.
+      this.follows.clear();
       // Settled here too: a failure after this point must not leave it unhandled.
       check.catch(() => undefined);
       if (this.formats.has("pls")) {

@@ -114,6 +114,19 @@ describe("the bundle", () => {
     expect(Object.fromEntries(["general", "careful"].map((v) => [v, folderBytes(join(out, "words", v))]))).toEqual(before);
   }, 300_000);
 
+  it("the checking thread reads the first variety's TSV and JSON Lines as they are written, and its check uses that read-back", () => {
+    // The read-back made while the files were written loses a line (a hook for this test): the
+    // reconciliation must then fail, which shows it used that read-back and not a fresh one.
+    const out = mkdtempSync(join(work, "out-follow-"));
+    const args = ["build", lexDir, "--out", out, "--cache-dir", join(work, "cache-transcribe"), "--quiet", "--allow-rejects"];
+    const r = run(BUNDLE, args, { STRATA_TEST_FOLLOW_LOSES_LINE: "1" });
+    expect(r.status, r.stderr).not.toBe(0);
+    expect(r.stderr).toMatch(/lexicon\.(tsv|jsonl)/);
+    // Nothing of the failed variety was put in place.
+    expect(existsSync(join(out, "words", "general", "lexicon.tsv"))).toBe(false);
+    expect(run(BUNDLE, args).status).toBe(0);
+  }, 300_000);
+
   it("a worker thread that dies fails the bundled build, as it fails tsc's", () => {
     const out = mkdtempSync(join(work, "out-dies-"));
     const r = run(BUNDLE, ["build", lexDir, "--out", out, "--cache-dir", join(work, "cache-transcribe"), "--quiet", "--workers", "1"], { STRATA_TEST_WORKER_EXIT: "1" });
