@@ -25,10 +25,19 @@ import { isFsError } from "../tempfile.js";
 import { STRESS_REPORT } from "./hygiene.js";
 import type { PlsPhonemes } from "./ipa-options.js";
 import { emit, SideState, type Side } from "./batch-work.js";
-import { phonemesOf } from "./lexemes.js";
+import { phonemesOf, type Lexeme } from "./lexemes.js";
 import type { WordTable } from "./word-table.js";
 import type { SideChunk } from "./worker.js";
 import { unpackLexemes } from "./chunk-lane.js";
+
+/**
+ * The PLS entries of a variety's lexemes, made one at a time as the writer takes them: a list of
+ * them all (135,000 for the CMU dictionary, each with its source) lived until the file was written,
+ * and the collector copied it into the old generation at the end of every build.
+ */
+function* plsEntries(lexemes: Iterable<Lexeme>): Generator<PlsEntry> {
+  for (const lx of lexemes) yield { word: lx.word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } };
+}
 
 /** One variety of a run. */
 export interface VarietyRun {
@@ -235,8 +244,7 @@ export class VarietyOutput {
       // Settled here too: a failure after this point must not leave it unhandled.
       check.catch(() => undefined);
       if (this.formats.has("pls")) {
-        const plsEntries: PlsEntry[] = [...this.state.lexemes].map((lx) => ({ word: lx.word, phonemes: phonemesOf(lx), preferred: 0, source: { file: lx.file, line: lx.line, column: 1 } }));
-        const res = await writePls(staged("lexicon.pls"), plsEntries, { lang: variety.lang });
+        const res = await writePls(staged("lexicon.pls"), plsEntries(this.state.lexemes), { lang: variety.lang });
         if (!res.ok) return done(await failWith([res.error]));
         // Counted in the bytes (the tag is ASCII; UTF-8 never repeats an ASCII byte inside a character).
         plsLexemes = await countTag(staged("lexicon.pls"), "<lexeme>");
