@@ -311,8 +311,13 @@ export class MachineEngine implements Engine {
  * the one blame follows, so no step on it rejects. A "search" block (several outputs) is always run.
  */
 function skipTables(sw: Compiled): (Uint8Array | null)[] {
-  const kinds = sw.preferred.kinds;
-  return sw.preferredBlocks.map((b, k) => (kinds[k] === "functional" || kinds[k] === "sequential" ? touchedSymbols(b.machine) : null));
+  return sw.preferredBlocks.map((b, k) => (runsAsFunction(sw, k) ? touchedSymbols(b.machine) : null));
+}
+
+/** Whether block `k` of the per-step cascade runs as a function ("functional" or "sequential" runner): only such blocks' runs are skipped. */
+function runsAsFunction(sw: Compiled, k: number): boolean {
+  const kind = sw.preferred.kinds[k];
+  return kind === "functional" || kind === "sequential";
 }
 
 /**
@@ -323,8 +328,7 @@ function skipTables(sw: Compiled): (Uint8Array | null)[] {
  * 0.20 s of a CMU pass, in process, best of 7, with the flat transition table).
  */
 function sameScreens(sw: Compiled): (IdentityScreen | null)[] {
-  const kinds = sw.preferred.kinds;
-  return sw.preferredBlocks.map((b, k) => (kinds[k] === "functional" || kinds[k] === "sequential" ? new IdentityScreen(freeze(b.machine), sw.alphabet.size) : null));
+  return sw.preferredBlocks.map((b, k) => (runsAsFunction(sw, k) ? new IdentityScreen(freeze(b.machine), sw.alphabet.size) : null));
 }
 
 /**

@@ -87,8 +87,10 @@ export class VarietyOutput {
     this.side = { engine: run.engine, formats, ...(pls !== undefined ? { pls } : {}), ...(ov !== undefined ? { ov } : {}) };
   }
 
-  /** Opens the variety's staging folder; a folder that cannot be made is the variety's failed summary. */
-  /** `words`: the numbers of words, shared by the varieties of one run (lexemes.ts). */
+  /**
+   * Opens the variety's staging folder; a folder that cannot be made is the variety's failed
+   * summary. `words`: the numbers of words, shared by the varieties of one run (lexemes.ts).
+   */
   static async open(run: VarietyRun, inventory: Inventory, formats: ReadonlySet<OutputFormat>, lexiconPath: string, root: string, t0: number, pls?: PlsPhonemes, words?: WordTable): Promise<VarietyOutput | RunSummary> {
     // The override file is read whole first: a file that cannot be read stops the variety before anything is written.
     const ov = run.overrides !== undefined ? await Overrides.read(run.overrides, inventory) : undefined;
