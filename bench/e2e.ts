@@ -2,7 +2,9 @@
 // (one variety, TSV + JSON Lines + PLS), both with cached machines, each timed as a whole child
 // process beside the in-house script (bench/inhouse.ts: csv-parse plus a regular-expression cascade)
 // on the same CSV, in turn (script, transcribe, build, script, …) so each ratio is taken pair by
-// pair; and the stages of one build measured one at a time in this process.
+// pair; beside them the same script made to write the build's three formats (bench/inhouse-formats.ts),
+// the cost of writing records of that size before any of Strata's work; and the stages of one build
+// measured one at a time in this process.
 
 import { EntryKeys } from "../src/lexicon/keys.js";
 import { readFileSync, rmSync } from "node:fs";
@@ -31,6 +33,13 @@ import { fmt, fmtMB, fmtMs, median, runChild, strataCli, textTable, type ChildRu
 
 export interface EndToEnd {
   readonly inhouseMs: number;
+  /** The in-house script writing TSV, JSON Lines and PLS files (bench/inhouse-formats.ts). */
+  readonly formatsMs: number;
+  readonly formatsRss: number | null;
+  readonly formatsCpuMs: number | null;
+  /** Medians of the per-pair ratios: the three-format script ÷ the in-house script, the build ÷ the three-format script. */
+  readonly formatsRatio: number;
+  readonly buildOverFormats: number;
   readonly transcribeMs: number;
   readonly buildMs: number;
   readonly inhouseRss: number | null;
@@ -100,11 +109,13 @@ export async function benchEndToEnd(o: {
   const failures: string[] = [];
   const rssWrapper = join(o.root, "dist", "bench", "rss.js");
   const inhouse = join(o.root, "dist", "bench", "inhouse.js");
+  const formats = join(o.root, "dist", "bench", "inhouse-formats.js");
+  const formatsOut = join(o.work, "inhouse-formats");
   const cli = strataCli(o.root);
   const outRoot = join(o.work, "e2e-out");
   const inhouseOut = join(o.work, "inhouse.tsv");
   const transcribeOut = join(o.work, "transcribe.tsv");
-  const runs = { inhouse: [] as ChildRun[], transcribe: [] as ChildRun[], build: [] as ChildRun[] };
+  const runs = { inhouse: [] as ChildRun[], formats: [] as ChildRun[], transcribe: [] as ChildRun[], build: [] as ChildRun[] };
   rmSync(outRoot, { recursive: true, force: true });
   const transcribeArgs = ["transcribe", "-g", join(o.root, "lexicons", "en-us"), "--cache-dir", o.cacheDir, o.csv];
   const buildArgs = ["build", o.lexiconDir, "--out", outRoot, "--cache-dir", o.cacheDir, "--quiet"];
@@ -112,6 +123,7 @@ export async function benchEndToEnd(o: {
   await runChild(rssWrapper, cli, buildArgs, { cwd: o.root });
   for (let k = 0; k < o.reps; k++) {
     runs.inhouse.push(await runChild(rssWrapper, inhouse, [o.csv], { cwd: o.root, stdoutFile: inhouseOut }));
+    runs.formats.push(await runChild(rssWrapper, formats, [o.csv, formatsOut], { cwd: o.root }));
     runs.transcribe.push(await runChild(rssWrapper, cli, transcribeArgs, { cwd: o.root, stdoutFile: transcribeOut }));
     runs.build.push(await runChild(rssWrapper, cli, buildArgs, { cwd: o.root }));
   }
@@ -122,6 +134,8 @@ export async function benchEndToEnd(o: {
   // Output checks: every entry written; transcribe's TSV is the build's TSV byte for byte.
   const lines = (p: string): number => readFileSync(p, "utf8").split("\n").length - 2;
   if (lines(inhouseOut) !== o.entries) failures.push(`the in-house script wrote ${lines(inhouseOut)} entries, not ${o.entries}`);
+  const formatsTsv = join(formatsOut, "lexicon.tsv");
+  if (lines(formatsTsv) !== o.entries) failures.push(`the three-format script wrote ${lines(formatsTsv)} entries, not ${o.entries}`);
   const built = join(outRoot, "cmu", "general", "lexicon.tsv");
   if (!readFileSync(built).equals(readFileSync(transcribeOut))) failures.push("strata transcribe's TSV differs from strata build's lexicon.tsv");
   for (const f of ["lexicon.jsonl", "lexicon.pls"]) {
@@ -131,12 +145,14 @@ export async function benchEndToEnd(o: {
       failures.push(`strata build wrote no ${f}`);
     }
   }
-  const pairRatio = (a: readonly ChildRun[]): number => median(a.map((r, k) => r.wallMs / runs.inhouse[k]!.wallMs));
+  const pairRatio = (a: readonly ChildRun[], base = runs.inhouse): number => median(a.map((r, k) => r.wallMs / base[k]!.wallMs));
   const cpuRatio = (a: readonly ChildRun[]): number | null =>
     a.every((r, k) => r.cpuMs !== null && runs.inhouse[k]!.cpuMs !== null) ? median(a.map((r, k) => r.cpuMs! / runs.inhouse[k]!.cpuMs!)) : null;
   const cpu = (a: readonly ChildRun[]): number | null => (a.every((r) => r.cpuMs !== null) ? median(a.map((r) => r.cpuMs!)) : null);
   const res = {
     inhouseMs: median(runs.inhouse.map((r) => r.wallMs)),
+    formatsMs: median(runs.formats.map((r) => r.wallMs)), formatsRss: maxRss(runs.formats), formatsCpuMs: cpu(runs.formats),
+    formatsRatio: pairRatio(runs.formats), buildOverFormats: pairRatio(runs.build, runs.formats),
     transcribeMs: median(runs.transcribe.map((r) => r.wallMs)),
     buildMs: median(runs.build.map((r) => r.wallMs)),
     inhouseRss: maxRss(runs.inhouse), transcribeRss: maxRss(runs.transcribe), buildRss: maxRss(runs.build),
@@ -150,9 +166,11 @@ export async function benchEndToEnd(o: {
   say(`-- end to end against the in-house script (child processes, same CSV, in turn; median of ${o.reps}) --`);
   say(textTable(["", "wall", "÷ in-house (pairs)", "CPU (÷ in-house)", "peak RSS"], [
     ["in-house script: csv-parse + 5 regexes → TSV (stdout)", fmtMs(res.inhouseMs), "1.00×", cpuText(res.inhouseCpuMs, 1), fmtMB(res.inhouseRss)],
+    ["the same script writing TSV + JSON Lines + PLS files", fmtMs(res.formatsMs), `${fmt(res.formatsRatio, 2)}×`, cpuText(res.formatsCpuMs, cpuRatio(runs.formats)), fmtMB(res.formatsRss)],
     ["strata transcribe → TSV (stdout), cached machines", fmtMs(res.transcribeMs), `${fmt(res.transcribeRatio, 2)}×`, cpuText(res.transcribeCpuMs, res.transcribeCpuRatio), fmtMB(res.transcribeRss)],
     ["strata build → TSV + JSON Lines + PLS, cached machines", fmtMs(res.buildMs), `${fmt(res.buildRatio, 2)}×`, cpuText(res.buildCpuMs, res.buildCpuRatio), fmtMB(res.buildRss)],
   ]));
+  say(`strata build ÷ the three-format script (pairs): ${fmt(res.buildOverFormats, 2)}×`);
 
   const t = res.buildThreads;
   if (t !== null) {

@@ -385,7 +385,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   const e2e = await benchEndToEnd({ root, csv: folder.csv, lexiconDir: folder.dir, grammarPath, grammar, inventory: inv, cacheDir, work, reps: pairReps, entries: words.length });
   failures.push(...e2e.failures);
   Object.assign(figures, {
-    inhouseMs: e2e.inhouseMs, inhousePeakRssBytes: e2e.inhouseRss, transcribeMs: e2e.transcribeMs, transcribePeakRssBytes: e2e.transcribeRss,
+    inhouseMs: e2e.inhouseMs, inhousePeakRssBytes: e2e.inhouseRss, inhouseFormatsMs: e2e.formatsMs, inhouseFormatsPeakRssBytes: e2e.formatsRss, transcribeMs: e2e.transcribeMs, transcribePeakRssBytes: e2e.transcribeRss,
     build3Ms: e2e.buildMs, build3PeakRssBytes: e2e.buildRss,
     build3MainThreadCpuMs: e2e.buildThreads?.mainMs ?? null, build3OtherThreadsCpuMs: e2e.buildThreads?.otherMs ?? null,
     ...Object.fromEntries(e2e.stages.map((st) => [`stage: ${st.name}`, st.ms])),
@@ -416,6 +416,10 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
   // No schedule of the build's CPU work on this machine's cores finishes sooner (bench/e2e.ts, threadSplit).
   const bound = e2e.buildThreads;
   ratios.push({ name: `  build's lower bound here, max(main-thread CPU, all CPU ÷ ${bound?.cores ?? "n"} cores) ÷ in-house`, value: bound?.boundRatio ?? null, target: "(for information)", met: null, shown: bound === null ? "n/a" : x(bound.boundRatio), info: true });
+  // What writing the three formats costs the in-house script itself, and the build against that (bench/inhouse-formats.ts).
+  for (const [name, v] of [["  three-format in-house script ÷ in-house script (pairs)", e2e.formatsRatio], ["  build ÷ three-format in-house script (pairs)", e2e.buildOverFormats]] as const) {
+    ratios.push({ name, value: v, target: "(for information)", met: null, shown: x(v), info: true });
+  }
   ratio(`strata build, four varieties ÷ one (wall, pairs)`, four.ratio, "≤ 2.5×", (v) => v <= 2.5, x);
   ratios.push({ name: "  same, CPU time", value: four.cpuRatio, target: "(for information)", met: null, shown: four.cpuRatio === null ? "n/a" : x(four.cpuRatio), info: true });
   // Entries held beyond their row bring back V8's pretenuring of them (bench/varieties.ts, CAPPED_YOUNG): about 1.4× before the batch work went row by row.
@@ -445,7 +449,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
     const body = [
       `Latest figures of \`npm run bench\` (the main-job section), measured on: ${info.cpus} CPUs, ${info.cpu}, ${info.memory} RAM, Node ${info.node}; load average ${loadStart} at the start of the section, ${loadavg().map((l) => fmt(l, 1)).join(" / ")} (1 / 5 / 15 min) at its end (a shared machine is slower for every figure; the ratios compare runs made in turn).`,
       `Data: the whole CMU Pronouncing Dictionary (${fmt(words.length)} entries, npm \`cmu-pronouncing-dictionary\`) through \`lexicons/en-us/grammar.strata\` (all rules, syllabification and stress).`,
-      `In-process figures are medians of ${reps} runs, child-process figures medians of ${childReps} (compile, the two-format build, I/O floor, four varieties) or of ${pairReps} (the in-house script, transcribe and the three-format build, run in turn); every ratio is taken from figures of the same run (against the in-house script: the median of the ratios of runs made in turn).`,
+      `In-process figures are medians of ${reps} runs, child-process figures medians of ${childReps} (compile, the two-format build, I/O floor, four varieties) or of ${pairReps} (the in-house script, the same script writing three formats, transcribe and the three-format build, run in turn); every ratio is taken from figures of the same run (against the in-house script: the median of the ratios of runs made in turn).`,
       ...(failures.length > 0 ? ["", "**The output checks failed in this run; the comparisons below are void.**"] : []),
       "",
       "| measure | figure |",
@@ -461,6 +465,7 @@ export async function benchMainJob(opts: MainJobOptions = {}): Promise<MainJobRe
       `| \`strata build\` → TSV + PLS, cached machines | ${buildMs !== null ? fmtMs(buildMs) : "n/a"}, peak RSS ${fmtMB(buildRss)} |`,
       `| I/O floor (read CSV, write TSV, no rules) | ${fmtMs(floorMs)} |`,
       `| in-house script (csv-parse, 5 regular expressions, TSV to stdout) | ${fmtMs(e2e.inhouseMs)}, peak RSS ${fmtMB(e2e.inhouseRss)} |`,
+      `| the same script writing TSV, JSON Lines and PLS files (bench/inhouse-formats.ts) | ${fmtMs(e2e.formatsMs)}, peak RSS ${fmtMB(e2e.formatsRss)} |`,
       `| \`strata transcribe\` → TSV on stdout, cached machines | ${fmtMs(e2e.transcribeMs)}, peak RSS ${fmtMB(e2e.transcribeRss)} |`,
       `| \`strata build\` → TSV + JSON Lines + PLS, cached machines | ${fmtMs(e2e.buildMs)}, peak RSS ${fmtMB(e2e.buildRss)} |`,
       ...(bound !== null ? [`| the same build's CPU: main thread / other threads (V8's garbage collection and compiler, file system) | ${fmtMs(bound.mainMs)} / ${fmtMs(bound.otherMs)} |`] : []),

@@ -74,5 +74,14 @@ export function regexCascade(broad: string): string {
     .replace(NASALISE, (v) => NASAL[v]!);
 }
 
+/** The form after each rule of the cascade, in its order (the last is `regexCascade(broad)`). */
+export function cascadeSteps(broad: string): string[] {
+  const dark = broad.replace(DARK_L, "ɫ");
+  const flapped = dark.replace(FLAP, "ɾ");
+  const aspirated = flapped.replace(ASPIRATE, "$&\u02B0");
+  const devoiced = aspirated.replace(DEVOICE, (c) => VOICELESS[c]!);
+  return [dark, flapped, aspirated, devoiced, devoiced.replace(NASALISE, (v) => NASAL[v]!)];
+}
+
 /** The rule names of the cascade, as the en-us grammar names them (bench/subset.ts cuts the same rules). */
 export const REGEX_RULES = ["dark-l", "flapping", "aspiration", "approximant-devoicing", "nasalisation"] as const;

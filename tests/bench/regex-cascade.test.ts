@@ -6,7 +6,7 @@ import { describe, expect, test } from "vitest";
 import { formatDiagnostic } from "../../src/diagnostics.js";
 import { loadGrammar } from "../../src/grammar/index.js";
 import { applyGrammar, prepareGrammar, symsToIpa, type Sym } from "../../src/interp/index.js";
-import { regexCascade, REGEX_RULES } from "../../bench/regex-cascade.js";
+import { cascadeSteps, regexCascade, REGEX_RULES } from "../../bench/regex-cascade.js";
 import { SUBSET_RULES, cutGrammar, prosodyGrammar, subsetGrammar } from "../../bench/subset.js";
 import { cmu, cmuEntries, EN_US, arpabetToIpa, variety, wordOf } from "../lexicons/harness.js";
 
@@ -84,5 +84,28 @@ describe("regex cascade = Strata on a CMU Pronouncing Dictionary sample", () => 
       if (noNasal(broad) !== strata) caught++;
     }
     expect(caught).toBeGreaterThan(0);
+  });
+});
+
+describe("the cascade one rule at a time (the three-format script's derivations)", () => {
+  // Each prefix of the cascade is the en-us grammar cut to the same rules, so the form after each
+  // step is what Strata's interpreter gives for that prefix.
+  const prefixes = REGEX_RULES.map((_, k) => prepareGrammar(cutGrammar(v.grammar, REGEX_RULES.slice(0, k + 1)), v.inventory));
+  test("the form after rule k is the interpreter's for the first k rules, on every 500th CMU entry", () => {
+    const differ: string[] = [];
+    const entries = cmuEntries().filter((_, i) => i % 500 === 7);
+    for (const [word, arpa] of entries) {
+      const w = wordOf(v, arpabetToIpa(arpa));
+      const broad = ipa(applyGrammar(prosody, v.inventory, w).preferred);
+      const steps = cascadeSteps(broad);
+      expect(steps).toHaveLength(REGEX_RULES.length);
+      expect(steps[steps.length - 1]).toBe(regexCascade(broad));
+      prefixes.forEach((g, k) => {
+        const want = ipa(applyGrammar(g, v.inventory, w).preferred);
+        if (steps[k] !== want) differ.push(`${word} after ${REGEX_RULES[k]}: regex [${steps[k]}] Strata [${want}]`);
+      });
+    }
+    expect(entries.length).toBeGreaterThan(250);
+    expect(differ).toEqual([]);
   });
 });
