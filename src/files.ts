@@ -142,3 +142,24 @@ export function isInside(root: string, file: string): boolean {
   const rel = path.relative(root, realPath(file));
   return rel === "" || !(rel === ".." || rel.startsWith(".." + path.sep) || path.isAbsolute(rel));
 }
+
+/**
+ * UTF-8 text of bytes that come in chunks, as node:string_decoder gives it, but with the Encoding
+ * Standard's decoder (TextDecoder): each ill-formed sequence becomes U+FFFD, a character split
+ * across chunks is kept whole, a byte-order mark is kept (the readers report it where it is).
+ * About twice as fast: 7.7 ms against 15.5 ms for the 3.8 MB CMU lexicon in 64 KB chunks.
+ * tests/files/utf8-decoder.test.ts checks that both give the same text on random bytes cut anywhere.
+ */
+export class Utf8Decoder {
+  private readonly decoder = new TextDecoder("utf-8", { ignoreBOM: true });
+
+  /** The text of `bytes` and of what an earlier chunk left unfinished; an unfinished character waits for the next. */
+  write(bytes: Uint8Array): string {
+    return this.decoder.decode(bytes, { stream: true });
+  }
+
+  /** What is left (U+FFFD for a character left unfinished); the decoder can then start afresh. */
+  end(bytes?: Uint8Array): string {
+    return bytes === undefined ? this.decoder.decode() : this.decoder.decode(bytes);
+  }
+}

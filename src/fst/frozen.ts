@@ -35,6 +35,19 @@ export class FrozenFst {
     readonly finalLabels: Int32Array,
   ) {}
 
+  /** One more than the largest output label: the stride of applyAll's trie keys. */
+  private get labelSpan(): number {
+    if (this.span === 0) {
+      let most = 0;
+      for (let k = 0; k < this.output.length; k++) if (this.output[k]! > most) most = this.output[k]!;
+      for (let k = 0; k < this.finalLabels.length; k++) if (this.finalLabels[k]! > most) most = this.finalLabels[k]!;
+      this.span = most + 1;
+    }
+    return this.span;
+  }
+
+  private span = 0;
+
   get numStates(): number {
     return this.isFinal.length;
   }
@@ -53,13 +66,18 @@ export class FrozenFst {
   applyAll(input: ArrayLike<Label>, cap = 64, maxConfigurations = 1_000_000): ApplyResult {
     const n = input.length;
     if (this.numStates === 0) return { outputs: [], capped: false };
-    // Output strings as nodes of a trie: node 0 is the empty string.
+    // Output strings as nodes of a trie: node 0 is the empty string. The trie's edges and the
+    // configurations seen are keyed by numbers, not strings (no string built per arc): an edge by
+    // node × labelSpan + label, a configuration by (node × (n + 1) + position) × states + state,
+    // exact below 2^53.
+    const labelSpan = this.labelSpan;
+    const states = this.numStates;
     const parent: number[] = [-1];
     const last: number[] = [EPSILON];
-    const child = new Map<string, number>();
+    const child = new Map<number, number>();
     const extend = (node: number, l: Label): number => {
       if (l === EPSILON) return node;
-      const key = `${node},${l}`;
+      const key = node * labelSpan + l;
       let c = child.get(key);
       if (c === undefined) {
         c = parent.length;
@@ -69,10 +87,10 @@ export class FrozenFst {
       }
       return c;
     };
-    const seen = new Set<string>();
+    const seen = new Set<number>();
     const results = new Set<number>();
     const stack: number[] = [this.start, 0, 0];
-    seen.add(`${this.start},0,0`);
+    seen.add(this.start);
     let capped = false;
     while (stack.length > 0) {
       const node = stack.pop() as number;
@@ -100,7 +118,7 @@ export class FrozenFst {
         else continue;
         const t = this.target[k] as number;
         const nn = extend(node, this.output[k] as number);
-        const key = `${t},${np},${nn}`;
+        const key = (nn * (n + 1) + np) * states + t;
         if (seen.has(key)) continue;
         if (seen.size >= maxConfigurations) {
           capped = true;

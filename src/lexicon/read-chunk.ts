@@ -5,7 +5,7 @@
 // chunk holds it) and duplicate ids (every id is reported, and the main thread, which sees every
 // chunk's ids in file order, names the duplicates; chunks.ts).
 
-import { StringDecoder } from "node:string_decoder";
+import { Utf8Decoder } from "../files.js";
 import type { Diagnostic } from "../diagnostics.js";
 import type { Inventory } from "../inventory/types.js";
 import { duplicateIdReason, recordTaker, type HeaderColumns, type LexiconItem, type RejectedRow } from "./read.js";
@@ -43,7 +43,7 @@ export interface ChunkRead {
  * (a byte-order mark is dropped). Records after a header that cannot be read are not read.
  */
 export function readChunk(bytes: Uint8Array, at: { readonly line: number; readonly first: boolean }, header: HeaderColumns | undefined, file: string, inv: Inventory): ChunkRead {
-  const text = new StringDecoder("utf8").end(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+  const text = new Utf8Decoder().end(bytes);
   const splitter = at.first ? new RecordSplitter() : new RecordSplitter({ line: at.line });
   const stats: ChunkStats = { commentLines: 0, blankLines: 0, headerLine: 0, dataLines: 0 };
   const diagnostics: Diagnostic[] = [];

@@ -1,7 +1,7 @@
 // The lexicon CSV reader: streams rows (word, IPA pronunciation with stress marks, optional id, pos,
 // tags, note) into symbol strings for the runner, and every row it cannot read into a positioned reject.
 
-import { StringDecoder } from "node:string_decoder";
+import { Utf8Decoder } from "../files.js";
 import { openFile } from "./open-file.js";
 import { diagnostic } from "../diagnostics.js";
 import type { Diagnostic } from "../diagnostics.js";
@@ -141,7 +141,7 @@ export const rejectDiagnostic = (r: RejectedRow): Diagnostic =>
 
 /** Text chunks of the source, decoded as UTF-8 (a multi-byte character split across chunks is kept whole). */
 async function* textChunks(source: NodeJS.ReadableStream | AsyncIterable<Buffer>): AsyncGenerator<string> {
-  const decoder = new StringDecoder("utf8");
+  const decoder = new Utf8Decoder();
   for await (const chunk of source as AsyncIterable<string | Buffer>) {
     const s = typeof chunk === "string" ? chunk : decoder.write(chunk);
     if (s !== "") yield s;

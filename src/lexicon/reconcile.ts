@@ -2,9 +2,9 @@
 // (not by the reader), the written files are read back, and every input record must be exactly one
 // entry or exactly one reject. A mismatch is an error (a bug in Strata), never a silent flag.
 
+import { Utf8Decoder } from "../files.js";
 import { createReadStream } from "node:fs";
 import { readFile } from "node:fs/promises";
-import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import { countTag, readBackJsonl, readBackTsv, type JsonlBack, type TsvBack } from "./readback.js";
 
@@ -21,7 +21,7 @@ export interface InputRecords {
  * LF dropped; streamed in chunks, the lines of a chunk handled in one synchronous loop.
  */
 async function eachLine(path: string, fn: (line: string) => void): Promise<void> {
-  const decoder = new StringDecoder("utf8");
+  const decoder = new Utf8Decoder();
   let carry = "";
   const split = (text: string): void => {
     let start = 0;

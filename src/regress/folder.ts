@@ -2,9 +2,9 @@
 // writes, and each variety's lexicon.jsonl streamed record by record (never held whole), with a
 // positioned message naming the file for anything missing, truncated or from an older format.
 
+import { Utf8Decoder } from "../files.js";
 import { createReadStream, existsSync, readdirSync, readFileSync, statSync } from "node:fs";
 import { join } from "node:path";
-import { StringDecoder } from "node:string_decoder";
 import { diagnostic, type Diagnostic } from "../diagnostics.js";
 import type { JsonlEntry } from "../emit/jsonl.js";
 import { BUILD_FORMAT, BUILD_RECORD, type BuildRecord, type VarietyRecord } from "./record.js";
@@ -78,7 +78,7 @@ export const entriesFile = (b: BuildFolder, variety: string): string => join(b.d
 
 /** Lines of a file as they stream (LF-terminated; CR before LF dropped), with 1-based numbers; throws when the last line lacks its newline. */
 async function* lines(file: string): AsyncGenerator<{ text: string; line: number }> {
-  const decoder = new StringDecoder("utf8");
+  const decoder = new Utf8Decoder();
   let rest = "";
   let line = 0;
   for await (const chunk of createReadStream(file, { highWaterMark: 1 << 20 })) {
