@@ -106,14 +106,14 @@ export class VariantTracer {
         }
         // Every path written back as it was: the same distinct paths, in the same key order.
         if (same && this.shortcuts) continue;
-        const next = new Map<string, Path>();
+        const next: Path[] = [];
         for (let i = 0; i < live.length; i++) {
           const o = outs[i];
           if (o === null || o === undefined) continue;
           const p = live[i]!;
-          keep(next, o, sameIds(o, p.ids) ? p.steps : [...p.steps, step]);
+          next.push({ ids: o, steps: sameIds(o, p.ids) ? p.steps : [...p.steps, step] });
         }
-        live = sorted(next);
+        live = merged(next);
         continue;
       }
       // A branching step that writes every live path back unchanged: the paths (distinct, in key order) stay as they are.
@@ -122,15 +122,16 @@ export class VariantTracer {
       const results = live.map((p) => this.frozen![k]!.applyAll(p.ids, cap));
       // Each path's one output is the path itself: the paths stay as they are (distinct, in key order, within the cap).
       if (this.shortcuts && results.every((r, i) => !r.capped && r.outputs.length === 1 && sameIds(r.outputs[0]!, live[i]!.ids)) && live.length <= cap) continue;
-      const next = new Map<string, Path>();
+      const next: Path[] = [];
       for (let i = 0; i < live.length; i++) {
         const r = results[i]!;
         const p = live[i]!;
         if (r.capped) capped = true;
-        for (const o of r.outputs) keep(next, o, sameIds(o, p.ids) ? p.steps : [...p.steps, step]);
+        for (const o of r.outputs) next.push({ ids: o, steps: sameIds(o, p.ids) ? p.steps : [...p.steps, step] });
       }
-      if (next.size > cap) capped = true;
-      live = sorted(next).slice(0, cap);
+      const distinct = merged(next);
+      if (distinct.length > cap) capped = true;
+      live = distinct.slice(0, cap);
     }
     return { paths: live.map((p) => ({ ids: p.ids, steps: p.steps.map((s) => this.stepNames[s]!) })), capped };
   }
@@ -143,14 +144,42 @@ export interface TraceStart {
   readonly steps: number[];
 }
 
-/** Adds a path to its output, keeping the one with fewer (then earlier) steps when two meet. */
-function keep(next: Map<string, Path>, ids: number[], steps: number[]): void {
-  const key = ids.join(",");
-  const prior = next.get(key);
-  if (prior === undefined || fewerSteps(steps, prior.steps) < 0) next.set(key, { ids, steps });
+/**
+ * The order of two outputs' keys (their ids joined with ','), found without building the keys: at
+ * the first id that differs the key with the smaller decimal text comes first, where a text that
+ * begins the other (1 and 12) comes first, as ',' and the key's end sort before every digit; when
+ * one list begins the other, the shorter comes first.
+ */
+export function keyOrder(a: readonly number[], b: readonly number[]): number {
+  const n = Math.min(a.length, b.length);
+  for (let i = 0; i < n; i++) {
+    const x = a[i]!;
+    const y = b[i]!;
+    if (x !== y) return decimalOrder(x, y);
+  }
+  return a.length - b.length;
 }
 
-/** The paths in the order of their keys. */
-function sorted(next: Map<string, Path>): Path[] {
-  return [...next.keys()].sort().map((key) => next.get(key)!);
+/** The order of two different non-negative whole numbers' decimal texts (a text that begins the other first). */
+function decimalOrder(x: number, y: number): number {
+  let dx = 1;
+  for (let t = x; t >= 10; t = Math.floor(t / 10)) dx *= 10;
+  let dy = 1;
+  for (let t = y; t >= 10; t = Math.floor(t / 10)) dy *= 10;
+  // Both scaled to the same number of digits: equal when one text begins the other.
+  const sx = dx < dy ? x * (dy / dx) : x;
+  const sy = dy < dx ? y * (dx / dy) : y;
+  return sx !== sy ? sx - sy : dx - dy;
+}
+
+/**
+ * The distinct outputs of `paths` in the order of their keys; where paths meet in one output the
+ * one with fewer (then earlier) steps is kept, the first of equals.
+ */
+function merged(paths: Path[]): Path[] {
+  if (paths.length < 2) return paths;
+  paths.sort((p, q) => keyOrder(p.ids, q.ids) || fewerSteps(p.steps, q.steps));
+  const out: Path[] = [paths[0]!];
+  for (let i = 1; i < paths.length; i++) if (!sameIds(paths[i]!.ids, out[out.length - 1]!.ids)) out.push(paths[i]!);
+  return out;
 }
