@@ -162,7 +162,7 @@ export class MachineEngine implements Engine {
     const wantRules = needs.rules === true && this.stepwise !== null;
     const wantVariants = needs.variants === true && this.compiled.hasVariants;
     const wantDerivation = wantRules && (this.render.derivations ?? true);
-    const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation, share) : NO_BLAME;
+    const walk = wantRules || (wantVariants && this.screen !== null) ? this.blame(ids, wantVariants, wantDerivation, share, out, narrow) : NO_BLAME;
     const ruleList = wantRules ? walk.changed : [];
     if (!wantVariants || walk.single) {
       return flagged({ narrow, broad: broadText, variants: [narrow], rules: ruleList, derivation: walk.derivation, variantSteps: [ruleList] }, false, ambiguous);
@@ -206,9 +206,10 @@ export class MachineEngine implements Engine {
   /**
    * Steps whose own machine changed the (preferred) word, in order (one block per step), with the
    * narrow form after each when `forms`, and — when `screen` — whether the screen proved that the
-   * entry has exactly one variant.
+   * entry has exactly one variant. `finalIds` and `finalText`: the composed machine's output and its
+   * IPA, given for the last form, which is usually the same word (rendered once, not twice).
    */
-  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean, share?: WalkShare): Walk {
+  private blame(ids: ArrayLike<number>, screen: boolean, forms: boolean, share?: WalkShare, finalIds?: ArrayLike<number>, finalText?: string): Walk {
     const sw = this.stepwise!;
     let changed: string[] = [];
     // The steps (indices) that changed the word, and where the screen first failed (for the trace).
@@ -249,12 +250,22 @@ export class MachineEngine implements Engine {
     if (masks !== null) masks.fill(cur, mask!);
     const snaps = share?.snapAt;
     let given = 0;
+    // The last step that changed the word and the word after it, its form not yet rendered: the
+    // form is rendered when another step changes the word or a snapshot is given, else at the end.
+    let pendingStep = "";
+    let pendingIds: number[] | null = null;
     const snapshot = (step: number): void => share!.give!({ engine: this, step, ids: Array.from(cur), changed: [...changed], derivation: [...derivation], screened: check !== null, single, unchecked });
     for (; k < blocks.length; k++) {
       const b = blocks[k]!;
       // A leader records where it stands before each step a follower takes over at.
       while (snaps !== undefined && given < snaps.length && snaps[given]! <= b.from) {
-        if (k === 0 || blocks[k - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
+        if (k === 0 || blocks[k - 1]!.to <= snaps[given]!) {
+          if (pendingIds !== null) {
+            derivation.push({ step: pendingStep, form: renderIpa(pendingIds, this.view, this.render) });
+            pendingIds = null;
+          }
+          snapshot(snaps[given]!);
+        }
         given++;
       }
       if (single) {
@@ -274,10 +285,18 @@ export class MachineEngine implements Engine {
         const step = this.steps[b.from]!;
         changed.push(step);
         changedAt.push(b.from);
-        if (forms) derivation.push({ step, form: renderIpa(next, this.view, this.render) });
+        if (forms) {
+          if (pendingIds !== null) derivation.push({ step: pendingStep, form: renderIpa(pendingIds, this.view, this.render) });
+          pendingStep = step;
+          pendingIds = next;
+        }
         if (masks !== null) masks.fill(next, mask!);
       }
       cur = next;
+    }
+    if (pendingIds !== null) {
+      const isFinal = finalIds !== undefined && finalText !== undefined && sameIds(pendingIds, finalIds);
+      derivation.push({ step: pendingStep, form: isFinal ? finalText : renderIpa(pendingIds, this.view, this.render) });
     }
     if (k === blocks.length) {
       for (; snaps !== undefined && given < snaps.length; given++) if (blocks.length === 0 || blocks[blocks.length - 1]!.to <= snaps[given]!) snapshot(snaps[given]!);
