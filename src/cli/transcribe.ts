@@ -17,6 +17,7 @@ import {
 } from "./common.js";
 import { BufferedWriter } from "../emit/buffered.js";
 import { putTsvEntry } from "../emit/tsv-batch.js";
+import { putNarrowTsv } from "../lexicon/narrow-tsv.js";
 import { ALL_NEEDS, NARROW_ONLY, type Needs } from "../lexicon/engine.js";
 import { StressHygiene } from "../lexicon/hygiene.js";
 import { ChunkPool } from "../lexicon/chunks.js";
@@ -150,6 +151,14 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
         }
         const n = keys.count(item.word);
         if (format === "tsv") {
+          // The usual row goes from the machines' outputs straight into standard output's chunks.
+          if (stdout !== undefined && putNarrowTsv(stdout.bytes, loaded.engine, item, n)) {
+            const w = stdout.settle();
+            if (w !== undefined) await w;
+            hygiene.observe(item, () => keyOf(item.word, item.id, n));
+            entries++;
+            continue;
+          }
           const t = narrowForms(loaded.engine, item);
           if ("kind" in t) {
             reject(rejectDiagnostic(t));

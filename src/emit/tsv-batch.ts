@@ -68,6 +68,25 @@ export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, 
 }
 
 /**
+ * The start of an entry's line, the key (as `putTsvEntry` writes it), a tab, the word and a tab,
+ * at `at` (room: 3 bytes per UTF-16 unit of key and word, and 16 more); the position after. The
+ * caller writes the forms and the line feed.
+ */
+export function putTsvHead(buf: Uint8Array, at: number, id: string | undefined, n: number, word: string): number {
+  if (id !== undefined && id !== "") at = putField(buf, at, id);
+  else {
+    at = putField(buf, at, word);
+    buf[at++] = HASH;
+    if (n < 10) buf[at++] = 48 + n;
+    else at = putAscii(buf, at, String(n));
+  }
+  buf[at++] = TAB;
+  at = putField(buf, at, word);
+  buf[at++] = TAB;
+  return at;
+}
+
+/**
  * One entry's line with its key as given (a build's entries carry theirs). Returns where the line
  * starts in `out.target` (it ends at `out.position`), or -1 when it was too long for a chunk and
  * went in as text. Written as a string and then encoded, the lines cost about 0.1 s of a

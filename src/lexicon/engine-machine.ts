@@ -12,7 +12,7 @@ import { freeze } from "../fst/index.js";
 import type { Bundle } from "../inventory/types.js";
 import { ALL_NEEDS, type Engine, type Needs, type Transcription } from "./engine.js";
 import { prosodyOnly } from "./engine-interp.js";
-import { renderIpa, symbolView, type RenderOptions, type SymbolView } from "./render.js";
+import { renderIpa, renderIpaUtf8, symbolView, utf8Bound, type RenderOptions, type SymbolView } from "./render.js";
 import { tiedView } from "./ties.js";
 import { VariantTracer, type DerivationStep, type TraceStart, type TracedOutputs } from "./derivation.js";
 import { SymbolEncoder } from "./encode.js";
@@ -124,6 +124,37 @@ export class MachineEngine implements Engine {
     const bout: number[] = [];
     if (!this.broad.preferred.run(e.bids, bout)) return undefined;
     return { narrow, broad: renderIpa(bout, this.broadView, this.broadRender) };
+  }
+
+  /**
+   * The composed machines' outputs for `symbols` (narrow, then broad ids), or undefined when the
+   * word needs the widened engine or a machine rejects it (`transcribeNarrow` then gives its answer).
+   */
+  narrowOutputs(symbols: Word): readonly [number[], number[]] | undefined {
+    const e = this.encode(symbols);
+    if (e === undefined) return undefined;
+    const out: number[] = [];
+    if (!this.compiled.preferred.run(e.ids, out)) return undefined;
+    const bout: number[] = [];
+    if (!this.broad.preferred.run(e.bids, bout)) return undefined;
+    return [out, bout];
+  }
+
+  /** The most bytes `putForms` writes for `outputs`. */
+  formsBound(outputs: readonly [number[], number[]]): number {
+    return utf8Bound(outputs[0], this.view) + utf8Bound(outputs[1], this.broadView) + 1;
+  }
+
+  /**
+   * The narrow form, a tab and the broad form of `narrowOutputs`, as TSV writes them, in UTF-8 at
+   * `buf[at …]`: the position after, or -1 when either form is one `renderIpaUtf8` leaves to the
+   * rendered text (render.ts).
+   */
+  putForms(outputs: readonly [number[], number[]], buf: Uint8Array, at: number): number {
+    const mid = renderIpaUtf8(outputs[0], this.view, this.render, buf, at);
+    if (mid < 0) return -1;
+    buf[mid] = 9;
+    return renderIpaUtf8(outputs[1], this.broadView, this.broadRender, buf, mid + 1);
   }
 
   /** The extended engine that accepts `symbols` (recompiled with their unseen segments), if any. */

@@ -188,3 +188,131 @@ function textOf(buf: Uint16Array, n: number): string {
   for (let at = 0; at < n; at += PIECE) text += String.fromCharCode.apply(null, buf.subarray(at, Math.min(n, at + PIECE)) as unknown as number[]);
   return text;
 }
+
+/**
+ * Each symbol's text as UTF-8 bytes (those of id `i` are `bytes[start[i] … start[i+1])`), for the
+ * texts `renderIpaUtf8` can write as they are: `plain[i]` is 1 when every UTF-16 unit of the text is
+ * in U+0021–U+D7FF (XML 1.0 characters, no white-space control, no surrogate) other than '\', which
+ * a TSV field would escape; `visible[i]` when the text is not all white space.
+ */
+interface SymbolBytes {
+  readonly bytes: Uint8Array;
+  readonly start: Int32Array;
+  readonly plain: Uint8Array;
+  readonly visible: Uint8Array;
+  /** The most bytes of one symbol's text. */
+  readonly widest: number;
+}
+
+const bytesCache = new WeakMap<readonly string[], SymbolBytes>();
+
+function bytesOf(texts: readonly string[]): SymbolBytes {
+  let b = bytesCache.get(texts);
+  if (b !== undefined) return b;
+  const encoder = new TextEncoder();
+  const pieces = texts.map((t) => encoder.encode(t));
+  const start = new Int32Array(texts.length + 1);
+  const plain = new Uint8Array(texts.length);
+  const visible = new Uint8Array(texts.length);
+  let widest = 0;
+  for (let i = 0; i < texts.length; i++) {
+    const t = texts[i]!;
+    start[i + 1] = start[i]! + pieces[i]!.length;
+    widest = Math.max(widest, pieces[i]!.length);
+    let ok = true;
+    for (let k = 0; k < t.length; k++) {
+      const c = t.charCodeAt(k);
+      if (c <= 0x20 || c >= 0xd800 || c === 0x5c) ok = false;
+    }
+    plain[i] = ok ? 1 : 0;
+    visible[i] = t.trim() !== "" ? 1 : 0;
+  }
+  const bytes = new Uint8Array(start[texts.length]!);
+  pieces.forEach((p, i) => bytes.set(p, start[i]!));
+  b = { bytes, start, plain, visible, widest };
+  bytesCache.set(texts, b);
+  return b;
+}
+
+/** The most bytes `renderIpaUtf8` writes for `ids`: each symbol's widest text with a mark before it. */
+export function utf8Bound(ids: ArrayLike<number>, view: SymbolView): number {
+  return ids.length * (bytesOf(view.texts).widest + 2) + 2;
+}
+
+// U+02C8 and U+02CC in UTF-8.
+const MARK_LEAD = 0xcb;
+const PRIMARY_TAIL = 0x88;
+const SECONDARY_TAIL = 0x8c;
+
+/**
+ * `renderIpa(ids, view, opts)` as UTF-8 bytes at `buf[at …]` (room for `utf8Bound(ids, view)`), for
+ * an entry whose text needs no escape and no check: returns the position after, or -1 — nothing
+ * to rely on written — when the text would hold a space (words of a phrase), a symbol that is not
+ * plain (see SymbolBytes), or nothing visible; the caller then renders the text and checks it as
+ * before. Such a text is one that TSV writes unescaped and `plsTextProblem` passes at once (every
+ * unit in U+0021–U+D7FF and not all white space), so a transcription written this way skips the
+ * string, its check and its encoding. tests/lexicon/render-utf8.test.ts compares it with renderIpa.
+ */
+export function renderIpaUtf8(ids: ArrayLike<number>, view: SymbolView, opts: RenderOptions, buf: Uint8Array, at: number): number {
+  const dots = opts.syllables ?? true;
+  const joins = opts.joins ?? false;
+  const { kind, stress, nucleus } = view;
+  const sb = bytesOf(view.texts);
+  const { bytes, start, plain } = sb;
+  let from = 0;
+  let to = ids.length;
+  while (from < to && kind[ids[from]!] === 1) from++;
+  while (to > from && kind[ids[to - 1]!] === 1) to--;
+  let visible = false;
+  let i = from;
+  let opener = 0; // 0 start, 1 word, 2 syllable
+  while (i <= to) {
+    let j = i;
+    while (j < to && kind[ids[j]!]! >= 3) j++;
+    let firstNucleus = -1;
+    let firstMark = 0;
+    for (let k = i; k < j; k++) {
+      if (nucleus[ids[k]!] === 1) {
+        firstNucleus = k;
+        firstMark = stress[ids[k]!]!;
+        break;
+      }
+    }
+    if (opener === 1) return -1;
+    if (firstMark !== 0) {
+      buf[at++] = MARK_LEAD;
+      buf[at++] = firstMark === 1 ? PRIMARY_TAIL : SECONDARY_TAIL;
+      visible = true;
+    } else if (opener === 2 && dots) {
+      buf[at++] = DOT;
+      visible = true;
+    }
+    for (let k = i; k < j; k++) {
+      const id = ids[k]!;
+      if (kind[id] === 4) {
+        if (joins) {
+          buf[at++] = PLUS;
+          visible = true;
+        }
+        continue;
+      }
+      if (k !== firstNucleus && nucleus[id] === 1) {
+        const st = stress[id];
+        if (st !== 0) {
+          buf[at++] = MARK_LEAD;
+          buf[at++] = st === 1 ? PRIMARY_TAIL : SECONDARY_TAIL;
+          visible = true;
+        }
+      }
+      if (plain[id] !== 1) return -1;
+      if (sb.visible[id] === 1) visible = true;
+      const end = start[id + 1]!;
+      for (let u = start[id]!; u < end; u++) buf[at++] = bytes[u]!;
+    }
+    if (j >= to) break;
+    opener = kind[ids[j]!] === 1 ? 1 : 2;
+    i = j + 1;
+    while (opener === 1 && i < to && kind[ids[i]!] === 1) i++;
+  }
+  return visible ? at : -1;
+}
