@@ -49,44 +49,63 @@ function classify(code: number): number {
 
 /**
  * The longest key of a set of strings that starts at a position of a text, found by walking the
- * text's UTF-16 units through a trie (no substring made and hashed per candidate length).
+ * text's UTF-16 units through a trie (no substring made and hashed per candidate length). The trie
+ * is a dense table: each unit that occurs in a key has a column, each node a row of targets (0:
+ * none; the root is no node's child), so a step is two typed-array look-ups, not a Map's.
  */
 class KeyTrie {
-  private readonly children: Map<number, number>[] = [new Map()];
+  /** Column of each UTF-16 unit (0: in no key). */
+  private readonly column = new Uint16Array(65536);
+  private readonly columns: number;
+  /** Target of node n on column c at n × columns + c; 0 for none. */
+  private readonly next: Int32Array;
   /** Per node: the index of the key ending there, or -1. */
-  private readonly ends: number[] = [-1];
+  private readonly ends: Int32Array;
   /** Length of the last match `longest` found. */
   matched = 0;
 
   constructor(keys: Iterable<string>) {
+    const children: Map<number, number>[] = [new Map()];
+    const ends: number[] = [-1];
+    let columns = 1;
     let k = 0;
     for (const key of keys) {
       let node = 0;
       for (let i = 0; i < key.length; i++) {
         const c = key.charCodeAt(i);
-        let next = this.children[node]!.get(c);
+        if (this.column[c] === 0) this.column[c] = columns++;
+        let next = children[node]!.get(c);
         if (next === undefined) {
-          next = this.ends.length;
-          this.children[node]!.set(c, next);
-          this.children.push(new Map());
-          this.ends.push(-1);
+          next = ends.length;
+          children[node]!.set(c, next);
+          children.push(new Map());
+          ends.push(-1);
         }
         node = next;
       }
-      if (key.length > 0) this.ends[node] = k;
+      if (key.length > 0) ends[node] = k;
       k++;
     }
+    this.columns = columns;
+    this.next = new Int32Array(ends.length * columns);
+    children.forEach((m, node) => m.forEach((target, c) => void (this.next[node * columns + this.column[c]!] = target)));
+    this.ends = Int32Array.from(ends);
   }
 
   /** The node of the longest key starting at `text[at]` (its length in `matched`), or -1 when no key starts there. */
   longest(text: string, at: number): number {
+    const column = this.column;
+    const next = this.next;
+    const columns = this.columns;
     let node = 0;
     let best = -1;
     this.matched = 0;
     for (let i = at; i < text.length; i++) {
-      const next = this.children[node]!.get(text.charCodeAt(i));
-      if (next === undefined) break;
-      node = next;
+      const c = column[text.charCodeAt(i)]!;
+      if (c === 0) break;
+      const to = next[node * columns + c]!;
+      if (to === 0) break;
+      node = to;
       if (this.ends[node]! >= 0) {
         best = node;
         this.matched = i - at + 1;
