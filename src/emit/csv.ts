@@ -18,7 +18,19 @@ export function csvField(value: string): string {
 }
 
 /** Whether csv-stringify quotes `field` under OPTIONS: it holds the delimiter, a quote or LF, or matches QUOTED_MATCH. */
-const needsQuotes = (field: string): boolean => /[,"\n]/.test(field) || QUOTED_MATCH.some((p) => p.test(field));
+function needsQuotes(field: string): boolean {
+  const n = field.length;
+  if (n === 0) return false;
+  // QUOTED_MATCH, written out: '#' first, a space or tab at either end, a CR anywhere.
+  const first = field.charCodeAt(0);
+  const last = field.charCodeAt(n - 1);
+  if (first === 35 || first === 32 || first === 9 || last === 32 || last === 9) return true;
+  for (let i = 0; i < n; i++) {
+    const c = field.charCodeAt(i);
+    if (c === 44 || c === 34 || c === 10 || c === 13) return true;
+  }
+  return false;
+}
 
 /** One record, terminated by LF. */
 export function csvLine(fields: readonly string[]): string {
