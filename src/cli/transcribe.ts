@@ -151,25 +151,21 @@ export async function runTranscribe(file: string | undefined, o: TranscribeOptio
         }
         const n = keys.count(item.word);
         if (format === "tsv") {
-          // The usual row goes from the machines' outputs straight into standard output's chunks.
-          if (stdout !== undefined && putNarrowTsv(stdout.bytes, loaded.engine, item, n)) {
-            const w = stdout.settle();
-            if (w !== undefined) await w;
-            hygiene.observe(item, () => keyOf(item.word, item.id, n));
-            entries++;
-            continue;
-          }
-          const t = narrowForms(loaded.engine, item);
-          if ("kind" in t) {
-            reject(rejectDiagnostic(t));
-            continue;
-          }
-          // To standard output the line goes straight into the byte chunks (emit/tsv-batch.ts).
+          // To standard output the line goes straight into the byte chunks: the usual row from the
+          // machines' outputs (lexicon/narrow-tsv.ts), any other from its forms (emit/tsv-batch.ts).
           let w: Promise<void> | undefined;
-          if (stdout !== undefined) {
-            putTsvEntry(stdout.bytes, item.id, n, item.word, t.narrow, t.broad);
-            w = stdout.settle();
-          } else w = write(formatTsvEntry({ key: keyOf(item.word, item.id, n), word: item.word, narrow: t.narrow, broad: t.broad }));
+          if (stdout !== undefined && putNarrowTsv(stdout.bytes, loaded.engine, item, n)) w = stdout.settle();
+          else {
+            const t = narrowForms(loaded.engine, item);
+            if ("kind" in t) {
+              reject(rejectDiagnostic(t));
+              continue;
+            }
+            if (stdout !== undefined) {
+              putTsvEntry(stdout.bytes, item.id, n, item.word, t.narrow, t.broad);
+              w = stdout.settle();
+            } else w = write(formatTsvEntry({ key: keyOf(item.word, item.id, n), word: item.word, narrow: t.narrow, broad: t.broad }));
+          }
           if (w !== undefined) await w;
           hygiene.observe(item, () => keyOf(item.word, item.id, n));
           entries++;

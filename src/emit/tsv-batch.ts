@@ -56,15 +56,17 @@ export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, 
     return;
   }
   const buf = out.target;
-  let at = out.position;
-  if (keyed) at = putField(buf, at, id);
-  else {
-    at = putField(buf, at, word);
-    buf[at++] = HASH;
-    if (n < 10) buf[at++] = 48 + n;
-    else at = putAscii(buf, at, String(n));
-  }
-  out.moveTo(putRest(buf, at, word, narrow, broad));
+  out.moveTo(putRest(buf, putKey(buf, out.position, id, n, word), word, narrow, broad));
+}
+
+/** The key at `at`: `id` when it is given and not empty, otherwise `word#n`; the position after. */
+function putKey(buf: Uint8Array, at: number, id: string | undefined, n: number, word: string): number {
+  if (id !== undefined && id !== "") return putField(buf, at, id);
+  at = putField(buf, at, word);
+  buf[at++] = HASH;
+  if (n < 10) buf[at++] = 48 + n;
+  else at = putAscii(buf, at, String(n));
+  return at;
 }
 
 /**
@@ -73,13 +75,7 @@ export function putTsvEntry(out: ByteChunks, id: string | undefined, n: number, 
  * caller writes the forms and the line feed.
  */
 export function putTsvHead(buf: Uint8Array, at: number, id: string | undefined, n: number, word: string): number {
-  if (id !== undefined && id !== "") at = putField(buf, at, id);
-  else {
-    at = putField(buf, at, word);
-    buf[at++] = HASH;
-    if (n < 10) buf[at++] = 48 + n;
-    else at = putAscii(buf, at, String(n));
-  }
+  at = putKey(buf, at, id, n, word);
   buf[at++] = TAB;
   at = putField(buf, at, word);
   buf[at++] = TAB;

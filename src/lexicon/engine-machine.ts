@@ -118,12 +118,8 @@ export class MachineEngine implements Engine {
   transcribeNarrow(symbols: Word): { readonly narrow: string; readonly broad: string } | undefined {
     const e = this.encode(symbols);
     if (e === undefined) return this.widened(symbols)?.transcribeNarrow(symbols);
-    const out: number[] = [];
-    if (!this.compiled.preferred.run(e.ids, out)) return undefined;
-    const narrow = renderIpa(out, this.view, this.render);
-    const bout: number[] = [];
-    if (!this.broad.preferred.run(e.bids, bout)) return undefined;
-    return { narrow, broad: renderIpa(bout, this.broadView, this.broadRender) };
+    const o = this.runComposed(e.ids, e.bids);
+    return o === undefined ? undefined : { narrow: renderIpa(o[0], this.view, this.render), broad: renderIpa(o[1], this.broadView, this.broadRender) };
   }
 
   /**
@@ -132,11 +128,15 @@ export class MachineEngine implements Engine {
    */
   narrowOutputs(symbols: Word): readonly [number[], number[]] | undefined {
     const e = this.encode(symbols);
-    if (e === undefined) return undefined;
+    return e === undefined ? undefined : this.runComposed(e.ids, e.bids);
+  }
+
+  /** The composed preferred machines' outputs for encoded ids (narrow, then broad), or undefined when either rejects. */
+  private runComposed(ids: ArrayLike<number>, bids: ArrayLike<number>): [number[], number[]] | undefined {
     const out: number[] = [];
-    if (!this.compiled.preferred.run(e.ids, out)) return undefined;
+    if (!this.compiled.preferred.run(ids, out)) return undefined;
     const bout: number[] = [];
-    if (!this.broad.preferred.run(e.bids, bout)) return undefined;
+    if (!this.broad.preferred.run(bids, bout)) return undefined;
     return [out, bout];
   }
 
