@@ -148,7 +148,7 @@ export function isInside(root: string, file: string): boolean {
  * Standard's decoder (TextDecoder): each ill-formed sequence becomes U+FFFD, a character split
  * across chunks is kept whole, a byte-order mark is kept (the readers report it where it is).
  * About twice as fast: 7.7 ms against 15.5 ms for the 3.8 MB CMU lexicon in 64 KB chunks.
- * tests/files/utf8-decoder.test.ts checks that both give the same text on random bytes cut anywhere.
+ * tests/utf8-decoder.test.ts checks that both give the same text on random bytes cut anywhere.
  */
 export class Utf8Decoder {
   private readonly decoder = new TextDecoder("utf-8", { ignoreBOM: true });
